@@ -1,0 +1,89 @@
+//! RFC 8785 (JSON Canonicalization Scheme) serialization and the SHA-256 hash of a certificate
+//! body. The format holds no floating-point numbers, so only integers are accepted; everything
+//! else follows RFC 8785: object members sorted by the UTF-16 code units of their names, no
+//! white space, strings escaped as ECMAScript's JSON.stringify does.
+
+use serde_json::Value;
+use sha2::{Digest, Sha256};
+
+/// Appends the canonical form of `value` to `out`.
+pub fn write_canonical(value: &Value, out: &mut Vec<u8>) -> Result<(), String> {
+    match value {
+        Value::Null => out.extend_from_slice(b"null"),
+        Value::Bool(b) => out.extend_from_slice(if *b { b"true" } else { b"false" }),
+        Value::Number(n) => {
+            // RFC 8785 numbers are IEEE doubles: integers beyond 2^53 would not round-trip.
+            match n.as_i64() {
+                Some(i) if i.unsigned_abs() <= 1 << 53 => out.extend_from_slice(i.to_string().as_bytes()),
+                _ => return Err(format!("number {n} is not an integer within ±2^53")),
+            }
+        }
+        // serde_json escapes exactly ", \, and U+0000..U+001F (short forms \b \t \n \f \r,
+        // otherwise \u00xx in lower case), as RFC 8785 §3.2.2.2 requires.
+        Value::String(s) => serde_json::to_writer(&mut *out, s).map_err(|e| e.to_string())?,
+        Value::Array(items) => {
+            out.push(b'[');
+            for (i, item) in items.iter().enumerate() {
+                if i > 0 {
+                    out.push(b',');
+                }
+                write_canonical(item, out)?;
+            }
+            out.push(b']');
+        }
+        Value::Object(map) => {
+            let mut keys: Vec<&String> = map.keys().collect();
+            keys.sort_by(|a, b| a.encode_utf16().cmp(b.encode_utf16()));
+            out.push(b'{');
+            for (i, k) in keys.into_iter().enumerate() {
+                if i > 0 {
+                    out.push(b',');
+                }
+                serde_json::to_writer(&mut *out, k).map_err(|e| e.to_string())?;
+                out.push(b':');
+                write_canonical(&map[k], out)?;
+            }
+            out.push(b'}');
+        }
+    }
+    Ok(())
+}
+
+/// Lower-case hex SHA-256 of the canonical form of any serializable value.
+pub fn canonical_sha256<T: serde::Serialize>(value: &T) -> Result<String, String> {
+    let v = serde_json::to_value(value).map_err(|e| e.to_string())?;
+    let mut bytes = Vec::new();
+    write_canonical(&v, &mut bytes)?;
+    Ok(sha256_hex(&bytes))
+}
+
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    #[test]
+    fn sorts_by_utf16_and_escapes_like_rfc8785() {
+        // U+1F600 sorts after U+E000 in UTF-8 (F0.. > EE..) but before it in UTF-16
+        // (surrogate D83D < E000): RFC 8785 §3.2.3 wants the UTF-16 order.
+        let v: Value = serde_json::from_str(r#"{"b":[1,"\u0007\n"],"a":{"\ud83d\ude00":1,"\ue000":2}}"#).unwrap();
+        let mut out = Vec::new();
+        write_canonical(&v, &mut out).unwrap();
+        assert_eq!(
+            String::from_utf8(out).unwrap(),
+            "{\"a\":{\"\u{1f600}\":1,\"\u{e000}\":2},\"b\":[1,\"\\u0007\\n\"]}"
+        );
+    }
+    #[test]
+    fn refuses_floats() {
+        let v: Value = serde_json::from_str("[1.5]").unwrap();
+        assert!(write_canonical(&v, &mut Vec::new()).is_err());
+    }
+    #[test]
+    fn hash_of_known_input() {
+        // SHA-256("abc"), FIPS 180-2 appendix B.1.
+        assert_eq!(sha256_hex(b"abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+    }
+}

@@ -1,0 +1,359 @@
+//! The serde data model of certificates (and of the complexes and maps that problem files
+//! share with them). Unknown fields are refused everywhere and duplicate object keys are an
+//! error, so the typed value is a faithful copy of the file and its canonical hash is the hash
+//! of what the file says.
+
+use serde::de::{self, Deserializer, MapAccess, Visitor};
+use serde::ser::{SerializeMap, Serializer};
+use serde::{Deserialize, Serialize};
+use serde_json::Value;
+use std::collections::BTreeMap;
+use std::fmt;
+
+/// A grading vector, one integer per declared grading.
+pub type Grading = Vec<i64>;
+
+/// A sparse term `[from, coefficient, to]`: the map sends `from` to `coefficient · to`.
+/// In a dual witness the middle entry is a single monomial.
+pub type Term = [String; 3];
+
+/// A JSON object whose keys must be distinct (serde_json would silently keep the last).
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct UniqueMap<V>(pub BTreeMap<String, V>);
+
+impl<V> std::ops::Deref for UniqueMap<V> {
+    type Target = BTreeMap<String, V>;
+    fn deref(&self) -> &Self::Target {
+        &self.0
+    }
+}
+
+impl<V: Serialize> Serialize for UniqueMap<V> {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let mut m = s.serialize_map(Some(self.0.len()))?;
+        for (k, v) in &self.0 {
+            m.serialize_entry(k, v)?;
+        }
+        m.end()
+    }
+}
+
+impl<'de, V: Deserialize<'de>> Deserialize<'de> for UniqueMap<V> {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct V2<V>(std::marker::PhantomData<V>);
+        impl<'de, V: Deserialize<'de>> Visitor<'de> for V2<V> {
+            type Value = UniqueMap<V>;
+            fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+                f.write_str("an object with distinct keys")
+            }
+            fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<Self::Value, A::Error> {
+                let mut out = BTreeMap::new();
+                while let Some(k) = a.next_key::<String>()? {
+                    if k.len() > crate::limits::MAX_NAME_LEN {
+                        return Err(de::Error::custom(format!(
+                            "name \"{}…\" is longer than {} bytes",
+                            &k[..k.char_indices().nth(20).map_or(k.len(), |c| c.0)],
+                            crate::limits::MAX_NAME_LEN
+                        )));
+                    }
+                    let v = a.next_value()?;
+                    if out.insert(k.clone(), v).is_some() {
+                        return Err(de::Error::custom(format!("duplicate name \"{k}\"")));
+                    }
+                }
+                Ok(UniqueMap(out))
+            }
+        }
+        d.deserialize_map(V2(std::marker::PhantomData))
+    }
+}
+
+/// The ground ring F2[v_1..v_n] with its gradings.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Ring {
+    pub variables: Vec<String>,
+    pub gradings: Vec<String>,
+    pub variable_degrees: UniqueMap<Grading>,
+    pub differential_degree: Grading,
+}
+
+/// A free complex: named generators with gradings, and the differential as sparse terms.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ComplexSpec {
+    pub generators: UniqueMap<Grading>,
+    pub differential: Vec<Term>,
+}
+
+/// An R-linear map between two declared complexes, homogeneous of `degree`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct MapSpec {
+    pub from: String,
+    pub to: String,
+    pub degree: Grading,
+    pub terms: Vec<Term>,
+}
+
+/// A map expression: `"F"`, `{"id": C}`, `{"sum": [...]}`, `{"compose": [outer, ..., inner]}`,
+/// `{"times": [monomial, e]}`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum MapExpr {
+    Named(String),
+    Id(String),
+    Sum(Vec<MapExpr>),
+    Compose(Vec<MapExpr>),
+    Times(String, Box<MapExpr>),
+}
+
+impl MapExpr {
+    pub fn to_value(&self) -> Value {
+        use serde_json::json;
+        match self {
+            MapExpr::Named(n) => json!(n),
+            MapExpr::Id(c) => json!({ "id": c }),
+            MapExpr::Sum(es) => json!({ "sum": es.iter().map(|e| e.to_value()).collect::<Vec<_>>() }),
+            MapExpr::Compose(es) => json!({ "compose": es.iter().map(|e| e.to_value()).collect::<Vec<_>>() }),
+            MapExpr::Times(m, e) => json!({ "times": [m, e.to_value()] }),
+        }
+    }
+
+    /// Reads an expression, naming what is wrong and refusing nesting deeper than the limit.
+    pub fn from_value(v: &Value) -> Result<MapExpr, String> {
+        Self::from_value_at(v, 0)
+    }
+
+    fn from_value_at(v: &Value, depth: usize) -> Result<MapExpr, String> {
+        if depth > crate::limits::MAX_EXPR_DEPTH {
+            return Err(format!("map expression nested deeper than {}", crate::limits::MAX_EXPR_DEPTH));
+        }
+        let list = |x: &Value, what: &str| -> Result<Vec<MapExpr>, String> {
+            let items = x.as_array().ok_or_else(|| format!("\"{what}\" takes an array of map expressions"))?;
+            if items.is_empty() {
+                return Err(format!("\"{what}\" of nothing"));
+            }
+            items.iter().map(|i| Self::from_value_at(i, depth + 1)).collect()
+        };
+        match v {
+            Value::String(s) => Ok(MapExpr::Named(s.clone())),
+            Value::Object(o) if o.len() == 1 => {
+                let (k, x) = o.iter().next().expect("one entry");
+                match k.as_str() {
+                    "id" => x.as_str().map(|c| MapExpr::Id(c.to_string())).ok_or_else(|| "\"id\" takes a complex name".into()),
+                    "sum" => Ok(MapExpr::Sum(list(x, "sum")?)),
+                    "compose" => Ok(MapExpr::Compose(list(x, "compose")?)),
+                    "times" => match x.as_array().map(|a| a.as_slice()) {
+                        Some([Value::String(m), e]) => Ok(MapExpr::Times(m.clone(), Box::new(Self::from_value_at(e, depth + 1)?))),
+                        _ => Err("\"times\" takes [monomial, map expression]".into()),
+                    },
+                    other => Err(format!("unknown map operation \"{other}\" (expected id, sum, compose or times)")),
+                }
+            }
+            _ => Err(format!("expected a map name or a one-key object (id, sum, compose, times), found {v}")),
+        }
+    }
+}
+
+impl Serialize for MapExpr {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        self.to_value().serialize(s)
+    }
+}
+
+impl<'de> Deserialize<'de> for MapExpr {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        let v = Value::deserialize(d)?;
+        MapExpr::from_value(&v).map_err(de::Error::custom)
+    }
+}
+
+/// Witness of a null-homotopy: φ = ∂H + H∂.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct HomotopyWitness {
+    pub homotopy: Vec<Term>,
+}
+
+/// Witness of non-null-homotopy: a functional y on Hom(C, D), triples `[x, monomial, w]`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DualWitness {
+    pub dual: Vec<Term>,
+}
+
+/// Witness of a homotopy equivalence f: C → D, g: D → C.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct EquivalenceWitness {
+    /// H_C with g∘f + id_C = ∂H_C + H_C∂.
+    pub source_homotopy: Vec<Term>,
+    /// H_D with f∘g + id_D = ∂H_D + H_D∂.
+    pub target_homotopy: Vec<Term>,
+}
+
+/// Witness of a homology computation: a new homogeneous basis (named generators with
+/// gradings), `basis` expressing each new vector in the old generators (terms new → c·old) and
+/// `inverse` expressing each old generator in the new basis (terms old → c·new).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct BasisWitness {
+    pub generators: UniqueMap<Grading>,
+    pub basis: Vec<Term>,
+    pub inverse: Vec<Term>,
+}
+
+/// Witness of a torsion order: the homotopy for v^k·(F+G), the dual for v^(k−1)·(F+G).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct TorsionWitness {
+    pub homotopy: Vec<Term>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub dual: Option<Vec<Term>>,
+}
+
+/// One claim of a certificate. `statement` must equal [`crate::statement::render`] of the
+/// claim, so the words a reader sees are exactly what the checker verified.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "snake_case", deny_unknown_fields)]
+pub enum Claim {
+    Complex {
+        complex: String,
+        statement: String,
+    },
+    ChainMap {
+        map: String,
+        statement: String,
+    },
+    NullHomotopic {
+        map: MapExpr,
+        statement: String,
+        witness: HomotopyWitness,
+    },
+    NotNullHomotopic {
+        map: MapExpr,
+        statement: String,
+        witness: DualWitness,
+    },
+    HomotopyEquivalence {
+        /// `[f, g]` with f: C → D and g: D → C.
+        maps: [String; 2],
+        statement: String,
+        witness: EquivalenceWitness,
+    },
+    Homology {
+        complex: String,
+        /// Gradings of the free summands' generators, sorted.
+        free: Vec<Grading>,
+        /// `[k, grading]` for each summand R/(v^k), k ≥ 1, sorted.
+        torsion: Vec<(u32, Grading)>,
+        statement: String,
+        witness: BasisWitness,
+    },
+    TorsionOrder {
+        maps: [String; 2],
+        variable: String,
+        order: u32,
+        /// The maps are read as maps induced by surfaces (adds the stabilization reading).
+        surfaces: bool,
+        statement: String,
+        witness: TorsionWitness,
+    },
+    /// The torsion order of a complex: the largest k with R/(v^k) a summand of H_*(C).
+    TorsionOrderOfComplex {
+        complex: String,
+        variable: String,
+        order: u32,
+        statement: String,
+        witness: BasisWitness,
+    },
+    /// τ = −A(generator of the free part), for a complex whose homology has free rank one.
+    Tau {
+        complex: String,
+        /// Name of the Alexander grading among the ring's gradings.
+        alexander: String,
+        tau: i64,
+        statement: String,
+        witness: BasisWitness,
+    },
+}
+
+impl Claim {
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Claim::Complex { .. } => "complex",
+            Claim::ChainMap { .. } => "chain_map",
+            Claim::NullHomotopic { .. } => "null_homotopic",
+            Claim::NotNullHomotopic { .. } => "not_null_homotopic",
+            Claim::HomotopyEquivalence { .. } => "homotopy_equivalence",
+            Claim::Homology { .. } => "homology",
+            Claim::TorsionOrder { .. } => "torsion_order",
+            Claim::TorsionOrderOfComplex { .. } => "torsion_order_of_complex",
+            Claim::Tau { .. } => "tau",
+        }
+    }
+
+    pub fn statement(&self) -> &str {
+        match self {
+            Claim::Complex { statement, .. }
+            | Claim::ChainMap { statement, .. }
+            | Claim::NullHomotopic { statement, .. }
+            | Claim::NotNullHomotopic { statement, .. }
+            | Claim::HomotopyEquivalence { statement, .. }
+            | Claim::Homology { statement, .. }
+            | Claim::TorsionOrder { statement, .. }
+            | Claim::TorsionOrderOfComplex { statement, .. }
+            | Claim::Tau { statement, .. } => statement,
+        }
+    }
+}
+
+/// Where a certificate came from. No timestamps or paths: the body must be reproducible.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Provenance {
+    pub producer: String,
+    pub problem_sha256: String,
+}
+
+/// The hashed part of a certificate.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Body {
+    pub ring: Ring,
+    pub complexes: UniqueMap<ComplexSpec>,
+    pub maps: UniqueMap<MapSpec>,
+    pub claims: Vec<Claim>,
+    pub provenance: Provenance,
+}
+
+pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
+pub const CERTIFICATE_VERSION: u32 = 1;
+
+/// A certificate file: `{"format", "version", "sha256", "body"}`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Certificate {
+    pub format: String,
+    pub version: u32,
+    pub sha256: String,
+    pub body: Body,
+}
+
+impl Certificate {
+    /// Wraps a body with its canonical hash.
+    pub fn seal(body: Body) -> Result<Certificate, String> {
+        let sha256 = crate::canonical::canonical_sha256(&body)?;
+        Ok(Certificate { format: CERTIFICATE_FORMAT.into(), version: CERTIFICATE_VERSION, sha256, body })
+    }
+
+    /// The file's bytes: the canonical form of the whole certificate plus a newline, so that
+    /// the same body always gives the same file.
+    pub fn to_bytes(&self) -> Result<Vec<u8>, String> {
+        let v = serde_json::to_value(self).map_err(|e| e.to_string())?;
+        let mut out = Vec::new();
+        crate::canonical::write_canonical(&v, &mut out)?;
+        out.push(b'\n');
+        Ok(out)
+    }
+}

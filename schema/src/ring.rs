@@ -1,0 +1,219 @@
+//! The checked form of a [`Ring`]: variable names, degrees of monomials, and the finiteness
+//! condition that makes every graded piece of Hom(C, D) finite-dimensional.
+
+use crate::limits::{MAX_GRADING_ABS, MAX_NAME_LEN};
+use crate::model::{Grading, Ring};
+use crate::poly::{Mono, MAX_VARIABLES};
+
+/// A validated ring.
+#[derive(Clone, Debug)]
+pub struct RingInfo {
+    pub variables: Vec<String>,
+    pub gradings: Vec<String>,
+    /// Degree vector of each variable, in declaration order.
+    pub var_degrees: Vec<Grading>,
+    pub differential_degree: Grading,
+}
+
+impl RingInfo {
+    /// Checks a ring declaration; every problem is reported.
+    pub fn new(ring: &Ring) -> Result<RingInfo, Vec<String>> {
+        let mut errs = Vec::new();
+        let m = ring.gradings.len();
+        if !(1..=4).contains(&m) {
+            errs.push(format!("ring: {m} gradings declared; between 1 and 4 are supported"));
+        }
+        if ring.variables.len() > MAX_VARIABLES {
+            errs.push(format!(
+                "ring: {} variables declared; F2, F2[U] and F2[U,V] (at most {MAX_VARIABLES}) are supported",
+                ring.variables.len()
+            ));
+        }
+        for (i, v) in ring.variables.iter().enumerate() {
+            if v.is_empty() || v.len() > MAX_NAME_LEN || !v.chars().all(|c| c.is_ascii_alphabetic()) {
+                errs.push(format!("ring: variable name \"{v}\" must be ASCII letters only"));
+            }
+            if ring.variables[..i].contains(v) {
+                errs.push(format!("ring: variable \"{v}\" declared twice"));
+            }
+        }
+        for (i, g) in ring.gradings.iter().enumerate() {
+            if ring.gradings[..i].contains(g) {
+                errs.push(format!("ring: grading \"{g}\" declared twice"));
+            }
+        }
+        let mut var_degrees = Vec::new();
+        for v in &ring.variables {
+            match ring.variable_degrees.get(v) {
+                Some(d) => {
+                    check_vector(&format!("ring: degree of {v}"), d, m, &mut errs);
+                    var_degrees.push(d.clone());
+                }
+                None => errs.push(format!("ring: variable \"{v}\" has no entry in variable_degrees")),
+            }
+        }
+        for k in ring.variable_degrees.keys() {
+            if !ring.variables.contains(k) {
+                errs.push(format!("ring: variable_degrees names \"{k}\", which is not a declared variable"));
+            }
+        }
+        check_vector("ring: differential_degree", &ring.differential_degree, m, &mut errs);
+        if errs.is_empty() {
+            if let Some(why) = infinite_piece(&var_degrees) {
+                errs.push(format!(
+                    "ring: graded pieces would be infinite-dimensional ({why}); every variable must strictly lower a fixed positive combination of the gradings"
+                ));
+            }
+        }
+        if errs.is_empty() {
+            Ok(RingInfo {
+                variables: ring.variables.clone(),
+                gradings: ring.gradings.clone(),
+                var_degrees,
+                differential_degree: ring.differential_degree.clone(),
+            })
+        } else {
+            Err(errs)
+        }
+    }
+
+    pub fn num_vars(&self) -> usize {
+        self.variables.len()
+    }
+
+    /// Degree of a monomial (exponents are bounded, so this cannot overflow).
+    pub fn degree(&self, m: Mono) -> Grading {
+        let mut g = vec![0i64; self.gradings.len()];
+        for (i, d) in self.var_degrees.iter().enumerate() {
+            for (gj, dj) in g.iter_mut().zip(d) {
+                *gj += dj * m.0[i] as i64;
+            }
+        }
+        g
+    }
+
+    pub fn var_index(&self, name: &str) -> Option<usize> {
+        self.variables.iter().position(|v| v == name)
+    }
+
+    /// Every monomial of degree exactly `g` (a finite set by the finiteness condition).
+    pub fn monomials_of_degree(&self, g: &[i64]) -> Vec<Mono> {
+        let d = &self.var_degrees;
+        match d.len() {
+            0 => if g.iter().all(|&x| x == 0) { vec![Mono::ONE] } else { vec![] },
+            1 => multiple_of(g, &d[0]).map(|a| vec![Mono::power(0, a)]).unwrap_or_default(),
+            _ => two_variable_solutions(g, &d[0], &d[1]),
+        }
+    }
+}
+
+/// All (a, b) ≥ 0 with a·d0 + b·d1 = g, for a validated pair of degrees.
+fn two_variable_solutions(g: &[i64], d0: &[i64], d1: &[i64]) -> Vec<Mono> {
+    let n = g.len();
+    // Independent degrees: at most one solution, by Cramer's rule on a non-zero 2×2 minor.
+    for i in 0..n {
+        for j in i + 1..n {
+            let det = d0[i] * d1[j] - d0[j] * d1[i];
+            if det == 0 {
+                continue;
+            }
+            let (an, bn) = (g[i] * d1[j] - g[j] * d1[i], d0[i] * g[j] - d0[j] * g[i]);
+            if an % det != 0 || bn % det != 0 {
+                return vec![];
+            }
+            let (a, b) = (an / det, bn / det);
+            let max = crate::limits::MAX_EXPONENT as i64;
+            if a < 0 || b < 0 || a > max || b > max || (0..n).any(|k| a * d0[k] + b * d1[k] != g[k]) {
+                return vec![];
+            }
+            return vec![Mono([a as u32, b as u32])];
+        }
+    }
+    // Parallel degrees pointing the same way: a is bounded along a non-zero coordinate.
+    let Some(i) = d0.iter().position(|&x| x != 0) else { return vec![] };
+    let mut out = Vec::new();
+    let mut a: i64 = 0;
+    while a * d0[i].abs() <= g[i].abs() && a <= crate::limits::MAX_EXPONENT as i64 {
+        let rest: Vec<i64> = g.iter().zip(d0).map(|(x, y)| x - a * y).collect();
+        if let Some(b) = multiple_of(&rest, d1) {
+            out.push(Mono([a as u32, b]));
+        }
+        a += 1;
+    }
+    out
+}
+
+fn check_vector(what: &str, v: &[i64], m: usize, errs: &mut Vec<String>) {
+    if v.len() != m {
+        errs.push(format!("{what} has {} entries, expected {m} (one per grading)", v.len()));
+    }
+    if v.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+        errs.push(format!("{what} has an entry beyond ±{MAX_GRADING_ABS}"));
+    }
+}
+
+/// `Some(a)` with a ≥ 0 and g = a·d, if there is one.
+fn multiple_of(g: &[i64], d: &[i64]) -> Option<u32> {
+    let i = d.iter().position(|&x| x != 0)?;
+    if g[i] % d[i] != 0 {
+        return None;
+    }
+    let a = g[i] / d[i];
+    if a < 0 || a > crate::limits::MAX_EXPONENT as i64 || g.iter().zip(d).any(|(x, y)| *x != a * y) {
+        return None;
+    }
+    Some(a as u32)
+}
+
+/// Why some graded piece is infinite, if it is: a non-trivial monomial of degree zero, i.e. a
+/// non-negative combination of variable degrees that vanishes. By Gordan's alternative this
+/// fails exactly when some functional is lowered by every variable. With at most two variables
+/// that happens when a degree is zero or two degrees point in opposite directions.
+fn infinite_piece(d: &[Grading]) -> Option<String> {
+    if d.iter().any(|v| v.iter().all(|&x| x == 0)) {
+        return Some("a variable has degree zero".into());
+    }
+    if let [d0, d1] = d {
+        let parallel = (0..d0.len()).all(|i| (0..d0.len()).all(|j| d0[i] * d1[j] == d0[j] * d1[i]));
+        let dot: i64 = d0.iter().zip(d1).map(|(a, b)| a * b).sum();
+        if parallel && dot < 0 {
+            return Some("a product of variables has degree zero".into());
+        }
+    }
+    None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::model::UniqueMap;
+    fn ring(vars: &[(&str, Vec<i64>)], d: Vec<i64>) -> Result<RingInfo, Vec<String>> {
+        RingInfo::new(&Ring {
+            variables: vars.iter().map(|v| v.0.to_string()).collect(),
+            gradings: (0..d.len()).map(|i| format!("g{i}")).collect(),
+            variable_degrees: UniqueMap(vars.iter().map(|v| (v.0.to_string(), v.1.clone())).collect()),
+            differential_degree: d,
+        })
+    }
+    #[test]
+    fn finiteness_condition() {
+        assert!(ring(&[("U", vec![-2, 0]), ("V", vec![0, -2])], vec![-1, -1]).is_ok());
+        assert!(ring(&[("U", vec![-2, -1])], vec![-1, 0]).is_ok());
+        // U·V of degree zero: infinitely many U^k V^k in one degree.
+        assert!(ring(&[("U", vec![-2, 1]), ("V", vec![2, -1])], vec![-1, 0]).is_err());
+        assert!(ring(&[("U", vec![0, 0])], vec![-1, 0]).is_err());
+        // Parallel degrees pointing the same way are fine.
+        assert!(ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]).is_ok());
+    }
+    #[test]
+    fn monomials_of_a_degree() {
+        let r = ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]).unwrap();
+        let mut ms = r.monomials_of_degree(&[-8, 0]);
+        ms.sort();
+        assert_eq!(ms, vec![Mono([0, 2]), Mono([2, 1]), Mono([4, 0])]);
+        let r = ring(&[("U", vec![-2, 0]), ("V", vec![0, -2])], vec![-1, -1]).unwrap();
+        assert_eq!(r.monomials_of_degree(&[-4, -2]), vec![Mono([2, 1])]);
+        assert!(r.monomials_of_degree(&[-3, 0]).is_empty());
+        assert!(r.monomials_of_degree(&[2, 0]).is_empty());
+    }
+}
