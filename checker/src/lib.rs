@@ -1,1 +1,62 @@
+//! `tubecheck`: the independent checker. It reads a certificate, recomputes its canonical
+//! hash, and re-verifies every claim by sparse arithmetic over F2[U,V] ([`verify`]).
+//! It contains no search: every witness must be in the certificate.
+//!
+//! - [`algebra`]: vectors and sparse maps over F2[v_1..v_n];
+//! - [`load`]: from the data model to indexed objects, with precise errors;
+//! - [`verify`]: one check per claim kind;
+//! - [`report_text`] / [`report_json`]: presentation of verified results (not trusted code).
+#![forbid(unsafe_code)]
 
+pub mod algebra;
+pub mod load;
+pub mod report_json;
+pub mod report_text;
+pub mod verify;
+
+use tubecert_format::canonical::canonical_sha256;
+use tubecert_format::limits::MAX_FILE_BYTES;
+use tubecert_format::{Certificate, CERTIFICATE_FORMAT, CERTIFICATE_VERSION};
+
+/// The result of checking one certificate file.
+#[derive(Debug)]
+pub struct FileReport {
+    pub file: String,
+    /// The hash recomputed from the body.
+    pub sha256: String,
+    /// The hash the file states.
+    pub stated_sha256: String,
+    pub claims: Vec<verify::ClaimResult>,
+}
+
+impl FileReport {
+    pub fn hash_ok(&self) -> bool {
+        self.sha256 == self.stated_sha256
+    }
+    pub fn ok(&self) -> bool {
+        self.hash_ok() && self.claims.iter().all(|c| c.outcome.is_ok())
+    }
+}
+
+/// Parses a certificate; the error says what is malformed (exit 2).
+pub fn parse_certificate(bytes: &[u8]) -> Result<Certificate, String> {
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(format!("file is {} bytes, above the limit {MAX_FILE_BYTES}", bytes.len()));
+    }
+    let cert: Certificate = serde_json::from_slice(bytes).map_err(|e| format!("not a certificate: {e}"))?;
+    if cert.format != CERTIFICATE_FORMAT || cert.version != CERTIFICATE_VERSION {
+        return Err(format!(
+            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version {CERTIFICATE_VERSION}",
+            cert.format, cert.version
+        ));
+    }
+    Ok(cert)
+}
+
+/// Checks certificate bytes. `Err` means malformed (unreadable, or objects that do not resolve).
+pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
+    let cert = parse_certificate(bytes)?;
+    let sha256 = canonical_sha256(&cert.body)?;
+    let claims = verify::check_body(&cert.body).map_err(|errs| errs.join("\n  "))?;
+    Ok(FileReport { file: file.to_string(), sha256, stated_sha256: cert.sha256, claims })
+}

@@ -1,0 +1,126 @@
+//! Sparse arithmetic in free modules over F2[U,V].
+//!
+//! An element of a free module is a [`Vector`]: the set of its terms (generator, monomial),
+//! sorted, each at most once (coefficients are in F2, so a repeated term cancels). A map is a
+//! [`SparseMap`]: the image of each source generator.
+
+use tubecert_format::Mono;
+
+/// Σ m·g over the listed terms; sorted by (generator, monomial), no repeats.
+pub type Vector = Vec<(u32, Mono)>;
+
+/// Sorts and cancels repeated terms in pairs (addition mod 2).
+pub fn normalize(v: &mut Vector) {
+    v.sort_unstable();
+    let mut out = 0;
+    let mut i = 0;
+    while i < v.len() {
+        if i + 1 < v.len() && v[i] == v[i + 1] {
+            i += 2;
+        } else {
+            v[out] = v[i];
+            out += 1;
+            i += 1;
+        }
+    }
+    v.truncate(out);
+}
+
+/// The error raised when a product's exponent passes the limit.
+pub fn overflow() -> String {
+    format!("exponent overflow (beyond {})", tubecert_format::limits::MAX_EXPONENT)
+}
+
+/// Appends m·v to `acc` (unnormalized).
+pub fn push_scaled(acc: &mut Vector, m: Mono, v: &[(u32, Mono)]) -> Result<(), String> {
+    for &(g, n) in v {
+        acc.push((g, m.mul(n).ok_or_else(overflow)?));
+    }
+    Ok(())
+}
+
+/// A homogeneous R-linear map given by the image of each source generator.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SparseMap {
+    pub rows: Vec<Vector>,
+}
+
+impl SparseMap {
+    pub fn zero(n: usize) -> SparseMap {
+        SparseMap { rows: vec![Vec::new(); n] }
+    }
+
+    pub fn identity(n: usize) -> SparseMap {
+        SparseMap { rows: (0..n as u32).map(|i| vec![(i, Mono::ONE)]).collect() }
+    }
+
+    /// The image of a vector.
+    pub fn apply(&self, v: &[(u32, Mono)]) -> Result<Vector, String> {
+        let mut acc = Vec::new();
+        for &(g, m) in v {
+            push_scaled(&mut acc, m, &self.rows[g as usize])?;
+        }
+        normalize(&mut acc);
+        Ok(acc)
+    }
+
+    /// `self ∘ inner`.
+    pub fn after(&self, inner: &SparseMap) -> Result<SparseMap, String> {
+        Ok(SparseMap { rows: inner.rows.iter().map(|r| self.apply(r)).collect::<Result<_, _>>()? })
+    }
+
+    pub fn plus(&self, other: &SparseMap) -> SparseMap {
+        let rows = self
+            .rows
+            .iter()
+            .zip(&other.rows)
+            .map(|(a, b)| {
+                let mut v: Vector = a.iter().chain(b).copied().collect();
+                normalize(&mut v);
+                v
+            })
+            .collect();
+        SparseMap { rows }
+    }
+
+    pub fn times(&self, m: Mono) -> Result<SparseMap, String> {
+        let mut rows = Vec::with_capacity(self.rows.len());
+        for r in &self.rows {
+            let mut v = Vec::with_capacity(r.len());
+            push_scaled(&mut v, m, r)?;
+            rows.push(v); // multiplying by a monomial keeps terms distinct and sorted
+        }
+        Ok(SparseMap { rows })
+    }
+
+    /// For each target generator, the (source, monomial) terms that reach it.
+    pub fn incoming(&self, num_targets: usize) -> Vec<Vector> {
+        let mut inc = vec![Vec::new(); num_targets];
+        for (x, r) in self.rows.iter().enumerate() {
+            for &(y, m) in r {
+                inc[y as usize].push((x as u32, m));
+            }
+        }
+        inc
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    #[test]
+    fn addition_cancels_in_pairs() {
+        let u = Mono([1, 0]);
+        let mut v = vec![(2, u), (1, Mono::ONE), (2, u), (2, u)];
+        normalize(&mut v);
+        assert_eq!(v, vec![(1, Mono::ONE), (2, u)]);
+    }
+    #[test]
+    fn composition_multiplies_coefficients() {
+        let u = Mono([1, 0]);
+        let f = SparseMap { rows: vec![vec![(0, u), (1, Mono::ONE)]] };
+        let g = SparseMap { rows: vec![vec![(0, u)], vec![(0, Mono([2, 0]))]] };
+        // g(f(x)) = U·U·y + U^2·y = 0.
+        assert_eq!(g.after(&f).unwrap().rows, vec![vec![]]);
+    }
+}

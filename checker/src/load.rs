@@ -1,0 +1,335 @@
+//! From the data model to indexed sparse objects, with every structural problem reported:
+//! unknown names (with a suggestion), malformed coefficients, wrong grading lengths, repeated
+//! terms. Homogeneity failures are recorded per object as *defects*: they make the object's
+//! implicit claim (complex / chain map) fail rather than the file unreadable.
+
+use crate::algebra::{normalize, SparseMap, Vector};
+use std::collections::{BTreeMap, HashMap};
+use tubecert_format::limits::{MAX_GENERATORS, MAX_REPORTED_ERRORS, MAX_TERMS};
+use tubecert_format::poly::{parse_mono, parse_poly};
+use tubecert_format::statement::render_grading;
+use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
+
+/// Collected error messages, capped at [`MAX_REPORTED_ERRORS`].
+#[derive(Debug, Default)]
+pub struct Errors(pub Vec<String>);
+
+impl Errors {
+    pub fn push(&mut self, msg: String) {
+        if self.0.len() < MAX_REPORTED_ERRORS {
+            self.0.push(msg);
+        } else if self.0.len() == MAX_REPORTED_ERRORS {
+            self.0.push("… further errors not shown".into());
+        }
+    }
+    pub fn into_result<T>(self, value: T) -> Result<T, Vec<String>> {
+        if self.0.is_empty() {
+            Ok(value)
+        } else {
+            Err(self.0)
+        }
+    }
+}
+
+#[derive(Debug)]
+pub struct Complex {
+    pub name: String,
+    pub names: Vec<String>,
+    pub index: HashMap<String, u32>,
+    pub gradings: Vec<Grading>,
+    pub d: SparseMap,
+    /// Terms of ∂ that are not homogeneous of the differential's degree.
+    pub defects: Vec<String>,
+}
+
+#[derive(Debug)]
+pub struct Map {
+    pub from: usize,
+    pub to: usize,
+    pub degree: Grading,
+    pub m: SparseMap,
+    pub defects: Vec<String>,
+}
+
+#[derive(Debug)]
+pub struct Context {
+    pub ring: RingInfo,
+    pub complexes: Vec<Complex>,
+    pub complex_index: BTreeMap<String, usize>,
+    pub maps: Vec<Map>,
+    pub map_index: BTreeMap<String, usize>,
+}
+
+/// A map computed from an expression or a witness, with its source, target and degree.
+#[derive(Debug, Clone)]
+pub struct Evaluated {
+    pub from: usize,
+    pub to: usize,
+    pub degree: Grading,
+    pub m: SparseMap,
+}
+
+/// A close known name, for "did you mean" (skipped for very large name sets).
+pub fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
+    if known.clone().count() > 100_000 {
+        return String::new();
+    }
+    let dist = |a: &str, b: &str| {
+        let b: Vec<char> = b.chars().collect();
+        let mut prev: Vec<usize> = (0..=b.len()).collect();
+        for (i, ca) in a.chars().enumerate() {
+            let mut cur = vec![i + 1];
+            for (j, cb) in b.iter().enumerate() {
+                cur.push((prev[j] + (ca != *cb) as usize).min(prev[j + 1] + 1).min(cur[j] + 1));
+            }
+            prev = cur;
+        }
+        prev[b.len()]
+    };
+    let best = known.map(|k| (dist(name, k), k)).min();
+    match best {
+        Some((d, k)) if d <= 2.max(name.len() / 3) => format!(" (did you mean \"{k}\"?)"),
+        _ => String::new(),
+    }
+}
+
+pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
+    a.iter().zip(b).map(|(x, y)| x + y).collect()
+}
+
+/// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` of degree `degree`.
+/// Structural errors go to `errs`; non-homogeneous terms are returned as defects.
+/// With `single_monomial`, each coefficient must be one monomial (dual witnesses).
+#[allow(clippy::too_many_arguments)]
+pub fn read_terms(
+    ring: &RingInfo,
+    src: &Complex,
+    dst: &Complex,
+    degree: &[i64],
+    terms: &[Term],
+    what: &str,
+    single_monomial: bool,
+    errs: &mut Errors,
+) -> (SparseMap, Vec<String>) {
+    let mut map = SparseMap::zero(src.names.len());
+    let mut defects = Vec::new();
+    if terms.len() > MAX_TERMS {
+        errs.push(format!("{what}: {} terms, above the limit {MAX_TERMS}", terms.len()));
+        return (map, defects);
+    }
+    let lookup = |c: &Complex, n: &str, errs: &mut Errors, pos: usize| match c.index.get(n) {
+        Some(&i) => Some(i),
+        None => {
+            errs.push(format!(
+                "{what}, term {pos} : generator \"{n}\" is not in complex {}{}",
+                c.name,
+                suggest(n, c.names.iter())
+            ));
+            None
+        }
+    };
+    for (k, [from, coef, to]) in terms.iter().enumerate() {
+        let pos = k + 1;
+        let (x, y) = (lookup(src, from, errs, pos), lookup(dst, to, errs, pos));
+        let monos = if single_monomial {
+            parse_mono(coef, &ring.variables).map(|m| vec![m])
+        } else {
+            parse_poly(coef, &ring.variables)
+        };
+        let monos = match monos {
+            Ok(m) => m,
+            Err(e) => {
+                errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
+                continue;
+            }
+        };
+        let (Some(x), Some(y)) = (x, y) else { continue };
+        let expected = grading_sum(&src.gradings[x as usize], degree);
+        for m in monos {
+            let found = grading_sum(&dst.gradings[y as usize], &ring.degree(m));
+            if found != expected && defects.len() < MAX_REPORTED_ERRORS {
+                defects.push(format!(
+                    "{what}, term {pos} [{from}, {coef}, {to}]: not homogeneous: {} · {to} has degree {}, expected {} (degree of {from} plus {})",
+                    m.render(&ring.variables),
+                    render_grading(&found),
+                    render_grading(&expected),
+                    render_grading(&degree.to_vec())
+                ));
+            }
+            map.rows[x as usize].push((y, m));
+        }
+    }
+    for (x, row) in map.rows.iter_mut().enumerate() {
+        let before = row.len();
+        row.sort_unstable();
+        row.dedup();
+        if row.len() != before {
+            errs.push(format!("{what}: generator \"{}\" has a repeated term (list each term once)", src.names[x]));
+        }
+    }
+    (map, defects)
+}
+
+pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut Errors) -> Complex {
+    let gens = &spec.generators;
+    if gens.len() > MAX_GENERATORS {
+        errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", gens.len()));
+    }
+    let mut c = Complex {
+        name: name.to_string(),
+        names: gens.keys().cloned().collect(),
+        index: gens.keys().enumerate().map(|(i, k)| (k.clone(), i as u32)).collect(),
+        gradings: gens.values().cloned().collect(),
+        d: SparseMap::zero(0),
+        defects: Vec::new(),
+    };
+    let mut well_graded = true;
+    for (g, gr) in gens.iter() {
+        if gr.len() != ring.gradings.len() {
+            well_graded = false;
+            errs.push(format!(
+                "complex {name}, generator \"{g}\": grading {} has {} entries, expected {} ({})",
+                render_grading(gr),
+                gr.len(),
+                ring.gradings.len(),
+                ring.gradings.join(", ")
+            ));
+        }
+    }
+    if well_graded {
+        let what = format!("complex {name}, differential");
+        let (d, defects) = read_terms(ring, &c, &c, &ring.differential_degree, &spec.differential, &what, false, errs);
+        c.d = d;
+        c.defects = defects;
+    }
+    c
+}
+
+/// Builds the indexed context of a ring with its complexes and maps.
+pub fn load(ring: &Ring, complexes: &UniqueMap<ComplexSpec>, maps: &UniqueMap<MapSpec>) -> Result<Context, Vec<String>> {
+    let ring = RingInfo::new(ring)?;
+    let mut errs = Errors::default();
+    let complexes: Vec<Complex> = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
+    let complex_index: BTreeMap<String, usize> = complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
+    let mut ctx = Context { ring, complexes, complex_index, maps: Vec::new(), map_index: BTreeMap::new() };
+    if !errs.0.is_empty() {
+        return Err(errs.0);
+    }
+    for (name, spec) in maps.iter() {
+        let (Some(from), Some(to)) = (ctx.complex(&spec.from, &mut errs, name), ctx.complex(&spec.to, &mut errs, name)) else {
+            continue;
+        };
+        if spec.degree.len() != ctx.ring.gradings.len() {
+            errs.push(format!("map {name}: degree has {} entries, expected {}", spec.degree.len(), ctx.ring.gradings.len()));
+            continue;
+        }
+        let what = format!("map {name}");
+        let (c, d) = (&ctx.complexes[from], &ctx.complexes[to]);
+        let (m, defects) = read_terms(&ctx.ring, c, d, &spec.degree, &spec.terms, &what, false, &mut errs);
+        ctx.map_index.insert(name.clone(), ctx.maps.len());
+        ctx.maps.push(Map { from, to, degree: spec.degree.clone(), m, defects });
+    }
+    errs.into_result(ctx)
+}
+
+impl Context {
+    fn complex(&self, name: &str, errs: &mut Errors, user: &str) -> Option<usize> {
+        let found = self.complex_index.get(name).copied();
+        if found.is_none() {
+            errs.push(format!("{user}: complex \"{name}\" is not declared{}", suggest(name, self.complex_index.keys())));
+        }
+        found
+    }
+
+    pub fn complex_named(&self, name: &str) -> Result<usize, String> {
+        let mut e = Errors::default();
+        self.complex(name, &mut e, "claim").ok_or_else(|| e.0.join("; "))
+    }
+
+    /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
+    pub fn eval(&self, e: &MapExpr) -> Result<Evaluated, String> {
+        match e {
+            MapExpr::Named(n) => {
+                let &i = self.map_index.get(n).ok_or_else(|| format!("map \"{n}\" is not declared{}", suggest(n, self.map_index.keys())))?;
+                let m = &self.maps[i];
+                Ok(Evaluated { from: m.from, to: m.to, degree: m.degree.clone(), m: m.m.clone() })
+            }
+            MapExpr::Id(c) => {
+                let c = self.complex_named(c)?;
+                let n = self.complexes[c].names.len();
+                Ok(Evaluated { from: c, to: c, degree: vec![0; self.ring.gradings.len()], m: SparseMap::identity(n) })
+            }
+            MapExpr::Times(mono, inner) => {
+                let m = parse_mono(mono, &self.ring.variables)?;
+                let v = self.eval(inner)?;
+                Ok(Evaluated { degree: grading_sum(&v.degree, &self.ring.degree(m)), m: v.m.times(m)?, ..v })
+            }
+            MapExpr::Sum(es) => {
+                let mut acc = self.eval(&es[0])?;
+                for e in &es[1..] {
+                    let v = self.eval(e)?;
+                    if (v.from, v.to, &v.degree) != (acc.from, acc.to, &acc.degree) {
+                        return Err(format!(
+                            "sum of maps with different source, target or degree: {} vs {}",
+                            self.signature(&acc),
+                            self.signature(&v)
+                        ));
+                    }
+                    acc.m = acc.m.plus(&v.m);
+                }
+                Ok(acc)
+            }
+            MapExpr::Compose(es) => {
+                let mut acc = self.eval(es.last().expect("non-empty"))?;
+                for e in es.iter().rev().skip(1) {
+                    let outer = self.eval(e)?;
+                    if outer.from != acc.to {
+                        return Err(format!("composition {} after {}: target and source differ", self.signature(&outer), self.signature(&acc)));
+                    }
+                    acc = Evaluated { from: acc.from, to: outer.to, degree: grading_sum(&acc.degree, &outer.degree), m: outer.m.after(&acc.m)? };
+                }
+                Ok(acc)
+            }
+        }
+    }
+
+    pub fn signature(&self, v: &Evaluated) -> String {
+        format!("{} → {} of degree {}", self.complexes[v.from].name, self.complexes[v.to].name, render_grading(&v.degree))
+    }
+
+    /// Written form of a vector in complex `c`, e.g. `U^2·a + b`.
+    pub fn render_vector(&self, c: usize, v: &[(u32, Mono)]) -> String {
+        if v.is_empty() {
+            return "0".into();
+        }
+        let names = &self.complexes[c].names;
+        let term = |&(g, m): &(u32, Mono)| {
+            if m.is_one() {
+                names[g as usize].clone()
+            } else {
+                format!("{}·{}", m.render(&self.ring.variables), names[g as usize])
+            }
+        };
+        let shown: Vec<String> = v.iter().take(12).map(term).collect();
+        let more = if v.len() > 12 { format!(" + … ({} terms)", v.len()) } else { String::new() };
+        format!("{}{more}", shown.join(" + "))
+    }
+
+    /// Compares two vectors of complex `c`; on difference, both sides and the terms in which
+    /// they differ.
+    pub fn compare(&self, c: usize, at: &str, lhs_name: &str, lhs: &Vector, rhs_name: &str, rhs: &Vector) -> Result<(), String> {
+        if lhs == rhs {
+            return Ok(());
+        }
+        let only = |a: &Vector, b: &Vector| -> Vector { a.iter().filter(|t| b.binary_search(t).is_err()).copied().collect() };
+        let mut diff = only(lhs, rhs);
+        diff.extend(only(rhs, lhs));
+        normalize(&mut diff);
+        Err(format!(
+            "at generator {at}:\n      {lhs_name} = {}\n      {rhs_name} = {}\n      they differ by {}",
+            self.render_vector(c, lhs),
+            self.render_vector(c, rhs),
+            self.render_vector(c, &diff)
+        ))
+    }
+}

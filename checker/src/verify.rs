@@ -1,0 +1,304 @@
+//! The checks, one function per claim kind. Each re-computes both sides of an identity by
+//! sparse arithmetic and compares them exactly; nothing is searched for.
+
+use crate::algebra::{normalize, SparseMap};
+use crate::load::{grading_sum, Context, Errors, Evaluated};
+use serde_json::{json, Value};
+use std::collections::BTreeMap;
+use tubecert_format::poly::parse_mono;
+use tubecert_format::statement::{render, ring_name, surface_reading};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term};
+
+/// The outcome of one claim: facts it established (for reports) or why it failed.
+#[derive(Debug, Clone)]
+pub struct ClaimResult {
+    pub kind: String,
+    pub statement: String,
+    pub implicit: bool,
+    pub outcome: Result<BTreeMap<String, Value>, String>,
+}
+
+/// ∂∘∂ = 0 and ∂ homogeneous.
+pub fn check_complex(ctx: &Context, c: usize) -> Result<(), String> {
+    let cx = &ctx.complexes[c];
+    if let Some(d) = cx.defects.first() {
+        return Err(d.clone());
+    }
+    for (x, row) in cx.d.rows.iter().enumerate() {
+        let dd = cx.d.apply(row)?;
+        if !dd.is_empty() {
+            return Err(format!("∂∂({}) = {} ≠ 0", cx.names[x], ctx.render_vector(c, &dd)));
+        }
+    }
+    Ok(())
+}
+
+/// ∂_D∘f = f∘∂_C and f homogeneous.
+pub fn check_chain_map(ctx: &Context, f: usize) -> Result<(), String> {
+    let map = &ctx.maps[f];
+    if let Some(d) = map.defects.first() {
+        return Err(d.clone());
+    }
+    let (c, d) = (&ctx.complexes[map.from], &ctx.complexes[map.to]);
+    for (x, row) in map.m.rows.iter().enumerate() {
+        let lhs = d.d.apply(row)?;
+        let rhs = map.m.apply(&c.d.rows[x])?;
+        ctx.compare(map.to, &c.names[x], "∂f", &lhs, "f∂", &rhs)?;
+    }
+    Ok(())
+}
+
+/// φ = ∂H + H∂ for the witness H.
+pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Result<(), String> {
+    let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
+    let degree: Grading = phi.degree.iter().zip(&ctx.ring.differential_degree).map(|(a, b)| a - b).collect();
+    let mut errs = Errors::default();
+    let (h, defects) = crate::load::read_terms(&ctx.ring, c, d, &degree, h, "homotopy", false, &mut errs);
+    if let Some(e) = errs.0.first().or(defects.first()) {
+        return Err(e.clone());
+    }
+    for (x, row) in phi.m.rows.iter().enumerate() {
+        let mut rhs = d.d.apply(&h.rows[x])?;
+        rhs.extend(h.apply(&c.d.rows[x])?);
+        normalize(&mut rhs);
+        ctx.compare(phi.to, &c.names[x], "φ", row, "∂H + H∂", &rhs)?;
+    }
+    Ok(())
+}
+
+/// ⟨y, φ⟩ = 1 and δy = 0 for the functional y = Σ (x, m, w).
+pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> Result<(), String> {
+    let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
+    let mut errs = Errors::default();
+    // The triples as a map of any degree: read without a homogeneity requirement.
+    let (ymap, _) = crate::load::read_terms(&ctx.ring, c, d, &phi.degree, y, "dual", true, &mut errs);
+    if let Some(e) = errs.0.first() {
+        return Err(e.clone());
+    }
+    let mut pairing = false;
+    for (x, row) in ymap.rows.iter().enumerate() {
+        for t in row {
+            pairing ^= phi.m.rows[x].binary_search(t).is_ok();
+        }
+    }
+    if !pairing {
+        return Err("⟨y, φ⟩ = 0: the functional does not detect φ".into());
+    }
+    // δy = transpose of ψ ↦ ∂ψ + ψ∂, as triples (x, w, m).
+    let into_w = d.d.incoming(d.names.len());
+    let mut dy: Vec<(u32, u32, Mono)> = Vec::new();
+    for (x, row) in ymap.rows.iter().enumerate() {
+        for &(w, m) in row {
+            for &(w2, cf) in &into_w[w as usize] {
+                if let Some(q) = m.div(cf) {
+                    dy.push((x as u32, w2, q));
+                }
+            }
+            for &(x2, cf) in &c.d.rows[x] {
+                if let Some(q) = m.div(cf) {
+                    dy.push((x2, w, q));
+                }
+            }
+        }
+    }
+    dy.sort_unstable();
+    let survivor = dy.chunk_by(|a, b| a == b).find(|run| run.len() % 2 == 1);
+    if let Some(&[(x, w, m), ..]) = survivor {
+        return Err(format!(
+            "δy ≠ 0: the term ({}, {}, {}) survives, so y does not vanish on all boundaries ∂H + H∂",
+            c.names[x as usize],
+            m.render(&ctx.ring.variables),
+            d.names[w as usize]
+        ));
+    }
+    Ok(())
+}
+
+/// The homology of a complex over a PID read off a normal-form basis, sorted.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Decomposition {
+    pub free: Vec<Grading>,
+    pub torsion: Vec<(u32, Grading)>,
+}
+
+/// Checks a change of basis B, B⁻¹ and that B⁻¹∂B is in normal form; returns H_*.
+pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decomposition, String> {
+    if ctx.ring.num_vars() > 1 {
+        return Err("homology claims need a PID: F2 or F2[U]".into());
+    }
+    let old = &ctx.complexes[c];
+    let spec = tubecert_format::ComplexSpec { generators: w.generators.clone(), differential: vec![] };
+    let mut errs = Errors::default();
+    let zero = vec![0; ctx.ring.gradings.len()];
+    let new = crate::load::read_complex(&ctx.ring, "(new basis)", &spec, &mut errs);
+    let (b, bd) = crate::load::read_terms(&ctx.ring, &new, old, &zero, &w.basis, "basis", false, &mut errs);
+    let (binv, id) = crate::load::read_terms(&ctx.ring, old, &new, &zero, &w.inverse, "inverse", false, &mut errs);
+    if let Some(e) = errs.0.first().or(bd.first()).or(id.first()) {
+        return Err(e.clone());
+    }
+    if binv.after(&b)? != SparseMap::identity(new.names.len()) {
+        return Err("B⁻¹∘B ≠ id: the inverse does not invert the basis change".into());
+    }
+    if b.after(&binv)? != SparseMap::identity(old.names.len()) {
+        return Err("B∘B⁻¹ ≠ id: the inverse does not invert the basis change".into());
+    }
+    let dnew = binv.after(&old.d.after(&b)?)?;
+    let n = new.names.len();
+    let (mut source, mut target) = (vec![false; n], vec![false; n]);
+    for (a, row) in dnew.rows.iter().enumerate() {
+        match row.as_slice() {
+            [] => {}
+            [(t, _)] if !target[*t as usize] => {
+                source[a] = true;
+                target[*t as usize] = true;
+            }
+            _ => return Err(format!("∂ in the new basis is not in normal form at {}", new.names[a])),
+        }
+    }
+    let mut dec = Decomposition { free: vec![], torsion: vec![] };
+    for (a, row) in dnew.rows.iter().enumerate() {
+        if source[a] && target[a] {
+            return Err(format!("∂ in the new basis is not in normal form: {} is both hit and not a cycle", new.names[a]));
+        }
+        if let [(t, m)] = row.as_slice() {
+            if m.0[0] > 0 {
+                dec.torsion.push((m.0[0], new.gradings[*t as usize].clone()));
+            }
+        } else if !target[a] {
+            dec.free.push(new.gradings[a].clone());
+        }
+    }
+    dec.free.sort();
+    dec.torsion.sort();
+    Ok(dec)
+}
+
+fn pair_sum(f: &str, g: &str, var: &str, k: u32) -> MapExpr {
+    let sum = MapExpr::Sum(vec![MapExpr::Named(f.into()), MapExpr::Named(g.into())]);
+    match k {
+        0 => sum,
+        1 => MapExpr::Times(var.into(), Box::new(sum)),
+        _ => MapExpr::Times(format!("{var}^{k}"), Box::new(sum)),
+    }
+}
+
+/// Verifies one claim; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+    let vars = &ctx.ring.variables;
+    let expected = render(claim, &ring_name(vars), vars.first().map_or("", |v| v));
+    if claim.statement() != expected {
+        return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
+    }
+    let mut facts = BTreeMap::new();
+    match claim {
+        Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
+        Claim::ChainMap { map, .. } => {
+            let &i = ctx.map_index.get(map).ok_or_else(|| format!("map \"{map}\" is not declared"))?;
+            check_chain_map(ctx, i)?
+        }
+        Claim::NullHomotopic { map, witness, .. } => check_null_homotopic(ctx, &ctx.eval(map)?, &witness.homotopy)?,
+        Claim::NotNullHomotopic { map, witness, .. } => check_not_null_homotopic(ctx, &ctx.eval(map)?, &witness.dual)?,
+        Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
+            let (fe, ge) = (ctx.eval(&MapExpr::Named(f.clone()))?, ctx.eval(&MapExpr::Named(g.clone()))?);
+            if fe.to != ge.from || ge.to != fe.from || grading_sum(&fe.degree, &ge.degree).iter().any(|&x| x != 0) {
+                return Err(format!("{f} and {g} are not maps C → D and D → C of opposite degrees"));
+            }
+            let round_trip = |a: &str, b: &str, on: usize| {
+                let name = ctx.complexes[on].name.clone();
+                MapExpr::Sum(vec![MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]), MapExpr::Id(name)])
+            };
+            check_null_homotopic(ctx, &ctx.eval(&round_trip(f, g, fe.from))?, &witness.source_homotopy).map_err(|e| format!("g∘f + id: {e}"))?;
+            check_null_homotopic(ctx, &ctx.eval(&round_trip(g, f, fe.to))?, &witness.target_homotopy).map_err(|e| format!("f∘g + id: {e}"))?;
+        }
+        Claim::Homology { complex, free, torsion, witness, .. } => {
+            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            if (&dec.free, &dec.torsion) != (free, torsion) {
+                return Err(format!("the basis shows free part {:?} and torsion {:?}, not what is claimed", dec.free, dec.torsion));
+            }
+            facts.insert("free_rank".into(), json!(dec.free.len()));
+            facts.insert("free".into(), json!(dec.free));
+            facts.insert("torsion".into(), json!(dec.torsion));
+        }
+        Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
+            if vars.first() != Some(variable) {
+                return Err(format!("variable {variable} is not the ring's variable"));
+            }
+            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
+            if found != *order {
+                return Err(format!("the basis shows torsion order {found}, not {order}"));
+            }
+            facts.insert("order".into(), json!(order));
+        }
+        Claim::Tau { complex, alexander, tau, witness, .. } => {
+            let a = ctx.ring.gradings.iter().position(|g| g == alexander).ok_or_else(|| format!("no grading named {alexander}"))?;
+            if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
+                return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
+            }
+            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let [g] = dec.free.as_slice() else {
+                return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
+            };
+            if -g[a] != *tau {
+                return Err(format!("the free generator has Alexander grading {}, so τ = {}, not {tau}", g[a], -g[a]));
+            }
+            facts.insert("tau".into(), json!(tau));
+        }
+        Claim::TorsionOrder { maps: [f, g], variable, order, surfaces, witness, .. } => {
+            if ctx.ring.var_index(variable).is_none() {
+                return Err(format!("variable {variable} is not declared"));
+            }
+            parse_mono(variable, vars)?;
+            let hom = ctx.eval(&pair_sum(f, g, variable, *order))?;
+            check_null_homotopic(ctx, &hom, &witness.homotopy).map_err(|e| format!("{variable}^{order}·({f} + {g}) ≃ 0: {e}"))?;
+            match (order, &witness.dual) {
+                (0, None) => {}
+                (0, Some(_)) => return Err("order 0 takes no dual witness".into()),
+                (k, Some(y)) => {
+                    let below = ctx.eval(&pair_sum(f, g, variable, k - 1))?;
+                    check_not_null_homotopic(ctx, &below, y).map_err(|e| format!("{variable}^{}·({f} + {g}) ≄ 0: {e}", k - 1))?;
+                }
+                (_, None) => return Err("order ≥ 1 needs a dual witness for the order below".into()),
+            }
+            facts.insert("order".into(), json!(order));
+            if *surfaces {
+                facts.insert("reading".into(), json!(surface_reading(variable, *order)));
+            }
+        }
+    }
+    Ok(facts)
+}
+
+/// The implicit checks: every declared complex and map.
+pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
+    let rn = ring_name(&ctx.ring.variables);
+    let mut out = Vec::new();
+    for (i, c) in ctx.complexes.iter().enumerate() {
+        let claim = Claim::Complex { complex: c.name.clone(), statement: String::new() };
+        let statement = render(&claim, &rn, "");
+        out.push(ClaimResult { kind: "complex".into(), statement, implicit: true, outcome: check_complex(ctx, i).map(|_| BTreeMap::new()) });
+    }
+    for (name, &i) in &ctx.map_index {
+        let claim = Claim::ChainMap { map: name.clone(), statement: String::new() };
+        let m = &ctx.maps[i];
+        let (from, to) = (&ctx.complexes[m.from].name, &ctx.complexes[m.to].name);
+        let statement = format!("{} {from} → {to}", render(&claim, &rn, ""));
+        out.push(ClaimResult { kind: "chain_map".into(), statement, implicit: true, outcome: check_chain_map(ctx, i).map(|_| BTreeMap::new()) });
+    }
+    out
+}
+
+/// Verifies a whole body: implicit object checks, then each claim.
+pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<String>> {
+    let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    let mut out = check_objects(&ctx);
+    for claim in &body.claims {
+        out.push(ClaimResult {
+            kind: claim.kind().into(),
+            statement: claim.statement().to_string(),
+            implicit: false,
+            outcome: check_claim(&ctx, claim),
+        });
+    }
+    Ok(out)
+}
