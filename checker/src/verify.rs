@@ -173,15 +173,6 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
-fn pair_sum(f: &str, g: &str, var: &str, k: u32) -> MapExpr {
-    let sum = MapExpr::Sum(vec![MapExpr::Named(f.into()), MapExpr::Named(g.into())]);
-    match k {
-        0 => sum,
-        1 => MapExpr::Times(var.into(), Box::new(sum)),
-        _ => MapExpr::Times(format!("{var}^{k}"), Box::new(sum)),
-    }
-}
-
 /// Verifies one claim; returns the facts it established.
 pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
     let vars = &ctx.ring.variables;
@@ -249,13 +240,13 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
                 return Err(format!("variable {variable} is not declared"));
             }
             parse_mono(variable, vars)?;
-            let hom = ctx.eval(&pair_sum(f, g, variable, *order))?;
+            let hom = ctx.eval(&MapExpr::scaled_difference(f, g, variable, *order))?;
             check_null_homotopic(ctx, &hom, &witness.homotopy).map_err(|e| format!("{variable}^{order}·({f} + {g}) ≃ 0: {e}"))?;
             match (order, &witness.dual) {
                 (0, None) => {}
                 (0, Some(_)) => return Err("order 0 takes no dual witness".into()),
                 (k, Some(y)) => {
-                    let below = ctx.eval(&pair_sum(f, g, variable, k - 1))?;
+                    let below = ctx.eval(&MapExpr::scaled_difference(f, g, variable, k - 1))?;
                     check_not_null_homotopic(ctx, &below, y).map_err(|e| format!("{variable}^{}·({f} + {g}) ≄ 0: {e}", k - 1))?;
                 }
                 (_, None) => return Err("order ≥ 1 needs a dual witness for the order below".into()),

@@ -1,1 +1,25 @@
+//! `tubecert`: the producer. It reads problem files, validates them exactly as the checker
+//! will, searches for witnesses and writes certificates.
+//!
+//! Layers, in the order data flows: [`problem`] (input) → [`validate`] → [`search`]
+//! (linear algebra) → [`prove`] (claims, certificate). [`demo`] writes the demo scenario.
 
+pub mod demo;
+pub mod problem;
+pub mod prove;
+pub mod search;
+pub mod validate;
+
+use std::path::Path;
+
+/// Reads and validates a problem file; errors are prefixed with the file name.
+pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::Context, Vec<u8>), Vec<String>> {
+    let name = path.display().to_string();
+    let bytes = std::fs::read(path).map_err(|e| vec![format!("{name}: cannot read: {e}")])?;
+    if bytes.len() as u64 > tubecert_format::limits::MAX_FILE_BYTES {
+        return Err(vec![format!("{name}: file larger than {} bytes", tubecert_format::limits::MAX_FILE_BYTES)]);
+    }
+    let p = problem::parse_problem(&bytes).map_err(|e| vec![format!("{name}: {e}")])?;
+    let ctx = validate::validate(&p).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
+    Ok((p, ctx, bytes))
+}

@@ -1,1 +1,110 @@
-fn main(){}
+//! `tubecert`: prove goals about complexes and maps, writing checkable certificates.
+//! Exit codes: 0 every goal proved as stated; 3 some goal false and its opposite proved;
+//! 2 bad input; 4 internal error.
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+#[derive(Parser)]
+#[command(name = "tubecert", version, about = "Find and certify chain homotopies, non-homotopy witnesses and homology bases")]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Prove the goals of a problem file and write a certificate.
+    #[command(after_help = "Example:\n  tubecert prove certificates/disk-pair-p2.problem.json -o /tmp/p2.cert.json\n  tubecheck /tmp/p2.cert.json\n\nExit codes: 0 all goals proved as stated; 3 a goal is false and its opposite was proved (certificate still written); 2 bad input.")]
+    Prove {
+        problem: PathBuf,
+        /// Where to write the certificate (default: PROBLEM with .problem.json → .cert.json).
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+    },
+    /// Validate a problem file only (exit 0 if valid, 2 with every error otherwise).
+    #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
+    CheckInput { problem: PathBuf },
+    /// Write the demo scenario's problems and certificates.
+    #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
+    Demo {
+        #[arg(long, default_value = "tubecert-demo")]
+        out: PathBuf,
+    },
+}
+
+fn default_output(problem: &std::path::Path) -> PathBuf {
+    let name = problem.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
+    let stem = name.strip_suffix(".problem.json").or(name.strip_suffix(".json")).unwrap_or(&name);
+    problem.with_file_name(format!("{stem}.cert.json"))
+}
+
+fn report_errors(errs: &[String]) -> ExitCode {
+    for e in errs {
+        eprintln!("error: {e}");
+    }
+    ExitCode::from(2)
+}
+
+fn main() -> ExitCode {
+    match Cli::parse().command {
+        Command::CheckInput { problem } => match tubecert::load_problem(&problem) {
+            Ok((p, ctx, _)) => {
+                println!(
+                    "{}: valid ({} complexes, {} maps, {} goals; ring {})",
+                    problem.display(),
+                    ctx.complexes.len(),
+                    ctx.maps.len(),
+                    p.goals.len(),
+                    tubecert_format::statement::ring_name(&ctx.ring.variables)
+                );
+                ExitCode::SUCCESS
+            }
+            Err(errs) => report_errors(&errs),
+        },
+        Command::Prove { problem, output } => {
+            let (p, ctx, bytes) = match tubecert::load_problem(&problem) {
+                Ok(x) => x,
+                Err(errs) => return report_errors(&errs),
+            };
+            let proved = match tubecert::prove::prove(&p, &ctx, &bytes) {
+                Ok(x) => x,
+                Err(e) => {
+                    eprintln!("error: {}: {e}", problem.display());
+                    return ExitCode::from(if e.starts_with("internal") { 4 } else { 2 });
+                }
+            };
+            let out = output.unwrap_or_else(|| default_output(&problem));
+            let written = proved.certificate.to_bytes().and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
+            if let Err(e) = written {
+                eprintln!("error: cannot write {}: {e}", out.display());
+                return ExitCode::from(2);
+            }
+            for l in &proved.lines {
+                println!("{l}");
+            }
+            println!("certificate {} sha256 {}", out.display(), proved.certificate.sha256);
+            println!("verify with: tubecheck {}", out.display());
+            if proved.all_as_stated {
+                ExitCode::SUCCESS
+            } else {
+                println!("some goals were false; the certificate proves their opposites (exit 3)");
+                ExitCode::from(3)
+            }
+        }
+        Command::Demo { out } => match tubecert::demo::write_demo(&out) {
+            Ok(lines) => {
+                for l in lines {
+                    println!("{l}");
+                }
+                println!("\nverify everything with:\n  cargo run --release --bin tubecheck -- {}", out.display());
+                ExitCode::SUCCESS
+            }
+            Err(e) => {
+                eprintln!("error: {e}");
+                ExitCode::from(4)
+            }
+        },
+    }
+}

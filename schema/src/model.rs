@@ -18,8 +18,14 @@ pub type Grading = Vec<i64>;
 pub type Term = [String; 3];
 
 /// A JSON object whose keys must be distinct (serde_json would silently keep the last).
-#[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq, Eq)]
 pub struct UniqueMap<V>(pub BTreeMap<String, V>);
+
+impl<V> Default for UniqueMap<V> {
+    fn default() -> Self {
+        UniqueMap(BTreeMap::new())
+    }
+}
 
 impl<V> std::ops::Deref for UniqueMap<V> {
     type Target = BTreeMap<String, V>;
@@ -108,6 +114,16 @@ pub enum MapExpr {
 }
 
 impl MapExpr {
+    /// v^k·(F + G), the map whose null-homotopy class a torsion order is about.
+    pub fn scaled_difference(f: &str, g: &str, var: &str, k: u32) -> MapExpr {
+        let sum = MapExpr::Sum(vec![MapExpr::Named(f.into()), MapExpr::Named(g.into())]);
+        match k {
+            0 => sum,
+            1 => MapExpr::Times(var.into(), Box::new(sum)),
+            _ => MapExpr::Times(format!("{var}^{k}"), Box::new(sum)),
+        }
+    }
+
     pub fn to_value(&self) -> Value {
         use serde_json::json;
         match self {

@@ -1,0 +1,96 @@
+//! Problem files: the ring, complexes and maps (same shapes as in a certificate) and the goals
+//! to prove.
+
+use serde::{Deserialize, Serialize};
+use tubecert_format::{ComplexSpec, MapExpr, MapSpec, Ring, UniqueMap};
+
+pub const PROBLEM_FORMAT: &str = "tubecert-problem";
+
+#[derive(Clone, Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Problem {
+    pub format: String,
+    pub version: u32,
+    pub ring: Ring,
+    pub complexes: UniqueMap<ComplexSpec>,
+    #[serde(default)]
+    pub maps: UniqueMap<MapSpec>,
+    #[serde(default)]
+    pub goals: Vec<Goal>,
+}
+
+fn default_bound() -> u32 {
+    64
+}
+
+/// What to prove. Each goal is stated positively; when it is false the producer proves the
+/// opposite and says so (exit 3).
+#[derive(Clone, Debug, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case", deny_unknown_fields)]
+pub enum Goal {
+    /// ord_v(F − G): the least k with v^k·(F + G) ≃ 0.
+    TorsionOrder {
+        maps: [String; 2],
+        variable: String,
+        #[serde(default)]
+        surfaces: bool,
+        /// Expected order; a different answer makes the goal false.
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        order: Option<u32>,
+        /// Largest k tried before concluding "not v-torsion up to this bound".
+        #[serde(default = "default_bound")]
+        max_order: u32,
+    },
+    /// times·(F + G) ≃ 0.
+    Homotopic {
+        maps: [String; 2],
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        times: Option<String>,
+    },
+    /// times·(F + G) is not null-homotopic.
+    Distinct {
+        maps: [String; 2],
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        times: Option<String>,
+    },
+    /// Any map expression ≃ 0.
+    NullHomotopic { map: MapExpr },
+    /// Any map expression not null-homotopic.
+    NotNullHomotopic { map: MapExpr },
+    /// H_*(C) over F2 or F2[U].
+    Homology { complex: String },
+    /// f: C → D and g: D → C are inverse homotopy equivalences.
+    Equivalent { complexes: [String; 2], maps: [String; 2] },
+    /// The largest k with R/(v^k) a summand of H_*(C).
+    TorsionOrderOfComplex { complex: String, variable: String },
+    /// τ(C) = −A(free generator) in the (Maslov, Alexander) convention.
+    Tau {
+        complex: String,
+        #[serde(default = "default_alexander")]
+        alexander: String,
+    },
+}
+
+fn default_alexander() -> String {
+    "alexander".into()
+}
+
+impl Goal {
+    /// The expression v·(F + G) (or F + G) that homotopic / distinct goals speak of.
+    pub fn pair_expr(maps: &[String; 2], times: &Option<String>) -> MapExpr {
+        let sum = MapExpr::Sum(vec![MapExpr::Named(maps[0].clone()), MapExpr::Named(maps[1].clone())]);
+        match times {
+            Some(m) => MapExpr::Times(m.clone(), Box::new(sum)),
+            None => sum,
+        }
+    }
+}
+
+/// Reads a problem file's JSON.
+pub fn parse_problem(bytes: &[u8]) -> Result<Problem, String> {
+    let p: Problem = serde_json::from_slice(bytes).map_err(|e| format!("not a problem file: {e}"))?;
+    if p.format != PROBLEM_FORMAT || p.version != 1 {
+        return Err(format!("format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1", p.format, p.version));
+    }
+    Ok(p)
+}

@@ -1,0 +1,11 @@
+//! Witness search: exact linear algebra over F2 in finite-dimensional graded pieces.
+//!
+//! - [`elimination`]: sparse column reduction with the Fredholm alternative;
+//! - [`homotopy`]: is φ null-homotopic? (a homotopy, or a dual witness);
+//! - [`torsion`]: the least k with v^k·(F + G) null-homotopic;
+//! - [`normal_form`]: cancellation of arrows (graded Smith normal form; reduction).
+
+pub mod elimination;
+pub mod homotopy;
+pub mod normal_form;
+pub mod torsion;

@@ -1,0 +1,133 @@
+//! Cancellation of arrows by change of basis: the graded Smith normal form over a PID, and,
+//! restricted to unit arrows, the cancellation lemma that reduces any complex over F2[U,V].
+//!
+//! An arrow a → m·b is cancelled when m divides every other coefficient into b and out of a:
+//! other sources a' hitting b become a' + (c'/m)·a, and b becomes b + Σ (c''/m)·b'' over the
+//! other terms of ∂a. Then R⟨a⟩ → R⟨b⟩ splits off as a direct summand: nothing else hits b,
+//! ∂b = 0 and nothing hits a (both forced by ∂∂ = 0). Pivots are taken smallest coefficient
+//! first (so divisibility holds over a PID), then fewest fill-in (Markowitz count).
+
+use std::cmp::Reverse;
+use std::collections::{BTreeSet, BinaryHeap};
+use tubecert_format::Mono;
+use tubecheck::algebra::{normalize, push_scaled, Vector};
+use tubecheck::load::Complex;
+
+/// Which arrows may be cancelled.
+#[derive(Clone, Copy, PartialEq, Eq, Debug)]
+pub enum Pivots {
+    /// Any arrow, smallest first: the normal form over F2 or F2[U].
+    Minimal,
+    /// Only arrows with coefficient 1: a homotopy-equivalent reduced complex over any ring.
+    Units,
+}
+
+/// The result: a new basis, its inverse, and the arrows of ∂ in it.
+pub struct NormalForm {
+    /// New basis vector t written in the old generators.
+    pub basis: Vec<Vector>,
+    /// Row t of B⁻¹: each old generator g with the coefficient of t in g.
+    pub inverse_rows: Vec<Vector>,
+    /// Cancelled arrows a → m·b of ∂ in the new basis.
+    pub pairs: Vec<(u32, u32, Mono)>,
+    /// Uncancelled new basis vectors, and ∂ among them (`out[t]`, empty for cancelled t).
+    pub survivors: Vec<u32>,
+    pub out: Vec<Vector>,
+}
+
+fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
+    let start = row.partition_point(|t| t.0 < b);
+    row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
+}
+
+/// `target += Σ_f f·src` for the monomials f of `factor`.
+fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
+    for &f in factor {
+        push_scaled(target, f, src)?;
+    }
+    normalize(target);
+    Ok(())
+}
+
+pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
+    let n = c.names.len();
+    let mut out: Vec<Vector> = c.d.rows.clone();
+    let mut inc: Vec<BTreeSet<u32>> = vec![BTreeSet::new(); n];
+    for (a, row) in out.iter().enumerate() {
+        for &(b, _) in row {
+            inc[b as usize].insert(a as u32);
+        }
+    }
+    let unit = |t: u32| vec![(t, Mono::ONE)];
+    let mut basis: Vec<Vector> = (0..n as u32).map(unit).collect();
+    let mut inverse_rows: Vec<Vector> = (0..n as u32).map(unit).collect();
+    let mut done = vec![false; n];
+    let mut pairs = Vec::new();
+    let mut heap = BinaryHeap::new();
+    let push_arrows = |heap: &mut BinaryHeap<_>, a: u32, row: &Vector, inc: &[BTreeSet<u32>]| {
+        for (i, &(b, m)) in row.iter().enumerate() {
+            let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
+            if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
+                let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
+                heap.push(Reverse((m.total_degree(), cost, a, b, m)));
+            }
+        }
+    };
+    for a in 0..n {
+        push_arrows(&mut heap, a as u32, &out[a], &inc);
+    }
+    while let Some(Reverse((_, _, a, b, m))) = heap.pop() {
+        let (au, bu) = (a as usize, b as usize);
+        if done[au] || done[bu] || coefficient(&out[au], b) != [m] {
+            continue;
+        }
+        let divides = |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.div(m).is_some());
+        let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
+        if !divides(&out[au], None) || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.div(m).is_none())) {
+            continue;
+        }
+        let row_a = out[au].clone();
+        for a2 in others {
+            let a2u = a2 as usize;
+            let factor: Vec<Mono> = coefficient(&out[a2u], b).iter().map(|c| c.div(m).expect("checked")).collect();
+            for &(t, _) in &out[a2u] {
+                inc[t as usize].remove(&a2);
+            }
+            add_multiple(&mut out[a2u], &factor, &row_a)?;
+            for &(t, _) in &out[a2u] {
+                inc[t as usize].insert(a2);
+            }
+            push_arrows(&mut heap, a2, &out[a2u], &inc);
+            let ba = basis[au].clone();
+            add_multiple(&mut basis[a2u], &factor, &ba)?;
+            let ia2 = inverse_rows[a2u].clone();
+            add_multiple(&mut inverse_rows[au], &factor, &ia2)?;
+        }
+        // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
+        for x in std::mem::take(&mut inc[au]) {
+            out[x as usize].retain(|t| t.0 != a);
+        }
+        // b ← b + Σ (c''/m)·b'' absorbs the rest of ∂a.
+        for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
+            let f = [c2.div(m).expect("checked")];
+            let bb2 = basis[b2 as usize].clone();
+            add_multiple(&mut basis[bu], &f, &bb2)?;
+            let ib = inverse_rows[bu].clone();
+            add_multiple(&mut inverse_rows[b2 as usize], &f, &ib)?;
+            inc[b2 as usize].remove(&a);
+        }
+        out[au] = vec![(b, m)];
+        // ∂b = 0 in the new basis.
+        for (t, _) in std::mem::take(&mut out[bu]) {
+            inc[t as usize].remove(&b);
+        }
+        done[au] = true;
+        done[bu] = true;
+        pairs.push((a, b, m));
+    }
+    let survivors = (0..n as u32).filter(|&t| !done[t as usize]).collect();
+    for (a, _, _) in &pairs {
+        out[*a as usize].clear();
+    }
+    Ok(NormalForm { basis, inverse_rows, pairs, survivors, out })
+}

@@ -1,0 +1,85 @@
+//! Validation of a problem before any search: everything the checker will check, reported
+//! at once (up to a limit), plus the goals' references.
+
+use crate::problem::{Goal, Problem};
+use tubecert_format::poly::parse_mono;
+use tubecert_format::MapExpr;
+use tubecheck::load::{load, suggest, Context, Errors};
+use tubecheck::verify::{check_chain_map, check_complex};
+
+pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
+    let ctx = load(&p.ring, &p.complexes, &p.maps)?;
+    let mut errs = Errors::default();
+    for (i, c) in ctx.complexes.iter().enumerate() {
+        for d in &c.defects {
+            errs.push(d.clone());
+        }
+        if c.defects.is_empty() {
+            if let Err(e) = check_complex(&ctx, i) {
+                errs.push(format!("complex {}: {e}", c.name));
+            }
+        }
+    }
+    for (name, &i) in &ctx.map_index {
+        let m = &ctx.maps[i];
+        for d in &m.defects {
+            errs.push(d.clone());
+        }
+        if m.defects.is_empty() {
+            if let Err(e) = check_chain_map(&ctx, i) {
+                errs.push(format!("map {name} is not a chain map: {e}"));
+            }
+        }
+    }
+    for (k, goal) in p.goals.iter().enumerate() {
+        let at = format!("goal {}", k + 1);
+        let map = |n: &String, errs: &mut Errors| {
+            if !ctx.map_index.contains_key(n) {
+                errs.push(format!("{at}: map \"{n}\" is not declared{}", suggest(n, ctx.map_index.keys())));
+            }
+        };
+        let complex = |n: &String, errs: &mut Errors| {
+            if !ctx.complex_index.contains_key(n) {
+                errs.push(format!("{at}: complex \"{n}\" is not declared{}", suggest(n, ctx.complex_index.keys())));
+            }
+        };
+        let variable = |v: &String, errs: &mut Errors| {
+            if ctx.ring.var_index(v).is_none() {
+                errs.push(format!("{at}: variable \"{v}\" is not declared (the ring has {:?})", ctx.ring.variables));
+            }
+        };
+        let expr = |e: &MapExpr, errs: &mut Errors| {
+            if let Err(msg) = ctx.eval(e) {
+                errs.push(format!("{at}: {msg}"));
+            }
+        };
+        match goal {
+            Goal::TorsionOrder { maps, variable: v, .. } => {
+                maps.iter().for_each(|m| map(m, &mut errs));
+                variable(v, &mut errs);
+            }
+            Goal::Homotopic { maps, times } | Goal::Distinct { maps, times } => {
+                maps.iter().for_each(|m| map(m, &mut errs));
+                if let Some(t) = times {
+                    if let Err(e) = parse_mono(t, &ctx.ring.variables) {
+                        errs.push(format!("{at}: times: {e}"));
+                    }
+                }
+                if errs.0.is_empty() {
+                    expr(&Goal::pair_expr(maps, times), &mut errs);
+                }
+            }
+            Goal::NullHomotopic { map: e } | Goal::NotNullHomotopic { map: e } => expr(e, &mut errs),
+            Goal::Homology { complex: c } | Goal::Tau { complex: c, .. } => complex(c, &mut errs),
+            Goal::TorsionOrderOfComplex { complex: c, variable: v } => {
+                complex(c, &mut errs);
+                variable(v, &mut errs);
+            }
+            Goal::Equivalent { complexes, maps } => {
+                complexes.iter().for_each(|c| complex(c, &mut errs));
+                maps.iter().for_each(|m| map(m, &mut errs));
+            }
+        }
+    }
+    errs.into_result(ctx)
+}
