@@ -121,7 +121,7 @@ pub fn read_terms(
         Some(&i) => Some(i),
         None => {
             errs.push(format!(
-                "{what}, term {pos} : generator \"{n}\" is not in complex {}{}",
+                "{what}, term {pos}: generator \"{n}\" is not in complex {}{}",
                 c.name,
                 suggest(n, c.names.iter())
             ));
@@ -205,22 +205,43 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
     c
 }
 
-/// Builds the indexed context of a ring with its complexes and maps.
-pub fn load(ring: &Ring, complexes: &UniqueMap<ComplexSpec>, maps: &UniqueMap<MapSpec>) -> Result<Context, Vec<String>> {
+/// Builds the indexed context of a ring with its complexes and maps; any structural error
+/// makes it fail.
+pub fn load(
+    ring: &Ring,
+    complexes: &UniqueMap<ComplexSpec>,
+    maps: &UniqueMap<MapSpec>,
+) -> Result<Context, Vec<String>> {
+    let (ctx, errs) = load_lenient(ring, complexes, maps)?;
+    errs.into_result(ctx)
+}
+
+/// Like [`load`], but returns the context together with its structural errors (terms that did
+/// not resolve are left out), so that a validator can go on to report everything else.
+pub fn load_lenient(
+    ring: &Ring,
+    complexes: &UniqueMap<ComplexSpec>,
+    maps: &UniqueMap<MapSpec>,
+) -> Result<(Context, Errors), Vec<String>> {
     let ring = RingInfo::new(ring)?;
     let mut errs = Errors::default();
     let complexes: Vec<Complex> = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
-    let complex_index: BTreeMap<String, usize> = complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
+    let complex_index: BTreeMap<String, usize> =
+        complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
     let mut ctx = Context { ring, complexes, complex_index, maps: Vec::new(), map_index: BTreeMap::new() };
-    if !errs.0.is_empty() {
-        return Err(errs.0);
-    }
     for (name, spec) in maps.iter() {
-        let (Some(from), Some(to)) = (ctx.complex(&spec.from, &mut errs, name), ctx.complex(&spec.to, &mut errs, name)) else {
+        let (Some(from), Some(to)) = (
+            ctx.complex(&spec.from, &mut errs, &format!("map {name}")),
+            ctx.complex(&spec.to, &mut errs, &format!("map {name}")),
+        ) else {
             continue;
         };
         if spec.degree.len() != ctx.ring.gradings.len() {
-            errs.push(format!("map {name}: degree has {} entries, expected {}", spec.degree.len(), ctx.ring.gradings.len()));
+            errs.push(format!(
+                "map {name}: degree has {} entries, expected {}",
+                spec.degree.len(),
+                ctx.ring.gradings.len()
+            ));
             continue;
         }
         let what = format!("map {name}");
@@ -229,14 +250,17 @@ pub fn load(ring: &Ring, complexes: &UniqueMap<ComplexSpec>, maps: &UniqueMap<Ma
         ctx.map_index.insert(name.clone(), ctx.maps.len());
         ctx.maps.push(Map { from, to, degree: spec.degree.clone(), m, defects });
     }
-    errs.into_result(ctx)
+    Ok((ctx, errs))
 }
 
 impl Context {
     fn complex(&self, name: &str, errs: &mut Errors, user: &str) -> Option<usize> {
         let found = self.complex_index.get(name).copied();
         if found.is_none() {
-            errs.push(format!("{user}: complex \"{name}\" is not declared{}", suggest(name, self.complex_index.keys())));
+            errs.push(format!(
+                "{user}: complex \"{name}\" is not declared{}",
+                suggest(name, self.complex_index.keys())
+            ));
         }
         found
     }
@@ -250,7 +274,10 @@ impl Context {
     pub fn eval(&self, e: &MapExpr) -> Result<Evaluated, String> {
         match e {
             MapExpr::Named(n) => {
-                let &i = self.map_index.get(n).ok_or_else(|| format!("map \"{n}\" is not declared{}", suggest(n, self.map_index.keys())))?;
+                let &i = self
+                    .map_index
+                    .get(n)
+                    .ok_or_else(|| format!("map \"{n}\" is not declared{}", suggest(n, self.map_index.keys())))?;
                 let m = &self.maps[i];
                 Ok(Evaluated { from: m.from, to: m.to, degree: m.degree.clone(), m: m.m.clone() })
             }
@@ -284,9 +311,18 @@ impl Context {
                 for e in es.iter().rev().skip(1) {
                     let outer = self.eval(e)?;
                     if outer.from != acc.to {
-                        return Err(format!("composition {} after {}: target and source differ", self.signature(&outer), self.signature(&acc)));
+                        return Err(format!(
+                            "composition {} after {}: target and source differ",
+                            self.signature(&outer),
+                            self.signature(&acc)
+                        ));
                     }
-                    acc = Evaluated { from: acc.from, to: outer.to, degree: grading_sum(&acc.degree, &outer.degree), m: outer.m.after(&acc.m)? };
+                    acc = Evaluated {
+                        from: acc.from,
+                        to: outer.to,
+                        degree: grading_sum(&acc.degree, &outer.degree),
+                        m: outer.m.after(&acc.m)?,
+                    };
                 }
                 Ok(acc)
             }
@@ -294,7 +330,12 @@ impl Context {
     }
 
     pub fn signature(&self, v: &Evaluated) -> String {
-        format!("{} → {} of degree {}", self.complexes[v.from].name, self.complexes[v.to].name, render_grading(&v.degree))
+        format!(
+            "{} → {} of degree {}",
+            self.complexes[v.from].name,
+            self.complexes[v.to].name,
+            render_grading(&v.degree)
+        )
     }
 
     /// Written form of a vector in complex `c`, e.g. `U^2·a + b`.
@@ -317,11 +358,20 @@ impl Context {
 
     /// Compares two vectors of complex `c`; on difference, both sides and the terms in which
     /// they differ.
-    pub fn compare(&self, c: usize, at: &str, lhs_name: &str, lhs: &Vector, rhs_name: &str, rhs: &Vector) -> Result<(), String> {
+    pub fn compare(
+        &self,
+        c: usize,
+        at: &str,
+        lhs_name: &str,
+        lhs: &Vector,
+        rhs_name: &str,
+        rhs: &Vector,
+    ) -> Result<(), String> {
         if lhs == rhs {
             return Ok(());
         }
-        let only = |a: &Vector, b: &Vector| -> Vector { a.iter().filter(|t| b.binary_search(t).is_err()).copied().collect() };
+        let only =
+            |a: &Vector, b: &Vector| -> Vector { a.iter().filter(|t| b.binary_search(t).is_err()).copied().collect() };
         let mut diff = only(lhs, rhs);
         diff.extend(only(rhs, lhs));
         normalize(&mut diff);

@@ -29,7 +29,8 @@ struct Args {
 /// Files to check: named files as given, folders walked in sorted order.
 fn collect(path: &Path, named: bool, out: &mut Vec<(PathBuf, bool)>) -> std::io::Result<()> {
     if path.is_dir() {
-        let mut entries: Vec<PathBuf> = std::fs::read_dir(path)?.map(|e| e.map(|e| e.path())).collect::<Result<_, _>>()?;
+        let mut entries: Vec<PathBuf> =
+            std::fs::read_dir(path)?.map(|e| e.map(|e| e.path())).collect::<Result<_, _>>()?;
         entries.sort();
         for e in entries {
             if e.is_dir() || e.extension().is_some_and(|x| x == "json") {

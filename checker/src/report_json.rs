@@ -8,7 +8,8 @@ pub fn render(r: &FileReport) -> Value {
         .claims
         .iter()
         .map(|c| {
-            let mut o = json!({"kind": c.kind, "ok": c.outcome.is_ok(), "statement": c.statement, "implicit": c.implicit});
+            let mut o =
+                json!({"kind": c.kind, "ok": c.outcome.is_ok(), "statement": c.statement, "implicit": c.implicit});
             match &c.outcome {
                 Ok(facts) => {
                     for (k, v) in facts {

@@ -15,7 +15,12 @@ pub fn render(r: &FileReport) -> String {
     let (implicit, listed): (Vec<_>, Vec<_>) = r.claims.iter().partition(|c| c.implicit);
     if implicit.iter().all(|c| c.outcome.is_ok()) {
         let count = |k: &str| implicit.iter().filter(|c| c.kind == k).count();
-        let _ = writeln!(s, "  ✓ objects: {} complexes satisfy ∂∘∂ = 0 and are homogeneous; {} maps are homogeneous chain maps", count("complex"), count("chain_map"));
+        let _ = writeln!(
+            s,
+            "  ✓ objects: {} complexes satisfy ∂∘∂ = 0 and are homogeneous; {} maps are homogeneous chain maps",
+            count("complex"),
+            count("chain_map")
+        );
     }
     for c in implicit.iter().filter(|c| c.outcome.is_err()).chain(listed.iter()) {
         match &c.outcome {

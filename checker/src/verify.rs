@@ -158,7 +158,10 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     let mut dec = Decomposition { free: vec![], torsion: vec![] };
     for (a, row) in dnew.rows.iter().enumerate() {
         if source[a] && target[a] {
-            return Err(format!("∂ in the new basis is not in normal form: {} is both hit and not a cycle", new.names[a]));
+            return Err(format!(
+                "∂ in the new basis is not in normal form: {} is both hit and not a cycle",
+                new.names[a]
+            ));
         }
         if let [(t, m)] = row.as_slice() {
             if m.0[0] > 0 {
@@ -196,15 +199,23 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             }
             let round_trip = |a: &str, b: &str, on: usize| {
                 let name = ctx.complexes[on].name.clone();
-                MapExpr::Sum(vec![MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]), MapExpr::Id(name)])
+                MapExpr::Sum(vec![
+                    MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]),
+                    MapExpr::Id(name),
+                ])
             };
-            check_null_homotopic(ctx, &ctx.eval(&round_trip(f, g, fe.from))?, &witness.source_homotopy).map_err(|e| format!("g∘f + id: {e}"))?;
-            check_null_homotopic(ctx, &ctx.eval(&round_trip(g, f, fe.to))?, &witness.target_homotopy).map_err(|e| format!("f∘g + id: {e}"))?;
+            check_null_homotopic(ctx, &ctx.eval(&round_trip(f, g, fe.from))?, &witness.source_homotopy)
+                .map_err(|e| format!("g∘f + id: {e}"))?;
+            check_null_homotopic(ctx, &ctx.eval(&round_trip(g, f, fe.to))?, &witness.target_homotopy)
+                .map_err(|e| format!("f∘g + id: {e}"))?;
         }
         Claim::Homology { complex, free, torsion, witness, .. } => {
             let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
             if (&dec.free, &dec.torsion) != (free, torsion) {
-                return Err(format!("the basis shows free part {:?} and torsion {:?}, not what is claimed", dec.free, dec.torsion));
+                return Err(format!(
+                    "the basis shows free part {:?} and torsion {:?}, not what is claimed",
+                    dec.free, dec.torsion
+                ));
             }
             facts.insert("free_rank".into(), json!(dec.free.len()));
             facts.insert("free".into(), json!(dec.free));
@@ -222,7 +233,12 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             facts.insert("order".into(), json!(order));
         }
         Claim::Tau { complex, alexander, tau, witness, .. } => {
-            let a = ctx.ring.gradings.iter().position(|g| g == alexander).ok_or_else(|| format!("no grading named {alexander}"))?;
+            let a = ctx
+                .ring
+                .gradings
+                .iter()
+                .position(|g| g == alexander)
+                .ok_or_else(|| format!("no grading named {alexander}"))?;
             if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
                 return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
             }
@@ -241,13 +257,15 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             }
             parse_mono(variable, vars)?;
             let hom = ctx.eval(&MapExpr::scaled_difference(f, g, variable, *order))?;
-            check_null_homotopic(ctx, &hom, &witness.homotopy).map_err(|e| format!("{variable}^{order}·({f} + {g}) ≃ 0: {e}"))?;
+            check_null_homotopic(ctx, &hom, &witness.homotopy)
+                .map_err(|e| format!("{variable}^{order}·({f} + {g}) ≃ 0: {e}"))?;
             match (order, &witness.dual) {
                 (0, None) => {}
                 (0, Some(_)) => return Err("order 0 takes no dual witness".into()),
                 (k, Some(y)) => {
                     let below = ctx.eval(&MapExpr::scaled_difference(f, g, variable, k - 1))?;
-                    check_not_null_homotopic(ctx, &below, y).map_err(|e| format!("{variable}^{}·({f} + {g}) ≄ 0: {e}", k - 1))?;
+                    check_not_null_homotopic(ctx, &below, y)
+                        .map_err(|e| format!("{variable}^{}·({f} + {g}) ≄ 0: {e}", k - 1))?;
                 }
                 (_, None) => return Err("order ≥ 1 needs a dual witness for the order below".into()),
             }
@@ -267,14 +285,24 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     for (i, c) in ctx.complexes.iter().enumerate() {
         let claim = Claim::Complex { complex: c.name.clone(), statement: String::new() };
         let statement = render(&claim, &rn, "");
-        out.push(ClaimResult { kind: "complex".into(), statement, implicit: true, outcome: check_complex(ctx, i).map(|_| BTreeMap::new()) });
+        out.push(ClaimResult {
+            kind: "complex".into(),
+            statement,
+            implicit: true,
+            outcome: check_complex(ctx, i).map(|_| BTreeMap::new()),
+        });
     }
     for (name, &i) in &ctx.map_index {
         let claim = Claim::ChainMap { map: name.clone(), statement: String::new() };
         let m = &ctx.maps[i];
         let (from, to) = (&ctx.complexes[m.from].name, &ctx.complexes[m.to].name);
         let statement = format!("{} {from} → {to}", render(&claim, &rn, ""));
-        out.push(ClaimResult { kind: "chain_map".into(), statement, implicit: true, outcome: check_chain_map(ctx, i).map(|_| BTreeMap::new()) });
+        out.push(ClaimResult {
+            kind: "chain_map".into(),
+            statement,
+            implicit: true,
+            outcome: check_chain_map(ctx, i).map(|_| BTreeMap::new()),
+        });
     }
     out
 }

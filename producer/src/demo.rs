@@ -17,7 +17,10 @@ fn t(a: &str, c: &str, b: &str) -> Term {
 }
 
 fn complex(gens: &[(&str, [i64; 2])], d: Vec<Term>) -> ComplexSpec {
-    ComplexSpec { generators: UniqueMap(gens.iter().map(|(n, g)| (n.to_string(), g.to_vec())).collect()), differential: d }
+    ComplexSpec {
+        generators: UniqueMap(gens.iter().map(|(n, g)| (n.to_string(), g.to_vec())).collect()),
+        differential: d,
+    }
 }
 
 fn map(from: &str, to: &str, terms: Vec<Term>) -> MapSpec {
@@ -49,7 +52,11 @@ fn pair() -> [String; 2] {
 }
 
 fn power(p: u32) -> String {
-    if p == 1 { "U".into() } else { format!("U^{p}") }
+    if p == 1 {
+        "U".into()
+    } else {
+        format!("U^{p}")
+    }
 }
 
 /// Two maps O → K_p whose difference is U^p-torsion.
@@ -68,7 +75,10 @@ pub fn disk_pair(p: u32) -> Problem {
     problem(
         minus_ring(),
         vec![("O", complex(&[("o", [0, 0])], vec![])), ("K", k)],
-        vec![("F", map("O", "K", vec![t("o", "1", "z"), t("o", "1", "x0")])), ("G", map("O", "K", vec![t("o", "1", "z"), t("o", "1", "a")]))],
+        vec![
+            ("F", map("O", "K", vec![t("o", "1", "z"), t("o", "1", "x0")])),
+            ("G", map("O", "K", vec![t("o", "1", "z"), t("o", "1", "a")])),
+        ],
         goals,
     )
 }
@@ -93,7 +103,10 @@ pub fn box_uv() -> Problem {
     problem(
         ring,
         vec![("O", complex(&[("o", [0, 0])], vec![])), ("K", k)],
-        vec![("F", map("O", "K", vec![t("o", "1", "x")])), ("G", map("O", "K", vec![t("o", "1", "x"), t("o", "1", "d")]))],
+        vec![
+            ("F", map("O", "K", vec![t("o", "1", "x")])),
+            ("G", map("O", "K", vec![t("o", "1", "x"), t("o", "1", "d")])),
+        ],
         goals,
     )
 }

@@ -7,7 +7,11 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 #[derive(Parser)]
-#[command(name = "tubecert", version, about = "Find and certify chain homotopies, non-homotopy witnesses and homology bases")]
+#[command(
+    name = "tubecert",
+    version,
+    about = "Find and certify chain homotopies, non-homotopy witnesses and homology bases"
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -16,7 +20,9 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Prove the goals of a problem file and write a certificate.
-    #[command(after_help = "Example:\n  tubecert prove certificates/disk-pair-p2.problem.json -o /tmp/p2.cert.json\n  tubecheck /tmp/p2.cert.json\n\nExit codes: 0 all goals proved as stated; 3 a goal is false and its opposite was proved (certificate still written); 2 bad input.")]
+    #[command(
+        after_help = "Example:\n  tubecert prove certificates/disk-pair-p2.problem.json -o /tmp/p2.cert.json\n  tubecheck /tmp/p2.cert.json\n\nExit codes: 0 all goals proved as stated; 3 a goal is false and its opposite was proved (certificate still written); 2 bad input."
+    )]
     Prove {
         problem: PathBuf,
         /// Where to write the certificate (default: PROBLEM with .problem.json → .cert.json).
@@ -76,7 +82,8 @@ fn main() -> ExitCode {
                 }
             };
             let out = output.unwrap_or_else(|| default_output(&problem));
-            let written = proved.certificate.to_bytes().and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
+            let written =
+                proved.certificate.to_bytes().and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
             if let Err(e) = written {
                 eprintln!("error: cannot write {}: {e}", out.display());
                 return ExitCode::from(2);

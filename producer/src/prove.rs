@@ -10,7 +10,10 @@ use crate::search::torsion::{torsion_order, TorsionOutcome};
 use tubecert_format::canonical::sha256_hex;
 use tubecert_format::poly::render_poly;
 use tubecert_format::statement::{render, ring_name, surface_reading};
-use tubecert_format::{BasisWitness, Body, Certificate, Claim, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr, Mono, Provenance, Term, TorsionWitness, UniqueMap};
+use tubecert_format::{
+    BasisWitness, Body, Certificate, Claim, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr, Mono,
+    Provenance, Term, TorsionWitness, UniqueMap,
+};
 use tubecheck::load::Context;
 
 /// What proving a problem gave.
@@ -79,11 +82,21 @@ impl Builder<'_> {
         Ok(match decide(self.ctx, &phi)? {
             Verdict::Null(h) => {
                 let homotopy = self.homotopy_terms(phi.from, phi.to, h);
-                (true, self.add(Claim::NullHomotopic { map, statement: String::new(), witness: HomotopyWitness { homotopy } }))
+                (
+                    true,
+                    self.add(Claim::NullHomotopic {
+                        map,
+                        statement: String::new(),
+                        witness: HomotopyWitness { homotopy },
+                    }),
+                )
             }
             Verdict::NotNull(y) => {
                 let dual = dual_terms(&y, self.names(phi.from), self.names(phi.to), &self.ctx.ring.variables);
-                (false, self.add(Claim::NotNullHomotopic { map, statement: String::new(), witness: DualWitness { dual } }))
+                (
+                    false,
+                    self.add(Claim::NotNullHomotopic { map, statement: String::new(), witness: DualWitness { dual } }),
+                )
             }
         })
     }
@@ -96,16 +109,26 @@ impl Builder<'_> {
         let cx = &self.ctx.complexes[c];
         let nf = normal_form(cx, Pivots::Minimal)?;
         let vars = &self.ctx.ring.variables;
-        let basis = nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
-        let inverse = nf.inverse_rows.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (g, m, t as u32))).collect();
+        let basis =
+            nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
+        let inverse = nf
+            .inverse_rows
+            .iter()
+            .enumerate()
+            .flat_map(|(t, v)| v.iter().map(move |&(g, m)| (g, m, t as u32)))
+            .collect();
         let witness = BasisWitness {
             generators: UniqueMap(cx.names.iter().cloned().zip(cx.gradings.iter().cloned()).collect()),
             basis: terms_of(basis, &cx.names, &cx.names, vars),
             inverse: terms_of(inverse, &cx.names, &cx.names, vars),
         };
         let mut free: Vec<Vec<i64>> = nf.survivors.iter().map(|&t| cx.gradings[t as usize].clone()).collect();
-        let mut torsion: Vec<(u32, Vec<i64>)> =
-            nf.pairs.iter().filter(|p| !p.2.is_one()).map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].clone())).collect();
+        let mut torsion: Vec<(u32, Vec<i64>)> = nf
+            .pairs
+            .iter()
+            .filter(|p| !p.2.is_one())
+            .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].clone()))
+            .collect();
         free.sort();
         torsion.sort();
         Ok((witness, free, torsion))
@@ -120,50 +143,95 @@ impl Builder<'_> {
                 match torsion_order(ctx, f, g, variable, *max_order)? {
                     TorsionOutcome::Order { k, homotopy, dual } => {
                         let homotopy = self.homotopy_terms(e.from, e.to, homotopy);
-                        let dual = dual.map(|y| dual_terms(&y, self.names(e.from), self.names(e.to), &ctx.ring.variables));
+                        let dual =
+                            dual.map(|y| dual_terms(&y, self.names(e.from), self.names(e.to), &ctx.ring.variables));
                         let witness = TorsionWitness { homotopy, dual };
-                        let claim = Claim::TorsionOrder { maps: [f.clone(), g.clone()], variable: variable.clone(), order: k, surfaces: *surfaces, statement: String::new(), witness };
+                        let claim = Claim::TorsionOrder {
+                            maps: [f.clone(), g.clone()],
+                            variable: variable.clone(),
+                            order: k,
+                            surfaces: *surfaces,
+                            statement: String::new(),
+                            witness,
+                        };
                         let mut line = self.add(claim);
                         if *surfaces {
                             line = format!("{line}\n      reading: {}", surface_reading(variable, k));
                         }
                         match order {
-                            Some(want) if *want != k => Ok((false, format!("{line}\n      (the goal expected order {want})"))),
+                            Some(want) if *want != k => {
+                                Ok((false, format!("{line}\n      (the goal expected order {want})")))
+                            }
                             _ => Ok((true, line)),
                         }
                     }
                     TorsionOutcome::NotTorsionUpTo { bound, dual } => {
                         let map = MapExpr::scaled_difference(f, g, variable, *max_order);
                         let dual = dual_terms(&dual, self.names(e.from), self.names(e.to), &ctx.ring.variables);
-                        let line = self.add(Claim::NotNullHomotopic { map, statement: String::new(), witness: DualWitness { dual } });
+                        let line = self.add(Claim::NotNullHomotopic {
+                            map,
+                            statement: String::new(),
+                            witness: DualWitness { dual },
+                        });
                         Ok((false, format!("{line}: {f} − {g} is not {variable}-torsion up to {variable}^{bound}")))
                     }
                 }
             }
             Goal::Homotopic { maps, times } => self.decide_expr(Goal::pair_expr(maps, times)),
             Goal::NullHomotopic { map } => self.decide_expr(map.clone()),
-            Goal::Distinct { maps, times } => self.decide_expr(Goal::pair_expr(maps, times)).map(|(held, l)| (!held, l)),
+            Goal::Distinct { maps, times } => {
+                self.decide_expr(Goal::pair_expr(maps, times)).map(|(held, l)| (!held, l))
+            }
             Goal::NotNullHomotopic { map } => self.decide_expr(map.clone()).map(|(held, l)| (!held, l)),
             Goal::Homology { complex } => {
                 let c = ctx.complex_named(complex)?;
                 let (witness, free, torsion) = self.homology_witness(c)?;
-                Ok((true, self.add(Claim::Homology { complex: complex.clone(), free, torsion, statement: String::new(), witness })))
+                Ok((
+                    true,
+                    self.add(Claim::Homology {
+                        complex: complex.clone(),
+                        free,
+                        torsion,
+                        statement: String::new(),
+                        witness,
+                    }),
+                ))
             }
             Goal::TorsionOrderOfComplex { complex, variable } => {
                 let c = ctx.complex_named(complex)?;
                 let (witness, _, torsion) = self.homology_witness(c)?;
                 let order = torsion.iter().map(|t| t.0).max().unwrap_or(0);
-                let claim = Claim::TorsionOrderOfComplex { complex: complex.clone(), variable: variable.clone(), order, statement: String::new(), witness };
+                let claim = Claim::TorsionOrderOfComplex {
+                    complex: complex.clone(),
+                    variable: variable.clone(),
+                    order,
+                    statement: String::new(),
+                    witness,
+                };
                 Ok((true, self.add(claim)))
             }
             Goal::Tau { complex, alexander } => {
                 let c = ctx.complex_named(complex)?;
-                let a = ctx.ring.gradings.iter().position(|g| g == alexander).ok_or_else(|| format!("no grading named \"{alexander}\""))?;
+                let a = ctx
+                    .ring
+                    .gradings
+                    .iter()
+                    .position(|g| g == alexander)
+                    .ok_or_else(|| format!("no grading named \"{alexander}\""))?;
                 let (witness, free, _) = self.homology_witness(c)?;
                 let [gen] = free.as_slice() else {
-                    return Err(format!("τ({complex}) needs homology of free rank one; it has free rank {}", free.len()));
+                    return Err(format!(
+                        "τ({complex}) needs homology of free rank one; it has free rank {}",
+                        free.len()
+                    ));
                 };
-                let claim = Claim::Tau { complex: complex.clone(), alexander: alexander.clone(), tau: -gen[a], statement: String::new(), witness };
+                let claim = Claim::Tau {
+                    complex: complex.clone(),
+                    alexander: alexander.clone(),
+                    tau: -gen[a],
+                    statement: String::new(),
+                    witness,
+                };
                 Ok((true, self.add(claim)))
             }
             Goal::Equivalent { complexes: [c, d], maps: [f, g] } => {
@@ -172,13 +240,28 @@ impl Builder<'_> {
                 if (fe.from, fe.to, ge.from, ge.to) != (ci, di, di, ci) {
                     return Err(format!("equivalent: {f} must map {c} → {d} and {g} map {d} → {c}"));
                 }
-                let round = |a: &str, b: &str, on: &str| MapExpr::Sum(vec![MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]), MapExpr::Id(on.into())]);
+                let round = |a: &str, b: &str, on: &str| {
+                    MapExpr::Sum(vec![
+                        MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]),
+                        MapExpr::Id(on.into()),
+                    ])
+                };
                 let source = decide(ctx, &ctx.eval(&round(f, g, c))?)?;
                 let target = decide(ctx, &ctx.eval(&round(g, f, d))?)?;
                 match (source, target) {
                     (Verdict::Null(hc), Verdict::Null(hd)) => {
-                        let witness = EquivalenceWitness { source_homotopy: self.homotopy_terms(ci, ci, hc), target_homotopy: self.homotopy_terms(di, di, hd) };
-                        Ok((true, self.add(Claim::HomotopyEquivalence { maps: [f.clone(), g.clone()], statement: String::new(), witness })))
+                        let witness = EquivalenceWitness {
+                            source_homotopy: self.homotopy_terms(ci, ci, hc),
+                            target_homotopy: self.homotopy_terms(di, di, hd),
+                        };
+                        Ok((
+                            true,
+                            self.add(Claim::HomotopyEquivalence {
+                                maps: [f.clone(), g.clone()],
+                                statement: String::new(),
+                                witness,
+                            }),
+                        ))
                     }
                     (Verdict::NotNull(_), _) => self.decide_expr(round(f, g, c)).map(|(_, l)| (false, l)),
                     (_, Verdict::NotNull(_)) => self.decide_expr(round(g, f, d)).map(|(_, l)| (false, l)),
@@ -196,18 +279,30 @@ pub fn prove(problem: &Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<P
     for (i, goal) in problem.goals.iter().enumerate() {
         let (held, line) = b.goal(goal).map_err(|e| format!("goal {}: {e}", i + 1))?;
         all &= held;
-        lines.push(if held { format!("✓ {line}") } else { format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1) });
+        lines.push(if held {
+            format!("✓ {line}")
+        } else {
+            format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1)
+        });
     }
     let body = Body {
         ring: problem.ring.clone(),
         complexes: problem.complexes.clone(),
         maps: problem.maps.clone(),
         claims: b.claims,
-        provenance: Provenance { producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")), problem_sha256: sha256_hex(problem_bytes) },
+        provenance: Provenance {
+            producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")),
+            problem_sha256: sha256_hex(problem_bytes),
+        },
     };
-    let results = tubecheck::verify::check_body(&body).map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
+    let results = tubecheck::verify::check_body(&body)
+        .map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
     if let Some(bad) = results.iter().find(|r| r.outcome.is_err()) {
-        return Err(format!("internal error: the checker rejects claim \"{}\": {}", bad.statement, bad.outcome.as_ref().err().expect("is_err")));
+        return Err(format!(
+            "internal error: the checker rejects claim \"{}\": {}",
+            bad.statement,
+            bad.outcome.as_ref().err().expect("is_err")
+        ));
     }
     Ok(Proved { certificate: Certificate::seal(body)?, lines, all_as_stated: all })
 }

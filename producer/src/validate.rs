@@ -4,17 +4,18 @@
 use crate::problem::{Goal, Problem};
 use tubecert_format::poly::parse_mono;
 use tubecert_format::MapExpr;
-use tubecheck::load::{load, suggest, Context, Errors};
+use tubecheck::load::{load_lenient, suggest, Context, Errors};
 use tubecheck::verify::{check_chain_map, check_complex};
 
 pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
-    let ctx = load(&p.ring, &p.complexes, &p.maps)?;
-    let mut errs = Errors::default();
+    let (ctx, mut errs) = load_lenient(&p.ring, &p.complexes, &p.maps)?;
+    // ∂∂ and chain-map checks are meaningful only when every term resolved.
+    let complete = errs.0.is_empty();
     for (i, c) in ctx.complexes.iter().enumerate() {
         for d in &c.defects {
             errs.push(d.clone());
         }
-        if c.defects.is_empty() {
+        if complete && c.defects.is_empty() {
             if let Err(e) = check_complex(&ctx, i) {
                 errs.push(format!("complex {}: {e}", c.name));
             }
@@ -25,7 +26,11 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
         for d in &m.defects {
             errs.push(d.clone());
         }
-        if m.defects.is_empty() {
+        if complete
+            && m.defects.is_empty()
+            && ctx.complexes[m.from].defects.is_empty()
+            && ctx.complexes[m.to].defects.is_empty()
+        {
             if let Err(e) = check_chain_map(&ctx, i) {
                 errs.push(format!("map {name} is not a chain map: {e}"));
             }
@@ -65,7 +70,7 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                         errs.push(format!("{at}: times: {e}"));
                     }
                 }
-                if errs.0.is_empty() {
+                if maps.iter().all(|m| ctx.map_index.contains_key(m)) {
                     expr(&Goal::pair_expr(maps, times), &mut errs);
                 }
             }

@@ -156,11 +156,16 @@ impl MapExpr {
             Value::Object(o) if o.len() == 1 => {
                 let (k, x) = o.iter().next().expect("one entry");
                 match k.as_str() {
-                    "id" => x.as_str().map(|c| MapExpr::Id(c.to_string())).ok_or_else(|| "\"id\" takes a complex name".into()),
+                    "id" => x
+                        .as_str()
+                        .map(|c| MapExpr::Id(c.to_string()))
+                        .ok_or_else(|| "\"id\" takes a complex name".into()),
                     "sum" => Ok(MapExpr::Sum(list(x, "sum")?)),
                     "compose" => Ok(MapExpr::Compose(list(x, "compose")?)),
                     "times" => match x.as_array().map(|a| a.as_slice()) {
-                        Some([Value::String(m), e]) => Ok(MapExpr::Times(m.clone(), Box::new(Self::from_value_at(e, depth + 1)?))),
+                        Some([Value::String(m), e]) => {
+                            Ok(MapExpr::Times(m.clone(), Box::new(Self::from_value_at(e, depth + 1)?)))
+                        }
                         _ => Err("\"times\" takes [monomial, map expression]".into()),
                     },
                     other => Err(format!("unknown map operation \"{other}\" (expected id, sum, compose or times)")),

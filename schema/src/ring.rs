@@ -100,7 +100,13 @@ impl RingInfo {
     pub fn monomials_of_degree(&self, g: &[i64]) -> Vec<Mono> {
         let d = &self.var_degrees;
         match d.len() {
-            0 => if g.iter().all(|&x| x == 0) { vec![Mono::ONE] } else { vec![] },
+            0 => {
+                if g.iter().all(|&x| x == 0) {
+                    vec![Mono::ONE]
+                } else {
+                    vec![]
+                }
+            }
             1 => multiple_of(g, &d[0]).map(|a| vec![Mono::power(0, a)]).unwrap_or_default(),
             _ => two_variable_solutions(g, &d[0], &d[1]),
         }

@@ -37,7 +37,9 @@ pub fn render_homology(ring_name: &str, var: &str, free: &[Grading], torsion: &[
 /// (used by homology).
 pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
     match claim {
-        Claim::Complex { complex, .. } => format!("{complex} is a chain complex over {ring_name} (∂∘∂ = 0, ∂ homogeneous)"),
+        Claim::Complex { complex, .. } => {
+            format!("{complex} is a chain complex over {ring_name} (∂∘∂ = 0, ∂ homogeneous)")
+        }
         Claim::ChainMap { map, .. } => format!("{map} is a homogeneous chain map"),
         Claim::NullHomotopic { map, .. } => format!("{} ≃ 0 (null-homotopic)", render_expr(map)),
         Claim::NotNullHomotopic { map, .. } => format!("{} is not null-homotopic", render_expr(map)),
@@ -48,7 +50,9 @@ pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
             format!("H_*({complex}) ≅ {}", render_homology(ring_name, first_variable, free, torsion))
         }
         Claim::TorsionOrder { maps: [f, g], variable, order, .. } => format!("ord_{variable}({f} − {g}) = {order}"),
-        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => format!("Ord_{variable}(H_*({complex})) = {order}"),
+        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => {
+            format!("Ord_{variable}(H_*({complex})) = {order}")
+        }
         Claim::Tau { complex, tau, .. } => format!("τ({complex}) = {tau}"),
     }
 }

@@ -72,7 +72,8 @@ impl ColumnReducer {
         }
         // y with y·col = 0 for every reduced column and y·r = 1: rows that are nobody's pivot
         // get y = 0; each pivot row's value is forced by its column, in increasing pivot order.
-        let mut eqs: Vec<(u32, &[u32], bool)> = self.cols.iter().map(|c| (*c.last().expect("non-empty"), c.as_slice(), false)).collect();
+        let mut eqs: Vec<(u32, &[u32], bool)> =
+            self.cols.iter().map(|c| (*c.last().expect("non-empty"), c.as_slice(), false)).collect();
         eqs.push((*r.last().expect("non-empty"), r.as_slice(), true));
         eqs.sort_unstable_by_key(|e| e.0);
         let mut y: HashMap<u32, bool> = HashMap::new();

@@ -74,7 +74,8 @@ pub fn decide(ctx: &Context, phi: &Evaluated) -> Result<Verdict, String> {
     for &t in &columns {
         images.push(boundary_of(t, &c_into, d)?);
     }
-    let target: Vec<HomTerm> = phi.m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x as u32, m, w))).collect();
+    let target: Vec<HomTerm> =
+        phi.m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x as u32, m, w))).collect();
     if target.is_empty() {
         return Ok(Verdict::Null(Vec::new()));
     }

@@ -83,7 +83,9 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         }
         let divides = |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.div(m).is_some());
         let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
-        if !divides(&out[au], None) || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.div(m).is_none())) {
+        if !divides(&out[au], None)
+            || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.div(m).is_none()))
+        {
             continue;
         }
         let row_a = out[au].clone();
