@@ -4,6 +4,7 @@
 //! Layers, in the order data flows: [`problem`] (input) → [`validate`] → [`search`]
 //! (linear algebra) → [`prove`] (claims, certificate). [`demo`] writes the demo scenario.
 
+pub mod construct;
 pub mod demo;
 pub mod problem;
 pub mod prove;
@@ -19,7 +20,7 @@ pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::C
     if bytes.len() as u64 > tubecert_format::limits::MAX_FILE_BYTES {
         return Err(vec![format!("{name}: file larger than {} bytes", tubecert_format::limits::MAX_FILE_BYTES)]);
     }
-    let p = problem::parse_problem(&bytes).map_err(|e| vec![format!("{name}: {e}")])?;
+    let p = problem::parse_problem(&bytes).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     let ctx =
         validate::validate(&p).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     Ok((p, ctx, bytes))

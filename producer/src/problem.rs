@@ -86,11 +86,30 @@ impl Goal {
     }
 }
 
-/// Reads a problem file's JSON.
-pub fn parse_problem(bytes: &[u8]) -> Result<Problem, String> {
-    let p: Problem = serde_json::from_slice(bytes).map_err(|e| format!("not a problem file: {e}"))?;
-    if p.format != PROBLEM_FORMAT || p.version != 1 {
-        return Err(format!("format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1", p.format, p.version));
+/// A problem as written: complexes and maps may be constructions ([`crate::construct`]).
+#[derive(Clone, Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct WrittenProblem {
+    pub format: String,
+    pub version: u32,
+    pub ring: Ring,
+    pub complexes: UniqueMap<serde_json::Value>,
+    #[serde(default)]
+    pub maps: UniqueMap<serde_json::Value>,
+    #[serde(default)]
+    pub goals: Vec<Goal>,
+}
+
+/// Reads a problem file's JSON and resolves its constructions into explicit complexes and maps.
+pub fn parse_problem(bytes: &[u8]) -> Result<Problem, Vec<String>> {
+    let w: WrittenProblem = serde_json::from_slice(bytes).map_err(|e| vec![format!("not a problem file: {e}")])?;
+    from_written(w)
+}
+
+pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
+    if w.format != PROBLEM_FORMAT || w.version != 1 {
+        return Err(vec![format!("format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1", w.format, w.version)]);
     }
-    Ok(p)
+    let (complexes, maps) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps)?;
+    Ok(Problem { format: w.format, version: w.version, ring: w.ring, complexes: UniqueMap(complexes), maps: UniqueMap(maps), goals: w.goals })
 }

@@ -1,0 +1,303 @@
+//! Constructions of complexes and maps from pieces: staircases of L-space knots, tensor
+//! products (connected sums), duals (mirrors), grading shifts, direct sums, mapping cones.
+//! Each produces an explicit [`ComplexSpec`] / [`MapSpec`]; certificates only ever contain the
+//! explicit result, so the checker needs none of this.
+
+use serde_json::Value;
+use std::collections::BTreeMap;
+use tubecert_format::poly::{parse_poly, render_poly};
+use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Ring, Term, UniqueMap};
+
+pub type Complexes = BTreeMap<String, ComplexSpec>;
+
+fn gens(pairs: impl IntoIterator<Item = (String, Grading)>) -> UniqueMap<Grading> {
+    UniqueMap(pairs.into_iter().collect())
+}
+
+fn add(a: &[i64], b: &[i64]) -> Grading {
+    a.iter().zip(b).map(|(x, y)| x + y).collect()
+}
+
+/// Symmetrized Alexander polynomial of T(p, q) as exponents a_0 > … > a_2n with alternating
+/// signs, from Δ = t^{−(p−1)(q−1)/2}(t^{pq} − 1)(t − 1)/((t^p − 1)(t^q − 1)) (Ozsváth–Szabó 2005).
+pub fn torus_knot_exponents(p: u32, q: u32) -> Result<Vec<i64>, String> {
+    if p < 2 || q < 2 || gcd(p, q) != 1 || (p as u64) * (q as u64) > 100_000 {
+        return Err(format!("T({p},{q}): need coprime p, q ≥ 2 with pq ≤ 100000"));
+    }
+    let (p, q) = (p as usize, q as usize);
+    // numerator (t^{pq} − 1)(t − 1), coefficients by degree
+    let mut num = vec![0i64; p * q + 2];
+    num[p * q + 1] += 1;
+    num[p * q] -= 1;
+    num[1] -= 1;
+    num[0] += 1;
+    for d in [p, q] {
+        // exact division by (t^d − 1), from the top: num = quo·(t^d − 1)
+        let mut quo = vec![0i64; num.len() - d];
+        for k in (d..num.len()).rev() {
+            let c = num[k];
+            quo[k - d] = c;
+            num[k] -= c;
+            num[k - d] += c;
+        }
+        if num.iter().any(|&c| c != 0) {
+            return Err("internal: division left a remainder".into());
+        }
+        num = quo;
+    }
+    let shift = ((p - 1) * (q - 1) / 2) as i64;
+    let terms: Vec<(i64, i64)> = num.iter().enumerate().filter(|t| *t.1 != 0).map(|(k, &c)| (k as i64 - shift, c)).collect();
+    Ok(terms.iter().rev().map(|t| t.0).collect())
+}
+
+fn gcd(a: u32, b: u32) -> u32 {
+    if b == 0 { a } else { gcd(b, a % b) }
+}
+
+/// The staircase complex of an L-space knot with Alexander exponents a_0 > … > a_2n, over the
+/// declared ring: F2[U,V] with gradings (gr_U, gr_V); F2[U] with (Maslov, Alexander) as the
+/// V = 0 quotient; or F2 with (Maslov, Alexander) as the hat version U = V = 0.
+pub fn staircase(ring: &Ring, a: &[i64]) -> Result<ComplexSpec, String> {
+    if a.len() % 2 == 0 || a.windows(2).any(|w| w[0] <= w[1]) {
+        return Err("staircase: need an odd number of strictly decreasing Alexander exponents".into());
+    }
+    if (0..a.len()).any(|i| a[i] != -a[a.len() - 1 - i]) {
+        return Err("staircase: the exponents must be symmetric (a_i = −a_{2n−i})".into());
+    }
+    let degs: Vec<&Grading> = ring.variables.iter().filter_map(|v| ring.variable_degrees.get(v)).collect();
+    let full = match (ring.variables.len(), degs.as_slice()) {
+        (2, [u, v]) if **u == [-2, 0] && **v == [0, -2] && ring.differential_degree == [-1, -1] => true,
+        (1, [u]) if **u == [-2, -1] && ring.differential_degree == [-1, 0] => false,
+        (0, []) if ring.gradings.len() == 2 && ring.differential_degree == [-1, 0] => false,
+        _ => return Err("staircase: the ring must be F2[U,V] with U, V of degrees (−2,0), (0,−2), ∂ of (−1,−1), F2[U] with U of degree (−2,−1) and ∂ of (−1,0), or F2 with two gradings and ∂ of (−1,0)".into()),
+    };
+    let mut gr_u = vec![0i64; a.len()];
+    for i in 1..a.len() {
+        gr_u[i] = if i % 2 == 1 { gr_u[i - 1] + 1 - 2 * (a[i - 1] - a[i]) } else { gr_u[i - 1] - 1 };
+    }
+    let name = |i: usize| format!("x{i}");
+    let pow = |v: &str, e: i64| if e == 1 { v.to_string() } else { format!("{v}^{e}") };
+    let mut d = Vec::new();
+    for i in (1..a.len()).step_by(2).filter(|_| !ring.variables.is_empty()) {
+        d.push([name(i), pow("U", a[i - 1] - a[i]), name(i - 1)]);
+        if full {
+            d.push([name(i), pow("V", a[i] - a[i + 1]), name(i + 1)]);
+        }
+    }
+    let generators = gens((0..a.len()).map(|i| {
+        let g = if full { vec![gr_u[i], gr_u[i] - 2 * a[i]] } else { vec![gr_u[i], a[i]] };
+        (name(i), g)
+    }));
+    Ok(ComplexSpec { generators, differential: d })
+}
+
+pub fn tensor_name(x: &str, y: &str) -> String {
+    format!("{x}⊗{y}")
+}
+
+/// C ⊗_R D: generators x⊗y, gradings add, ∂(x⊗y) = ∂x⊗y + x⊗∂y (no signs over F2).
+pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> ComplexSpec {
+    let mut diff = Vec::new();
+    for [x, cf, x2] in &c.differential {
+        for y in d.generators.keys() {
+            diff.push([tensor_name(x, y), cf.clone(), tensor_name(x2, y)]);
+        }
+    }
+    for [y, cf, y2] in &d.differential {
+        for x in c.generators.keys() {
+            diff.push([tensor_name(x, y), cf.clone(), tensor_name(x, y2)]);
+        }
+    }
+    diff.sort();
+    let generators = gens(c.generators.iter().flat_map(|(x, gx)| d.generators.iter().map(move |(y, gy)| (tensor_name(x, y), add(gx, gy)))));
+    ComplexSpec { generators, differential: diff }
+}
+
+/// f ⊗ g: x⊗y ↦ f(x)⊗g(y).
+pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[String]) -> Result<MapSpec, String> {
+    let mut acc: BTreeMap<(String, String), Vec<Mono>> = BTreeMap::new();
+    for [x, cf, x2] in &f.terms {
+        for [y, cg, y2] in &g.terms {
+            let entry = acc.entry((tensor_name(x, y), tensor_name(x2, y2))).or_default();
+            for a in parse_poly(cf, vars)? {
+                for b in parse_poly(cg, vars)? {
+                    entry.push(a.mul(b).ok_or("exponent overflow")?);
+                }
+            }
+        }
+    }
+    let mut terms = Vec::new();
+    for ((x, y), mut monos) in acc {
+        monos.sort();
+        let mut kept: Vec<Mono> = Vec::new();
+        for m in monos {
+            if kept.last() == Some(&m) {
+                kept.pop();
+            } else {
+                kept.push(m);
+            }
+        }
+        if !kept.is_empty() {
+            terms.push([x, render_poly(&kept, vars), y]);
+        }
+    }
+    Ok(MapSpec { from: from.into(), to: to.into(), degree: add(&f.degree, &g.degree), terms })
+}
+
+/// The dual complex Hom_R(C, R): the dual basis (same names), negated gradings, transposed ∂.
+pub fn dual(c: &ComplexSpec) -> ComplexSpec {
+    let mut diff: Vec<Term> = c.differential.iter().map(|[x, cf, y]| [y.clone(), cf.clone(), x.clone()]).collect();
+    diff.sort();
+    ComplexSpec { generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), g.iter().map(|v| -v).collect()))), differential: diff }
+}
+
+pub fn shift(c: &ComplexSpec, s: &[i64]) -> ComplexSpec {
+    ComplexSpec { generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), add(g, s)))), differential: c.differential.clone() }
+}
+
+fn prefixed(name: &str, x: &str) -> String {
+    format!("{name}.{x}")
+}
+
+/// C ⊕ D with generators named `C.x`, `D.y`; with `map` (f: C → D) the cone, ∂x ↦ ∂x + f(x),
+/// C shifted by deg f − deg ∂ so the differential stays homogeneous.
+pub fn direct_sum(cn: &str, c: &ComplexSpec, dn: &str, d: &ComplexSpec, map: Option<(&MapSpec, &Grading)>) -> ComplexSpec {
+    let cshift: Grading = match map {
+        Some((f, delta)) => f.degree.iter().zip(delta.iter()).map(|(a, b)| a - b).collect(),
+        None => vec![0; c.generators.values().next().map_or(0, |g| g.len())],
+    };
+    let mut generators: Vec<(String, Grading)> = c.generators.iter().map(|(x, g)| (prefixed(cn, x), add(g, &cshift))).collect();
+    generators.extend(d.generators.iter().map(|(y, g)| (prefixed(dn, y), g.clone())));
+    let mut diff: Vec<Term> = c.differential.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(cn, y)]).collect();
+    diff.extend(d.differential.iter().map(|[x, cf, y]| [prefixed(dn, x), cf.clone(), prefixed(dn, y)]));
+    if let Some((f, _)) = map {
+        diff.extend(f.terms.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(dn, y)]));
+    }
+    diff.sort();
+    ComplexSpec { generators: gens(generators), differential: diff }
+}
+
+/// Resolves the complexes and maps of a problem whose entries may be constructions, in
+/// dependency order. Explicit entries are taken as they are.
+pub fn resolve(ring: &Ring, complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, Value>) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
+    let mut done: Complexes = BTreeMap::new();
+    let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
+    let mut errs = Vec::new();
+    // Explicit maps first: cones need them.
+    for (name, v) in maps {
+        if v.get("from").is_some() {
+            match serde_json::from_value::<MapSpec>(v.clone()) {
+                Ok(m) => {
+                    done_maps.insert(name.clone(), m);
+                }
+                Err(e) => errs.push(format!("map {name}: {e}")),
+            }
+        }
+    }
+    let mut pending: Vec<&String> = complexes.keys().collect();
+    while !pending.is_empty() {
+        let before = pending.len();
+        let mut still = Vec::new();
+        for name in pending {
+            match build_complex(ring, &complexes[name], &done, &done_maps) {
+                Ok(Some(c)) => {
+                    done.insert(name.clone(), c);
+                }
+                Ok(None) => still.push(name),
+                Err(e) => errs.push(format!("complex {name}: {e}")),
+            }
+        }
+        if still.len() == before {
+            errs.extend(still.iter().map(|n| format!("complex {n}: refers to complexes that are missing or form a cycle")));
+            break;
+        }
+        pending = still;
+    }
+    for (name, v) in maps {
+        if let Some(arg) = v.get("tensor_maps") {
+            match build_tensor_map(ring, arg, complexes, &done_maps) {
+                Ok(m) => {
+                    done_maps.insert(name.clone(), m);
+                }
+                Err(e) => errs.push(format!("map {name}: {e}")),
+            }
+        } else if v.get("from").is_none() {
+            errs.push(format!("map {name}: expected an explicit map {{from, to, degree, terms}} or {{\"tensor_maps\": [f, g]}}"));
+        }
+    }
+    if errs.is_empty() { Ok((done, done_maps)) } else { Err(errs) }
+}
+
+/// Builds one complex; `Ok(None)` when it depends on one not built yet.
+fn build_complex(ring: &Ring, v: &Value, done: &Complexes, maps: &BTreeMap<String, MapSpec>) -> Result<Option<ComplexSpec>, String> {
+    if v.get("generators").is_some() {
+        return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
+    }
+    let obj = v.as_object().filter(|o| o.len() == 1).ok_or("expected {generators, differential} or a one-key construction")?;
+    let (op, arg) = obj.iter().next().expect("one key");
+    let names = |n: usize| -> Result<Vec<String>, String> {
+        let a = arg.as_array().filter(|a| a.len() >= n).ok_or(format!("\"{op}\" takes an array"))?;
+        a.iter().take(n).map(|x| x.as_str().map(String::from).ok_or(format!("\"{op}\": expected complex names"))).collect()
+    };
+    let get = |n: &str| done.get(n);
+    Ok(match op.as_str() {
+        "staircase" => {
+            let exps: Vec<i64> = if let Some(pq) = arg.get("torus_knot") {
+                let pq: Vec<u32> = serde_json::from_value(pq.clone()).map_err(|e| format!("torus_knot: {e}"))?;
+                let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
+                torus_knot_exponents(p, q)?
+            } else if let Some(a) = arg.get("alexander") {
+                serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
+            } else {
+                return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
+            };
+            Some(staircase(ring, &exps)?)
+        }
+        "tensor" | "direct_sum" => {
+            let n = names(2)?;
+            let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
+            Some(if op == "tensor" { tensor(c, d) } else { direct_sum(&n[0], c, &n[1], d, None) })
+        }
+        "dual" => {
+            let n = arg.as_str().ok_or("\"dual\" takes a complex name")?;
+            get(n).map(dual)
+        }
+        "shift" => {
+            let a = arg.as_array().filter(|a| a.len() == 2).ok_or("\"shift\" takes [complex, [shift…]]")?;
+            let n = a[0].as_str().ok_or("shift: expected a complex name")?;
+            let s: Vec<i64> = serde_json::from_value(a[1].clone()).map_err(|e| format!("shift: {e}"))?;
+            if s.len() != ring.gradings.len() {
+                return Err(format!("shift has {} entries, expected {}", s.len(), ring.gradings.len()));
+            }
+            get(n).map(|c| shift(c, &s))
+        }
+        "cone" => {
+            let f = arg.as_str().ok_or("\"cone\" takes a map name")?;
+            let m = maps.get(f).ok_or(format!("cone: map \"{f}\" must be an explicit declared map"))?;
+            let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
+            Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree))))
+        }
+        other => return Err(format!("unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone)")),
+    })
+}
+
+fn build_tensor_map(ring: &Ring, arg: &Value, complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, MapSpec>) -> Result<MapSpec, String> {
+    let pair: [String; 2] = serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
+    let (f, g) = (maps.get(&pair[0]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[0]))?, maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?);
+    let find = |a: &str, b: &str| {
+        complexes.iter().find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b]))).map(|(n, _)| n.clone()).ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
+    };
+    tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    #[test]
+    fn torus_knot_polynomials() {
+        // Δ_{T(2,3)} = t − 1 + t^{−1}; Δ_{T(3,4)} = t^3 − t^2 + 1 − t^{−2} + t^{−3} (Ozsváth–Szabó 2005).
+        assert_eq!(torus_knot_exponents(2, 3).unwrap(), vec![1, 0, -1]);
+        assert_eq!(torus_knot_exponents(3, 4).unwrap(), vec![3, 2, 0, -2, -3]);
+        assert!(torus_knot_exponents(2, 4).is_err());
+    }
+}
