@@ -1,0 +1,206 @@
+#!/usr/bin/env python3
+"""Checks of tubecert against libraries from outside the project.
+
+1. The certificate hash: SHA-256 of the RFC 8785 canonical body, recomputed with the
+   `rfc8785` package (an independent JSON Canonicalization Scheme implementation).
+2. The file formats: every stored certificate and problem file validates against
+   schema/*.schema.json with the `jsonschema` package (Draft 2020-12).
+3. Homology over F2[U]: on random graded complexes, the torsion exponents and free rank in
+   the producer's (checker-verified) homology claim agree with sympy's invariant factors over
+   GF(2)[U] (sympy.polys.matrices.normalforms).
+
+Usage: check_outside.py ROOT TUBECERT_BINARY [--cases N] [--seed S]
+Prints one line per failure and a closing "N passed, M failed" line.
+"""
+
+import argparse
+import glob
+import hashlib
+import json
+import os
+import random
+import subprocess
+import sys
+import tempfile
+
+import jsonschema
+import rfc8785
+from sympy import symbols
+from sympy.polys.domains import GF
+from sympy.polys.matrices import DomainMatrix
+from sympy.polys.matrices.normalforms import invariant_factors
+
+PASSED, FAILED = 0, 0
+
+
+def record(ok, what):
+    global PASSED, FAILED
+    if ok:
+        PASSED += 1
+    else:
+        FAILED += 1
+        print(f"FAIL: {what}")
+
+
+def check_hashes_and_schemas(root, extra_dirs):
+    cert_schema = json.load(open(os.path.join(root, "schema/certificate.schema.json")))
+    prob_schema = json.load(open(os.path.join(root, "schema/problem.schema.json")))
+    jsonschema.Draft202012Validator.check_schema(cert_schema)
+    jsonschema.Draft202012Validator.check_schema(prob_schema)
+    files = []
+    for d in [os.path.join(root, "certificates")] + extra_dirs:
+        files += sorted(glob.glob(os.path.join(d, "**/*.json"), recursive=True))
+    for f in files:
+        doc = json.load(open(f, encoding="utf-8"))
+        if doc.get("format") == "tubecert-certificate":
+            digest = hashlib.sha256(rfc8785.dumps(doc["body"])).hexdigest()
+            record(digest == doc["sha256"], f"{f}: rfc8785 hash {digest} != stated {doc['sha256']}")
+            try:
+                jsonschema.validate(doc, cert_schema, cls=jsonschema.Draft202012Validator)
+                record(True, "")
+            except jsonschema.ValidationError as e:
+                record(False, f"{f}: certificate schema: {e.message}")
+        elif doc.get("format") == "tubecert-problem":
+            try:
+                jsonschema.validate(doc, prob_schema, cls=jsonschema.Draft202012Validator)
+                record(True, "")
+            except jsonschema.ValidationError as e:
+                record(False, f"{f}: problem schema: {e.message}")
+    return len(files)
+
+
+# Polynomials over F2[U] as Python ints: bit e is the coefficient of U^e.
+def pmul(a, b):
+    out = 0
+    while b:
+        if b & 1:
+            out ^= a
+        a <<= 1
+        b >>= 1
+    return out
+
+
+def matmul(A, B):
+    n, m, k = len(A), len(B[0]), len(B)
+    return [[_dot(A[i], [B[t][j] for t in range(k)]) for j in range(m)] for i in range(n)]
+
+
+def _dot(row, col):
+    acc = 0
+    for a, b in zip(row, col):
+        if a and b:
+            acc ^= pmul(a, b)
+    return acc
+
+
+def random_complex(rng):
+    """A sum of towers a -> U^k b and free generators, hidden by a random homogeneous
+    unitriangular change of basis. Gradings (Maslov, Alexander), U of degree (-2,-1)."""
+    gens, d_pairs = [], []
+    for _ in range(rng.randint(1, 6)):
+        m, a = rng.randint(-3, 3), rng.randint(-2, 2)
+        k = rng.randint(0, 3)
+        b = len(gens)
+        gens.append((m, a))  # target b
+        gens.append((m + 1 - 2 * k, a - k))  # source: d(src) = U^k b
+        d_pairs.append((b + 1, b, k))
+    for _ in range(rng.randint(0, 3)):
+        gens.append((rng.randint(-3, 3), rng.randint(-2, 2)))
+    n = len(gens)
+    D = [[0] * n for _ in range(n)]  # D[i][j]: coefficient of generator i in d(generator j)
+    for s, t, k in d_pairs:
+        D[t][s] = 1 << k
+    order = list(range(n))
+    rng.shuffle(order)
+    P = [[int(i == j) for j in range(n)] for i in range(n)]  # column j: new j in old basis
+    for x in range(n):
+        for y in range(x + 1, n):
+            i, j = order[x], order[y]
+            dm, da = gens[i][0] - gens[j][0], gens[i][1] - gens[j][1]
+            # old i may appear in new j with U^e when gr(i) + e*(-2,-1) = gr(j)
+            if dm >= 0 and dm % 2 == 0 and da == dm // 2 and rng.random() < 0.5:
+                P[i][j] = 1 << (dm // 2)
+    # P = I + N with N nilpotent (strictly triangular in `order`), so P^-1 = sum of N^t mod 2.
+    N = [[P[i][j] if i != j else 0 for j in range(n)] for i in range(n)]
+    Pinv = [[int(i == j) for j in range(n)] for i in range(n)]
+    power = [row[:] for row in N]
+    for _ in range(n):
+        Pinv = [[Pinv[i][j] ^ power[i][j] for j in range(n)] for i in range(n)]
+        power = matmul(power, N)
+    D2 = matmul(Pinv, matmul(D, P))
+    return gens, D2
+
+
+def problem_json(gens, D):
+    names = [f"g{i}" for i in range(len(gens))]
+    terms = []
+    for j in range(len(gens)):
+        for i in range(len(gens)):
+            c = D[i][j]
+            if c:
+                assert c & (c - 1) == 0, "homogeneous entries are monomials"
+                e = c.bit_length() - 1
+                terms.append([names[j], "1" if e == 0 else f"U^{e}", names[i]])
+    return {
+        "format": "tubecert-problem", "version": 1,
+        "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"],
+                 "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
+        "complexes": {"C": {"generators": {names[i]: list(g) for i, g in enumerate(gens)}, "differential": terms}},
+        "goals": [{"homology": {"complex": "C"}}],
+    }
+
+
+def sympy_homology(D):
+    """(free rank, sorted torsion exponents) from sympy's invariant factors of the whole
+    differential over GF(2)[U]: since d∘d = 0, H ≅ F2[U]^(n - 2r) ⊕ ⊕ F2[U]/(f) over the
+    non-unit invariant factors f."""
+    U = symbols("U")
+    R = GF(2)[U]
+    n = len(D)
+    rows = [[R.from_sympy(sum(U**e for e in range(c.bit_length()) if c >> e & 1)) for c in row] for row in D]
+    M = DomainMatrix(rows, (n, n), R)
+    factors = [f for f in invariant_factors(M) if f != R.zero]
+    exps = []
+    for f in factors:
+        p = R.to_sympy(f).as_poly(U)
+        assert len(p.terms()) == 1, "graded complexes have monomial invariant factors"
+        exps.append(p.degree())
+    return n - 2 * len(factors), sorted(e for e in exps if e > 0)
+
+
+def check_homology_against_sympy(tubecert, cases, seed):
+    rng = random.Random(seed)
+    with tempfile.TemporaryDirectory() as tmp:
+        for case in range(cases):
+            gens, D = random_complex(rng)
+            prob = os.path.join(tmp, f"c{case}.problem.json")
+            cert = os.path.join(tmp, f"c{case}.cert.json")
+            json.dump(problem_json(gens, D), open(prob, "w"))
+            r = subprocess.run([tubecert, "prove", prob, "-o", cert], capture_output=True, text=True)
+            if r.returncode != 0:
+                record(False, f"case {case}: tubecert exit {r.returncode}: {r.stderr}")
+                continue
+            claim = json.load(open(cert))["body"]["claims"][0]
+            ours = (len(claim["free"]), sorted(t[0] for t in claim["torsion"]))
+            theirs = sympy_homology(D)
+            record(ours == theirs, f"case {case}: tubecert {ours} vs sympy {theirs}")
+
+
+def main():
+    ap = argparse.ArgumentParser()
+    ap.add_argument("root")
+    ap.add_argument("tubecert")
+    ap.add_argument("--cases", type=int, default=40)
+    ap.add_argument("--seed", type=int, default=7)
+    ap.add_argument("--extra", action="append", default=[], help="more folders of certificates")
+    a = ap.parse_args()
+    n = check_hashes_and_schemas(a.root, a.extra)
+    print(f"outside: {n} stored files checked against rfc8785 and the JSON schemas")
+    check_homology_against_sympy(a.tubecert, a.cases, a.seed)
+    print(f"outside: {a.cases} random complexes compared with sympy's Smith normal form over GF(2)[U]")
+    print(f"outside: {PASSED} passed, {FAILED} failed")
+    sys.exit(1 if FAILED else 0)
+
+
+if __name__ == "__main__":
+    main()
