@@ -9,7 +9,10 @@ use serde_json::json;
 use tubecert_tests::{minus_ring, planted_complex, prove_value, verified_claims, Block};
 
 fn block() -> impl Strategy<Value = Block> {
-    prop_oneof![(-3i64..3, -2i64..2).prop_map(|(m, a)| Block::Free(m, a)), (-3i64..3, -2i64..2, 0u32..4).prop_map(|(m, a, k)| Block::Tower(m, a, k))]
+    prop_oneof![
+        (-3i64..3, -2i64..2).prop_map(|(m, a)| Block::Free(m, a)),
+        (-3i64..3, -2i64..2, 0u32..4).prop_map(|(m, a, k)| Block::Tower(m, a, k))
+    ]
 }
 
 type Decomp = (Vec<Vec<i64>>, Vec<(u32, Vec<i64>)>);

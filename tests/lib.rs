@@ -51,7 +51,11 @@ pub fn monomials(coef: &str) -> Vec<(u32, u32)> {
             if t != "1" {
                 for f in t.split('*') {
                     let (v, e) = f.split_once('^').map_or((f, 1), |(v, e)| (v, e.parse().unwrap()));
-                    if v == "U" { i += e } else { j += e }
+                    if v == "U" {
+                        i += e
+                    } else {
+                        j += e
+                    }
                 }
             }
             (i, j)
@@ -81,7 +85,13 @@ fn apply(f: &BTreeMap<String, Elem>, v: &Elem) -> Elem {
 }
 
 /// Does ∂H + H∂ equal φ on every generator of the source?
-pub fn is_homotopy(src_d: &[[String; 3]], dst_d: &[[String; 3]], sources: &[String], phi: &[[String; 3]], h: &[[String; 3]]) -> bool {
+pub fn is_homotopy(
+    src_d: &[[String; 3]],
+    dst_d: &[[String; 3]],
+    sources: &[String],
+    phi: &[[String; 3]],
+    h: &[[String; 3]],
+) -> bool {
     let (dc, dd, phi, h) = (map_of(src_d), map_of(dst_d), map_of(phi), map_of(h));
     sources.iter().all(|x| {
         let mut lhs = apply(&dd, h.get(x).unwrap_or(&Elem::new()));
@@ -95,7 +105,8 @@ pub fn is_homotopy(src_d: &[[String; 3]], dst_d: &[[String; 3]], sources: &[Stri
 /// Is y a dual witness for φ: ⟨y, φ⟩ = 1 and y(∂ψ + ψ∂) = 0 for every basis ψ = (x ↦ m·w)?
 /// Checked by brute force over the ψ whose boundary can meet y.
 pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[String; 3]], y: &[[String; 3]]) -> bool {
-    let ys: Vec<(String, (u32, u32), String)> = y.iter().map(|[x, m, w]| (x.clone(), monomials(m)[0], w.clone())).collect();
+    let ys: Vec<(String, (u32, u32), String)> =
+        y.iter().map(|[x, m, w]| (x.clone(), monomials(m)[0], w.clone())).collect();
     let phi = map_of(phi);
     let pairing = ys.iter().filter(|(x, m, w)| phi.get(x).is_some_and(|e| e.contains_key(&(w.clone(), *m)))).count();
     if pairing % 2 != 1 {

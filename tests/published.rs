@@ -26,7 +26,10 @@ fn torsion_order_of_torus_knots() {
     // Ord_U(T(p,q)) = p − 1 for 2 ≤ p < q (Juhász–Miller–Zemke 2020, "Knot cobordisms, bridge
     // index, and torsion in Floer homology").
     for (p, q) in TORUS_KNOTS {
-        let c = claims(json!({"T": {"staircase": {"torus_knot": [p, q]}}}), json!([{"torsion_order_of_complex": {"complex": "T", "variable": "U"}}]));
+        let c = claims(
+            json!({"T": {"staircase": {"torus_knot": [p, q]}}}),
+            json!([{"torsion_order_of_complex": {"complex": "T", "variable": "U"}}]),
+        );
         assert_eq!(c[0]["order"], json!(p - 1), "T({p},{q})");
     }
 }
@@ -85,5 +88,8 @@ fn full_staircase_of_the_trefoil() {
     assert_eq!(t.generators["x0"], vec![0, -2]);
     assert_eq!(t.generators["x1"], vec![-1, -1]);
     assert_eq!(t.generators["x2"], vec![-2, 0]);
-    assert_eq!(t.differential, vec![["x1".to_string(), "U".into(), "x0".into()], ["x1".into(), "V".into(), "x2".into()]]);
+    assert_eq!(
+        t.differential,
+        vec![["x1".to_string(), "U".into(), "x0".into()], ["x1".into(), "V".into(), "x2".into()]]
+    );
 }

@@ -138,7 +138,9 @@ fn torsion_order() {
 
 #[test]
 fn statement_must_match_the_fields() {
-    let mut c = with_statement(json!({"kind": "not_null_homotopic", "map": {"times": ["U", {"sum": ["F", "G"]}]}, "witness": {"dual": [["o", "U", "a"]]}}));
+    let mut c = with_statement(
+        json!({"kind": "not_null_homotopic", "map": {"times": ["U", {"sum": ["F", "G"]}]}, "witness": {"dual": [["o", "U", "a"]]}}),
+    );
     c["statement"] = json!("F and G are not homotopic at all");
     let body: Body = serde_json::from_value(base(vec![c])).unwrap();
     let r = check_body(&body).unwrap();

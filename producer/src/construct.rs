@@ -46,12 +46,17 @@ pub fn torus_knot_exponents(p: u32, q: u32) -> Result<Vec<i64>, String> {
         num = quo;
     }
     let shift = ((p - 1) * (q - 1) / 2) as i64;
-    let terms: Vec<(i64, i64)> = num.iter().enumerate().filter(|t| *t.1 != 0).map(|(k, &c)| (k as i64 - shift, c)).collect();
+    let terms: Vec<(i64, i64)> =
+        num.iter().enumerate().filter(|t| *t.1 != 0).map(|(k, &c)| (k as i64 - shift, c)).collect();
     Ok(terms.iter().rev().map(|t| t.0).collect())
 }
 
 fn gcd(a: u32, b: u32) -> u32 {
-    if b == 0 { a } else { gcd(b, a % b) }
+    if b == 0 {
+        a
+    } else {
+        gcd(b, a % b)
+    }
 }
 
 /// The staircase complex of an L-space knot with Alexander exponents a_0 > … > a_2n, over the
@@ -109,7 +114,11 @@ pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> ComplexSpec {
         }
     }
     diff.sort();
-    let generators = gens(c.generators.iter().flat_map(|(x, gx)| d.generators.iter().map(move |(y, gy)| (tensor_name(x, y), add(gx, gy)))));
+    let generators = gens(
+        c.generators
+            .iter()
+            .flat_map(|(x, gx)| d.generators.iter().map(move |(y, gy)| (tensor_name(x, y), add(gx, gy)))),
+    );
     ComplexSpec { generators, differential: diff }
 }
 
@@ -148,11 +157,17 @@ pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[Strin
 pub fn dual(c: &ComplexSpec) -> ComplexSpec {
     let mut diff: Vec<Term> = c.differential.iter().map(|[x, cf, y]| [y.clone(), cf.clone(), x.clone()]).collect();
     diff.sort();
-    ComplexSpec { generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), g.iter().map(|v| -v).collect()))), differential: diff }
+    ComplexSpec {
+        generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), g.iter().map(|v| -v).collect()))),
+        differential: diff,
+    }
 }
 
 pub fn shift(c: &ComplexSpec, s: &[i64]) -> ComplexSpec {
-    ComplexSpec { generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), add(g, s)))), differential: c.differential.clone() }
+    ComplexSpec {
+        generators: gens(c.generators.iter().map(|(x, g)| (x.clone(), add(g, s)))),
+        differential: c.differential.clone(),
+    }
 }
 
 fn prefixed(name: &str, x: &str) -> String {
@@ -161,14 +176,22 @@ fn prefixed(name: &str, x: &str) -> String {
 
 /// C ⊕ D with generators named `C.x`, `D.y`; with `map` (f: C → D) the cone, ∂x ↦ ∂x + f(x),
 /// C shifted by deg f − deg ∂ so the differential stays homogeneous.
-pub fn direct_sum(cn: &str, c: &ComplexSpec, dn: &str, d: &ComplexSpec, map: Option<(&MapSpec, &Grading)>) -> ComplexSpec {
+pub fn direct_sum(
+    cn: &str,
+    c: &ComplexSpec,
+    dn: &str,
+    d: &ComplexSpec,
+    map: Option<(&MapSpec, &Grading)>,
+) -> ComplexSpec {
     let cshift: Grading = match map {
         Some((f, delta)) => f.degree.iter().zip(delta.iter()).map(|(a, b)| a - b).collect(),
         None => vec![0; c.generators.values().next().map_or(0, |g| g.len())],
     };
-    let mut generators: Vec<(String, Grading)> = c.generators.iter().map(|(x, g)| (prefixed(cn, x), add(g, &cshift))).collect();
+    let mut generators: Vec<(String, Grading)> =
+        c.generators.iter().map(|(x, g)| (prefixed(cn, x), add(g, &cshift))).collect();
     generators.extend(d.generators.iter().map(|(y, g)| (prefixed(dn, y), g.clone())));
-    let mut diff: Vec<Term> = c.differential.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(cn, y)]).collect();
+    let mut diff: Vec<Term> =
+        c.differential.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(cn, y)]).collect();
     diff.extend(d.differential.iter().map(|[x, cf, y]| [prefixed(dn, x), cf.clone(), prefixed(dn, y)]));
     if let Some((f, _)) = map {
         diff.extend(f.terms.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(dn, y)]));
@@ -179,7 +202,11 @@ pub fn direct_sum(cn: &str, c: &ComplexSpec, dn: &str, d: &ComplexSpec, map: Opt
 
 /// Resolves the complexes and maps of a problem whose entries may be constructions, in
 /// dependency order. Explicit entries are taken as they are.
-pub fn resolve(ring: &Ring, complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, Value>) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
+pub fn resolve(
+    ring: &Ring,
+    complexes: &BTreeMap<String, Value>,
+    maps: &BTreeMap<String, Value>,
+) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
@@ -208,7 +235,9 @@ pub fn resolve(ring: &Ring, complexes: &BTreeMap<String, Value>, maps: &BTreeMap
             }
         }
         if still.len() == before {
-            errs.extend(still.iter().map(|n| format!("complex {n}: refers to complexes that are missing or form a cycle")));
+            errs.extend(
+                still.iter().map(|n| format!("complex {n}: refers to complexes that are missing or form a cycle")),
+            );
             break;
         }
         pending = still;
@@ -222,22 +251,39 @@ pub fn resolve(ring: &Ring, complexes: &BTreeMap<String, Value>, maps: &BTreeMap
                 Err(e) => errs.push(format!("map {name}: {e}")),
             }
         } else if v.get("from").is_none() {
-            errs.push(format!("map {name}: expected an explicit map {{from, to, degree, terms}} or {{\"tensor_maps\": [f, g]}}"));
+            errs.push(format!(
+                "map {name}: expected an explicit map {{from, to, degree, terms}} or {{\"tensor_maps\": [f, g]}}"
+            ));
         }
     }
-    if errs.is_empty() { Ok((done, done_maps)) } else { Err(errs) }
+    if errs.is_empty() {
+        Ok((done, done_maps))
+    } else {
+        Err(errs)
+    }
 }
 
 /// Builds one complex; `Ok(None)` when it depends on one not built yet.
-fn build_complex(ring: &Ring, v: &Value, done: &Complexes, maps: &BTreeMap<String, MapSpec>) -> Result<Option<ComplexSpec>, String> {
+fn build_complex(
+    ring: &Ring,
+    v: &Value,
+    done: &Complexes,
+    maps: &BTreeMap<String, MapSpec>,
+) -> Result<Option<ComplexSpec>, String> {
     if v.get("generators").is_some() {
         return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
     }
-    let obj = v.as_object().filter(|o| o.len() == 1).ok_or("expected {generators, differential} or a one-key construction")?;
+    let obj = v
+        .as_object()
+        .filter(|o| o.len() == 1)
+        .ok_or("expected {generators, differential} or a one-key construction")?;
     let (op, arg) = obj.iter().next().expect("one key");
     let names = |n: usize| -> Result<Vec<String>, String> {
         let a = arg.as_array().filter(|a| a.len() >= n).ok_or(format!("\"{op}\" takes an array"))?;
-        a.iter().take(n).map(|x| x.as_str().map(String::from).ok_or(format!("\"{op}\": expected complex names"))).collect()
+        a.iter()
+            .take(n)
+            .map(|x| x.as_str().map(String::from).ok_or(format!("\"{op}\": expected complex names")))
+            .collect()
     };
     let get = |n: &str| done.get(n);
     Ok(match op.as_str() {
@@ -277,15 +323,30 @@ fn build_complex(ring: &Ring, v: &Value, done: &Complexes, maps: &BTreeMap<Strin
             let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
             Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree))))
         }
-        other => return Err(format!("unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone)")),
+        other => {
+            return Err(format!("unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone)"))
+        }
     })
 }
 
-fn build_tensor_map(ring: &Ring, arg: &Value, complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, MapSpec>) -> Result<MapSpec, String> {
-    let pair: [String; 2] = serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
-    let (f, g) = (maps.get(&pair[0]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[0]))?, maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?);
+fn build_tensor_map(
+    ring: &Ring,
+    arg: &Value,
+    complexes: &BTreeMap<String, Value>,
+    maps: &BTreeMap<String, MapSpec>,
+) -> Result<MapSpec, String> {
+    let pair: [String; 2] =
+        serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
+    let (f, g) = (
+        maps.get(&pair[0]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[0]))?,
+        maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?,
+    );
     let find = |a: &str, b: &str| {
-        complexes.iter().find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b]))).map(|(n, _)| n.clone()).ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
+        complexes
+            .iter()
+            .find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b])))
+            .map(|(n, _)| n.clone())
+            .ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
     };
     tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
 }

@@ -20,7 +20,8 @@ pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::C
     if bytes.len() as u64 > tubecert_format::limits::MAX_FILE_BYTES {
         return Err(vec![format!("{name}: file larger than {} bytes", tubecert_format::limits::MAX_FILE_BYTES)]);
     }
-    let p = problem::parse_problem(&bytes).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
+    let p = problem::parse_problem(&bytes)
+        .map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     let ctx =
         validate::validate(&p).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     Ok((p, ctx, bytes))

@@ -108,8 +108,18 @@ pub fn parse_problem(bytes: &[u8]) -> Result<Problem, Vec<String>> {
 
 pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
     if w.format != PROBLEM_FORMAT || w.version != 1 {
-        return Err(vec![format!("format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1", w.format, w.version)]);
+        return Err(vec![format!(
+            "format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1",
+            w.format, w.version
+        )]);
     }
     let (complexes, maps) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps)?;
-    Ok(Problem { format: w.format, version: w.version, ring: w.ring, complexes: UniqueMap(complexes), maps: UniqueMap(maps), goals: w.goals })
+    Ok(Problem {
+        format: w.format,
+        version: w.version,
+        ring: w.ring,
+        complexes: UniqueMap(complexes),
+        maps: UniqueMap(maps),
+        goals: w.goals,
+    })
 }

@@ -1,0 +1,84 @@
+//! The command line as a referee or a CI job uses it: exit codes and what is printed.
+
+use std::process::Command;
+
+fn tubecheck(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_tubecheck")).args(args).output().unwrap();
+    (
+        out.status.code().unwrap(),
+        String::from_utf8_lossy(&out.stdout).into(),
+        String::from_utf8_lossy(&out.stderr).into(),
+    )
+}
+
+fn certificates() -> String {
+    format!("{}/../certificates", env!("CARGO_MANIFEST_DIR"))
+}
+
+fn tmp(name: &str, bytes: &[u8]) -> String {
+    let dir = std::env::temp_dir().join(format!("tubecheck-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let p = dir.join(name);
+    std::fs::write(&p, bytes).unwrap();
+    p.to_string_lossy().into()
+}
+
+#[test]
+fn stored_certificates_pass() {
+    let (code, out, _) = tubecheck(&[&certificates()]);
+    assert_eq!(code, 0, "{out}");
+    assert!(out.contains("✓ ord_U(F − G) = 2"));
+    assert!(out.contains("Scope:"));
+    assert!(out.contains("0 failed"));
+}
+
+#[test]
+fn removing_a_witness_term_fails_and_names_the_claim() {
+    let path = format!("{}/disk-pair-p3.cert.json", certificates());
+    let mut cert: tubecert_format::Certificate = serde_json::from_slice(&std::fs::read(path).unwrap()).unwrap();
+    let tubecert_format::Claim::TorsionOrder { witness, .. } = &mut cert.body.claims[0] else { panic!() };
+    witness.homotopy.pop();
+    let resealed = tubecert_format::Certificate::seal(cert.body).unwrap();
+    let (code, out, _) = tubecheck(&[&tmp("removed.json", &resealed.to_bytes().unwrap())]);
+    assert_eq!(code, 1);
+    assert!(out.contains("✗ [torsion_order] ord_U(F − G) = 3"), "{out}");
+    assert!(out.contains("at generator o"), "{out}");
+}
+
+#[test]
+fn expect_checks_the_hash() {
+    let path = format!("{}/disk-pair-p2.cert.json", certificates());
+    let cert: serde_json::Value = serde_json::from_slice(&std::fs::read(&path).unwrap()).unwrap();
+    let good = cert["sha256"].as_str().unwrap();
+    assert_eq!(tubecheck(&[&path, "--expect", good]).0, 0);
+    let (code, _, err) = tubecheck(&[&path, "--expect", &"0".repeat(64)]);
+    assert_eq!(code, 1);
+    assert!(err.contains("not the hash"));
+}
+
+#[test]
+fn malformed_input_exits_2_without_panic() {
+    for (name, bytes) in
+        [("trunc.json", &b"{\"format\": "[..]), ("list.json", b"[1, 2]"), ("bad-utf8.json", b"\xff\xfe")]
+    {
+        let (code, _, err) = tubecheck(&[&tmp(name, bytes)]);
+        assert_eq!(code, 2, "{name}");
+        assert!(err.contains("malformed") && !err.contains("panicked"), "{err}");
+    }
+    assert_eq!(tubecheck(&["/nonexistent/x.json"]).0, 2);
+}
+
+#[test]
+fn json_report_carries_the_facts() {
+    let (code, out, _) = tubecheck(&["--json", &certificates()]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let files = v.as_array().unwrap();
+    let p4 = files.iter().find(|f| f["file"].as_str().unwrap().ends_with("disk-pair-p4.cert.json")).unwrap();
+    assert_eq!(p4["ok"], true);
+    let claims = p4["claims"].as_array().unwrap();
+    assert!(claims.iter().any(|c| c["kind"] == "torsion_order" && c["order"] == 4));
+    let h = claims.iter().find(|c| c["kind"] == "homology").unwrap();
+    assert_eq!(h["free_rank"], 1);
+    assert_eq!(h["torsion"], serde_json::json!([[4, [0, 0]]]));
+}

@@ -1,0 +1,113 @@
+//! `tubecert` on the command line: exit codes 0 / 3 / 2 and the messages a user sees.
+
+use std::process::Command;
+
+fn tubecert(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_tubecert")).args(args).output().unwrap();
+    (
+        out.status.code().unwrap(),
+        String::from_utf8_lossy(&out.stdout).into(),
+        String::from_utf8_lossy(&out.stderr).into(),
+    )
+}
+
+fn dir() -> std::path::PathBuf {
+    let d = std::env::temp_dir().join(format!("tubecert-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&d).unwrap();
+    d
+}
+
+const EXAMPLE: &str = include_str!("../../examples/tower.problem.json");
+
+fn write(name: &str, text: &str) -> String {
+    let p = dir().join(name);
+    std::fs::write(&p, text).unwrap();
+    p.to_string_lossy().into()
+}
+
+#[test]
+fn the_issue_example_reports_order_two() {
+    let p = write("tower.problem.json", EXAMPLE);
+    let out_path = dir().join("tower.cert.json");
+    let (code, out, err) = tubecert(&["prove", &p, "-o", &out_path.to_string_lossy()]);
+    assert_eq!(code, 0, "{out}{err}");
+    assert!(out.contains("ord_U(F − G) = 2"));
+    assert!(out.contains("stay distinct after 1 stabilization"));
+    let report = tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap();
+    assert!(report.ok());
+}
+
+#[test]
+fn a_false_goal_gives_exit_3_and_a_valid_certificate_of_the_opposite() {
+    let p = write("false.problem.json", &EXAMPLE.replace("\"times\": \"U^2\"", "\"times\": \"U\""));
+    let out_path = dir().join("false.cert.json");
+    let (code, out, _) = tubecert(&["prove", &p, "-o", &out_path.to_string_lossy()]);
+    assert_eq!(code, 3, "{out}");
+    assert!(out.contains("goal 2 is false"));
+    let report = tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap();
+    assert!(report.ok());
+    assert!(report
+        .claims
+        .iter()
+        .any(|c| c.kind == "not_null_homotopic" && c.statement == "U·(F + G) is not null-homotopic"));
+}
+
+#[test]
+fn bad_inputs_are_reported_all_at_once_with_exit_2() {
+    let bad = EXAMPLE
+        .replace("[\"b\", \"U^2\", \"a\"]", "[\"b\", \"U^3\", \"a\"], [\"b\", \"U^\", \"z\"], [\"a\", \"1\", \"zz\"]")
+        .replace(
+            "\"to\": \"K\", \"degree\": [0, 0], \"terms\": [[\"o\", \"1\", \"z\"], [\"o\"",
+            "\"to\": \"KK\", \"degree\": [0, 0], \"terms\": [[\"o\", \"1\", \"z\"], [\"o\"",
+        )
+        .replace("\"maps\": [\"F\", \"G\"], \"variable\"", "\"maps\": [\"F\", \"H\"], \"variable\"");
+    let p = write("bad.problem.json", &bad);
+    let (code, out, err) = tubecert(&["check-input", &p]);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("bad.problem.json"), "the file is named: {err}");
+    assert!(err.contains("expected an exponent after '^'"), "{err}");
+    assert!(err.contains("\"zz\" is not in complex K (did you mean \"z\"?)"), "{err}");
+    assert!(err.contains("complex \"KK\" is not declared (did you mean \"K\"?)"), "{err}");
+    assert!(err.contains("not homogeneous: U^3 · a has degree (-6, -3), expected (-4, -2)"), "{err}");
+    assert!(err.contains("map \"H\" is not declared"), "{err}");
+    assert_eq!(tubecert(&["prove", &p]).0, 2);
+}
+
+#[test]
+fn dd_and_chain_map_failures_show_the_generator() {
+    let bad = EXAMPLE
+        .replace("\"b\": [-3, -2]}", "\"b\": [-3, -2], \"c\": [-2, -2]}")
+        .replace("[\"b\", \"U^2\", \"a\"]", "[\"b\", \"U^2\", \"a\"], [\"c\", \"1\", \"b\"]");
+    let (code, _, err) = tubecert(&["check-input", &write("dd.problem.json", &bad)]);
+    assert_eq!(code, 2);
+    assert!(err.contains("∂∂(c) = U^2·a ≠ 0"), "{err}");
+    let bad = EXAMPLE
+        .replace("[[\"o\", \"1\", \"z\"]]}", "[[\"o\", \"1\", \"z\"], [\"o\", \"1\", \"b\"]]}")
+        .replace("\"b\": [-3, -2]", "\"b\": [0, 0]");
+    let bad = bad.replace("[\"b\", \"U^2\", \"a\"]", "[\"b\", \"1\", \"a\"]").replace("\"b\": [0, 0]", "\"b\": [1, 0]");
+    let (code, _, err) = tubecert(&["check-input", &write("cm.problem.json", &bad)]);
+    assert_eq!(code, 2);
+    assert!(err.contains("not homogeneous") || err.contains("not a chain map"), "{err}");
+}
+
+#[test]
+fn refuses_rings_with_infinite_graded_pieces() {
+    let bad = EXAMPLE.replace("\"U\": [-2, -1]", "\"U\": [0, 0]");
+    let (code, _, err) = tubecert(&["check-input", &write("ring.problem.json", &bad)]);
+    assert_eq!(code, 2);
+    assert!(err.contains("infinite-dimensional"), "{err}");
+}
+
+#[test]
+fn demo_writes_what_the_checker_accepts() {
+    let out = dir().join("demo");
+    let (code, text, err) = tubecert(&["demo", "--out", &out.to_string_lossy()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(text.contains("tubecheck"));
+    for f in std::fs::read_dir(&out).unwrap() {
+        let p = f.unwrap().path();
+        if p.to_string_lossy().ends_with(".cert.json") {
+            assert!(tubecheck::check_bytes("d", &std::fs::read(&p).unwrap()).unwrap().ok());
+        }
+    }
+}

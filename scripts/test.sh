@@ -1,0 +1,9 @@
+#!/usr/bin/env bash
+# The whole test suite: Rust unit, property and integration tests, then the checks against
+# outside references (rfc8785, jsonschema, sympy), whose Python packages it installs itself.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+python3 -m pip install --quiet --disable-pip-version-check -r tests/outside/requirements.txt
+cargo build --release --workspace
+cargo test --release --workspace
+python3 tests/outside/check_outside.py . target/release/tubecert --cases 60
