@@ -121,3 +121,29 @@ proptest! {
         prop_assert_eq!(accepted, holds, "mutation of the {} witness: checker {} but independent evaluation {}", if mutate_dual { "dual" } else { "homotopy" }, accepted, holds);
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(32))]
+    /// The reduction data satisfy π∘ι = id, ι∘π + id = ∂h + h∂, and π, ι are chain maps; the
+    /// emitted equivalence claim verifies; and the reduced model has no unit arrows left.
+    #[test]
+    fn reductions_are_homotopy_equivalences(blocks in prop::collection::vec(block(), 1..6), seed: u64) {
+        let planted = planted_complex(&blocks, seed);
+        let prob = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(), "complexes": {"C": planted.complex}});
+        let bytes = serde_json::to_vec(&prob).unwrap();
+        let p = tubecert::problem::parse_problem(&bytes).unwrap();
+        let ctx = tubecert::validate::validate(&p).unwrap();
+        let r = tubecert::search::reduce::Reduction::new(&ctx.complexes[0]).unwrap();
+        let (c, small) = (&ctx.complexes[0], &r.complex);
+        let id = |n: usize| tubecheck::algebra::SparseMap::identity(n);
+        prop_assert_eq!(r.pi.after(&r.iota).unwrap(), id(small.names.len()));
+        let h = r.homotopy().unwrap();
+        prop_assert_eq!(r.iota.after(&r.pi).unwrap().plus(&id(c.names.len())), c.d.after(&h).unwrap().plus(&h.after(&c.d).unwrap()));
+        prop_assert_eq!(c.d.after(&r.iota).unwrap(), r.iota.after(&small.d).unwrap());
+        prop_assert_eq!(small.d.after(&r.pi).unwrap(), r.pi.after(&c.d).unwrap());
+        prop_assert!(small.d.rows.iter().flatten().all(|t| !t.1.is_one()), "reduced: no unit arrows");
+        // Towers with k = 0 cancel; the rest survive.
+        let expected = blocks.iter().map(|b| match b { Block::Free(..) => 1, Block::Tower(_, _, 0) => 0, _ => 2 }).sum::<usize>();
+        prop_assert_eq!(small.names.len(), expected);
+    }
+}

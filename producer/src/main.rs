@@ -28,6 +28,9 @@ enum Command {
         /// Where to write the certificate (default: PROBLEM with .problem.json → .cert.json).
         #[arg(short, long)]
         output: Option<PathBuf>,
+        /// Also certify each reduced model used (C ≃ C_reduced, as a homotopy_equivalence claim).
+        #[arg(long)]
+        emit_reduction: bool,
     },
     /// Validate a problem file only (exit 0 if valid, 2 with every error otherwise).
     #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
@@ -69,12 +72,13 @@ fn main() -> ExitCode {
             }
             Err(errs) => report_errors(&errs),
         },
-        Command::Prove { problem, output } => {
+        Command::Prove { problem, output, emit_reduction } => {
             let (p, ctx, bytes) = match tubecert::load_problem(&problem) {
                 Ok(x) => x,
                 Err(errs) => return report_errors(&errs),
             };
-            let proved = match tubecert::prove::prove(&p, &ctx, &bytes) {
+            let options = tubecert::prove::Options { emit_reduction };
+            let proved = match tubecert::prove::prove_with(&p, &ctx, &bytes, options) {
                 Ok(x) => x,
                 Err(e) => {
                     eprintln!("error: {}: {e}", problem.display());

@@ -4,16 +4,18 @@
 //! that `tubecheck` would reject.
 
 use crate::problem::{Goal, Problem};
-use crate::search::homotopy::{decide, HomTerm, Verdict};
+use crate::search::homotopy::{HomTerm, Solver, Verdict};
 use crate::search::normal_form::{normal_form, Pivots};
 use crate::search::torsion::{torsion_order, TorsionOutcome};
 use tubecert_format::canonical::sha256_hex;
 use tubecert_format::poly::render_poly;
 use tubecert_format::statement::{render, ring_name, surface_reading};
 use tubecert_format::{
-    BasisWitness, Body, Certificate, Claim, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr, Mono,
+    BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,
+    MapSpec, Mono,
     Provenance, Term, TorsionWitness, UniqueMap,
 };
+use tubecheck::algebra::SparseMap;
 use tubecheck::load::Context;
 
 /// What proving a problem gave.
@@ -46,6 +48,7 @@ fn dual_terms(triples: &[HomTerm], from: &[String], to: &[String], vars: &[Strin
 
 struct Builder<'a> {
     ctx: &'a Context,
+    solver: Solver<'a>,
     claims: Vec<Claim>,
 }
 
@@ -79,7 +82,7 @@ impl Builder<'_> {
     /// Decides φ ≃ 0 and records the claim that holds; returns (holds, statement).
     fn decide_expr(&mut self, map: MapExpr) -> Result<(bool, String), String> {
         let phi = self.ctx.eval(&map)?;
-        Ok(match decide(self.ctx, &phi)? {
+        Ok(match self.solver.decide(&phi)? {
             Verdict::Null(h) => {
                 let homotopy = self.homotopy_terms(phi.from, phi.to, h);
                 (
@@ -140,7 +143,7 @@ impl Builder<'_> {
         match goal {
             Goal::TorsionOrder { maps: [f, g], variable, surfaces, order, max_order } => {
                 let e = ctx.eval(&MapExpr::Named(f.clone()))?;
-                match torsion_order(ctx, f, g, variable, *max_order)? {
+                match torsion_order(&self.solver, f, g, variable, *max_order)? {
                     TorsionOutcome::Order { k, homotopy, dual } => {
                         let homotopy = self.homotopy_terms(e.from, e.to, homotopy);
                         let dual =
@@ -246,8 +249,8 @@ impl Builder<'_> {
                         MapExpr::Id(on.into()),
                     ])
                 };
-                let source = decide(ctx, &ctx.eval(&round(f, g, c))?)?;
-                let target = decide(ctx, &ctx.eval(&round(g, f, d))?)?;
+                let source = self.solver.decide(&ctx.eval(&round(f, g, c))?)?;
+                let target = self.solver.decide(&ctx.eval(&round(g, f, d))?)?;
                 match (source, target) {
                     (Verdict::Null(hc), Verdict::Null(hd)) => {
                         let witness = EquivalenceWitness {
@@ -271,9 +274,51 @@ impl Builder<'_> {
     }
 }
 
+/// Choices that change what a certificate contains.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct Options {
+    /// Also certify each reduced model used: C ≃ C_reduced as a homotopy equivalence.
+    pub emit_reduction: bool,
+}
+
+/// Adds C_reduced, π: C → C_reduced, ι: C_reduced → C and the claim that they are inverse
+/// homotopy equivalences (g∘f + id = ιπ + id = ∂h + h∂; f∘g + id = πι + id = 0).
+fn emit_reductions(b: &mut Builder, complexes: &mut UniqueMap<ComplexSpec>, maps: &mut UniqueMap<MapSpec>) -> Result<Vec<String>, String> {
+    let ctx = b.ctx;
+    let vars = &ctx.ring.variables;
+    let mut lines = Vec::new();
+    let zero = vec![0; ctx.ring.gradings.len()];
+    for (c, red) in b.solver.reductions() {
+        if red.is_identity() {
+            continue;
+        }
+        let orig = &ctx.complexes[c];
+        let small = &red.complex;
+        let (pi, iota) = (format!("pi_{}", orig.name), format!("iota_{}", orig.name));
+        if complexes.contains_key(&small.name) || maps.contains_key(&pi) || maps.contains_key(&iota) {
+            return Err(format!("--emit-reduction: the names {}, {pi} or {iota} are already taken", small.name));
+        }
+        let rows = |m: &SparseMap| -> Vec<(u32, Mono, u32)> { m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, c)| (x as u32, c, w))).collect() };
+        complexes.0.insert(small.name.clone(), ComplexSpec {
+            generators: UniqueMap(small.names.iter().cloned().zip(small.gradings.iter().cloned()).collect()),
+            differential: terms_of(rows(&small.d), &small.names, &small.names, vars),
+        });
+        maps.0.insert(pi.clone(), MapSpec { from: orig.name.clone(), to: small.name.clone(), degree: zero.clone(), terms: terms_of(rows(&red.pi), &orig.names, &small.names, vars) });
+        maps.0.insert(iota.clone(), MapSpec { from: small.name.clone(), to: orig.name.clone(), degree: zero.clone(), terms: terms_of(rows(&red.iota), &small.names, &orig.names, vars) });
+        let witness = EquivalenceWitness { source_homotopy: terms_of(rows(&red.homotopy()?), &orig.names, &orig.names, vars), target_homotopy: vec![] };
+        let line = b.add(Claim::HomotopyEquivalence { maps: [pi, iota], statement: String::new(), witness });
+        lines.push(format!("✓ {line} ({} ≃ {}: {} → {} generators)", orig.name, small.name, orig.names.len(), small.names.len()));
+    }
+    Ok(lines)
+}
+
 /// Proves every goal of a validated problem. `problem_bytes` is hashed into the provenance.
 pub fn prove(problem: &Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<Proved, String> {
-    let mut b = Builder { ctx, claims: Vec::new() };
+    prove_with(problem, ctx, problem_bytes, Options::default())
+}
+
+pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], options: Options) -> Result<Proved, String> {
+    let mut b = Builder { ctx, solver: Solver::new(ctx), claims: Vec::new() };
     let mut lines = Vec::new();
     let mut all = true;
     for (i, goal) in problem.goals.iter().enumerate() {
@@ -285,10 +330,14 @@ pub fn prove(problem: &Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<P
             format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1)
         });
     }
+    let (mut complexes, mut maps) = (problem.complexes.clone(), problem.maps.clone());
+    if options.emit_reduction {
+        lines.extend(emit_reductions(&mut b, &mut complexes, &mut maps)?);
+    }
     let body = Body {
         ring: problem.ring.clone(),
-        complexes: problem.complexes.clone(),
-        maps: problem.maps.clone(),
+        complexes,
+        maps,
         claims: b.claims,
         provenance: Provenance {
             producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")),

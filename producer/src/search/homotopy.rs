@@ -6,9 +6,12 @@
 //! y that kills every image and has ⟨y, φ⟩ = 1 (a dual witness).
 
 use super::elimination::{ColumnReducer, Solution};
+use super::reduce::Reduction;
+use std::cell::RefCell;
 use std::collections::{BTreeMap, HashMap};
+use std::rc::Rc;
 use tubecert_format::{Grading, Mono, RingInfo};
-use tubecheck::algebra::normalize;
+use tubecheck::algebra::{normalize, SparseMap};
 use tubecheck::load::{Complex, Context, Evaluated};
 
 /// A basis element (x, m, w) of Hom(C, D): x ↦ m·w.
@@ -64,18 +67,18 @@ fn boundary_of(t: HomTerm, c_into: &[Vec<(u32, Mono)>], d: &Complex) -> Result<V
     Ok(out)
 }
 
-/// Decides whether φ is null-homotopic.
-pub fn decide(ctx: &Context, phi: &Evaluated) -> Result<Verdict, String> {
-    let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
-    let h_degree: Grading = phi.degree.iter().zip(&ctx.ring.differential_degree).map(|(a, b)| a - b).collect();
-    let columns = hom_basis(&ctx.ring, c, d, &h_degree);
+/// Decides whether φ: C → D (given by its rows, of degree `degree`) is null-homotopic, by
+/// elimination in Hom(C, D) directly.
+pub fn decide_in(ring: &RingInfo, c: &Complex, d: &Complex, phi: &SparseMap, degree: &[i64]) -> Result<Verdict, String> {
+    let h_degree: Grading = degree.iter().zip(&ring.differential_degree).map(|(a, b)| a - b).collect();
+    let columns = hom_basis(ring, c, d, &h_degree);
     let c_into = c.d.incoming(c.names.len());
     let mut images = Vec::with_capacity(columns.len());
     for &t in &columns {
         images.push(boundary_of(t, &c_into, d)?);
     }
     let target: Vec<HomTerm> =
-        phi.m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x as u32, m, w))).collect();
+        phi.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x as u32, m, w))).collect();
     if target.is_empty() {
         return Ok(Verdict::Null(Vec::new()));
     }
@@ -97,4 +100,102 @@ pub fn decide(ctx: &Context, phi: &Evaluated) -> Result<Verdict, String> {
         Solution::Combination(ids) => Verdict::Null(ids.iter().map(|&i| columns[i as usize]).collect()),
         Solution::Functional(ys) => Verdict::NotNull(ys.iter().map(|&r| rows[r as usize]).collect()),
     })
+}
+
+/// A map given by Hom-basis triples, as rows.
+pub fn to_map(triples: &[HomTerm], sources: usize) -> SparseMap {
+    let mut m = SparseMap::zero(sources);
+    for &(x, c, w) in triples {
+        m.rows[x as usize].push((w, c));
+    }
+    for r in &mut m.rows {
+        normalize(r);
+    }
+    m
+}
+
+/// Decides null-homotopy questions on the reduced models of the complexes involved and
+/// carries the witnesses back to the original complexes. Reductions are computed once per
+/// complex.
+pub struct Solver<'a> {
+    pub ctx: &'a Context,
+    reductions: RefCell<BTreeMap<usize, Rc<Reduction>>>,
+}
+
+impl<'a> Solver<'a> {
+    pub fn new(ctx: &'a Context) -> Self {
+        Solver { ctx, reductions: RefCell::new(BTreeMap::new()) }
+    }
+
+    pub fn reduction(&self, c: usize) -> Result<Rc<Reduction>, String> {
+        if let Some(r) = self.reductions.borrow().get(&c) {
+            return Ok(r.clone());
+        }
+        let r = Rc::new(Reduction::new(&self.ctx.complexes[c])?);
+        self.reductions.borrow_mut().insert(c, r.clone());
+        Ok(r)
+    }
+
+    /// The reductions computed so far, by complex index.
+    pub fn reductions(&self) -> Vec<(usize, Rc<Reduction>)> {
+        self.reductions.borrow().iter().map(|(c, r)| (*c, r.clone())).collect()
+    }
+
+    /// Is φ null-homotopic? Witnesses refer to the original complexes.
+    pub fn decide(&self, phi: &Evaluated) -> Result<Verdict, String> {
+        let (rc, rd) = (self.reduction(phi.from)?, self.reduction(phi.to)?);
+        let small = rd.pi.after(&phi.m.after(&rc.iota)?)?;
+        Ok(match decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)? {
+            Verdict::Null(h_small) => {
+                // H = ι_D H′ π_C + h_D φ ι_C π_C + φ h_C
+                let h_small = to_map(&h_small, rc.complex.names.len());
+                let mut h = rd.iota.after(&h_small.after(&rc.pi)?)?;
+                let through = phi.m.after(&rc.iota.after(&rc.pi)?)?;
+                for (x, row) in through.rows.iter().enumerate() {
+                    h.rows[x].extend(rd.homotopy_of(row)?);
+                }
+                if !rc.is_identity() {
+                    let tail = phi.m.after(&rc.homotopy()?)?;
+                    for (x, row) in tail.rows.into_iter().enumerate() {
+                        h.rows[x].extend(row);
+                    }
+                }
+                Verdict::Null(triples(&mut h))
+            }
+            Verdict::NotNull(y_small) => {
+                // y = (ι_C ⊗ π_D^∨) y′: ⟨y, ψ⟩ = ⟨y′, π_D ψ ι_C⟩
+                let pi_into = rd.pi.incoming(rd.complex.names.len());
+                let mut y = Vec::new();
+                for (x2, m, w2) in y_small {
+                    for &(x, c) in &rc.iota.rows[x2 as usize] {
+                        for &(w, p) in &pi_into[w2 as usize] {
+                            if let Some(q) = c.mul(p).and_then(|cp| m.div(cp)) {
+                                y.push((x, q, w));
+                            }
+                        }
+                    }
+                }
+                y.sort_unstable();
+                let mut kept: Vec<HomTerm> = Vec::with_capacity(y.len());
+                for t in y {
+                    if kept.last() == Some(&t) {
+                        kept.pop();
+                    } else {
+                        kept.push(t);
+                    }
+                }
+                Verdict::NotNull(kept)
+            }
+        })
+    }
+}
+
+/// Normalizes each row and lists the map's terms as triples.
+fn triples(m: &mut SparseMap) -> Vec<HomTerm> {
+    let mut out = Vec::new();
+    for (x, row) in m.rows.iter_mut().enumerate() {
+        normalize(row);
+        out.extend(row.iter().map(|&(w, c)| (x as u32, c, w)));
+    }
+    out
 }

@@ -2,9 +2,8 @@
 //! Null-homotopy is monotone in k, so the search brackets k by bisection and keeps the
 //! witnesses at both ends of the bracket.
 
-use super::homotopy::{decide, HomTerm, Verdict};
+use super::homotopy::{HomTerm, Solver, Verdict};
 use tubecert_format::MapExpr;
-use tubecheck::load::Context;
 
 pub enum TorsionOutcome {
     /// ord = k: the homotopy for v^k·(F+G) and, for k ≥ 1, the dual for v^(k−1)·(F+G).
@@ -13,8 +12,8 @@ pub enum TorsionOutcome {
     NotTorsionUpTo { bound: u32, dual: Vec<HomTerm> },
 }
 
-pub fn torsion_order(ctx: &Context, f: &str, g: &str, var: &str, bound: u32) -> Result<TorsionOutcome, String> {
-    let at = |k: u32| -> Result<Verdict, String> { decide(ctx, &ctx.eval(&MapExpr::scaled_difference(f, g, var, k))?) };
+pub fn torsion_order(solver: &Solver, f: &str, g: &str, var: &str, bound: u32) -> Result<TorsionOutcome, String> {
+    let at = |k: u32| -> Result<Verdict, String> { solver.decide(&solver.ctx.eval(&MapExpr::scaled_difference(f, g, var, k))?) };
     let mut low = match at(0)? {
         Verdict::Null(h) => return Ok(TorsionOutcome::Order { k: 0, homotopy: h, dual: None }),
         Verdict::NotNull(y) => (0, y),
