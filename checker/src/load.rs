@@ -128,15 +128,22 @@ pub fn read_terms(
             None
         }
     };
+    let mut last_from: Option<(&str, u32)> = None; // terms come grouped by source: look up once
     for (k, [from, coef, to]) in terms.iter().enumerate() {
         let pos = k + 1;
-        let (x, y) = (lookup(src, from, errs, pos), lookup(dst, to, errs, pos));
-        let monos = if single_monomial {
-            parse_mono(coef, &ring.variables).map(|m| vec![m])
-        } else {
-            parse_poly(coef, &ring.variables)
+        let x = match last_from {
+            Some((name, i)) if name == from => Some(i),
+            _ => lookup(src, from, errs, pos),
         };
-        let monos = match monos {
+        last_from = x.map(|i| (from.as_str(), i));
+        let y = lookup(dst, to, errs, pos);
+        // (first monomial, the rest): a single monomial, the common case, allocates nothing.
+        let monos = if single_monomial || !coef.contains('+') {
+            parse_mono(coef, &ring.variables).map(|m| (m, Vec::new()))
+        } else {
+            parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec()))
+        };
+        let (first, rest) = match monos {
             Ok(m) => m,
             Err(e) => {
                 errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
@@ -144,10 +151,12 @@ pub fn read_terms(
             }
         };
         let (Some(x), Some(y)) = (x, y) else { continue };
-        let expected = grading_sum(&src.gradings[x as usize], degree);
-        for m in monos {
-            let found = grading_sum(&dst.gradings[y as usize], &ring.degree(m));
-            if found != expected && defects.len() < MAX_REPORTED_ERRORS {
+        let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
+        for m in std::iter::once(first).chain(rest) {
+            // deg(to) + deg(m) = deg(from) + degree, compared without allocating (hot loop).
+            let homogeneous = (0..gx.len()).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
+            if !homogeneous && defects.len() < MAX_REPORTED_ERRORS {
+                let (expected, found) = (grading_sum(gx, degree), grading_sum(gy, &ring.degree(m)));
                 defects.push(format!(
                     "{what}, term {pos} [{from}, {coef}, {to}]: not homogeneous: {} · {to} has degree {}, expected {} (degree of {from} plus {})",
                     m.render(&ring.variables),

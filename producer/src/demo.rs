@@ -27,7 +27,7 @@ fn map(from: &str, to: &str, terms: Vec<Term>) -> MapSpec {
     MapSpec { from: from.into(), to: to.into(), degree: vec![0, 0], terms }
 }
 
-fn minus_ring() -> Ring {
+pub fn minus_ring() -> Ring {
     Ring {
         variables: vec!["U".into()],
         gradings: vec!["maslov".into(), "alexander".into()],

@@ -4,6 +4,7 @@
 //! Layers, in the order data flows: [`problem`] (input) → [`validate`] → [`search`]
 //! (linear algebra) → [`prove`] (claims, certificate). [`demo`] writes the demo scenario.
 
+pub mod bench;
 pub mod construct;
 pub mod demo;
 pub mod problem;

@@ -35,6 +35,20 @@ enum Command {
     /// Validate a problem file only (exit 0 if valid, 2 with every error otherwise).
     #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
     CheckInput { problem: PathBuf },
+    /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
+    #[command(after_help = "Example:\n  tubecert bench --generators 100000 --seed 1")]
+    Bench {
+        #[arg(long, default_value_t = 100_000)]
+        generators: usize,
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+        /// Also write the problem and certificate here.
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Omit the header line (for tables of several runs).
+        #[arg(long)]
+        no_header: bool,
+    },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -104,6 +118,19 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
+        Command::Bench { generators, seed, out, no_header } => match tubecert::bench::run(generators, seed, out.as_deref()) {
+            Ok((header, row)) => {
+                if !no_header {
+                    println!("{header}");
+                }
+                println!("{row}");
+                ExitCode::SUCCESS
+            }
+            Err(e) => {
+                eprintln!("error: {e}");
+                ExitCode::from(4)
+            }
+        },
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

@@ -15,6 +15,7 @@ use tubecert_format::{
     MapSpec, Mono,
     Provenance, Term, TorsionWitness, UniqueMap,
 };
+use std::time::{Duration, Instant};
 use tubecheck::algebra::SparseMap;
 use tubecheck::load::Context;
 
@@ -25,6 +26,8 @@ pub struct Proved {
     pub lines: Vec<String>,
     /// False when some goal was false and its opposite was proved instead.
     pub all_as_stated: bool,
+    /// Time per stage (reduce, solve, transport, self-check, seal), for the bench.
+    pub timings: Vec<(&'static str, Duration)>,
 }
 
 /// Terms `[from, coefficient, to]` from triples, grouped into polynomial coefficients.
@@ -321,6 +324,7 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
     let mut b = Builder { ctx, solver: Solver::new(ctx), claims: Vec::new() };
     let mut lines = Vec::new();
     let mut all = true;
+    let start = Instant::now();
     for (i, goal) in problem.goals.iter().enumerate() {
         let (held, line) = b.goal(goal).map_err(|e| format!("goal {}: {e}", i + 1))?;
         all &= held;
@@ -330,6 +334,8 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
             format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1)
         });
     }
+    let (reduce, transport) = (b.solver.reduce_time.get(), b.solver.transport_time.get());
+    let solve = start.elapsed().saturating_sub(reduce + transport);
     let (mut complexes, mut maps) = (problem.complexes.clone(), problem.maps.clone());
     if options.emit_reduction {
         lines.extend(emit_reductions(&mut b, &mut complexes, &mut maps)?);
@@ -344,6 +350,7 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
             problem_sha256: sha256_hex(problem_bytes),
         },
     };
+    let start = Instant::now();
     let results = tubecheck::verify::check_body(&body)
         .map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
     if let Some(bad) = results.iter().find(|r| r.outcome.is_err()) {
@@ -353,5 +360,9 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
             bad.outcome.as_ref().err().expect("is_err")
         ));
     }
-    Ok(Proved { certificate: Certificate::seal(body)?, lines, all_as_stated: all })
+    let self_check = start.elapsed();
+    let start = Instant::now();
+    let certificate = Certificate::seal(body)?;
+    let timings = vec![("reduce", reduce), ("solve", solve), ("transport", transport), ("self_check", self_check), ("hash", start.elapsed())];
+    Ok(Proved { certificate, lines, all_as_stated: all, timings })
 }

@@ -86,6 +86,9 @@ pub fn render_poly(monos: &[Mono], variables: &[String]) -> String {
 /// Parses a polynomial over F2 in the declared variables. Returns distinct monomials (sorted);
 /// a repeated monomial or the zero polynomial is an error, since either hides a typo.
 pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String> {
+    if !text.contains('+') {
+        return parse_mono(text, variables).map(|m| vec![m]);
+    }
     let mut monos = Vec::new();
     for (k, part) in split_terms(text)?.into_iter().enumerate() {
         let m = parse_mono_at(part.0, part.1, variables)
@@ -106,6 +109,9 @@ pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String>
 
 /// Parses a single monomial (no `+`).
 pub fn parse_mono(text: &str, variables: &[String]) -> Result<Mono, String> {
+    if text == "1" {
+        return Ok(Mono::ONE); // the common case, without allocating
+    }
     let terms = split_terms(text)?;
     if terms.len() != 1 {
         return Err(format!("\"{text}\": expected a single monomial, found a sum"));

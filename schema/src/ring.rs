@@ -92,6 +92,11 @@ impl RingInfo {
         g
     }
 
+    /// Component i of the degree of a monomial.
+    pub fn degree_at(&self, m: Mono, i: usize) -> i64 {
+        self.var_degrees.iter().enumerate().map(|(v, d)| d[i] * m.0[v] as i64).sum()
+    }
+
     pub fn var_index(&self, name: &str) -> Option<usize> {
         self.variables.iter().position(|v| v == name)
     }

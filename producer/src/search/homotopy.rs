@@ -7,7 +7,8 @@
 
 use super::elimination::{ColumnReducer, Solution};
 use super::reduce::Reduction;
-use std::cell::RefCell;
+use std::cell::{Cell, RefCell};
+use std::time::{Duration, Instant};
 use std::collections::{BTreeMap, HashMap};
 use std::rc::Rc;
 use tubecert_format::{Grading, Mono, RingInfo};
@@ -120,18 +121,23 @@ pub fn to_map(triples: &[HomTerm], sources: usize) -> SparseMap {
 pub struct Solver<'a> {
     pub ctx: &'a Context,
     reductions: RefCell<BTreeMap<usize, Rc<Reduction>>>,
+    /// Time spent reducing and transporting, for the bench.
+    pub reduce_time: Cell<Duration>,
+    pub transport_time: Cell<Duration>,
 }
 
 impl<'a> Solver<'a> {
     pub fn new(ctx: &'a Context) -> Self {
-        Solver { ctx, reductions: RefCell::new(BTreeMap::new()) }
+        Solver { ctx, reductions: RefCell::new(BTreeMap::new()), reduce_time: Cell::default(), transport_time: Cell::default() }
     }
 
     pub fn reduction(&self, c: usize) -> Result<Rc<Reduction>, String> {
         if let Some(r) = self.reductions.borrow().get(&c) {
             return Ok(r.clone());
         }
+        let start = Instant::now();
         let r = Rc::new(Reduction::new(&self.ctx.complexes[c])?);
+        self.reduce_time.set(self.reduce_time.get() + start.elapsed());
         self.reductions.borrow_mut().insert(c, r.clone());
         Ok(r)
     }
@@ -145,7 +151,9 @@ impl<'a> Solver<'a> {
     pub fn decide(&self, phi: &Evaluated) -> Result<Verdict, String> {
         let (rc, rd) = (self.reduction(phi.from)?, self.reduction(phi.to)?);
         let small = rd.pi.after(&phi.m.after(&rc.iota)?)?;
-        Ok(match decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)? {
+        let verdict = decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)?;
+        let start = Instant::now();
+        let transported = match verdict {
             Verdict::Null(h_small) => {
                 // H = ι_D H′ π_C + h_D φ ι_C π_C + φ h_C
                 let h_small = to_map(&h_small, rc.complex.names.len());
@@ -186,7 +194,9 @@ impl<'a> Solver<'a> {
                 }
                 Verdict::NotNull(kept)
             }
-        })
+        };
+        self.transport_time.set(self.transport_time.get() + start.elapsed());
+        Ok(transported)
     }
 }
 

@@ -1,0 +1,188 @@
+//! `tubecert bench`: a synthetic problem of a chosen size with a known answer, timed stage by
+//! stage. The scenario is ours: over F2[U], a small reduced model (a free generator z, a tower
+//! ∂b = U^k·a, the staircase of T(3,4), and a few other towers) is inflated to N generators by
+//! random cancelling pairs and rounds of random homogeneous changes of basis; two maps from a
+//! one-generator complex send o to z and to z + a, so ord_U(F − G) = k whatever the inflation.
+
+use crate::problem::{Goal, Problem, PROBLEM_FORMAT};
+use std::time::{Duration, Instant};
+use tubecert_format::{ComplexSpec, MapSpec, Mono, UniqueMap};
+use tubecheck::algebra::{SparseMap, Vector};
+
+/// Rounds of random basis change: each roughly doubles the arrows per generator.
+const ROUNDS: usize = 5;
+
+/// The planted order of the bench's map pair.
+pub const PLANTED_ORDER: u32 = 3;
+
+struct Rng(u64);
+impl Rng {
+    fn next(&mut self) -> u64 {
+        self.0 ^= self.0 >> 12;
+        self.0 ^= self.0 << 25;
+        self.0 ^= self.0 >> 27;
+        self.0.wrapping_mul(0x2545F4914F6CDD1D)
+    }
+    fn below(&mut self, n: u64) -> u64 {
+        self.next() % n
+    }
+}
+
+/// The synthetic problem with about `n` generators.
+pub fn synthetic_problem(n: usize, seed: u64) -> Problem {
+    let mut rng = Rng(seed.wrapping_mul(0x9E3779B97F4A7C15) | 1);
+    let mut gr: Vec<Vec<i64>> = Vec::new();
+    let mut d = SparseMap::zero(0);
+    let add = |g: Vec<i64>, row: Vector, gr: &mut Vec<Vec<i64>>, d: &mut SparseMap| {
+        gr.push(g);
+        d.rows.push(row);
+        (gr.len() - 1) as u32
+    };
+    let k = PLANTED_ORDER as i64;
+    let z = add(vec![0, 0], vec![], &mut gr, &mut d);
+    let a = add(vec![0, 0], vec![], &mut gr, &mut d);
+    add(vec![1 - 2 * k, -k], vec![(a, Mono([PLANTED_ORDER, 0]))], &mut gr, &mut d);
+    // The staircase of T(3,4) (minus version), shifted away from the tower.
+    let ring = crate::demo::minus_ring();
+    let stair = crate::construct::staircase(&ring, &crate::construct::torus_knot_exponents(3, 4).expect("T(3,4)")).expect("staircase");
+    let base = gr.len() as u32;
+    let names: Vec<&String> = stair.generators.keys().collect();
+    for g in stair.generators.values() {
+        add(vec![g[0] - 4, g[1] - 2], vec![], &mut gr, &mut d);
+    }
+    for [x, c, y] in &stair.differential {
+        let e: u32 = c.trim_start_matches('U').trim_start_matches('^').parse().unwrap_or(1);
+        let (xi, yi) = (names.iter().position(|n| *n == x).unwrap(), names.iter().position(|n| *n == y).unwrap());
+        d.rows[base as usize + xi].push((base + yi as u32, Mono([e, 0])));
+    }
+    for t in 0..4i64 {
+        let tgt = add(vec![2 * t - 6, t - 3], vec![], &mut gr, &mut d);
+        add(vec![2 * t - 6 + 1 - 2 * (t + 1), t - 3 - (t + 1)], vec![(tgt, Mono([(t + 1) as u32, 0]))], &mut gr, &mut d);
+    }
+    // Cancelling pairs p → q at random gradings in the buckets M − 2A ∈ {0, 1}.
+    while gr.len() + 1 < n {
+        let s = rng.below(2) as i64;
+        let al = rng.below(41) as i64 - 20;
+        let q = add(vec![s - 1 + 2 * al, al], vec![], &mut gr, &mut d);
+        add(vec![s + 2 * al, al], vec![(q, Mono::ONE)], &mut gr, &mut d);
+    }
+    for r in &mut d.rows {
+        r.sort_unstable();
+    }
+    let size = gr.len();
+    // Generators by grading, for basis changes j ← j + U^e·i (homogeneous when
+    // gr(i) = gr(j) + e·(2, 1)).
+    let mut by_grading: std::collections::BTreeMap<(i64, i64), Vec<u32>> = std::collections::BTreeMap::new();
+    for (i, g) in gr.iter().enumerate() {
+        by_grading.entry((g[0], g[1])).or_default().push(i as u32);
+    }
+    let mut f_img: Vector = vec![(z, Mono::ONE)];
+    let mut g_img: Vector = vec![(z, Mono::ONE), (a, Mono::ONE)];
+    g_img.sort_unstable();
+    for _round in 0..ROUNDS {
+        // N with N² = 0: sources i from one random half, modified j from the other.
+        let side: Vec<bool> = (0..size).map(|_| rng.below(2) == 0).collect();
+        let mut nil = SparseMap::zero(size);
+        for j in 0..size as u32 {
+            if side[j as usize] {
+                continue;
+            }
+            let e = rng.below(3) as i64;
+            let g = &gr[j as usize];
+            if let Some(members) = by_grading.get(&(g[0] + 2 * e, g[1] + e)) {
+                let i = members[rng.below(members.len() as u64) as usize];
+                if side[i as usize] {
+                    nil.rows[j as usize].push((i, Mono([e as u32, 0])));
+                }
+            }
+        }
+        let p = SparseMap::identity(size).plus(&nil);
+        d = p.after(&d.after(&p).expect("bounded exponents")).expect("bounded exponents");
+        f_img = p.apply(&f_img).expect("bounded");
+        g_img = p.apply(&g_img).expect("bounded");
+    }
+    let name = |i: u32| format!("g{i}");
+    let term = |x: String, m: Mono, y: u32| [x, if m.is_one() { "1".into() } else { format!("U^{}", m.0[0]) }, name(y)];
+    let differential = d.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, m)| term(name(x as u32), m, y))).collect();
+    let k_spec = ComplexSpec { generators: UniqueMap(gr.iter().enumerate().map(|(i, g)| (name(i as u32), g.clone())).collect()), differential };
+    let o_spec = ComplexSpec { generators: UniqueMap([("o".to_string(), vec![0, 0])].into()), differential: vec![] };
+    let map = |img: &Vector| MapSpec { from: "O".into(), to: "K".into(), degree: vec![0, 0], terms: img.iter().map(|&(y, m)| term("o".into(), m, y)).collect() };
+    Problem {
+        format: PROBLEM_FORMAT.into(),
+        version: 1,
+        ring,
+        complexes: UniqueMap([("O".to_string(), o_spec), ("K".to_string(), k_spec)].into()),
+        maps: UniqueMap([("F".to_string(), map(&f_img)), ("G".to_string(), map(&g_img))].into()),
+        goals: vec![Goal::TorsionOrder { maps: ["F".into(), "G".into()], variable: "U".into(), surfaces: true, order: Some(PLANTED_ORDER), max_order: 16 }],
+    }
+}
+
+/// Peak resident memory of this process so far, in bytes (Linux; 0 elsewhere).
+pub fn peak_memory() -> u64 {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| s.lines().find(|l| l.starts_with("VmHWM:")).and_then(|l| l.split_whitespace().nth(1)?.parse::<u64>().ok()))
+        .map_or(0, |kb| kb * 1024)
+}
+
+/// Runs the bench for `n` generators; returns the header and the row.
+pub fn run(n: usize, seed: u64, out: Option<&std::path::Path>) -> Result<(String, String), String> {
+    let problem = synthetic_problem(n, seed);
+    let bytes = crate::demo::problem_bytes(&problem);
+    let arrows = problem.complexes["K"].differential.len();
+    let mut times: Vec<(&str, Duration)> = Vec::new();
+    let t = Instant::now();
+    let parsed = crate::problem::parse_problem(&bytes).map_err(|e| e.join("; "))?;
+    times.push(("parse", t.elapsed()));
+    let t = Instant::now();
+    let ctx = crate::validate::validate(&parsed).map_err(|e| e.join("; "))?;
+    times.push(("validate", t.elapsed()));
+    let proved = crate::prove::prove(&parsed, &ctx, &bytes)?;
+    times.extend(proved.timings.iter().cloned());
+    let t = Instant::now();
+    let cert = proved.certificate.to_bytes()?;
+    if let Some(dir) = out {
+        std::fs::create_dir_all(dir).map_err(|e| e.to_string())?;
+        std::fs::write(dir.join(format!("bench-{n}.problem.json")), &bytes).map_err(|e| e.to_string())?;
+        std::fs::write(dir.join(format!("bench-{n}.cert.json")), &cert).map_err(|e| e.to_string())?;
+    }
+    times.push(("write", t.elapsed()));
+    let total: Duration = times.iter().map(|t| t.1).sum();
+    let claims = &proved.certificate.body.claims;
+    let order_ok = matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER);
+    if !order_ok {
+        return Err(format!("bench: expected ord_U = {PLANTED_ORDER}, got {:?}", claims.first().map(|c| c.statement())));
+    }
+    // Best of three for both, so that the ratio reflects the work rather than the noise.
+    let (mut parse_only, mut check) = (Duration::MAX, Duration::MAX);
+    for _ in 0..3 {
+        let t = Instant::now();
+        let plain: tubecert_format::Certificate = serde_json::from_slice(&cert).map_err(|e| e.to_string())?;
+        drop(plain); // the checker frees what it parsed too: time both the same way
+        parse_only = parse_only.min(t.elapsed());
+        let t = Instant::now();
+        let report = tubecheck::check_bytes("bench", &cert)?;
+        if !report.ok() {
+            return Err("bench: the checker rejects the certificate".into());
+        }
+        drop(report);
+        check = check.min(t.elapsed());
+    }
+    let secs = |d: Duration| format!("{:.3}", d.as_secs_f64());
+    let mut header = vec!["generators", "arrows"];
+    let mut row = vec![ctx.complexes[ctx.complex_index["K"]].names.len().to_string(), arrows.to_string()];
+    for (name, d) in &times {
+        header.push(name);
+        row.push(secs(*d));
+    }
+    header.extend(["total", "peak_MiB", "cert_bytes", "check_s", "cert_parse_s", "check/parse"]);
+    row.extend([
+        secs(total),
+        format!("{:.0}", peak_memory() as f64 / (1 << 20) as f64),
+        cert.len().to_string(),
+        secs(check),
+        secs(parse_only),
+        format!("{:.2}", check.as_secs_f64() / parse_only.as_secs_f64().max(1e-9)),
+    ]);
+    Ok((header.join("\t"), row.join("\t")))
+}
