@@ -5,19 +5,19 @@
 use serde_json::Value;
 use std::collections::BTreeMap;
 use tubecert::prove::Proved;
-use tubecert_format::{Body, Certificate};
+use tubecert_format::Body;
 
 /// Proves a problem given as JSON; panics with the producer's messages on bad input.
 pub fn prove_value(problem: &Value) -> Proved {
     let bytes = serde_json::to_vec(problem).unwrap();
     let p = tubecert::problem::parse_problem(&bytes).unwrap_or_else(|e| panic!("{e:?}"));
     let ctx = tubecert::validate::validate(&p).unwrap_or_else(|e| panic!("{e:?}"));
-    tubecert::prove::prove(&p, &ctx, &bytes).unwrap_or_else(|e| panic!("{e}"))
+    tubecert::prove::prove(p, &ctx, &bytes).unwrap_or_else(|e| panic!("{e}"))
 }
 
 /// The claims of a proved problem, re-verified from the certificate's bytes.
 pub fn verified_claims(proved: &Proved) -> Vec<Value> {
-    let bytes = proved.certificate.to_bytes().unwrap();
+    let bytes = tubecert::canonical_writer::file_bytes(&proved.certificate).unwrap();
     let report = tubecheck::check_bytes("test", &bytes).unwrap();
     assert!(report.ok(), "checker rejects: {report:?}");
     serde_json::to_value(&proved.certificate.body.claims).unwrap().as_array().unwrap().clone()
@@ -30,7 +30,7 @@ pub fn minus_ring() -> Value {
 }
 
 pub fn seal(body: Body) -> Vec<u8> {
-    Certificate::seal(body).unwrap().to_bytes().unwrap()
+    tubecert::canonical_writer::file_bytes(&tubecert::canonical_writer::seal(body).unwrap()).unwrap()
 }
 
 /// An element of a free module over F2[U, V]: a set of (generator, (i, j)) for U^i V^j·g.

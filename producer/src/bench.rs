@@ -28,93 +28,144 @@ impl Rng {
     }
 }
 
-/// The synthetic problem with about `n` generators.
-pub fn synthetic_problem(n: usize, seed: u64) -> Problem {
+/// A complex under construction: gradings and ∂ as rows.
+struct Model {
+    gr: Vec<Vec<i64>>,
+    d: SparseMap,
+}
+
+impl Model {
+    fn add(&mut self, g: Vec<i64>, row: Vector) -> u32 {
+        self.gr.push(g);
+        self.d.rows.push(row);
+        (self.gr.len() - 1) as u32
+    }
+
+    /// Adds a tower ∂b = U^k·a with a at `g`; returns a.
+    fn tower(&mut self, g: [i64; 2], k: u32) -> u32 {
+        let a = self.add(g.to_vec(), vec![]);
+        self.add(vec![g[0] + 1 - 2 * k as i64, g[1] - k as i64], vec![(a, Mono([k, 0]))]);
+        a
+    }
+
+    /// Inflates to about `n` generators: cancelling pairs p → q at random gradings, then rounds
+    /// of random homogeneous basis changes P = I + N with N² = 0 (so P = P⁻¹). Returns
+    /// (B, B⁻¹) = (P₁⋯P_r, P_r⋯P₁): the new basis in the old generators, and back.
+    fn inflate(&mut self, n: usize, rng: &mut Rng) -> Result<(SparseMap, SparseMap), String> {
+        while self.gr.len() + 1 < n {
+            let s = rng.below(2) as i64;
+            let al = rng.below(41) as i64 - 20;
+            let q = self.add(vec![s - 1 + 2 * al, al], vec![]);
+            self.add(vec![s + 2 * al, al], vec![(q, Mono::ONE)]);
+        }
+        for r in &mut self.d.rows {
+            r.sort_unstable();
+        }
+        let size = self.gr.len();
+        // j ← j + U^e·i is homogeneous when gr(i) = gr(j) + e·(2, 1).
+        let mut by_grading: std::collections::BTreeMap<(i64, i64), Vec<u32>> = std::collections::BTreeMap::new();
+        for (i, g) in self.gr.iter().enumerate() {
+            by_grading.entry((g[0], g[1])).or_default().push(i as u32);
+        }
+        let (mut forward, mut backward) = (SparseMap::identity(size), SparseMap::identity(size));
+        for _round in 0..ROUNDS {
+            let side: Vec<bool> = (0..size).map(|_| rng.below(2) == 0).collect();
+            let mut nil = SparseMap::zero(size);
+            for j in 0..size as u32 {
+                if side[j as usize] {
+                    continue;
+                }
+                let e = rng.below(3) as i64;
+                let g = &self.gr[j as usize];
+                if let Some(members) = by_grading.get(&(g[0] + 2 * e, g[1] + e)) {
+                    let i = members[rng.below(members.len() as u64) as usize];
+                    if side[i as usize] {
+                        nil.rows[j as usize].push((i, Mono([e as u32, 0])));
+                    }
+                }
+            }
+            let p = SparseMap::identity(size).plus(&nil);
+            self.d = p.after(&self.d.after(&p)?)?;
+            forward = forward.after(&p)?;
+            backward = p.after(&backward)?;
+        }
+        Ok((forward, backward))
+    }
+
+    fn spec(&self, name: impl Fn(u32) -> String) -> ComplexSpec {
+        let name = &name;
+        let differential = self.d.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, m)| term(name(x as u32), m, name(y)))).collect();
+        ComplexSpec { generators: UniqueMap(self.gr.iter().enumerate().map(|(i, g)| (name(i as u32), g.clone())).collect()), differential }
+    }
+}
+
+fn term(x: String, m: Mono, y: String) -> [String; 3] {
+    [x, if m.is_one() { "1".into() } else { format!("U^{}", m.0[0]) }, y]
+}
+
+/// The synthetic problem: maps O → K with K of about `n` generators, or, with `source_n`,
+/// maps C → K between two inflated complexes.
+pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result<Problem, String> {
     let mut rng = Rng(seed.wrapping_mul(0x9E3779B97F4A7C15) | 1);
-    let mut gr: Vec<Vec<i64>> = Vec::new();
-    let mut d = SparseMap::zero(0);
-    let add = |g: Vec<i64>, row: Vector, gr: &mut Vec<Vec<i64>>, d: &mut SparseMap| {
-        gr.push(g);
-        d.rows.push(row);
-        (gr.len() - 1) as u32
-    };
-    let k = PLANTED_ORDER as i64;
-    let z = add(vec![0, 0], vec![], &mut gr, &mut d);
-    let a = add(vec![0, 0], vec![], &mut gr, &mut d);
-    add(vec![1 - 2 * k, -k], vec![(a, Mono([PLANTED_ORDER, 0]))], &mut gr, &mut d);
-    // The staircase of T(3,4) (minus version), shifted away from the tower.
+    let mut k = Model { gr: vec![], d: SparseMap::zero(0) };
+    let z = k.add(vec![0, 0], vec![]);
+    let a = k.tower([0, 0], PLANTED_ORDER);
+    // The staircase of T(3,4) (minus version), shifted away from the tower, and more towers.
     let ring = crate::demo::minus_ring();
-    let stair = crate::construct::staircase(&ring, &crate::construct::torus_knot_exponents(3, 4).expect("T(3,4)")).expect("staircase");
-    let base = gr.len() as u32;
+    let stair = crate::construct::staircase(&ring, &crate::construct::torus_knot_exponents(3, 4)?)?;
+    let base = k.gr.len() as u32;
     let names: Vec<&String> = stair.generators.keys().collect();
     for g in stair.generators.values() {
-        add(vec![g[0] - 4, g[1] - 2], vec![], &mut gr, &mut d);
+        k.add(vec![g[0] - 4, g[1] - 2], vec![]);
     }
     for [x, c, y] in &stair.differential {
         let e: u32 = c.trim_start_matches('U').trim_start_matches('^').parse().unwrap_or(1);
-        let (xi, yi) = (names.iter().position(|n| *n == x).unwrap(), names.iter().position(|n| *n == y).unwrap());
-        d.rows[base as usize + xi].push((base + yi as u32, Mono([e, 0])));
+        let (xi, yi) = (names.iter().position(|n| *n == x).unwrap_or(0), names.iter().position(|n| *n == y).unwrap_or(0));
+        k.d.rows[base as usize + xi].push((base + yi as u32, Mono([e, 0])));
     }
     for t in 0..4i64 {
-        let tgt = add(vec![2 * t - 6, t - 3], vec![], &mut gr, &mut d);
-        add(vec![2 * t - 6 + 1 - 2 * (t + 1), t - 3 - (t + 1)], vec![(tgt, Mono([(t + 1) as u32, 0]))], &mut gr, &mut d);
+        k.tower([2 * t - 6, t - 3], (t + 1) as u32);
     }
-    // Cancelling pairs p → q at random gradings in the buckets M − 2A ∈ {0, 1}.
-    while gr.len() + 1 < n {
-        let s = rng.below(2) as i64;
-        let al = rng.below(41) as i64 - 20;
-        let q = add(vec![s - 1 + 2 * al, al], vec![], &mut gr, &mut d);
-        add(vec![s + 2 * al, al], vec![(q, Mono::ONE)], &mut gr, &mut d);
+    let (_, k_back) = k.inflate(n, &mut rng)?;
+    // The source: o alone, or o beside towers (sent to 0), inflated likewise.
+    let mut c = Model { gr: vec![], d: SparseMap::zero(0) };
+    let o = c.add(vec![0, 0], vec![]);
+    if source_n.is_some() {
+        c.tower([2, 1], 2);
+        c.tower([-2, -1], 1);
     }
-    for r in &mut d.rows {
-        r.sort_unstable();
-    }
-    let size = gr.len();
-    // Generators by grading, for basis changes j ← j + U^e·i (homogeneous when
-    // gr(i) = gr(j) + e·(2, 1)).
-    let mut by_grading: std::collections::BTreeMap<(i64, i64), Vec<u32>> = std::collections::BTreeMap::new();
-    for (i, g) in gr.iter().enumerate() {
-        by_grading.entry((g[0], g[1])).or_default().push(i as u32);
-    }
-    let mut f_img: Vector = vec![(z, Mono::ONE)];
-    let mut g_img: Vector = vec![(z, Mono::ONE), (a, Mono::ONE)];
-    g_img.sort_unstable();
-    for _round in 0..ROUNDS {
-        // N with N² = 0: sources i from one random half, modified j from the other.
-        let side: Vec<bool> = (0..size).map(|_| rng.below(2) == 0).collect();
-        let mut nil = SparseMap::zero(size);
-        for j in 0..size as u32 {
-            if side[j as usize] {
-                continue;
-            }
-            let e = rng.below(3) as i64;
-            let g = &gr[j as usize];
-            if let Some(members) = by_grading.get(&(g[0] + 2 * e, g[1] + e)) {
-                let i = members[rng.below(members.len() as u64) as usize];
-                if side[i as usize] {
-                    nil.rows[j as usize].push((i, Mono([e as u32, 0])));
-                }
-            }
-        }
-        let p = SparseMap::identity(size).plus(&nil);
-        d = p.after(&d.after(&p).expect("bounded exponents")).expect("bounded exponents");
-        f_img = p.apply(&f_img).expect("bounded");
-        g_img = p.apply(&g_img).expect("bounded");
-    }
-    let name = |i: u32| format!("g{i}");
-    let term = |x: String, m: Mono, y: u32| [x, if m.is_one() { "1".into() } else { format!("U^{}", m.0[0]) }, name(y)];
-    let differential = d.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, m)| term(name(x as u32), m, y))).collect();
-    let k_spec = ComplexSpec { generators: UniqueMap(gr.iter().enumerate().map(|(i, g)| (name(i as u32), g.clone())).collect()), differential };
-    let o_spec = ComplexSpec { generators: UniqueMap([("o".to_string(), vec![0, 0])].into()), differential: vec![] };
-    let map = |img: &Vector| MapSpec { from: "O".into(), to: "K".into(), degree: vec![0, 0], terms: img.iter().map(|&(y, m)| term("o".into(), m, y)).collect() };
-    Problem {
+    let c_forward = match source_n {
+        Some(m) => c.inflate(m, &mut rng)?.0,
+        None => SparseMap::identity(1),
+    };
+    // F0(o) = z, G0(o) = z + a, zero elsewhere; in the new bases F = B_K⁻¹ ∘ F0 ∘ B_C.
+    let mut f0 = SparseMap::zero(c.gr.len());
+    f0.rows[o as usize] = vec![(z, Mono::ONE)];
+    let mut g0 = f0.clone();
+    g0.rows[o as usize] = vec![(z, Mono::ONE), (a, Mono::ONE)];
+    let carry = |m: &SparseMap| k_back.after(&m.after(&c_forward)?);
+    let (f, g) = (carry(&f0)?, carry(&g0)?);
+    let (cname, kname) = (|i: u32| if source_n.is_some() { format!("c{i}") } else { "o".to_string() }, |i: u32| format!("g{i}"));
+    let map = |m: &SparseMap| MapSpec {
+        from: "C".into(),
+        to: "K".into(),
+        degree: vec![0, 0],
+        terms: m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, mm)| term(cname(x as u32), mm, kname(y)))).collect(),
+    };
+    Ok(Problem {
         format: PROBLEM_FORMAT.into(),
         version: 1,
         ring,
-        complexes: UniqueMap([("O".to_string(), o_spec), ("K".to_string(), k_spec)].into()),
-        maps: UniqueMap([("F".to_string(), map(&f_img)), ("G".to_string(), map(&g_img))].into()),
-        goals: vec![Goal::TorsionOrder { maps: ["F".into(), "G".into()], variable: "U".into(), surfaces: true, order: Some(PLANTED_ORDER), max_order: 16 }],
-    }
+        complexes: UniqueMap([("C".to_string(), c.spec(cname)), ("K".to_string(), k.spec(kname))].into()),
+        maps: UniqueMap([("F".to_string(), map(&f)), ("G".to_string(), map(&g))].into()),
+        goals: vec![Goal::TorsionOrder {
+            maps: ["F".into(), "G".into()],
+            variable: "U".into(),
+            surfaces: true,
+            order: Some(PLANTED_ORDER),
+            max_order: 16,
+        }],
+    })
 }
 
 /// Peak resident memory of this process so far, in bytes (Linux; 0 elsewhere).
@@ -126,10 +177,11 @@ pub fn peak_memory() -> u64 {
 }
 
 /// Runs the bench for `n` generators; returns the header and the row.
-pub fn run(n: usize, seed: u64, out: Option<&std::path::Path>) -> Result<(String, String), String> {
-    let problem = synthetic_problem(n, seed);
+pub fn run(n: usize, source_n: Option<usize>, seed: u64, out: Option<&std::path::Path>) -> Result<(String, String), String> {
+    let problem = synthetic_problem(n, source_n, seed)?;
     let bytes = crate::demo::problem_bytes(&problem);
     let arrows = problem.complexes["K"].differential.len();
+    drop(problem); // only its bytes are the input
     let mut times: Vec<(&str, Duration)> = Vec::new();
     let t = Instant::now();
     let parsed = crate::problem::parse_problem(&bytes).map_err(|e| e.join("; "))?;
@@ -137,16 +189,17 @@ pub fn run(n: usize, seed: u64, out: Option<&std::path::Path>) -> Result<(String
     let t = Instant::now();
     let ctx = crate::validate::validate(&parsed).map_err(|e| e.join("; "))?;
     times.push(("validate", t.elapsed()));
-    let proved = crate::prove::prove(&parsed, &ctx, &bytes)?;
+    let proved = crate::prove::prove(parsed, &ctx, &bytes)?;
     times.extend(proved.timings.iter().cloned());
     let t = Instant::now();
-    let cert = proved.certificate.to_bytes()?;
+    let cert = crate::canonical_writer::file_bytes(&proved.certificate)?;
     if let Some(dir) = out {
         std::fs::create_dir_all(dir).map_err(|e| e.to_string())?;
         std::fs::write(dir.join(format!("bench-{n}.problem.json")), &bytes).map_err(|e| e.to_string())?;
         std::fs::write(dir.join(format!("bench-{n}.cert.json")), &cert).map_err(|e| e.to_string())?;
     }
     times.push(("write", t.elapsed()));
+    let producer_peak = peak_memory(); // before the checker runs in this process
     let total: Duration = times.iter().map(|t| t.1).sum();
     let claims = &proved.certificate.body.claims;
     let order_ok = matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER);
@@ -169,8 +222,9 @@ pub fn run(n: usize, seed: u64, out: Option<&std::path::Path>) -> Result<(String
         check = check.min(t.elapsed());
     }
     let secs = |d: Duration| format!("{:.3}", d.as_secs_f64());
-    let mut header = vec!["generators", "arrows"];
-    let mut row = vec![ctx.complexes[ctx.complex_index["K"]].names.len().to_string(), arrows.to_string()];
+    let mut header = vec!["source_gens", "generators", "arrows"];
+    let size = |c: &str| ctx.complexes[ctx.complex_index[c]].names.len().to_string();
+    let mut row = vec![size("C"), size("K"), arrows.to_string()];
     for (name, d) in &times {
         header.push(name);
         row.push(secs(*d));
@@ -178,7 +232,7 @@ pub fn run(n: usize, seed: u64, out: Option<&std::path::Path>) -> Result<(String
     header.extend(["total", "peak_MiB", "cert_bytes", "check_s", "cert_parse_s", "check/parse"]);
     row.extend([
         secs(total),
-        format!("{:.0}", peak_memory() as f64 / (1 << 20) as f64),
+        format!("{:.0}", producer_peak as f64 / (1 << 20) as f64),
         cert.len().to_string(),
         secs(check),
         secs(parse_only),

@@ -154,12 +154,12 @@ pub fn write_demo(dir: &Path) -> Result<Vec<String>, String> {
         let ppath = dir.join(format!("{stem}.problem.json"));
         std::fs::write(&ppath, &bytes).map_err(|e| format!("{}: {e}", ppath.display()))?;
         let ctx = crate::validate::validate(&p).map_err(|e| format!("{stem}: {}", e.join("; ")))?;
-        let proved = crate::prove::prove(&p, &ctx, &bytes)?;
+        let proved = crate::prove::prove(p, &ctx, &bytes)?;
         if !proved.all_as_stated {
             return Err(format!("{stem}: a demo goal came out false:\n{}", proved.lines.join("\n")));
         }
         let cpath = dir.join(format!("{stem}.cert.json"));
-        std::fs::write(&cpath, proved.certificate.to_bytes()?).map_err(|e| format!("{}: {e}", cpath.display()))?;
+        std::fs::write(&cpath, crate::canonical_writer::file_bytes(&proved.certificate)?).map_err(|e| format!("{}: {e}", cpath.display()))?;
         lines.push(format!("{stem}: sha256 {}", proved.certificate.sha256));
         lines.extend(proved.lines.iter().map(|l| format!("  {l}")));
     }

@@ -5,6 +5,7 @@
 //! (linear algebra) → [`prove`] (claims, certificate). [`demo`] writes the demo scenario.
 
 pub mod bench;
+pub mod canonical_writer;
 pub mod construct;
 pub mod demo;
 pub mod problem;

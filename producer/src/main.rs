@@ -40,6 +40,9 @@ enum Command {
     Bench {
         #[arg(long, default_value_t = 100_000)]
         generators: usize,
+        /// Inflate the source complex too, to this many generators (maps between two big complexes).
+        #[arg(long)]
+        source_generators: Option<usize>,
         #[arg(long, default_value_t = 1)]
         seed: u64,
         /// Also write the problem and certificate here.
@@ -92,7 +95,7 @@ fn main() -> ExitCode {
                 Err(errs) => return report_errors(&errs),
             };
             let options = tubecert::prove::Options { emit_reduction };
-            let proved = match tubecert::prove::prove_with(&p, &ctx, &bytes, options) {
+            let proved = match tubecert::prove::prove_with(p, &ctx, &bytes, options) {
                 Ok(x) => x,
                 Err(e) => {
                     eprintln!("error: {}: {e}", problem.display());
@@ -101,7 +104,7 @@ fn main() -> ExitCode {
             };
             let out = output.unwrap_or_else(|| default_output(&problem));
             let written =
-                proved.certificate.to_bytes().and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
+                tubecert::canonical_writer::file_bytes(&proved.certificate).and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
             if let Err(e) = written {
                 eprintln!("error: cannot write {}: {e}", out.display());
                 return ExitCode::from(2);
@@ -118,7 +121,7 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
-        Command::Bench { generators, seed, out, no_header } => match tubecert::bench::run(generators, seed, out.as_deref()) {
+        Command::Bench { generators, source_generators, seed, out, no_header } => match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
             Ok((header, row)) => {
                 if !no_header {
                     println!("{header}");

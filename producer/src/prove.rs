@@ -316,11 +316,11 @@ fn emit_reductions(b: &mut Builder, complexes: &mut UniqueMap<ComplexSpec>, maps
 }
 
 /// Proves every goal of a validated problem. `problem_bytes` is hashed into the provenance.
-pub fn prove(problem: &Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<Proved, String> {
+pub fn prove(problem: Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<Proved, String> {
     prove_with(problem, ctx, problem_bytes, Options::default())
 }
 
-pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], options: Options) -> Result<Proved, String> {
+pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options: Options) -> Result<Proved, String> {
     let mut b = Builder { ctx, solver: Solver::new(ctx), claims: Vec::new() };
     let mut lines = Vec::new();
     let mut all = true;
@@ -336,15 +336,17 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
     }
     let (reduce, transport) = (b.solver.reduce_time.get(), b.solver.transport_time.get());
     let solve = start.elapsed().saturating_sub(reduce + transport);
-    let (mut complexes, mut maps) = (problem.complexes.clone(), problem.maps.clone());
+    let (mut complexes, mut maps) = (problem.complexes, problem.maps);
     if options.emit_reduction {
         lines.extend(emit_reductions(&mut b, &mut complexes, &mut maps)?);
     }
+    let Builder { claims, solver, .. } = b;
+    drop(solver); // the reductions are not needed any more: free them before the self-check
     let body = Body {
-        ring: problem.ring.clone(),
+        ring: problem.ring,
         complexes,
         maps,
-        claims: b.claims,
+        claims,
         provenance: Provenance {
             producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")),
             problem_sha256: sha256_hex(problem_bytes),
@@ -362,7 +364,7 @@ pub fn prove_with(problem: &Problem, ctx: &Context, problem_bytes: &[u8], option
     }
     let self_check = start.elapsed();
     let start = Instant::now();
-    let certificate = Certificate::seal(body)?;
+    let certificate = crate::canonical_writer::seal(body)?;
     let timings = vec![("reduce", reduce), ("solve", solve), ("transport", transport), ("self_check", self_check), ("hash", start.elapsed())];
     Ok(Proved { certificate, lines, all_as_stated: all, timings })
 }

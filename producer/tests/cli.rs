@@ -111,3 +111,26 @@ fn demo_writes_what_the_checker_accepts() {
         }
     }
 }
+
+#[test]
+fn bench_runs_small_and_asserts_its_answer() {
+    let (code, out, err) = tubecert(&["bench", "--generators", "3000", "--source-generators", "500", "--seed", "5"]);
+    assert_eq!(code, 0, "{err}");
+    let lines: Vec<&str> = out.lines().collect();
+    assert!(lines[0].starts_with("source_gens\tgenerators\tarrows\tparse"));
+    let row: Vec<&str> = lines[1].split('\t').collect();
+    assert_eq!(row.len(), lines[0].split('\t').count());
+    assert!(row[1].parse::<usize>().unwrap() >= 2999);
+}
+
+#[test]
+fn emit_reduction_adds_a_verified_equivalence() {
+    let p = format!("{}/../certificates/disk-pair-p3.problem.json", env!("CARGO_MANIFEST_DIR"));
+    let out_path = dir().join("reduced.cert.json");
+    let (code, out, err) = tubecert(&["prove", &p, "-o", &out_path.to_string_lossy(), "--emit-reduction"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("pi_K and iota_K are mutually inverse homotopy equivalences"), "{out}");
+    let report = tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap();
+    assert!(report.ok());
+    assert!(report.claims.iter().any(|c| c.kind == "homotopy_equivalence" && c.outcome.is_ok()));
+}

@@ -360,21 +360,3 @@ pub struct Certificate {
     pub sha256: String,
     pub body: Body,
 }
-
-impl Certificate {
-    /// Wraps a body with its canonical hash.
-    pub fn seal(body: Body) -> Result<Certificate, String> {
-        let sha256 = crate::canonical::canonical_sha256(&body)?;
-        Ok(Certificate { format: CERTIFICATE_FORMAT.into(), version: CERTIFICATE_VERSION, sha256, body })
-    }
-
-    /// The file's bytes: the canonical form of the whole certificate plus a newline, so that
-    /// the same body always gives the same file.
-    pub fn to_bytes(&self) -> Result<Vec<u8>, String> {
-        let v = serde_json::to_value(self).map_err(|e| e.to_string())?;
-        let mut out = Vec::new();
-        crate::canonical::write_canonical(&v, &mut out)?;
-        out.push(b'\n');
-        Ok(out)
-    }
-}
