@@ -34,11 +34,11 @@ pub fn seal(body: Body) -> Vec<u8> {
 }
 
 /// An element of a free module over F2[U, V]: a set of (generator, (i, j)) for U^i V^j·g.
-pub type Elem = BTreeMap<(String, (u32, u32)), ()>;
+pub type Elem = std::collections::BTreeSet<(String, (u32, u32))>;
 
 fn toggle(e: &mut Elem, k: (String, (u32, u32))) {
-    if e.remove(&k).is_none() {
-        e.insert(k, ());
+    if !e.remove(&k) {
+        e.insert(k);
     }
 }
 
@@ -76,8 +76,8 @@ pub fn map_of(terms: &[[String; 3]]) -> BTreeMap<String, Elem> {
 
 fn apply(f: &BTreeMap<String, Elem>, v: &Elem) -> Elem {
     let mut out = Elem::new();
-    for ((g, (i, j)), _) in v {
-        for ((h, (a, b)), _) in f.get(g).into_iter().flatten() {
+    for (g, (i, j)) in v {
+        for (h, (a, b)) in f.get(g).into_iter().flatten() {
             toggle(&mut out, (h.clone(), (i + a, j + b)));
         }
     }
@@ -95,7 +95,7 @@ pub fn is_homotopy(
     let (dc, dd, phi, h) = (map_of(src_d), map_of(dst_d), map_of(phi), map_of(h));
     sources.iter().all(|x| {
         let mut lhs = apply(&dd, h.get(x).unwrap_or(&Elem::new()));
-        for k in apply(&h, dc.get(x).unwrap_or(&Elem::new())).into_keys() {
+        for k in apply(&h, dc.get(x).unwrap_or(&Elem::new())).into_iter() {
             toggle(&mut lhs, k);
         }
         lhs == phi.get(x).cloned().unwrap_or_default()
@@ -108,7 +108,7 @@ pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[Str
     let ys: Vec<(String, (u32, u32), String)> =
         y.iter().map(|[x, m, w]| (x.clone(), monomials(m)[0], w.clone())).collect();
     let phi = map_of(phi);
-    let pairing = ys.iter().filter(|(x, m, w)| phi.get(x).is_some_and(|e| e.contains_key(&(w.clone(), *m)))).count();
+    let pairing = ys.iter().filter(|(x, m, w)| phi.get(x).is_some_and(|e| e.contains(&(w.clone(), *m)))).count();
     if pairing % 2 != 1 {
         return false;
     }
@@ -117,13 +117,13 @@ pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[Str
     let mut cands = std::collections::BTreeSet::new();
     for (x, (i, j), w) in &ys {
         for (w2, e) in &dd {
-            for ((t, (a, b)), _) in e {
+            for (t, (a, b)) in e {
                 if t == w && a <= i && b <= j {
                     cands.insert((x.clone(), (i - a, j - b), w2.clone()));
                 }
             }
         }
-        for ((x2, (a, b)), _) in dc.get(x).into_iter().flatten() {
+        for (x2, (a, b)) in dc.get(x).into_iter().flatten() {
             if a <= i && b <= j {
                 cands.insert((x2.clone(), (i - a, j - b), w.clone()));
             }
@@ -133,13 +133,13 @@ pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[Str
         // ∂ψ + ψ∂ for ψ = x ↦ m·w, as (source, element) pairs
         let mut img: Vec<(String, Elem)> = Vec::new();
         let mut single = Elem::new();
-        single.insert((w.clone(), m), ());
+        single.insert((w.clone(), m));
         img.push((x.clone(), apply(&dd, &single)));
         for (x2, e) in &dc {
-            for ((t, (a, b)), _) in e {
+            for (t, (a, b)) in e {
                 if *t == x {
                     let mut el = Elem::new();
-                    el.insert((w.clone(), (m.0 + a, m.1 + b)), ());
+                    el.insert((w.clone(), (m.0 + a, m.1 + b)));
                     img.push((x2.clone(), el));
                 }
             }
@@ -147,9 +147,9 @@ pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[Str
         // Count with multiplicity: the same triple may come from several images.
         let total: usize = ys
             .iter()
-            .map(|(yx, ym, yw)| img.iter().filter(|(s, e)| s == yx && e.contains_key(&(yw.clone(), *ym))).count())
+            .map(|(yx, ym, yw)| img.iter().filter(|(s, e)| s == yx && e.contains(&(yw.clone(), *ym))).count())
             .sum();
-        total % 2 == 0
+        total.is_multiple_of(2)
     })
 }
 
@@ -176,14 +176,14 @@ pub struct Planted {
 /// xorshift64*: a small deterministic generator for test data.
 pub struct Rng(pub u64);
 impl Rng {
-    pub fn next(&mut self) -> u64 {
+    pub fn next_u64(&mut self) -> u64 {
         self.0 ^= self.0 >> 12;
         self.0 ^= self.0 << 25;
         self.0 ^= self.0 >> 27;
         self.0.wrapping_mul(0x2545F4914F6CDD1D)
     }
     pub fn below(&mut self, n: u64) -> u64 {
-        self.next() % n
+        self.next_u64() % n
     }
 }
 
@@ -256,4 +256,276 @@ pub fn planted_complex(blocks: &[Block], seed: u64) -> Planted {
     torsion.sort();
     let planted_in_new = pinv.rows.iter().map(|r| r.iter().map(|&(i, m)| (name(i), m.0[0])).collect()).collect();
     Planted { complex: serde_json::json!({"generators": gens, "differential": terms}), free, torsion, planted_in_new }
+}
+
+/// An independent oracle for whole certificates (complexes, maps and the claim kinds the
+/// stored certificates use), written with plain maps and none of the checker's code. Used to
+/// explain every accepted mutation: the checker and the oracle must agree.
+pub mod oracle {
+    use super::{apply, map_of, monomials, toggle, Elem};
+    use std::collections::BTreeMap;
+    use tubecert_format::{Body, Claim, MapExpr, Term};
+
+    type Map = BTreeMap<String, Elem>;
+    type Decomposition = (Vec<Vec<i64>>, Vec<(u32, Vec<i64>)>);
+
+    struct World<'a> {
+        body: &'a Body,
+        var_deg: Vec<Vec<i64>>,
+        delta: Vec<i64>,
+    }
+
+    impl World<'_> {
+        fn mono_deg(&self, (i, j): (u32, u32)) -> Vec<i64> {
+            let mut g = vec![0; self.delta.len()];
+            for (v, e) in [(0, i), (1, j)] {
+                if let Some(d) = self.var_deg.get(v) {
+                    for (k, x) in g.iter_mut().enumerate() {
+                        *x += d[k] * e as i64;
+                    }
+                } else if e > 0 {
+                    return vec![i64::MIN; self.delta.len()];
+                }
+            }
+            g
+        }
+
+        fn gr(&self, complex: &str, g: &str) -> Option<Vec<i64>> {
+            self.body.complexes.get(complex)?.generators.get(g).cloned()
+        }
+
+        /// Every term names known generators and is homogeneous of `degree`.
+        fn homogeneous(&self, terms: &[Term], from: &str, to: &str, degree: &[i64]) -> bool {
+            terms.iter().all(|[x, c, y]| {
+                let (Some(gx), Some(gy)) = (self.gr(from, x), self.gr(to, y)) else { return false };
+                monomials(c).into_iter().all(|m| {
+                    let dm = self.mono_deg(m);
+                    (0..gx.len()).all(|k| gy[k] + dm[k] == gx[k] + degree[k])
+                })
+            })
+        }
+
+        fn d(&self, c: &str) -> Map {
+            map_of(&self.body.complexes[c].differential)
+        }
+
+        fn gens(&self, c: &str) -> Vec<String> {
+            self.body.complexes[c].generators.keys().cloned().collect()
+        }
+
+        /// (from, to, degree, map) of an expression.
+        fn eval(&self, e: &MapExpr) -> Option<(String, String, Vec<i64>, Map)> {
+            Some(match e {
+                MapExpr::Named(n) => {
+                    let m = self.body.maps.get(n)?;
+                    (m.from.clone(), m.to.clone(), m.degree.clone(), map_of(&m.terms))
+                }
+                MapExpr::Id(c) => {
+                    let m = self.gens(c).into_iter().map(|g| {
+                        let mut e = Elem::new();
+                        e.insert((g.clone(), (0, 0)));
+                        (g, e)
+                    });
+                    (c.clone(), c.clone(), vec![0; self.delta.len()], m.collect())
+                }
+                MapExpr::Sum(es) => {
+                    let mut acc = self.eval(&es[0])?;
+                    for e in &es[1..] {
+                        let v = self.eval(e)?;
+                        if (&v.0, &v.1, &v.2) != (&acc.0, &acc.1, &acc.2) {
+                            return None;
+                        }
+                        for (x, el) in v.3 {
+                            for k in el {
+                                toggle(acc.3.entry(x.clone()).or_default(), k);
+                            }
+                        }
+                    }
+                    acc
+                }
+                MapExpr::Times(m, e) => {
+                    let (i, j) = monomials(m)[0];
+                    let v = self.eval(e)?;
+                    let deg = v.2.iter().zip(self.mono_deg((i, j))).map(|(a, b)| a + b).collect();
+                    let scaled =
+                        v.3.into_iter()
+                            .map(|(x, el)| (x, el.into_iter().map(|(g, (a, b))| (g, (a + i, b + j))).collect()))
+                            .collect();
+                    (v.0, v.1, deg, scaled)
+                }
+                MapExpr::Compose(es) => {
+                    let mut acc = self.eval(es.last()?)?;
+                    for e in es.iter().rev().skip(1) {
+                        let outer = self.eval(e)?;
+                        if outer.0 != acc.1 {
+                            return None;
+                        }
+                        let m = acc.3.iter().map(|(x, el)| (x.clone(), apply(&outer.3, el))).collect();
+                        acc = (acc.0, outer.1, acc.2.iter().zip(&outer.2).map(|(a, b)| a + b).collect(), m);
+                    }
+                    acc
+                }
+            })
+        }
+
+        fn equal_on(&self, sources: &[String], a: &Map, b: &Map) -> bool {
+            sources.iter().all(|x| a.get(x).cloned().unwrap_or_default() == b.get(x).cloned().unwrap_or_default())
+        }
+
+        fn null_homotopic(&self, e: &MapExpr, h: &[Term]) -> bool {
+            let Some((from, to, deg, phi)) = self.eval(e) else { return false };
+            let hdeg: Vec<i64> = deg.iter().zip(&self.delta).map(|(a, b)| a - b).collect();
+            if !self.homogeneous(h, &from, &to, &hdeg) {
+                return false;
+            }
+            let phi_terms: Vec<Term> = phi
+                .iter()
+                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
+                .collect();
+            super::is_homotopy(
+                &self.body.complexes[&from].differential,
+                &self.body.complexes[&to].differential,
+                &self.gens(&from),
+                &phi_terms,
+                h,
+            )
+        }
+
+        fn not_null(&self, e: &MapExpr, y: &[Term]) -> bool {
+            let Some((from, to, _, phi)) = self.eval(e) else { return false };
+            if y.iter().any(|[x, _, w]| self.gr(&from, x).is_none() || self.gr(&to, w).is_none()) {
+                return false;
+            }
+            let mut seen = std::collections::BTreeSet::new();
+            if !y.iter().all(|t| seen.insert(t.clone())) {
+                return false;
+            }
+            let phi_terms: Vec<Term> = phi
+                .iter()
+                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
+                .collect();
+            super::is_dual_witness(
+                &self.body.complexes[&from].differential,
+                &self.body.complexes[&to].differential,
+                &phi_terms,
+                y,
+            )
+        }
+
+        fn homology(&self, c: &str, w: &tubecert_format::BasisWitness) -> Option<Decomposition> {
+            let zero = vec![0; self.delta.len()];
+            // The new basis lives in a scratch complex "·new".
+            let grn = |g: &str| w.generators.get(g).cloned();
+            let homog = |terms: &[Term], from_new: bool| {
+                terms.iter().all(|[x, cf, y]| {
+                    let (gx, gy) = if from_new { (grn(x), self.gr(c, y)) } else { (self.gr(c, x), grn(y)) };
+                    let (Some(gx), Some(gy)) = (gx, gy) else { return false };
+                    monomials(cf).into_iter().all(|m| {
+                        let dm = self.mono_deg(m);
+                        (0..gx.len()).all(|k| gy[k] + dm[k] == gx[k] + zero[k])
+                    })
+                })
+            };
+            if !homog(&w.basis, true) || !homog(&w.inverse, false) {
+                return None;
+            }
+            let (b, binv, d) = (map_of(&w.basis), map_of(&w.inverse), self.d(c));
+            let unit = |g: &String| {
+                let mut e = Elem::new();
+                e.insert((g.clone(), (0, 0)));
+                e
+            };
+            let empty = Elem::new();
+            let new: Vec<String> = w.generators.keys().cloned().collect();
+            if new.iter().any(|t| apply(&binv, b.get(t).unwrap_or(&empty)) != unit(t)) {
+                return None;
+            }
+            if self.gens(c).iter().any(|g| apply(&b, binv.get(g).unwrap_or(&empty)) != unit(g)) {
+                return None;
+            }
+            let (mut free, mut tors) = (Vec::new(), Vec::new());
+            let dnew: BTreeMap<String, Elem> =
+                new.iter().map(|t| (t.clone(), apply(&binv, &apply(&d, b.get(t).unwrap_or(&empty))))).collect();
+            let mut hit: BTreeMap<String, usize> = BTreeMap::new();
+            for el in dnew.values() {
+                if el.len() > 1 {
+                    return None;
+                }
+                for (t, _) in el {
+                    *hit.entry(t.clone()).or_default() += 1;
+                }
+            }
+            for t in &new {
+                let el = &dnew[t];
+                if hit.get(t).copied().unwrap_or(0) > 1 || (hit.contains_key(t) && !el.is_empty()) {
+                    return None;
+                }
+                if let Some((tgt, (i, _))) = el.iter().next() {
+                    if *i > 0 {
+                        tors.push((*i, grn(tgt)?));
+                    }
+                } else if !hit.contains_key(t) {
+                    free.push(grn(t)?);
+                }
+            }
+            free.sort();
+            tors.sort();
+            Some((free, tors))
+        }
+    }
+
+    /// Does every implicit check and every claim of the body hold?
+    pub fn holds(body: &Body) -> bool {
+        let vars = &body.ring.variables;
+        let var_deg: Vec<Vec<i64>> = vars.iter().map(|v| body.ring.variable_degrees[v].clone()).collect();
+        let w = World { body, var_deg, delta: body.ring.differential_degree.clone() };
+        for (name, c) in body.complexes.iter() {
+            if !w.homogeneous(&c.differential, name, name, &w.delta) {
+                return false;
+            }
+            let d = w.d(name);
+            if w.gens(name).iter().any(|x| !apply(&d, d.get(x).unwrap_or(&Elem::new())).is_empty()) {
+                return false;
+            }
+        }
+        for m in body.maps.values() {
+            if !body.complexes.contains_key(&m.from)
+                || !body.complexes.contains_key(&m.to)
+                || !w.homogeneous(&m.terms, &m.from, &m.to, &m.degree)
+            {
+                return false;
+            }
+            let (f, dc, dd) = (map_of(&m.terms), w.d(&m.from), w.d(&m.to));
+            let lhs: Map =
+                w.gens(&m.from).iter().map(|x| (x.clone(), apply(&dd, f.get(x).unwrap_or(&Elem::new())))).collect();
+            let rhs: Map =
+                w.gens(&m.from).iter().map(|x| (x.clone(), apply(&f, dc.get(x).unwrap_or(&Elem::new())))).collect();
+            if !w.equal_on(&w.gens(&m.from), &lhs, &rhs) {
+                return false;
+            }
+        }
+        let rn = tubecert_format::statement::ring_name(vars);
+        body.claims.iter().all(|claim| {
+            if claim.statement() != tubecert_format::statement::render(claim, &rn, vars.first().map_or("", |v| v)) {
+                return false;
+            }
+            match claim {
+                Claim::NullHomotopic { map, witness, .. } => w.null_homotopic(map, &witness.homotopy),
+                Claim::NotNullHomotopic { map, witness, .. } => w.not_null(map, &witness.dual),
+                Claim::TorsionOrder { maps: [f, g], variable, order, witness, .. } => {
+                    let e = |k: u32| MapExpr::scaled_difference(f, g, variable, k);
+                    w.null_homotopic(&e(*order), &witness.homotopy)
+                        && match (order, &witness.dual) {
+                            (0, None) => true,
+                            (k, Some(y)) if *k > 0 => w.not_null(&e(k - 1), y),
+                            _ => false,
+                        }
+                }
+                Claim::Homology { complex, free, torsion, witness, .. } => {
+                    w.homology(complex, witness).is_some_and(|(f, t)| (&f, &t) == (free, torsion))
+                }
+                _ => panic!("the oracle covers the claim kinds of the stored certificates"),
+            }
+        })
+    }
 }

@@ -34,7 +34,7 @@ pub fn overflow() -> String {
 /// Appends m·v to `acc` (unnormalized).
 pub fn push_scaled(acc: &mut Vector, m: Mono, v: &[(u32, Mono)]) -> Result<(), String> {
     for &(g, n) in v {
-        acc.push((g, m.mul(n).ok_or_else(overflow)?));
+        acc.push((g, m.checked_mul(n).ok_or_else(overflow)?));
     }
     Ok(())
 }

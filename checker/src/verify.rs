@@ -90,12 +90,12 @@ pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> R
     for (x, row) in ymap.rows.iter().enumerate() {
         for &(w, m) in row {
             for &(w2, cf) in &into_w[w as usize] {
-                if let Some(q) = m.div(cf) {
+                if let Some(q) = m.checked_div(cf) {
                     dy.push((x as u32, w2, q));
                 }
             }
             for &(x2, cf) in &c.d.rows[x] {
-                if let Some(q) = m.div(cf) {
+                if let Some(q) = m.checked_div(cf) {
                     dy.push((x2, w, q));
                 }
             }

@@ -94,8 +94,17 @@ impl Model {
 
     fn spec(&self, name: impl Fn(u32) -> String) -> ComplexSpec {
         let name = &name;
-        let differential = self.d.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, m)| term(name(x as u32), m, name(y)))).collect();
-        ComplexSpec { generators: UniqueMap(self.gr.iter().enumerate().map(|(i, g)| (name(i as u32), g.clone())).collect()), differential }
+        let differential = self
+            .d
+            .rows
+            .iter()
+            .enumerate()
+            .flat_map(|(x, r)| r.iter().map(move |&(y, m)| term(name(x as u32), m, name(y))))
+            .collect();
+        ComplexSpec {
+            generators: UniqueMap(self.gr.iter().enumerate().map(|(i, g)| (name(i as u32), g.clone())).collect()),
+            differential,
+        }
     }
 }
 
@@ -120,7 +129,8 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
     }
     for [x, c, y] in &stair.differential {
         let e: u32 = c.trim_start_matches('U').trim_start_matches('^').parse().unwrap_or(1);
-        let (xi, yi) = (names.iter().position(|n| *n == x).unwrap_or(0), names.iter().position(|n| *n == y).unwrap_or(0));
+        let (xi, yi) =
+            (names.iter().position(|n| *n == x).unwrap_or(0), names.iter().position(|n| *n == y).unwrap_or(0));
         k.d.rows[base as usize + xi].push((base + yi as u32, Mono([e, 0])));
     }
     for t in 0..4i64 {
@@ -145,12 +155,18 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
     g0.rows[o as usize] = vec![(z, Mono::ONE), (a, Mono::ONE)];
     let carry = |m: &SparseMap| k_back.after(&m.after(&c_forward)?);
     let (f, g) = (carry(&f0)?, carry(&g0)?);
-    let (cname, kname) = (|i: u32| if source_n.is_some() { format!("c{i}") } else { "o".to_string() }, |i: u32| format!("g{i}"));
+    let (cname, kname) =
+        (|i: u32| if source_n.is_some() { format!("c{i}") } else { "o".to_string() }, |i: u32| format!("g{i}"));
     let map = |m: &SparseMap| MapSpec {
         from: "C".into(),
         to: "K".into(),
         degree: vec![0, 0],
-        terms: m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(y, mm)| term(cname(x as u32), mm, kname(y)))).collect(),
+        terms: m
+            .rows
+            .iter()
+            .enumerate()
+            .flat_map(|(x, r)| r.iter().map(move |&(y, mm)| term(cname(x as u32), mm, kname(y))))
+            .collect(),
     };
     Ok(Problem {
         format: PROBLEM_FORMAT.into(),
@@ -172,12 +188,19 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
 pub fn peak_memory() -> u64 {
     std::fs::read_to_string("/proc/self/status")
         .ok()
-        .and_then(|s| s.lines().find(|l| l.starts_with("VmHWM:")).and_then(|l| l.split_whitespace().nth(1)?.parse::<u64>().ok()))
+        .and_then(|s| {
+            s.lines().find(|l| l.starts_with("VmHWM:")).and_then(|l| l.split_whitespace().nth(1)?.parse::<u64>().ok())
+        })
         .map_or(0, |kb| kb * 1024)
 }
 
 /// Runs the bench for `n` generators; returns the header and the row.
-pub fn run(n: usize, source_n: Option<usize>, seed: u64, out: Option<&std::path::Path>) -> Result<(String, String), String> {
+pub fn run(
+    n: usize,
+    source_n: Option<usize>,
+    seed: u64,
+    out: Option<&std::path::Path>,
+) -> Result<(String, String), String> {
     let problem = synthetic_problem(n, source_n, seed)?;
     let bytes = crate::demo::problem_bytes(&problem);
     let arrows = problem.complexes["K"].differential.len();
@@ -202,9 +225,13 @@ pub fn run(n: usize, source_n: Option<usize>, seed: u64, out: Option<&std::path:
     let producer_peak = peak_memory(); // before the checker runs in this process
     let total: Duration = times.iter().map(|t| t.1).sum();
     let claims = &proved.certificate.body.claims;
-    let order_ok = matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER);
+    let order_ok =
+        matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER);
     if !order_ok {
-        return Err(format!("bench: expected ord_U = {PLANTED_ORDER}, got {:?}", claims.first().map(|c| c.statement())));
+        return Err(format!(
+            "bench: expected ord_U = {PLANTED_ORDER}, got {:?}",
+            claims.first().map(|c| c.statement())
+        ));
     }
     // Best of three for both, so that the ratio reflects the work rather than the noise.
     let (mut parse_only, mut check) = (Duration::MAX, Duration::MAX);

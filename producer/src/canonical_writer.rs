@@ -165,7 +165,13 @@ impl<'a> ser::Serializer for Writer<'a> {
     fn serialize_newtype_struct<T: Serialize + ?Sized>(self, _: &'static str, v: &T) -> Result<(), Error> {
         v.serialize(self)
     }
-    fn serialize_newtype_variant<T: Serialize + ?Sized>(self, _: &'static str, _: u32, variant: &'static str, v: &T) -> Result<(), Error> {
+    fn serialize_newtype_variant<T: Serialize + ?Sized>(
+        self,
+        _: &'static str,
+        _: u32,
+        variant: &'static str,
+        v: &T,
+    ) -> Result<(), Error> {
         let mut o = Object { out: self.out, members: Vec::new(), key: None, wrap: None };
         o.member(variant.to_string(), v)?;
         o.finish()
@@ -189,7 +195,13 @@ impl<'a> ser::Serializer for Writer<'a> {
     fn serialize_struct(self, _: &'static str, _: usize) -> Result<Object<'a>, Error> {
         self.serialize_map(None)
     }
-    fn serialize_struct_variant(self, _: &'static str, _: u32, variant: &'static str, _: usize) -> Result<Object<'a>, Error> {
+    fn serialize_struct_variant(
+        self,
+        _: &'static str,
+        _: u32,
+        variant: &'static str,
+        _: usize,
+    ) -> Result<Object<'a>, Error> {
         Ok(Object { out: self.out, members: Vec::new(), key: None, wrap: Some(variant) })
     }
 }
@@ -316,7 +328,8 @@ mod tests {
             assert_eq!(String::from_utf8(to_canonical(&cert).unwrap()).unwrap(), String::from_utf8(expected).unwrap());
         }
         // Keys whose UTF-8 and UTF-16 orders differ, and escapes.
-        let v: serde_json::Value = serde_json::from_str(r#"{"\ue000":1,"\ud83d\ude00":[true,null,"\u0001"],"a":{"b":-3}}"#).unwrap();
+        let v: serde_json::Value =
+            serde_json::from_str(r#"{"\ue000":1,"\ud83d\ude00":[true,null,"\u0001"],"a":{"b":-3}}"#).unwrap();
         let mut expected = Vec::new();
         tubecert_format::canonical::write_canonical(&v, &mut expected).unwrap();
         assert_eq!(to_canonical(&v).unwrap(), expected);

@@ -63,7 +63,7 @@ fn gcd(a: u32, b: u32) -> u32 {
 /// declared ring: F2[U,V] with gradings (gr_U, gr_V); F2[U] with (Maslov, Alexander) as the
 /// V = 0 quotient; or F2 with (Maslov, Alexander) as the hat version U = V = 0.
 pub fn staircase(ring: &Ring, a: &[i64]) -> Result<ComplexSpec, String> {
-    if a.len() % 2 == 0 || a.windows(2).any(|w| w[0] <= w[1]) {
+    if a.len().is_multiple_of(2) || a.windows(2).any(|w| w[0] <= w[1]) {
         return Err("staircase: need an odd number of strictly decreasing Alexander exponents".into());
     }
     if (0..a.len()).any(|i| a[i] != -a[a.len() - 1 - i]) {
@@ -130,7 +130,7 @@ pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[Strin
             let entry = acc.entry((tensor_name(x, y), tensor_name(x2, y2))).or_default();
             for a in parse_poly(cf, vars)? {
                 for b in parse_poly(cg, vars)? {
-                    entry.push(a.mul(b).ok_or("exponent overflow")?);
+                    entry.push(a.checked_mul(b).ok_or("exponent overflow")?);
                 }
             }
         }

@@ -103,8 +103,8 @@ fn main() -> ExitCode {
                 }
             };
             let out = output.unwrap_or_else(|| default_output(&problem));
-            let written =
-                tubecert::canonical_writer::file_bytes(&proved.certificate).and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
+            let written = tubecert::canonical_writer::file_bytes(&proved.certificate)
+                .and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
             if let Err(e) = written {
                 eprintln!("error: cannot write {}: {e}", out.display());
                 return ExitCode::from(2);
@@ -121,19 +121,21 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
-        Command::Bench { generators, source_generators, seed, out, no_header } => match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
-            Ok((header, row)) => {
-                if !no_header {
-                    println!("{header}");
+        Command::Bench { generators, source_generators, seed, out, no_header } => {
+            match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
+                Ok((header, row)) => {
+                    if !no_header {
+                        println!("{header}");
+                    }
+                    println!("{row}");
+                    ExitCode::SUCCESS
                 }
-                println!("{row}");
-                ExitCode::SUCCESS
+                Err(e) => {
+                    eprintln!("error: {e}");
+                    ExitCode::from(4)
+                }
             }
-            Err(e) => {
-                eprintln!("error: {e}");
-                ExitCode::from(4)
-            }
-        },
+        }
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

@@ -7,17 +7,17 @@ use crate::problem::{Goal, Problem};
 use crate::search::homotopy::{HomTerm, Solver, Verdict};
 use crate::search::normal_form::{normal_form, Pivots};
 use crate::search::torsion::{torsion_order, TorsionOutcome};
+use std::time::{Duration, Instant};
 use tubecert_format::canonical::sha256_hex;
 use tubecert_format::poly::render_poly;
 use tubecert_format::statement::{render, ring_name, surface_reading};
 use tubecert_format::{
     BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,
-    MapSpec, Mono,
-    Provenance, Term, TorsionWitness, UniqueMap,
+    MapSpec, Mono, Provenance, Term, TorsionWitness, UniqueMap,
 };
-use std::time::{Duration, Instant};
 use tubecheck::algebra::SparseMap;
 use tubecheck::load::Context;
+use tubecheck::verify::Decomposition;
 
 /// What proving a problem gave.
 pub struct Proved {
@@ -108,7 +108,7 @@ impl Builder<'_> {
     }
 
     /// A normal-form basis witness and the decomposition it shows.
-    fn homology_witness(&self, c: usize) -> Result<(BasisWitness, Vec<Vec<i64>>, Vec<(u32, Vec<i64>)>), String> {
+    fn homology_witness(&self, c: usize) -> Result<(BasisWitness, Decomposition), String> {
         if self.ctx.ring.num_vars() > 1 {
             return Err("homology is computed over F2 or F2[U]; quotient by a variable first".into());
         }
@@ -137,7 +137,7 @@ impl Builder<'_> {
             .collect();
         free.sort();
         torsion.sort();
-        Ok((witness, free, torsion))
+        Ok((witness, Decomposition { free, torsion }))
     }
 
     /// Proves one goal; returns (as stated, line to print).
@@ -191,7 +191,7 @@ impl Builder<'_> {
             Goal::NotNullHomotopic { map } => self.decide_expr(map.clone()).map(|(held, l)| (!held, l)),
             Goal::Homology { complex } => {
                 let c = ctx.complex_named(complex)?;
-                let (witness, free, torsion) = self.homology_witness(c)?;
+                let (witness, Decomposition { free, torsion }) = self.homology_witness(c)?;
                 Ok((
                     true,
                     self.add(Claim::Homology {
@@ -205,7 +205,7 @@ impl Builder<'_> {
             }
             Goal::TorsionOrderOfComplex { complex, variable } => {
                 let c = ctx.complex_named(complex)?;
-                let (witness, _, torsion) = self.homology_witness(c)?;
+                let (witness, Decomposition { torsion, .. }) = self.homology_witness(c)?;
                 let order = torsion.iter().map(|t| t.0).max().unwrap_or(0);
                 let claim = Claim::TorsionOrderOfComplex {
                     complex: complex.clone(),
@@ -224,7 +224,7 @@ impl Builder<'_> {
                     .iter()
                     .position(|g| g == alexander)
                     .ok_or_else(|| format!("no grading named \"{alexander}\""))?;
-                let (witness, free, _) = self.homology_witness(c)?;
+                let (witness, Decomposition { free, .. }) = self.homology_witness(c)?;
                 let [gen] = free.as_slice() else {
                     return Err(format!(
                         "τ({complex}) needs homology of free rank one; it has free rank {}",
@@ -286,7 +286,11 @@ pub struct Options {
 
 /// Adds C_reduced, π: C → C_reduced, ι: C_reduced → C and the claim that they are inverse
 /// homotopy equivalences (g∘f + id = ιπ + id = ∂h + h∂; f∘g + id = πι + id = 0).
-fn emit_reductions(b: &mut Builder, complexes: &mut UniqueMap<ComplexSpec>, maps: &mut UniqueMap<MapSpec>) -> Result<Vec<String>, String> {
+fn emit_reductions(
+    b: &mut Builder,
+    complexes: &mut UniqueMap<ComplexSpec>,
+    maps: &mut UniqueMap<MapSpec>,
+) -> Result<Vec<String>, String> {
     let ctx = b.ctx;
     let vars = &ctx.ring.variables;
     let mut lines = Vec::new();
@@ -301,16 +305,46 @@ fn emit_reductions(b: &mut Builder, complexes: &mut UniqueMap<ComplexSpec>, maps
         if complexes.contains_key(&small.name) || maps.contains_key(&pi) || maps.contains_key(&iota) {
             return Err(format!("--emit-reduction: the names {}, {pi} or {iota} are already taken", small.name));
         }
-        let rows = |m: &SparseMap| -> Vec<(u32, Mono, u32)> { m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, c)| (x as u32, c, w))).collect() };
-        complexes.0.insert(small.name.clone(), ComplexSpec {
-            generators: UniqueMap(small.names.iter().cloned().zip(small.gradings.iter().cloned()).collect()),
-            differential: terms_of(rows(&small.d), &small.names, &small.names, vars),
-        });
-        maps.0.insert(pi.clone(), MapSpec { from: orig.name.clone(), to: small.name.clone(), degree: zero.clone(), terms: terms_of(rows(&red.pi), &orig.names, &small.names, vars) });
-        maps.0.insert(iota.clone(), MapSpec { from: small.name.clone(), to: orig.name.clone(), degree: zero.clone(), terms: terms_of(rows(&red.iota), &small.names, &orig.names, vars) });
-        let witness = EquivalenceWitness { source_homotopy: terms_of(rows(&red.homotopy()?), &orig.names, &orig.names, vars), target_homotopy: vec![] };
+        let rows = |m: &SparseMap| -> Vec<(u32, Mono, u32)> {
+            m.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, c)| (x as u32, c, w))).collect()
+        };
+        complexes.0.insert(
+            small.name.clone(),
+            ComplexSpec {
+                generators: UniqueMap(small.names.iter().cloned().zip(small.gradings.iter().cloned()).collect()),
+                differential: terms_of(rows(&small.d), &small.names, &small.names, vars),
+            },
+        );
+        maps.0.insert(
+            pi.clone(),
+            MapSpec {
+                from: orig.name.clone(),
+                to: small.name.clone(),
+                degree: zero.clone(),
+                terms: terms_of(rows(&red.pi), &orig.names, &small.names, vars),
+            },
+        );
+        maps.0.insert(
+            iota.clone(),
+            MapSpec {
+                from: small.name.clone(),
+                to: orig.name.clone(),
+                degree: zero.clone(),
+                terms: terms_of(rows(&red.iota), &small.names, &orig.names, vars),
+            },
+        );
+        let witness = EquivalenceWitness {
+            source_homotopy: terms_of(rows(&red.homotopy()?), &orig.names, &orig.names, vars),
+            target_homotopy: vec![],
+        };
         let line = b.add(Claim::HomotopyEquivalence { maps: [pi, iota], statement: String::new(), witness });
-        lines.push(format!("✓ {line} ({} ≃ {}: {} → {} generators)", orig.name, small.name, orig.names.len(), small.names.len()));
+        lines.push(format!(
+            "✓ {line} ({} ≃ {}: {} → {} generators)",
+            orig.name,
+            small.name,
+            orig.names.len(),
+            small.names.len()
+        ));
     }
     Ok(lines)
 }
@@ -359,12 +393,18 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
         return Err(format!(
             "internal error: the checker rejects claim \"{}\": {}",
             bad.statement,
-            bad.outcome.as_ref().err().expect("is_err")
+            bad.outcome.as_ref().expect_err("is_err")
         ));
     }
     let self_check = start.elapsed();
     let start = Instant::now();
     let certificate = crate::canonical_writer::seal(body)?;
-    let timings = vec![("reduce", reduce), ("solve", solve), ("transport", transport), ("self_check", self_check), ("hash", start.elapsed())];
+    let timings = vec![
+        ("reduce", reduce),
+        ("solve", solve),
+        ("transport", transport),
+        ("self_check", self_check),
+        ("hash", start.elapsed()),
+    ];
     Ok(Proved { certificate, lines, all_as_stated: all, timings })
 }

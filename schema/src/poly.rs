@@ -24,7 +24,7 @@ impl Mono {
     }
 
     /// Product, or `None` if an exponent would pass [`MAX_EXPONENT`].
-    pub fn mul(self, other: Mono) -> Option<Mono> {
+    pub fn checked_mul(self, other: Mono) -> Option<Mono> {
         let mut out = Mono::ONE;
         for i in 0..MAX_VARIABLES {
             let e = self.0[i].checked_add(other.0[i])?;
@@ -37,7 +37,7 @@ impl Mono {
     }
 
     /// `self / other` when `other` divides `self`.
-    pub fn div(self, other: Mono) -> Option<Mono> {
+    pub fn checked_div(self, other: Mono) -> Option<Mono> {
         let mut out = Mono::ONE;
         for i in 0..MAX_VARIABLES {
             out.0[i] = self.0[i].checked_sub(other.0[i])?;
@@ -227,9 +227,9 @@ mod tests {
     }
     #[test]
     fn arithmetic_is_checked() {
-        assert_eq!(Mono([1, 2]).mul(Mono([3, 0])), Some(Mono([4, 2])));
-        assert_eq!(Mono([MAX_EXPONENT, 0]).mul(Mono([1, 0])), None);
-        assert_eq!(Mono([1, 2]).div(Mono([2, 0])), None);
-        assert_eq!(Mono([3, 2]).div(Mono([2, 2])), Some(Mono([1, 0])));
+        assert_eq!(Mono([1, 2]).checked_mul(Mono([3, 0])), Some(Mono([4, 2])));
+        assert_eq!(Mono([MAX_EXPONENT, 0]).checked_mul(Mono([1, 0])), None);
+        assert_eq!(Mono([1, 2]).checked_div(Mono([2, 0])), None);
+        assert_eq!(Mono([3, 2]).checked_div(Mono([2, 2])), Some(Mono([1, 0])));
     }
 }

@@ -98,7 +98,7 @@ mod tests {
     }
     #[test]
     fn solves_or_separates() {
-        let cols = vec![vec![0, 1], vec![1, 2], vec![0, 2]];
+        let cols = [vec![0, 1], vec![1, 2], vec![0, 2]];
         let mut r = ColumnReducer::default();
         for (i, c) in cols.iter().enumerate() {
             r.add_column(c.clone(), i as u32);

@@ -8,9 +8,9 @@
 use super::elimination::{ColumnReducer, Solution};
 use super::reduce::Reduction;
 use std::cell::{Cell, RefCell};
-use std::time::{Duration, Instant};
 use std::collections::{BTreeMap, HashMap};
 use std::rc::Rc;
+use std::time::{Duration, Instant};
 use tubecert_format::{Grading, Mono, RingInfo};
 use tubecheck::algebra::{normalize, SparseMap};
 use tubecheck::load::{Complex, Context, Evaluated};
@@ -60,17 +60,23 @@ fn boundary_of(t: HomTerm, c_into: &[Vec<(u32, Mono)>], d: &Complex) -> Result<V
     let (x, m, w) = t;
     let mut out = Vec::new();
     for &(w2, cf) in &d.d.rows[w as usize] {
-        out.push((x, m.mul(cf).ok_or_else(tubecheck::algebra::overflow)?, w2));
+        out.push((x, m.checked_mul(cf).ok_or_else(tubecheck::algebra::overflow)?, w2));
     }
     for &(x2, cf) in &c_into[x as usize] {
-        out.push((x2, m.mul(cf).ok_or_else(tubecheck::algebra::overflow)?, w));
+        out.push((x2, m.checked_mul(cf).ok_or_else(tubecheck::algebra::overflow)?, w));
     }
     Ok(out)
 }
 
 /// Decides whether φ: C → D (given by its rows, of degree `degree`) is null-homotopic, by
 /// elimination in Hom(C, D) directly.
-pub fn decide_in(ring: &RingInfo, c: &Complex, d: &Complex, phi: &SparseMap, degree: &[i64]) -> Result<Verdict, String> {
+pub fn decide_in(
+    ring: &RingInfo,
+    c: &Complex,
+    d: &Complex,
+    phi: &SparseMap,
+    degree: &[i64],
+) -> Result<Verdict, String> {
     let h_degree: Grading = degree.iter().zip(&ring.differential_degree).map(|(a, b)| a - b).collect();
     let columns = hom_basis(ring, c, d, &h_degree);
     let c_into = c.d.incoming(c.names.len());
@@ -128,7 +134,12 @@ pub struct Solver<'a> {
 
 impl<'a> Solver<'a> {
     pub fn new(ctx: &'a Context) -> Self {
-        Solver { ctx, reductions: RefCell::new(BTreeMap::new()), reduce_time: Cell::default(), transport_time: Cell::default() }
+        Solver {
+            ctx,
+            reductions: RefCell::new(BTreeMap::new()),
+            reduce_time: Cell::default(),
+            transport_time: Cell::default(),
+        }
     }
 
     pub fn reduction(&self, c: usize) -> Result<Rc<Reduction>, String> {
@@ -177,7 +188,7 @@ impl<'a> Solver<'a> {
                 for (x2, m, w2) in y_small {
                     for &(x, c) in &rc.iota.rows[x2 as usize] {
                         for &(w, p) in &pi_into[w2 as usize] {
-                            if let Some(q) = c.mul(p).and_then(|cp| m.div(cp)) {
+                            if let Some(q) = c.checked_mul(p).and_then(|cp| m.checked_div(cp)) {
                                 y.push((x, q, w));
                             }
                         }

@@ -73,25 +73,27 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             }
         }
     };
-    for a in 0..n {
-        push_arrows(&mut heap, a as u32, &out[a], &inc);
+    for (a, row) in out.iter().enumerate() {
+        push_arrows(&mut heap, a as u32, row, &inc);
     }
     while let Some(Reverse((_, _, a, b, m))) = heap.pop() {
         let (au, bu) = (a as usize, b as usize);
         if done[au] || done[bu] || coefficient(&out[au], b) != [m] {
             continue;
         }
-        let divides = |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.div(m).is_some());
+        let divides =
+            |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.checked_div(m).is_some());
         let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
         if !divides(&out[au], None)
-            || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.div(m).is_none()))
+            || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.checked_div(m).is_none()))
         {
             continue;
         }
         let row_a = out[au].clone();
         for a2 in others {
             let a2u = a2 as usize;
-            let factor: Vec<Mono> = coefficient(&out[a2u], b).iter().map(|c| c.div(m).expect("checked")).collect();
+            let factor: Vec<Mono> =
+                coefficient(&out[a2u], b).iter().map(|c| c.checked_div(m).expect("checked")).collect();
             for &(t, _) in &out[a2u] {
                 inc[t as usize].remove(&a2);
             }
@@ -111,7 +113,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         }
         // b ← b + Σ (c''/m)·b'' absorbs the rest of ∂a.
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
-            let f = [c2.div(m).expect("checked")];
+            let f = [c2.checked_div(m).expect("checked")];
             let bb2 = basis[b2 as usize].clone();
             add_multiple(&mut basis[bu], &f, &bb2)?;
             let ib = inverse_rows[bu].clone();

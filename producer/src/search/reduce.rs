@@ -42,7 +42,11 @@ impl Reduction {
             new_index[t as usize] = i as u32;
         }
         let remap = |v: &Vector| -> Vector {
-            let mut r: Vector = v.iter().filter(|e| new_index[e.0 as usize] != u32::MAX).map(|&(t, m)| (new_index[t as usize], m)).collect();
+            let mut r: Vector = v
+                .iter()
+                .filter(|e| new_index[e.0 as usize] != u32::MAX)
+                .map(|&(t, m)| (new_index[t as usize], m))
+                .collect();
             normalize(&mut r);
             r
         };
@@ -72,7 +76,11 @@ impl Reduction {
         for &(g, n) in v {
             for &(t, c) in &self.expr[g as usize] {
                 if let Some(&a) = self.source_of.get(&t) {
-                    push_scaled(&mut out, n.mul(c).ok_or_else(tubecheck::algebra::overflow)?, &self.basis[a as usize])?;
+                    push_scaled(
+                        &mut out,
+                        n.checked_mul(c).ok_or_else(tubecheck::algebra::overflow)?,
+                        &self.basis[a as usize],
+                    )?;
                 }
             }
         }
@@ -82,7 +90,8 @@ impl Reduction {
 
     /// h as an explicit map C → C.
     pub fn homotopy(&self) -> Result<SparseMap, String> {
-        let rows = (0..self.expr.len() as u32).map(|g| self.homotopy_of(&[(g, Mono::ONE)])).collect::<Result<_, _>>()?;
+        let rows =
+            (0..self.expr.len() as u32).map(|g| self.homotopy_of(&[(g, Mono::ONE)])).collect::<Result<_, _>>()?;
         Ok(SparseMap { rows })
     }
 }

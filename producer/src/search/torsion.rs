@@ -13,7 +13,9 @@ pub enum TorsionOutcome {
 }
 
 pub fn torsion_order(solver: &Solver, f: &str, g: &str, var: &str, bound: u32) -> Result<TorsionOutcome, String> {
-    let at = |k: u32| -> Result<Verdict, String> { solver.decide(&solver.ctx.eval(&MapExpr::scaled_difference(f, g, var, k))?) };
+    let at = |k: u32| -> Result<Verdict, String> {
+        solver.decide(&solver.ctx.eval(&MapExpr::scaled_difference(f, g, var, k))?)
+    };
     let mut low = match at(0)? {
         Verdict::Null(h) => return Ok(TorsionOutcome::Order { k: 0, homotopy: h, dual: None }),
         Verdict::NotNull(y) => (0, y),
