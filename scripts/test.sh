@@ -7,3 +7,5 @@ python3 -m pip install --quiet --disable-pip-version-check -r tests/outside/requ
 cargo build --release --workspace
 cargo test --release --workspace
 python3 tests/outside/check_outside.py . target/release/tubecert --cases 60
+# Mutation soundness at a small budget (the README gives the full campaign's command).
+target/release/mutation-campaign --per-certificate 300 certificates

@@ -45,3 +45,35 @@ fn demo_problems_are_the_stored_ones() {
         assert_eq!(tubecert::demo::problem_bytes(&p), std::fs::read(&path).unwrap(), "{stem}");
     }
 }
+
+#[test]
+fn version_1_fixtures_stay_verifiable() {
+    // Frozen copies of certificates written by format version 1: any later change to the
+    // checker must keep accepting them.
+    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("fixtures/v1");
+    let mut n = 0;
+    for entry in std::fs::read_dir(dir).unwrap() {
+        let path = entry.unwrap().path();
+        let report = tubecheck::check_bytes(&path.to_string_lossy(), &std::fs::read(&path).unwrap()).unwrap();
+        assert!(report.ok(), "{}", path.display());
+        n += 1;
+    }
+    assert!(n >= 9);
+}
+
+#[test]
+fn the_same_problem_gives_identical_bytes_across_processes() {
+    // Two separate runs of the command line: each process seeds its hash maps differently, so
+    // any dependence on hash-map order would show. The producer runs on one thread; the
+    // checker's second thread only hashes, so thread counts cannot change a certificate.
+    let exe = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../target/release/tubecert");
+    assert!(exe.exists(), "build the release binaries first (the README's test command does)");
+    let problem = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../certificates/box-uv.problem.json");
+    let out = |i: u32| {
+        let path = std::env::temp_dir().join(format!("tubecert-det-{}-{i}.json", std::process::id()));
+        let status = std::process::Command::new(&exe).args(["prove", &problem.to_string_lossy(), "-o", &path.to_string_lossy()]).output().unwrap();
+        assert!(status.status.success());
+        std::fs::read(path).unwrap()
+    };
+    assert_eq!(out(1), out(2));
+}

@@ -5,7 +5,7 @@
 
 use crate::algebra::{normalize, SparseMap, Vector};
 use std::collections::{BTreeMap, HashMap};
-use tubecert_format::limits::{MAX_GENERATORS, MAX_REPORTED_ERRORS, MAX_TERMS};
+use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
 use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
@@ -154,7 +154,9 @@ pub fn read_terms(
         let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
         for m in std::iter::once(first).chain(rest) {
             // deg(to) + deg(m) = deg(from) + degree, compared without allocating (hot loop).
-            let homogeneous = (0..gx.len()).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
+            let n = ring.gradings.len();
+            let homogeneous = [gx.len(), gy.len(), degree.len()] == [n; 3]
+                && (0..n).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
             if !homogeneous && defects.len() < MAX_REPORTED_ERRORS {
                 let (expected, found) = (grading_sum(gx, degree), grading_sum(gy, &ring.degree(m)));
                 defects.push(format!(
@@ -194,7 +196,10 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
     };
     let mut well_graded = true;
     for (g, gr) in gens.iter() {
-        if gr.len() != ring.gradings.len() {
+        if gr.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+            well_graded = false;
+            errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
+        } else if gr.len() != ring.gradings.len() {
             well_graded = false;
             errs.push(format!(
                 "complex {name}, generator \"{g}\": grading {} has {} entries, expected {} ({})",
@@ -245,11 +250,11 @@ pub fn load_lenient(
         ) else {
             continue;
         };
-        if spec.degree.len() != ctx.ring.gradings.len() {
+        if spec.degree.len() != ctx.ring.gradings.len() || spec.degree.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
             errs.push(format!(
-                "map {name}: degree has {} entries, expected {}",
-                spec.degree.len(),
-                ctx.ring.gradings.len()
+                "map {name}: degree must have {} entries within ±{MAX_GRADING_ABS}, found {}",
+                ctx.ring.gradings.len(),
+                render_grading(&spec.degree)
             ));
             continue;
         }

@@ -65,12 +65,12 @@ fn main() -> ExitCode {
     let mut json_out = Vec::new();
     for (path, named) in files {
         let name = path.display().to_string();
-        let bytes = match std::fs::read(&path) {
+        let bytes = match tubecert_format::limits::read_file(&path) {
             Ok(b) => b,
             Err(e) => {
                 unreadable += 1;
-                eprintln!("tubecheck: {name}: cannot read: {e}");
-                json_out.push(report_json::unreadable(&name, &e.to_string()));
+                eprintln!("tubecheck: {name}: {e}");
+                json_out.push(report_json::unreadable(&name, &e));
                 continue;
             }
         };

@@ -18,10 +18,7 @@ use std::path::Path;
 /// Reads and validates a problem file; errors are prefixed with the file name.
 pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::Context, Vec<u8>), Vec<String>> {
     let name = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| vec![format!("{name}: cannot read: {e}")])?;
-    if bytes.len() as u64 > tubecert_format::limits::MAX_FILE_BYTES {
-        return Err(vec![format!("{name}: file larger than {} bytes", tubecert_format::limits::MAX_FILE_BYTES)]);
-    }
+    let bytes = tubecert_format::limits::read_file(path).map_err(|e| vec![format!("{name}: {e}")])?;
     let p = problem::parse_problem(&bytes)
         .map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     let ctx =

@@ -3,8 +3,9 @@
 
 /// Largest exponent of a variable in any monomial, written or computed.
 pub const MAX_EXPONENT: u32 = 1 << 20;
-/// Largest absolute value of a grading component or degree.
-pub const MAX_GRADING_ABS: i64 = 1 << 40;
+/// Largest absolute value of a grading component or degree. With the exponent and expression
+/// limits this keeps every degree computed anywhere below 2^62: no overflow is possible.
+pub const MAX_GRADING_ABS: i64 = 1 << 31;
 /// Largest file the tools read.
 pub const MAX_FILE_BYTES: u64 = 4 << 30;
 /// Largest number of generators in one complex.
@@ -15,5 +16,16 @@ pub const MAX_TERMS: usize = 200_000_000;
 pub const MAX_NAME_LEN: usize = 200;
 /// Deepest nesting of a map expression.
 pub const MAX_EXPR_DEPTH: usize = 32;
+/// Most operations and names in one map expression.
+pub const MAX_EXPR_NODES: usize = 1000;
+/// Reads a file, refusing one larger than [`MAX_FILE_BYTES`] before reading it.
+pub fn read_file(path: &std::path::Path) -> Result<Vec<u8>, String> {
+    let len = std::fs::metadata(path).map_err(|e| format!("cannot read: {e}"))?.len();
+    if len > MAX_FILE_BYTES {
+        return Err(format!("file is {len} bytes, above the limit {MAX_FILE_BYTES}"));
+    }
+    std::fs::read(path).map_err(|e| format!("cannot read: {e}"))
+}
+
 /// How many validation errors are collected before giving up.
 pub const MAX_REPORTED_ERRORS: usize = 25;

@@ -137,7 +137,20 @@ impl MapExpr {
 
     /// Reads an expression, naming what is wrong and refusing nesting deeper than the limit.
     pub fn from_value(v: &Value) -> Result<MapExpr, String> {
-        Self::from_value_at(v, 0)
+        let e = Self::from_value_at(v, 0)?;
+        if e.size() > crate::limits::MAX_EXPR_NODES {
+            return Err(format!("map expression has more than {} parts", crate::limits::MAX_EXPR_NODES));
+        }
+        Ok(e)
+    }
+
+    /// Number of names and operations.
+    pub fn size(&self) -> usize {
+        match self {
+            MapExpr::Named(_) | MapExpr::Id(_) => 1,
+            MapExpr::Sum(es) | MapExpr::Compose(es) => 1 + es.iter().map(|e| e.size()).sum::<usize>(),
+            MapExpr::Times(_, e) => 1 + e.size(),
+        }
     }
 
     fn from_value_at(v: &Value, depth: usize) -> Result<MapExpr, String> {

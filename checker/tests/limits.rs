@@ -1,0 +1,85 @@
+//! Each input limit gives a clear error (exit 2 on the command line), never a panic or an
+//! overflow.
+
+use serde_json::{json, Value};
+use std::process::Command;
+use tubecert_format::limits::*;
+
+fn body(generators: Value, differential: Value, claims: Value) -> Value {
+    json!({"format": "tubecert-certificate", "version": 1, "sha256": "0".repeat(64), "body": {
+        "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"], "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
+        "complexes": {"K": {"generators": generators, "differential": differential}},
+        "maps": {"F": {"from": "K", "to": "K", "degree": [0, 0], "terms": [["a", "1", "a"]]}},
+        "claims": claims,
+        "provenance": {"producer": "test", "problem_sha256": "0"}}})
+}
+
+fn check(v: &Value) -> Result<tubecheck::FileReport, String> {
+    tubecheck::check_bytes("limits", &serde_json::to_vec(v).unwrap())
+}
+
+#[test]
+fn exponent_limit() {
+    let v = body(json!({"a": [0, 0], "b": [1, 0]}), json!([["b", format!("U^{}", MAX_EXPONENT as u64 + 1), "a"]]), json!([]));
+    let e = check(&v).unwrap_err();
+    assert!(e.contains("above the limit"), "{e}");
+}
+
+#[test]
+fn exponent_overflow_in_products_is_an_error() {
+    // U^(MAX)·F composed with a coefficient U overflows: reported, not wrapped.
+    let mut v = body(json!({"a": [0, 0], "b": [1, 0]}), json!([]), json!([]));
+    v["body"]["maps"]["F"]["terms"] = json!([["a", "U", "a"]]);
+    v["body"]["maps"]["F"]["degree"] = json!([-2, -1]);
+    let statement = format!("U^{MAX_EXPONENT}·F ≃ 0 (null-homotopic)");
+    v["body"]["claims"] = json!([{"kind": "null_homotopic", "map": {"times": [format!("U^{MAX_EXPONENT}"), "F"]}, "statement": statement, "witness": {"homotopy": []}}]);
+    let r = check(&v).unwrap();
+    let claim = r.claims.iter().find(|c| c.kind == "null_homotopic").unwrap();
+    assert!(claim.outcome.as_ref().unwrap_err().contains("exponent overflow"), "{:?}", claim.outcome);
+}
+
+#[test]
+fn nesting_depth_and_size_of_expressions() {
+    let mut e = json!("F");
+    for _ in 0..(MAX_EXPR_DEPTH + 2) {
+        e = json!({"sum": [e]});
+    }
+    let v = body(json!({"a": [0, 0]}), json!([]), json!([{"kind": "null_homotopic", "map": e, "statement": "", "witness": {"homotopy": []}}]));
+    assert!(check(&v).unwrap_err().contains("nested deeper"));
+    let wide = json!({"sum": vec![json!("F"); MAX_EXPR_NODES + 1]});
+    let v = body(json!({"a": [0, 0]}), json!([]), json!([{"kind": "null_homotopic", "map": wide, "statement": "", "witness": {"homotopy": []}}]));
+    assert!(check(&v).unwrap_err().contains("more than"));
+}
+
+#[test]
+fn name_length() {
+    let long = "g".repeat(MAX_NAME_LEN + 1);
+    let v = body(json!({long: [0, 0], "a": [0, 0]}), json!([]), json!([]));
+    assert!(check(&v).unwrap_err().contains("longer than"));
+}
+
+#[test]
+fn grading_size() {
+    let v = body(json!({"a": [0, 0], "b": [MAX_GRADING_ABS + 1, 0]}), json!([]), json!([]));
+    assert!(check(&v).unwrap_err().contains("beyond"));
+}
+
+#[test]
+fn file_size_is_refused_before_reading() {
+    // A sparse file: its length passes the limit without using the disk.
+    let path = std::env::temp_dir().join(format!("tubecheck-huge-{}.json", std::process::id()));
+    let f = std::fs::File::create(&path).unwrap();
+    f.set_len(MAX_FILE_BYTES + 1).unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_tubecheck")).arg(&path).output().unwrap();
+    std::fs::remove_file(&path).unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("above the limit"));
+}
+
+#[test]
+fn generator_and_term_counts_are_bounded() {
+    // Files at these sizes are impractical in a test; the limits are what the loaders compare
+    // against, and a limit below what the scale targets need would be a bug.
+    const { assert!(MAX_GENERATORS >= 2_000_000 && MAX_TERMS >= 20_000_000) };
+    const { assert!(MAX_FILE_BYTES >= 1 << 30) };
+}
