@@ -10,7 +10,11 @@ use std::path::PathBuf;
 
 fn stored(suffix: &str) -> Vec<Vec<u8>> {
     let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../certificates");
-    let mut files: Vec<PathBuf> = std::fs::read_dir(dir).unwrap().map(|e| e.unwrap().path()).filter(|p| p.to_string_lossy().ends_with(suffix)).collect();
+    let mut files: Vec<PathBuf> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.to_string_lossy().ends_with(suffix))
+        .collect();
     files.sort();
     files.iter().map(|p| std::fs::read(p).unwrap()).collect()
 }

@@ -524,6 +524,17 @@ pub mod oracle {
                 Claim::Homology { complex, free, torsion, witness, .. } => {
                     w.homology(complex, witness).is_some_and(|(f, t)| (&f, &t) == (free, torsion))
                 }
+                Claim::Tau { complex, alexander, tau, witness, .. } => {
+                    let a = body.ring.gradings.iter().position(|g| g == alexander);
+                    let ok_ring = w.var_deg.len() == 1 && a.is_some_and(|a| w.var_deg[0][a] == -1);
+                    ok_ring
+                        && w.homology(complex, witness).is_some_and(|(f, _)| f.len() == 1 && -f[0][a.unwrap()] == *tau)
+                }
+                Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
+                    vars.first() == Some(variable)
+                        && w.homology(complex, witness)
+                            .is_some_and(|(_, t)| t.iter().map(|x| x.0).max().unwrap_or(0) == *order)
+                }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
             }
         })

@@ -93,7 +93,9 @@ fn restate(body: &mut Body, i: usize) {
         )
     };
     match &mut body.claims[i] {
-        Claim::TorsionOrder { statement, .. } | Claim::Homology { statement, .. } => *statement = text,
+        Claim::TorsionOrder { statement, .. } | Claim::Homology { statement, .. } | Claim::Tau { statement, .. } => {
+            *statement = text
+        }
         _ => {}
     }
 }
@@ -133,6 +135,10 @@ fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
                     *order = if up { *order + 1 } else { order.saturating_sub(1) };
                     "change a claimed order"
                 }
+                Claim::Tau { tau, .. } => {
+                    *tau += if up { 1 } else { -1 };
+                    "change a claimed tau"
+                }
                 Claim::Homology { free, torsion, .. } => {
                     if up || torsion.is_empty() {
                         free.pop();
@@ -159,7 +165,9 @@ fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
                     let first = body.maps.values().next().unwrap();
                     (first.from.clone(), first.to.clone())
                 }
-                Claim::Homology { complex, .. } => (complex.clone(), complex.clone()),
+                Claim::Homology { complex, .. }
+                | Claim::Tau { complex, .. }
+                | Claim::TorsionOrderOfComplex { complex, .. } => (complex.clone(), complex.clone()),
                 _ => return "leave a witness unchanged",
             };
             let (fg, tg) = (gens(body, &from), gens(body, &to));
@@ -170,7 +178,9 @@ fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
                 },
                 Claim::NullHomotopic { witness, .. } => mutate_terms(rng, &mut witness.homotopy, &fg, &tg, two),
                 Claim::NotNullHomotopic { witness, .. } => mutate_terms(rng, &mut witness.dual, &fg, &tg, two),
-                Claim::Homology { witness, .. } => {
+                Claim::Homology { witness, .. }
+                | Claim::Tau { witness, .. }
+                | Claim::TorsionOrderOfComplex { witness, .. } => {
                     if rng.below(2) == 0 {
                         mutate_terms(rng, &mut witness.basis, &fg, &fg, two)
                     } else {

@@ -71,7 +71,10 @@ fn the_same_problem_gives_identical_bytes_across_processes() {
     let problem = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../certificates/box-uv.problem.json");
     let out = |i: u32| {
         let path = std::env::temp_dir().join(format!("tubecert-det-{}-{i}.json", std::process::id()));
-        let status = std::process::Command::new(&exe).args(["prove", &problem.to_string_lossy(), "-o", &path.to_string_lossy()]).output().unwrap();
+        let status = std::process::Command::new(&exe)
+            .args(["prove", &problem.to_string_lossy(), "-o", &path.to_string_lossy()])
+            .output()
+            .unwrap();
         assert!(status.status.success());
         std::fs::read(path).unwrap()
     };

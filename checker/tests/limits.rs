@@ -20,7 +20,11 @@ fn check(v: &Value) -> Result<tubecheck::FileReport, String> {
 
 #[test]
 fn exponent_limit() {
-    let v = body(json!({"a": [0, 0], "b": [1, 0]}), json!([["b", format!("U^{}", MAX_EXPONENT as u64 + 1), "a"]]), json!([]));
+    let v = body(
+        json!({"a": [0, 0], "b": [1, 0]}),
+        json!([["b", format!("U^{}", MAX_EXPONENT as u64 + 1), "a"]]),
+        json!([]),
+    );
     let e = check(&v).unwrap_err();
     assert!(e.contains("above the limit"), "{e}");
 }
@@ -44,10 +48,18 @@ fn nesting_depth_and_size_of_expressions() {
     for _ in 0..(MAX_EXPR_DEPTH + 2) {
         e = json!({"sum": [e]});
     }
-    let v = body(json!({"a": [0, 0]}), json!([]), json!([{"kind": "null_homotopic", "map": e, "statement": "", "witness": {"homotopy": []}}]));
+    let v = body(
+        json!({"a": [0, 0]}),
+        json!([]),
+        json!([{"kind": "null_homotopic", "map": e, "statement": "", "witness": {"homotopy": []}}]),
+    );
     assert!(check(&v).unwrap_err().contains("nested deeper"));
     let wide = json!({"sum": vec![json!("F"); MAX_EXPR_NODES + 1]});
-    let v = body(json!({"a": [0, 0]}), json!([]), json!([{"kind": "null_homotopic", "map": wide, "statement": "", "witness": {"homotopy": []}}]));
+    let v = body(
+        json!({"a": [0, 0]}),
+        json!([]),
+        json!([{"kind": "null_homotopic", "map": wide, "statement": "", "witness": {"homotopy": []}}]),
+    );
     assert!(check(&v).unwrap_err().contains("more than"));
 }
 

@@ -52,6 +52,18 @@ enum Command {
         #[arg(long)]
         no_header: bool,
     },
+    /// Prove every member of a family of problems given by a template.
+    #[command(
+        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates"
+    )]
+    Family {
+        template: PathBuf,
+        /// NAME=LO..HI, e.g. p=1..8
+        #[arg(long)]
+        param: String,
+        #[arg(long, default_value = ".")]
+        out: PathBuf,
+    },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -136,6 +148,21 @@ fn main() -> ExitCode {
                 }
             }
         }
+        Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out) {
+            Ok((rows, all)) => {
+                for r in rows {
+                    println!("{r}");
+                }
+                println!("\nverify with: tubecheck {}", out.display());
+                if all {
+                    ExitCode::SUCCESS
+                } else {
+                    println!("some goals were false; the certificates prove their opposites (exit 3)");
+                    ExitCode::from(3)
+                }
+            }
+            Err(errs) => report_errors(&errs),
+        },
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

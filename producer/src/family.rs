@@ -1,0 +1,201 @@
+//! Families of problems indexed by an integer parameter: `tubecert family TEMPLATE --param
+//! p=1..8`. In a template, `{expr}` inside a string is replaced by the value of an integer
+//! expression in the parameter (`+ - *`, parentheses); a string that is exactly `"{expr}"`
+//! becomes a JSON integer. Each member is proved and gets its own certificate.
+
+use serde_json::Value;
+
+/// `NAME=LO..HI` (inclusive).
+pub fn parse_param(text: &str) -> Result<(String, i64, i64), String> {
+    let err = || format!("--param \"{text}\": expected NAME=LO..HI, e.g. p=1..8");
+    let (name, range) = text.split_once('=').ok_or_else(err)?;
+    let (lo, hi) = range.split_once("..").ok_or_else(err)?;
+    let (lo, hi) = (lo.trim().parse().map_err(|_| err())?, hi.trim().parse().map_err(|_| err())?);
+    if name.is_empty() || !name.chars().all(|c| c.is_ascii_alphabetic()) || lo > hi || hi - lo > 1000 {
+        return Err(err());
+    }
+    Ok((name.to_string(), lo, hi))
+}
+
+/// Evaluates an integer expression in one variable.
+pub fn eval(expr: &str, name: &str, value: i64) -> Result<i64, String> {
+    struct P<'a> {
+        s: &'a [u8],
+        i: usize,
+        name: &'a str,
+        value: i64,
+    }
+    impl P<'_> {
+        fn ws(&mut self) {
+            while self.i < self.s.len() && self.s[self.i] == b' ' {
+                self.i += 1;
+            }
+        }
+        fn sum(&mut self) -> Result<i64, String> {
+            let mut v = self.product()?;
+            loop {
+                self.ws();
+                match self.s.get(self.i) {
+                    Some(b'+') => {
+                        self.i += 1;
+                        v = v.checked_add(self.product()?).ok_or("overflow")?;
+                    }
+                    Some(b'-') => {
+                        self.i += 1;
+                        v = v.checked_sub(self.product()?).ok_or("overflow")?;
+                    }
+                    _ => return Ok(v),
+                }
+            }
+        }
+        fn product(&mut self) -> Result<i64, String> {
+            let mut v = self.atom()?;
+            loop {
+                self.ws();
+                if self.s.get(self.i) == Some(&b'*') {
+                    self.i += 1;
+                    v = v.checked_mul(self.atom()?).ok_or("overflow")?;
+                } else {
+                    return Ok(v);
+                }
+            }
+        }
+        fn atom(&mut self) -> Result<i64, String> {
+            self.ws();
+            let rest = &self.s[self.i..];
+            match rest.first() {
+                Some(b'-') => {
+                    self.i += 1;
+                    Ok(-self.atom()?)
+                }
+                Some(b'(') => {
+                    self.i += 1;
+                    let v = self.sum()?;
+                    self.ws();
+                    if self.s.get(self.i) != Some(&b')') {
+                        return Err(format!("expected ')' at column {}", self.i + 1));
+                    }
+                    self.i += 1;
+                    Ok(v)
+                }
+                Some(c) if c.is_ascii_digit() => {
+                    let n = rest.iter().take_while(|c| c.is_ascii_digit()).count();
+                    self.i += n;
+                    std::str::from_utf8(&rest[..n]).expect("digits").parse().map_err(|_| "number too large".into())
+                }
+                _ if rest.starts_with(self.name.as_bytes()) => {
+                    self.i += self.name.len();
+                    Ok(self.value)
+                }
+                _ => Err(format!("expected a number, {} or '(' at column {}", self.name, self.i + 1)),
+            }
+        }
+    }
+    let mut p = P { s: expr.as_bytes(), i: 0, name, value };
+    let v = p.sum()?;
+    p.ws();
+    if p.i != p.s.len() {
+        return Err(format!("unexpected '{}' at column {}", expr[p.i..].chars().next().unwrap_or(' '), p.i + 1));
+    }
+    Ok(v)
+}
+
+/// Substitutes the parameter throughout a template.
+pub fn instantiate(template: &Value, name: &str, value: i64) -> Result<Value, String> {
+    Ok(match template {
+        Value::String(s) => {
+            let mut out = String::new();
+            let mut rest = s.as_str();
+            while let Some(start) = rest.find('{') {
+                let end = rest[start..].find('}').ok_or_else(|| format!("\"{s}\": '{{' without '}}'"))? + start;
+                let v = eval(&rest[start + 1..end], name, value).map_err(|e| format!("\"{s}\": {e}"))?;
+                if start == 0 && end == rest.len() - 1 && out.is_empty() {
+                    return Ok(Value::from(v));
+                }
+                out.push_str(&rest[..start]);
+                out.push_str(&v.to_string());
+                rest = &rest[end + 1..];
+            }
+            out.push_str(rest);
+            Value::String(out)
+        }
+        Value::Array(items) => {
+            Value::Array(items.iter().map(|i| instantiate(i, name, value)).collect::<Result<_, _>>()?)
+        }
+        Value::Object(m) => {
+            let mut o = serde_json::Map::new();
+            for (k, v) in m {
+                o.insert(
+                    instantiate(&Value::String(k.clone()), name, value)?
+                        .as_str()
+                        .map(String::from)
+                        .unwrap_or_else(|| k.clone()),
+                    instantiate(v, name, value)?,
+                );
+            }
+            Value::Object(o)
+        }
+        other => other.clone(),
+    })
+}
+
+/// Proves every member of a family; writes `STEM-NAMEv.problem.json` (the explicit instance)
+/// and its certificate into `out`; returns the table as Markdown lines and whether every goal
+/// held as stated.
+pub fn run(
+    template_path: &std::path::Path,
+    param: &str,
+    out: &std::path::Path,
+) -> Result<(Vec<String>, bool), Vec<String>> {
+    let (name, lo, hi) = parse_param(param).map_err(|e| vec![e])?;
+    let file = template_path.display().to_string();
+    let bytes = tubecert_format::limits::read_file(template_path).map_err(|e| vec![format!("{file}: {e}")])?;
+    let template: Value = serde_json::from_slice(&bytes).map_err(|e| vec![format!("{file}: {e}")])?;
+    let base = template_path.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
+    let stem = base.strip_suffix(".template.json").or(base.strip_suffix(".json")).unwrap_or(&base).to_string();
+    std::fs::create_dir_all(out).map_err(|e| vec![format!("{}: {e}", out.display())])?;
+    let mut rows = Vec::new();
+    let mut all = true;
+    for v in lo..=hi {
+        let at = |e: String| format!("{file} with {name} = {v}: {e}");
+        let written = instantiate(&template, &name, v).map_err(|e| vec![at(e)])?;
+        let written = serde_json::from_value(written).map_err(|e| vec![at(e.to_string())])?;
+        let problem = crate::problem::from_written(written).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
+        let instance = crate::demo::problem_bytes(&problem);
+        let ctx = crate::validate::validate(&problem).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
+        let proved = crate::prove::prove(problem, &ctx, &instance).map_err(|e| vec![at(e)])?;
+        all &= proved.all_as_stated;
+        let member = format!("{stem}-{name}{v}");
+        let write = |path: std::path::PathBuf, b: &[u8]| {
+            std::fs::write(&path, b).map_err(|e| vec![format!("{}: {e}", path.display())])
+        };
+        write(out.join(format!("{member}.problem.json")), &instance)?;
+        write(
+            out.join(format!("{member}.cert.json")),
+            &crate::canonical_writer::file_bytes(&proved.certificate).map_err(|e| vec![e])?,
+        )?;
+        let claims: Vec<&str> = proved.certificate.body.claims.iter().map(|c| c.statement()).collect();
+        if rows.is_empty() {
+            rows.push(format!("| {name} | claims | certificate sha256 |"));
+            rows.push("|---|---|---|".into());
+        }
+        rows.push(format!("| {v} | {} | `{}…` |", claims.join("; "), &proved.certificate.sha256[..16]));
+    }
+    Ok((rows, all))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    #[test]
+    fn expressions_and_substitution() {
+        assert_eq!(eval("2*p+1", "p", 3), Ok(7));
+        assert_eq!(eval("-(p - 4) * 2", "p", 1), Ok(6));
+        assert!(eval("p +", "p", 1).is_err());
+        assert!(eval("q", "p", 1).is_err());
+        let t = serde_json::json!({"x{p}": ["{1-2*p}", "U^{p}", 5]});
+        assert_eq!(instantiate(&t, "p", 3).unwrap(), serde_json::json!({"x3": [-5, "U^3", 5]}));
+        assert_eq!(parse_param("p=1..8"), Ok(("p".into(), 1, 8)));
+        assert!(parse_param("p=3..1").is_err());
+    }
+}
