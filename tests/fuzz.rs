@@ -113,7 +113,7 @@ proptest! {
         let mut n = at % 300;
         replace_nth(&mut v, &mut n, &nasty(kind));
         let bytes = damage_bytes(serde_json::to_vec(&v).unwrap(), &ops);
-        if let Ok(p) = tubecert::problem::parse_problem(&bytes) {
+        if let Ok(p) = tubecert::problem::parse_problem(&bytes, "fuzz") {
             if let Ok(ctx) = tubecert::validate::validate(&p) {
                 let _ = tubecert::prove::prove(p, &ctx, &bytes);
             }

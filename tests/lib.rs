@@ -10,7 +10,7 @@ use tubecert_format::Body;
 /// Proves a problem given as JSON; panics with the producer's messages on bad input.
 pub fn prove_value(problem: &Value) -> Proved {
     let bytes = serde_json::to_vec(problem).unwrap();
-    let p = tubecert::problem::parse_problem(&bytes).unwrap_or_else(|e| panic!("{e:?}"));
+    let p = tubecert::problem::parse_problem(&bytes, "test").unwrap_or_else(|e| panic!("{e:?}"));
     let ctx = tubecert::validate::validate(&p).unwrap_or_else(|e| panic!("{e:?}"));
     tubecert::prove::prove(p, &ctx, &bytes).unwrap_or_else(|e| panic!("{e}"))
 }

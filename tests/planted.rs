@@ -131,7 +131,7 @@ proptest! {
         let planted = planted_complex(&blocks, seed);
         let prob = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(), "complexes": {"C": planted.complex}});
         let bytes = serde_json::to_vec(&prob).unwrap();
-        let p = tubecert::problem::parse_problem(&bytes).unwrap();
+        let p = tubecert::problem::parse_problem(&bytes, "test").unwrap();
         let ctx = tubecert::validate::validate(&p).unwrap();
         let r = tubecert::search::reduce::Reduction::new(&ctx.complexes[0]).unwrap();
         let (c, small) = (&ctx.complexes[0], &r.complex);

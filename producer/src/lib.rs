@@ -12,6 +12,7 @@ pub mod family;
 pub mod problem;
 pub mod prove;
 pub mod search;
+pub mod text_format;
 pub mod validate;
 
 use std::path::Path;
@@ -20,8 +21,7 @@ use std::path::Path;
 pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::Context, Vec<u8>), Vec<String>> {
     let name = path.display().to_string();
     let bytes = tubecert_format::limits::read_file(path).map_err(|e| vec![format!("{name}: {e}")])?;
-    let p = problem::parse_problem(&bytes)
-        .map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
+    let p = problem::parse_problem(&bytes, &name)?;
     let ctx =
         validate::validate(&p).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
     Ok((p, ctx, bytes))

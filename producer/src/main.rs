@@ -64,6 +64,15 @@ enum Command {
         #[arg(long, default_value = ".")]
         out: PathBuf,
     },
+    /// Convert a problem file between the JSON and the text format.
+    #[command(after_help = "Example:\n  tubecert convert examples/tower.problem.json --to text -o tower.problem.txt")]
+    Convert {
+        file: PathBuf,
+        #[arg(long, value_parser = ["text", "json"])]
+        to: String,
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+    },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -163,6 +172,29 @@ fn main() -> ExitCode {
             }
             Err(errs) => report_errors(&errs),
         },
+        Command::Convert { file, to, output } => {
+            let name = file.display().to_string();
+            let converted = tubecert_format::limits::read_file(&file)
+                .map_err(|e| vec![format!("{name}: {e}")])
+                .and_then(|b| tubecert::problem::written_value(&b).map_err(|es| es.into_iter().map(|e| format!("{name}:{e}")).collect()))
+                .and_then(|v| match to.as_str() {
+                    "text" => tubecert::text_format::render(&v).map_err(|e| vec![format!("{name}: {e}")]),
+                    _ => Ok(serde_json::to_string_pretty(&v).expect("values serialize") + "\n"),
+                });
+            match converted {
+                Ok(text) => match output {
+                    Some(o) => match std::fs::write(&o, text) {
+                        Ok(()) => ExitCode::SUCCESS,
+                        Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
+                    },
+                    None => {
+                        print!("{text}");
+                        ExitCode::SUCCESS
+                    }
+                },
+                Err(errs) => report_errors(&errs),
+            }
+        }
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

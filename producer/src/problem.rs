@@ -100,10 +100,23 @@ pub struct WrittenProblem {
     pub goals: Vec<Goal>,
 }
 
-/// Reads a problem file's JSON and resolves its constructions into explicit complexes and maps.
-pub fn parse_problem(bytes: &[u8]) -> Result<Problem, Vec<String>> {
-    let w: WrittenProblem = serde_json::from_slice(bytes).map_err(|e| vec![format!("not a problem file: {e}")])?;
-    from_written(w)
+/// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
+/// constructions into explicit complexes and maps. Errors are prefixed with `name`.
+pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
+    let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
+    let value = written_value(bytes).map_err(prefix)?;
+    let w: WrittenProblem = serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
+    from_written(w).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect())
+}
+
+/// The JSON value of a problem file in either format (errors: "LINE:COL: …" or " …").
+pub fn written_value(bytes: &[u8]) -> Result<serde_json::Value, Vec<String>> {
+    let text = std::str::from_utf8(bytes).map_err(|e| vec![format!(" not UTF-8 text: {e}")])?;
+    if text.trim_start().starts_with('{') {
+        serde_json::from_str(text).map_err(|e| vec![format!("{}:{}: {e}", e.line(), e.column())])
+    } else {
+        crate::text_format::parse(text)
+    }
 }
 
 pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {

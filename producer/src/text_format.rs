@@ -1,0 +1,423 @@
+//! The hand-written problem format: one declaration per line, `#` starts a comment.
+//!
+//! ```text
+//! ring F2[U]
+//! gradings maslov alexander
+//! degree U (-2, -1)
+//! degree d (-1, 0)
+//!
+//! complex O
+//!   o (0, 0)
+//! complex K
+//!   z (0, 0)
+//!   a (0, 0)
+//!   b (-3, -2)
+//!   b -> U^2 a
+//! complex T = staircase torus_knot 3 4      # also: alexander 3 2 0 -2 -3
+//! complex S = tensor T K                    # dual T | shift T (1, 0) | direct_sum A B | cone f
+//!
+//! map F : O -> K degree (0, 0)
+//!   o -> z
+//! map G : O -> K degree (0, 0)
+//!   o -> z + a                              # a polynomial coefficient: (U + V) x
+//!
+//! goal torsion_order F G U surfaces         # options: order K, max_order N
+//! goal homotopic F G times U^2
+//! goal distinct F G times U
+//! goal homology K
+//! ```
+//! Other goals: `equivalent C D f g`, `tau K [alexander NAME]`, `torsion_order_of_complex K U`,
+//! `null_homotopic EXPR` / `not_null_homotopic EXPR` with EXPR in the JSON notation.
+//! It converts both ways with the JSON problem format ([`parse`], [`render`]).
+
+use serde_json::{json, Map, Value};
+
+struct Line<'a> {
+    no: usize,
+    text: &'a str,
+}
+
+impl Line<'_> {
+    fn err(&self, col: usize, expected: &str, found: &str) -> String {
+        format!("{}:{}: expected {expected}, found {}", self.no, col, if found.is_empty() { "end of line".into() } else { format!("\"{found}\"") })
+    }
+
+    /// Tokens with their 1-based columns; a parenthesized group is one token.
+    fn tokens(&self) -> Result<Vec<(usize, String)>, String> {
+        let mut out = Vec::new();
+        let b = self.text.as_bytes();
+        let mut i = 0;
+        while i < b.len() {
+            if b[i].is_ascii_whitespace() {
+                i += 1;
+                continue;
+            }
+            let start = i;
+            if b[i] == b'(' {
+                let close = self.text[i..].find(')').ok_or_else(|| self.err(i + 1, "a closing ')'", &self.text[i..]))?;
+                i += close + 1;
+            } else if b[i] == b'{' || b[i] == b'[' {
+                out.push((start + 1, self.text[i..].to_string())); // JSON to the end of the line
+                break;
+            } else {
+                while i < b.len() && !b[i].is_ascii_whitespace() && b[i] != b'(' {
+                    i += 1;
+                }
+            }
+            out.push((start + 1, self.text[start..i].to_string()));
+        }
+        Ok(out)
+    }
+}
+
+fn grading(line: &Line, col: usize, tok: &str) -> Result<Value, String> {
+    let inner = tok.strip_prefix('(').and_then(|t| t.strip_suffix(')')).ok_or_else(|| line.err(col, "a grading like (0, -1)", tok))?;
+    let v: Result<Vec<i64>, _> = inner.split(',').map(|x| x.trim().parse::<i64>()).collect();
+    v.map(|v| json!(v)).map_err(|_| line.err(col, "integers separated by commas", tok))
+}
+
+/// `z + U^2 a + (U + V) b` → [(coefficient, target)].
+fn targets(line: &Line, col: usize, text: &str) -> Result<Vec<(String, String)>, String> {
+    let mut out = Vec::new();
+    let mut rest = text.trim();
+    while !rest.is_empty() {
+        let (coef, after) = if let Some(r) = rest.strip_prefix('(') {
+            let close = r.find(')').ok_or_else(|| line.err(col, "')'", rest))?;
+            (r[..close].trim().to_string(), r[close + 1..].trim_start())
+        } else {
+            let term_end = rest.find(" + ").unwrap_or(rest.len());
+            let term = &rest[..term_end];
+            match term.rsplit_once(' ') {
+                Some((c, _)) => (c.trim().to_string(), rest[c.len()..].trim_start()),
+                None => ("1".to_string(), rest),
+            }
+        };
+        let end = after.find(" + ").unwrap_or(after.len());
+        let target = after[..end].trim();
+        if target.is_empty() || target.contains(' ') {
+            return Err(line.err(col, "a term like \"U^2 a\" or \"(U + V) b\"", rest));
+        }
+        out.push((if coef.is_empty() { "1".into() } else { coef }, target.to_string()));
+        rest = after[end..].trim_start().strip_prefix('+').unwrap_or("").trim_start();
+    }
+    if out.is_empty() {
+        return Err(line.err(col, "at least one term after \"->\"", ""));
+    }
+    Ok(out)
+}
+
+/// Parses the text format into the JSON value of a problem file.
+pub fn parse(src: &str) -> Result<Value, Vec<String>> {
+    let mut errs = Vec::new();
+    let (mut variables, mut gradings) = (Vec::<String>::new(), Vec::<String>::new());
+    let (mut var_degrees, mut complexes, mut maps, mut goals) = (Map::new(), Map::new(), Map::new(), Vec::new());
+    let mut diff_degree = Value::Null;
+    // The block that indented lines belong to: ("complex"|"map", name).
+    let mut block: Option<(&str, String)> = None;
+    for (i, raw) in src.lines().enumerate() {
+        let text = raw.split('#').next().unwrap_or("");
+        if text.trim().is_empty() {
+            continue;
+        }
+        let line = Line { no: i + 1, text };
+        let result: Result<(), String> = (|| {
+            let toks = line.tokens()?;
+            let word = |k: usize| toks.get(k).map(|t| t.1.as_str()).unwrap_or("");
+            let col = |k: usize| toks.get(k).map_or(text.len() + 1, |t| t.0);
+            let indented = text.starts_with(' ') || text.starts_with('\t');
+            if indented {
+                let Some((kind, name)) = &block else { return Err(line.err(col(0), "a declaration (ring, gradings, degree, complex, map, goal)", word(0))) };
+                let target = if *kind == "complex" { &mut complexes } else { &mut maps };
+                let entry = target.get_mut(name).expect("block exists");
+                if let Some(arrow) = text.find("->") {
+                    let from = text[..arrow].trim();
+                    let key = if *kind == "complex" { "differential" } else { "terms" };
+                    for (c, t) in targets(&line, arrow + 3, &text[arrow + 2..])? {
+                        entry[key].as_array_mut().ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?.push(json!([from, c, t]));
+                    }
+                } else if *kind == "complex" && toks.len() == 2 {
+                    let g = grading(&line, col(1), word(1))?;
+                    let gens = entry["generators"].as_object_mut().ok_or_else(|| line.err(col(0), "a generator of an explicit complex", word(0)))?;
+                    if gens.insert(word(0).to_string(), g).is_some() {
+                        return Err(format!("{}:{}: generator \"{}\" declared twice", line.no, col(0), word(0)));
+                    }
+                } else {
+                    return Err(line.err(col(0), if *kind == "complex" { "\"NAME (gradings)\" or \"FROM -> TERMS\"" } else { "\"FROM -> TERMS\"" }, text.trim()));
+                }
+                return Ok(());
+            }
+            block = None;
+            match word(0) {
+                "ring" => {
+                    let r = word(1);
+                    let inner = r.strip_prefix("F2").ok_or_else(|| line.err(col(1), "F2, F2[U] or F2[U,V]", r))?;
+                    variables = match inner.strip_prefix('[').and_then(|x| x.strip_suffix(']')) {
+                        Some(vs) => vs.split(',').map(|v| v.trim().to_string()).collect(),
+                        None if inner.is_empty() => vec![],
+                        None => return Err(line.err(col(1), "F2, F2[U] or F2[U,V]", r)),
+                    };
+                }
+                "gradings" => gradings = toks[1..].iter().map(|t| t.1.clone()).collect(),
+                "degree" if word(1) == "d" => diff_degree = grading(&line, col(2), word(2))?,
+                "degree" => {
+                    var_degrees.insert(word(1).to_string(), grading(&line, col(2), word(2))?);
+                }
+                "complex" => {
+                    let name = word(1).to_string();
+                    if name.is_empty() {
+                        return Err(line.err(col(1), "a complex name", ""));
+                    }
+                    let def = if word(2) == "=" { construction(&line, &toks[3..])? } else { json!({"generators": {}, "differential": []}) };
+                    if complexes.insert(name.clone(), def).is_some() {
+                        return Err(format!("{}:{}: complex \"{name}\" declared twice", line.no, col(1)));
+                    }
+                    block = Some(("complex", name));
+                }
+                "map" => {
+                    let name = word(1).to_string();
+                    let def = if word(2) == "=" {
+                        if word(3) != "tensor_maps" || toks.len() != 6 {
+                            return Err(line.err(col(3), "\"tensor_maps F G\"", word(3)));
+                        }
+                        json!({"tensor_maps": [word(4), word(5)]})
+                    } else {
+                        if word(2) != ":" || word(4) != "->" || word(6) != "degree" {
+                            return Err(line.err(col(2), "\"map NAME : FROM -> TO degree (…)\"", &text[col(2).min(text.len() + 1) - 1..]));
+                        }
+                        json!({"from": word(3), "to": word(5), "degree": grading(&line, col(7), word(7))?, "terms": []})
+                    };
+                    if maps.insert(name.clone(), def).is_some() {
+                        return Err(format!("{}:{}: map \"{name}\" declared twice", line.no, col(1)));
+                    }
+                    block = Some(("map", name));
+                }
+                "goal" => goals.push(goal(&line, &toks)?),
+                other => return Err(line.err(col(0), "ring, gradings, degree, complex, map or goal", other)),
+            }
+            Ok(())
+        })();
+        if let Err(e) = result {
+            errs.push(e);
+        }
+    }
+    if !errs.is_empty() {
+        return Err(errs);
+    }
+    Ok(json!({
+        "format": "tubecert-problem", "version": 1,
+        "ring": {"variables": variables, "gradings": gradings, "variable_degrees": var_degrees, "differential_degree": diff_degree},
+        "complexes": complexes, "maps": maps, "goals": goals
+    }))
+}
+
+fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
+    let w = |k: usize| toks.get(k).map(|t| t.1.as_str()).unwrap_or("");
+    let c = |k: usize| toks.get(k).map_or(line.text.len() + 1, |t| t.0);
+    let ints = |from: usize| -> Result<Vec<i64>, String> { toks[from..].iter().map(|(col, t)| t.parse().map_err(|_| line.err(*col, "an integer", t))).collect() };
+    Ok(match w(0) {
+        "staircase" if w(1) == "torus_knot" && toks.len() == 4 => json!({"staircase": {"torus_knot": ints(2)?}}),
+        "staircase" if w(1) == "alexander" => json!({"staircase": {"alexander": ints(2)?}}),
+        "tensor" | "direct_sum" if toks.len() == 3 => json!({ w(0): [w(1), w(2)] }),
+        "dual" | "cone" if toks.len() == 2 => json!({ w(0): w(1) }),
+        "shift" if toks.len() == 3 => json!({"shift": [w(1), grading(line, c(2), w(2))?]}),
+        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
+    })
+}
+
+fn goal(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
+    let w = |k: usize| toks.get(k).map(|t| t.1.as_str()).unwrap_or("");
+    let c = |k: usize| toks.get(k).map_or(line.text.len() + 1, |t| t.0);
+    // Options after the fixed arguments: flags and `key value` pairs.
+    let options = |from: usize, allowed: &[&str]| -> Result<Map<String, Value>, String> {
+        let mut o = Map::new();
+        let mut k = from;
+        while k < toks.len() {
+            match w(k) {
+                "surfaces" if allowed.contains(&"surfaces") => {
+                    o.insert("surfaces".into(), json!(true));
+                    k += 1;
+                }
+                key @ ("order" | "max_order") if allowed.contains(&key) => {
+                    let n: u32 = w(k + 1).parse().map_err(|_| line.err(c(k + 1), "a whole number", w(k + 1)))?;
+                    o.insert(key.into(), json!(n));
+                    k += 2;
+                }
+                key @ ("times" | "alexander") if allowed.contains(&key) && !w(k + 1).is_empty() => {
+                    o.insert(key.into(), json!(w(k + 1)));
+                    k += 2;
+                }
+                other => return Err(line.err(c(k), &format!("one of: {}", allowed.join(", ")), other)),
+            }
+        }
+        Ok(o)
+    };
+    let need = |n: usize, shape: &str| if toks.len() < n { Err(line.err(c(toks.len()), shape, "")) } else { Ok(()) };
+    let mut body = Map::new();
+    match w(1) {
+        "torsion_order" => {
+            need(5, "\"goal torsion_order F G VARIABLE\"")?;
+            body.insert("maps".into(), json!([w(2), w(3)]));
+            body.insert("variable".into(), json!(w(4)));
+            body.extend(options(5, &["surfaces", "order", "max_order"])?);
+        }
+        "homotopic" | "distinct" => {
+            need(4, "\"goal homotopic F G [times MONOMIAL]\"")?;
+            body.insert("maps".into(), json!([w(2), w(3)]));
+            body.extend(options(4, &["times"])?);
+        }
+        "homology" => {
+            need(3, "\"goal homology COMPLEX\"")?;
+            body.insert("complex".into(), json!(w(2)));
+        }
+        "tau" => {
+            need(3, "\"goal tau COMPLEX\"")?;
+            body.insert("complex".into(), json!(w(2)));
+            body.extend(options(3, &["alexander"])?);
+        }
+        "torsion_order_of_complex" => {
+            need(4, "\"goal torsion_order_of_complex COMPLEX VARIABLE\"")?;
+            body.insert("complex".into(), json!(w(2)));
+            body.insert("variable".into(), json!(w(3)));
+        }
+        "equivalent" => {
+            need(6, "\"goal equivalent C D f g\"")?;
+            body.insert("complexes".into(), json!([w(2), w(3)]));
+            body.insert("maps".into(), json!([w(4), w(5)]));
+        }
+        "null_homotopic" | "not_null_homotopic" => {
+            let e: Value = serde_json::from_str(w(2)).or_else(|_| Ok::<_, ()>(json!(w(2)))).expect("infallible");
+            body.insert("map".into(), e);
+        }
+        other => return Err(line.err(c(1), "torsion_order, homotopic, distinct, homology, equivalent, tau, torsion_order_of_complex, null_homotopic or not_null_homotopic", other)),
+    }
+    Ok(json!({ w(1): body }))
+}
+
+fn grading_text(v: &Value) -> String {
+    let items: Vec<String> = v.as_array().map(|a| a.iter().map(|x| x.to_string()).collect()).unwrap_or_default();
+    format!("({})", items.join(", "))
+}
+
+fn terms_text(terms: &Value) -> Vec<String> {
+    // Group consecutive terms by source: "x -> U a + b".
+    let mut lines: Vec<(String, Vec<String>)> = Vec::new();
+    for t in terms.as_array().into_iter().flatten() {
+        let (x, c, y) = (t[0].as_str().unwrap_or(""), t[1].as_str().unwrap_or(""), t[2].as_str().unwrap_or(""));
+        let term = if c == "1" { y.to_string() } else if c.contains('+') { format!("({c}) {y}") } else { format!("{c} {y}") };
+        match lines.last_mut() {
+            Some((from, ts)) if from == x => ts.push(term),
+            _ => lines.push((x.to_string(), vec![term])),
+        }
+    }
+    lines.into_iter().map(|(x, ts)| format!("  {x} -> {}", ts.join(" + "))).collect()
+}
+
+/// Renders the JSON value of a problem file in the text format.
+pub fn render(p: &Value) -> Result<String, String> {
+    let mut out = Vec::new();
+    let ring = &p["ring"];
+    let vars: Vec<&str> = ring["variables"].as_array().ok_or("ring.variables missing")?.iter().filter_map(|v| v.as_str()).collect();
+    out.push(if vars.is_empty() { "ring F2".to_string() } else { format!("ring F2[{}]", vars.join(",")) });
+    out.push(format!("gradings {}", ring["gradings"].as_array().ok_or("ring.gradings missing")?.iter().filter_map(|v| v.as_str()).collect::<Vec<_>>().join(" ")));
+    for v in &vars {
+        out.push(format!("degree {v} {}", grading_text(&ring["variable_degrees"][v])));
+    }
+    out.push(format!("degree d {}", grading_text(&ring["differential_degree"])));
+    for (name, c) in p["complexes"].as_object().into_iter().flatten() {
+        out.push(String::new());
+        if let Some(gens) = c.get("generators").and_then(|g| g.as_object()) {
+            out.push(format!("complex {name}"));
+            out.extend(gens.iter().map(|(g, gr)| format!("  {g} {}", grading_text(gr))));
+            out.extend(terms_text(&c["differential"]));
+            continue;
+        }
+        let (op, arg) = c.as_object().and_then(|o| o.iter().next()).ok_or(format!("complex {name}: not a construction"))?;
+        let args = match (op.as_str(), arg) {
+            ("staircase", a) => match (a.get("torus_knot"), a.get("alexander")) {
+                (Some(pq), _) => format!("torus_knot {}", pq.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")),
+                (_, Some(e)) => format!("alexander {}", e.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")),
+                _ => return Err(format!("complex {name}: staircase of what?")),
+            },
+            ("shift", a) => format!("{} {}", a[0].as_str().unwrap_or(""), grading_text(&a[1])),
+            (_, Value::String(s)) => s.clone(),
+            (_, Value::Array(a)) => a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "),
+            _ => return Err(format!("complex {name}: unknown construction")),
+        };
+        out.push(format!("complex {name} = {op} {args}"));
+    }
+    for (name, m) in p["maps"].as_object().into_iter().flatten() {
+        out.push(String::new());
+        if let Some(tm) = m.get("tensor_maps") {
+            out.push(format!("map {name} = tensor_maps {} {}", tm[0].as_str().unwrap_or(""), tm[1].as_str().unwrap_or("")));
+            continue;
+        }
+        out.push(format!("map {name} : {} -> {} degree {}", m["from"].as_str().unwrap_or(""), m["to"].as_str().unwrap_or(""), grading_text(&m["degree"])));
+        out.extend(terms_text(&m["terms"]));
+    }
+    if p["goals"].as_array().is_some_and(|g| !g.is_empty()) {
+        out.push(String::new());
+    }
+    for g in p["goals"].as_array().into_iter().flatten() {
+        let (kind, b) = g.as_object().and_then(|o| o.iter().next()).ok_or("goal: expected one key")?;
+        let s = |k: &str| b.get(k).and_then(|v| v.as_str()).unwrap_or("").to_string();
+        let pair = |k: &str| b[k].as_array().map(|a| a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" ")).unwrap_or_default();
+        let mut line = format!("goal {kind}");
+        match kind.as_str() {
+            "torsion_order" => {
+                line += &format!(" {} {}", pair("maps"), s("variable"));
+                if b.get("surfaces") == Some(&json!(true)) {
+                    line += " surfaces";
+                }
+                for k in ["order", "max_order"] {
+                    if let Some(n) = b.get(k) {
+                        line += &format!(" {k} {n}");
+                    }
+                }
+            }
+            "homotopic" | "distinct" => {
+                line += &format!(" {}", pair("maps"));
+                if b.get("times").is_some() {
+                    line += &format!(" times {}", s("times"));
+                }
+            }
+            "homology" => line += &format!(" {}", s("complex")),
+            "tau" => {
+                line += &format!(" {}", s("complex"));
+                if b.get("alexander").is_some() {
+                    line += &format!(" alexander {}", s("alexander"));
+                }
+            }
+            "torsion_order_of_complex" => line += &format!(" {} {}", s("complex"), s("variable")),
+            "equivalent" => line += &format!(" {} {}", pair("complexes"), pair("maps")),
+            _ => line += &format!(" {}", b["map"]),
+        }
+        out.push(line);
+    }
+    out.push(String::new());
+    Ok(out.join("\n"))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    const EXAMPLE: &str = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\n\ncomplex O\n  o (0, 0)\ncomplex K\n  z (0, 0)\n  a (0, 0)\n  b (-3, -2)\n  b -> U^2 a\n\nmap F : O -> K degree (0, 0)\n  o -> z\nmap G : O -> K degree (0, 0)\n  o -> z + a\n\ngoal torsion_order F G U surfaces\ngoal homotopic F G times U^2\ngoal homology K\n";
+
+    #[test]
+    fn parses_and_round_trips() {
+        let v = parse(EXAMPLE).unwrap();
+        assert_eq!(v["complexes"]["K"]["differential"], json!([["b", "U^2", "a"]]));
+        assert_eq!(v["maps"]["G"]["terms"], json!([["o", "1", "z"], ["o", "1", "a"]]));
+        assert_eq!(v["goals"][0], json!({"torsion_order": {"maps": ["F", "G"], "variable": "U", "surfaces": true}}));
+        assert_eq!(parse(&render(&v).unwrap()).unwrap(), v);
+        let poly = parse("ring F2[U,V]\ngradings a b\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)\ncomplex C\n  x (0, 0)\n  y (0, 0)\n  x -> (U + V) y + U*V y2\n").unwrap();
+        assert_eq!(poly["complexes"]["C"]["differential"], json!([["x", "U + V", "y"], ["x", "U*V", "y2"]]));
+    }
+
+    #[test]
+    fn errors_say_where_and_what() {
+        let e = parse("ring F2[U]\ncomplex K\n  z (0, x)\n  b => a\ngoal homotopy F G\n").unwrap_err();
+        assert!(e[0].starts_with("3:5: expected integers"), "{e:?}");
+        assert!(e[1].starts_with("4:3: expected"), "{e:?}");
+        assert!(e[2].starts_with("5:6: expected torsion_order"), "{e:?}");
+    }
+}
