@@ -10,6 +10,7 @@
 
 pub mod algebra;
 pub mod load;
+pub mod report_appendix;
 pub mod report_json;
 pub mod report_text;
 pub mod verify;
@@ -27,6 +28,8 @@ pub struct FileReport {
     /// The hash the file states.
     pub stated_sha256: String,
     pub claims: Vec<verify::ClaimResult>,
+    /// What was checked, for reports.
+    pub body: tubecert_format::Body,
 }
 
 impl FileReport {
@@ -63,5 +66,5 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });
     let (sha256, claims) = (sha256?, claims?);
-    Ok(FileReport { file: file.to_string(), sha256, stated_sha256: cert.sha256, claims })
+    Ok(FileReport { file: file.to_string(), sha256, stated_sha256: cert.sha256, claims, body: cert.body })
 }

@@ -5,7 +5,7 @@ use clap::Parser;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use tubecert_format::statement::SCOPE;
-use tubecheck::{check_bytes, report_json, report_text};
+use tubecheck::{check_bytes, report_appendix, report_json, report_text};
 
 #[derive(Parser)]
 #[command(
@@ -24,6 +24,9 @@ struct Args {
     /// Print a machine-readable JSON report on stdout.
     #[arg(long)]
     json: bool,
+    /// Print an appendix-ready summary instead: Markdown (md) or a LaTeX document (tex).
+    #[arg(long, value_parser = ["md", "tex"])]
+    report: Option<String>,
 }
 
 /// Files to check: named files as given, folders walked in sorted order.
@@ -88,6 +91,8 @@ fn main() -> ExitCode {
                 hashes.push(r.sha256.clone());
                 if args.json {
                     json_out.push(report_json::render(&r));
+                } else if let Some(kind) = &args.report {
+                    print!("{}", if kind == "md" { report_appendix::markdown(&r) } else { report_appendix::latex(&r) });
                 } else {
                     println!("{}", report_text::render(&r));
                 }
@@ -108,7 +113,7 @@ fn main() -> ExitCode {
     }
     if args.json {
         println!("{}", serde_json::to_string_pretty(&json_out).expect("JSON values serialize"));
-    } else {
+    } else if args.report.is_none() {
         println!("{SCOPE}");
         println!(
             "Total: {} file(s), {verified_claims} claim(s) verified, {failed_claims} failed; {failed} file(s) failed, {unreadable} unreadable{}",
