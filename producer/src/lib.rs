@@ -8,6 +8,7 @@ pub mod bench;
 pub mod canonical_writer;
 pub mod construct;
 pub mod demo;
+pub mod draw;
 pub mod family;
 pub mod problem;
 pub mod prove;

@@ -73,6 +73,19 @@ enum Command {
         #[arg(short, long)]
         output: Option<PathBuf>,
     },
+    /// Draw a complex as an SVG picture, optionally highlighting a claim's witness.
+    #[command(after_help = "Example:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png")]
+    Draw {
+        /// A problem file or a certificate.
+        file: PathBuf,
+        #[arg(long)]
+        complex: String,
+        /// Claim number (1-based) whose witness support is highlighted.
+        #[arg(long)]
+        highlight: Option<usize>,
+        #[arg(short, long)]
+        output: PathBuf,
+    },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -195,6 +208,16 @@ fn main() -> ExitCode {
                 Err(errs) => report_errors(&errs),
             }
         }
+        Command::Draw { file, complex, highlight, output } => match tubecert::draw::draw_file(&file, &complex, highlight) {
+            Ok(svg) => match std::fs::write(&output, svg) {
+                Ok(()) => {
+                    println!("wrote {}", output.display());
+                    ExitCode::SUCCESS
+                }
+                Err(e) => report_errors(&[format!("{}: {e}", output.display())]),
+            },
+            Err(errs) => report_errors(&errs),
+        },
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {
