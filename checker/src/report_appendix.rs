@@ -46,7 +46,14 @@ fn summary(r: &FileReport, tex: bool) -> Summary {
             .claims
             .iter()
             .zip(listed)
-            .map(|(c, res)| (res.outcome.is_ok(), c.kind().to_string(), if tex { tex_claim(c, vars) } else { c.statement().to_string() }, witness_size(c)))
+            .map(|(c, res)| {
+                (
+                    res.outcome.is_ok(),
+                    c.kind().to_string(),
+                    if tex { tex_claim(c, vars) } else { c.statement().to_string() },
+                    witness_size(c),
+                )
+            })
             .collect(),
     }
 }
@@ -98,7 +105,12 @@ fn tex_mono(m: &str) -> String {
     if m == "1" {
         return "1".into();
     }
-    m.split('*').map(|f| match f.split_once('^') { Some((v, e)) => format!("{v}^{{{e}}}"), None => f.to_string() }).collect()
+    m.split('*')
+        .map(|f| match f.split_once('^') {
+            Some((v, e)) => format!("{v}^{{{e}}}"),
+            None => f.to_string(),
+        })
+        .collect()
 }
 
 fn tex_expr(e: &MapExpr) -> String {
@@ -116,7 +128,8 @@ fn tex_grading(g: &[i64]) -> String {
 }
 
 fn tex_claim(c: &Claim, vars: &[String]) -> String {
-    let ring = if vars.is_empty() { "\\mathbb{F}_2".to_string() } else { format!("\\mathbb{{F}}_2[{}]", vars.join(",")) };
+    let ring =
+        if vars.is_empty() { "\\mathbb{F}_2".to_string() } else { format!("\\mathbb{{F}}_2[{}]", vars.join(",")) };
     match c {
         Claim::Complex { complex, .. } => format!("${}$ is a chain complex over ${ring}$", tex_name(complex)),
         Claim::ChainMap { map, .. } => format!("${}$ is a homogeneous chain map", tex_name(map)),
@@ -154,8 +167,13 @@ pub fn latex(r: &FileReport) -> String {
     o += "\\section*{Machine-checked certificate}\n";
     o += &format!("File {}.\\\\\nSHA-256 of the RFC~8785 canonical body: {hash}.\n\n", breakable(&tt(&r.file)));
     o += &format!("\\emph{{{}}}\n\n", SCOPE);
-    let conv: Vec<String> = s.conventions.iter().map(|c| c.replace("deg ∂", "\\deg\\partial").replace("deg ", "\\deg ")).collect();
-    o += &format!("\\subsection*{{Ring and conventions}} ${}$; ${}$.\n\n", s.ring.replace("F2", "\\mathbb{F}_2"), conv.join("$, $").replace("gradings (", "\\text{gradings } ("));
+    let conv: Vec<String> =
+        s.conventions.iter().map(|c| c.replace("deg ∂", "\\deg\\partial").replace("deg ", "\\deg ")).collect();
+    o += &format!(
+        "\\subsection*{{Ring and conventions}} ${}$; ${}$.\n\n",
+        s.ring.replace("F2", "\\mathbb{F}_2"),
+        conv.join("$, $").replace("gradings (", "\\text{gradings } (")
+    );
     o += "\\subsection*{Objects}\n\\begin{tabular}{lrr}\ncomplex & generators & terms of $\\partial$ \\\\\n\\hline\n";
     for (n, g, t) in &s.complexes {
         o += &format!("${}$ & {g} & {t} \\\\\n", tex_name(n));

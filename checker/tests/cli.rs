@@ -82,3 +82,18 @@ fn json_report_carries_the_facts() {
     assert_eq!(h["free_rank"], 1);
     assert_eq!(h["torsion"], serde_json::json!([[4, [0, 0]]]));
 }
+
+#[test]
+fn appendix_reports() {
+    let path = format!("{}/stair-tower-p2.cert.json", certificates());
+    let (code, md, _) = tubecheck(&["--report", "md", &path]);
+    assert_eq!(code, 0);
+    assert!(md.contains("| ✓ | ord_U(F − G) = 2 | torsion_order |"), "{md}");
+    assert!(md.contains("Scope:") && md.contains("--expect"));
+    let (code, tex, _) = tubecheck(&["--report", "tex", &path]);
+    assert_eq!(code, 0);
+    assert!(
+        tex.starts_with("\\documentclass") && tex.contains("$\\operatorname{ord}_{U}(\\mathrm{F} - \\mathrm{G}) = 2$")
+    );
+    assert!(tex.contains("$\\tau(\\mathrm{K}) = 2$") && tex.trim_end().ends_with("\\end{document}"));
+}

@@ -49,7 +49,9 @@ pub fn support(claim: &Claim, complex: &str, body: &tubecert_format::Body) -> BT
             let (f, t) = ends(&first_name(map));
             take(&witness.dual, &f, &t);
         }
-        Claim::Homology { complex: c, witness, .. } | Claim::Tau { complex: c, witness, .. } | Claim::TorsionOrderOfComplex { complex: c, witness, .. } => {
+        Claim::Homology { complex: c, witness, .. }
+        | Claim::Tau { complex: c, witness, .. }
+        | Claim::TorsionOrderOfComplex { complex: c, witness, .. } => {
             take(&witness.basis, "", c);
         }
         Claim::HomotopyEquivalence { maps, witness, .. } => {
@@ -77,7 +79,8 @@ fn first_name(e: &tubecert_format::MapExpr) -> String {
 pub fn draw_file(path: &std::path::Path, name: &str, highlight: Option<usize>) -> Result<String, Vec<String>> {
     let file = path.display().to_string();
     let bytes = tubecert_format::limits::read_file(path).map_err(|e| vec![format!("{file}: {e}")])?;
-    let is_cert = serde_json::from_slice::<serde_json::Value>(&bytes).is_ok_and(|v| v["format"] == tubecert_format::CERTIFICATE_FORMAT);
+    let is_cert = serde_json::from_slice::<serde_json::Value>(&bytes)
+        .is_ok_and(|v| v["format"] == tubecert_format::CERTIFICATE_FORMAT);
     let (ring, complexes, claims, body) = if is_cert {
         let cert = tubecheck::parse_certificate(&bytes).map_err(|e| vec![format!("{file}: {e}")])?;
         (cert.body.ring.clone(), cert.body.complexes.clone(), cert.body.claims.clone(), Some(cert.body))
@@ -91,10 +94,14 @@ pub fn draw_file(path: &std::path::Path, name: &str, highlight: Option<usize>) -
     let (lit, caption) = match (highlight, &body) {
         (None, _) => (BTreeSet::new(), String::new()),
         (Some(k), Some(b)) => {
-            let claim = claims.get(k.wrapping_sub(1)).ok_or_else(|| vec![format!("{file}: there is no claim {k} (it has {})", claims.len())])?;
+            let claim = claims
+                .get(k.wrapping_sub(1))
+                .ok_or_else(|| vec![format!("{file}: there is no claim {k} (it has {})", claims.len())])?;
             (support(claim, name, b), format!("— highlighted: witness of claim {k}, {}", claim.statement()))
         }
-        (Some(_), None) => return Err(vec![format!("{file}: --highlight needs a certificate (claims carry the witnesses)")]),
+        (Some(_), None) => {
+            return Err(vec![format!("{file}: --highlight needs a certificate (claims carry the witnesses)")])
+        }
     };
     Ok(svg(&ring, name, c, &lit, &caption))
 }
@@ -122,11 +129,14 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
     for (&(x, _), gens) in &cells {
         widths[col[&x]] = widths[col[&x]].max(slot * gens.len() as f64);
     }
-    let left: Vec<f64> = widths.iter().scan(0.0, |acc, w| {
-        let l = *acc;
-        *acc += w;
-        Some(l)
-    }).collect();
+    let left: Vec<f64> = widths
+        .iter()
+        .scan(0.0, |acc, w| {
+            let l = *acc;
+            *acc += w;
+            Some(l)
+        })
+        .collect();
     let centre = |i: usize| margin + left[i] + widths[i] / 2.0;
     let cell_h = 70.0;
     let width = margin * 2.0 + widths.iter().sum::<f64>();
@@ -146,25 +156,60 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
         }
     }
     let mut s = String::new();
-    let _ = writeln!(s, r#"<svg xmlns="http://www.w3.org/2000/svg" width="{width:.0}" height="{height:.0}" viewBox="0 0 {width:.0} {height:.0}" font-family="sans-serif">"#);
-    let _ = writeln!(s, r##"<defs><marker id="tip" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="7" markerHeight="7" orient="auto-start-reverse"><path d="M0,0 L10,5 L0,10 z" fill="#444"/></marker></defs>"##);
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="{width:.0}" height="{height:.0}" viewBox="0 0 {width:.0} {height:.0}" font-family="sans-serif">"#
+    );
+    let _ = writeln!(
+        s,
+        r##"<defs><marker id="tip" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="7" markerHeight="7" orient="auto-start-reverse"><path d="M0,0 L10,5 L0,10 z" fill="#444"/></marker></defs>"##
+    );
     let _ = writeln!(s, r#"<rect width="100%" height="100%" fill="white"/>"#);
     let (across, up) = match ring.variables.len() {
         2 => ("Alexander (gr_U − gr_V)/2".to_string(), ring.gradings.first().cloned().unwrap_or_default()),
         _ => (ring.gradings.get(1).cloned().unwrap_or_default(), ring.gradings.first().cloned().unwrap_or_default()),
     };
-    let _ = writeln!(s, r#"<text x="{margin}" y="22" font-size="15" font-weight="bold">{}</text>"#, esc(&format!("{name}: {} generators, {} arrows {caption}", c.generators.len(), c.differential.len())));
+    let _ = writeln!(
+        s,
+        r#"<text x="{margin}" y="22" font-size="15" font-weight="bold">{}</text>"#,
+        esc(&format!("{name}: {} generators, {} arrows {caption}", c.generators.len(), c.differential.len()))
+    );
     // Grid: one line per grading in use, labelled with its value.
     for (&x, &i) in &col {
         let px = centre(i);
-        let _ = writeln!(s, r##"<line x1="{px:.1}" y1="{top}" x2="{px:.1}" y2="{:.1}" stroke="#eee"/><text x="{px:.1}" y="{:.1}" font-size="11" text-anchor="middle" fill="#888">{}</text>"##, height - margin, height - margin + 16.0, x as f64 / 2.0);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{px:.1}" y1="{top}" x2="{px:.1}" y2="{:.1}" stroke="#eee"/><text x="{px:.1}" y="{:.1}" font-size="11" text-anchor="middle" fill="#888">{}</text>"##,
+            height - margin,
+            height - margin + 16.0,
+            x as f64 / 2.0
+        );
     }
     for (&y, &i) in &row {
         let py = top + cell_h * (i as f64 + 0.5);
-        let _ = writeln!(s, r##"<line x1="{margin}" y1="{py:.1}" x2="{:.1}" y2="{py:.1}" stroke="#eee"/><text x="{:.1}" y="{:.1}" font-size="11" text-anchor="end" fill="#888">{}</text>"##, width - margin, margin - 8.0, py + 4.0, y as f64 / 2.0);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{margin}" y1="{py:.1}" x2="{:.1}" y2="{py:.1}" stroke="#eee"/><text x="{:.1}" y="{:.1}" font-size="11" text-anchor="end" fill="#888">{}</text>"##,
+            width - margin,
+            margin - 8.0,
+            py + 4.0,
+            y as f64 / 2.0
+        );
     }
-    let _ = writeln!(s, r##"<text x="{:.1}" y="{:.1}" font-size="12" text-anchor="middle" fill="#555">{} →</text>"##, width / 2.0, height - 12.0, esc(&across));
-    let _ = writeln!(s, r##"<text x="14" y="{:.1}" font-size="12" fill="#555" transform="rotate(-90 14 {:.1})" text-anchor="middle">{} →</text>"##, height / 2.0, height / 2.0, esc(&up));
+    let _ = writeln!(
+        s,
+        r##"<text x="{:.1}" y="{:.1}" font-size="12" text-anchor="middle" fill="#555">{} →</text>"##,
+        width / 2.0,
+        height - 12.0,
+        esc(&across)
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="14" y="{:.1}" font-size="12" fill="#555" transform="rotate(-90 14 {:.1})" text-anchor="middle">{} →</text>"##,
+        height / 2.0,
+        height / 2.0,
+        esc(&up)
+    );
     for [x, coef, y] in &c.differential {
         let (Some(&(ax, ay)), Some(&(bx, by))) = (at.get(x), at.get(y)) else { continue };
         // Stop short of the circles.
@@ -172,14 +217,28 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
         let len = (dx * dx + dy * dy).sqrt().max(1e-6);
         let r = 9.0;
         let (sx, sy, ex, ey) = (ax + dx / len * r, ay + dy / len * r, bx - dx / len * r, by - dy / len * r);
-        let _ = writeln!(s, r##"<line x1="{sx:.1}" y1="{sy:.1}" x2="{ex:.1}" y2="{ey:.1}" stroke="#444" stroke-width="1.2" marker-end="url(#tip)"/>"##);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{sx:.1}" y1="{sy:.1}" x2="{ex:.1}" y2="{ey:.1}" stroke="#444" stroke-width="1.2" marker-end="url(#tip)"/>"##
+        );
         if coef != "1" {
-            let _ = writeln!(s, r##"<text x="{:.1}" y="{:.1}" font-size="11" fill="#1a5fb4" text-anchor="middle">{}</text>"##, (sx + ex) / 2.0, (sy + ey) / 2.0 - 4.0, esc(coef));
+            let _ = writeln!(
+                s,
+                r##"<text x="{:.1}" y="{:.1}" font-size="11" fill="#1a5fb4" text-anchor="middle">{}</text>"##,
+                (sx + ex) / 2.0,
+                (sy + ey) / 2.0 - 4.0,
+                esc(coef)
+            );
         }
     }
     for (g, &(px, py)) in &at {
         let fill = if highlight.contains(*g) { "#f5a623" } else { "#ffffff" };
-        let _ = writeln!(s, r##"<circle cx="{px:.1}" cy="{py:.1}" r="8" fill="{fill}" stroke="#222" stroke-width="1.3"/><text x="{px:.1}" y="{:.1}" font-size="11" text-anchor="middle">{}</text>"##, if label_above.contains(g) { py - 13.0 } else { py + 21.0 }, esc(g));
+        let _ = writeln!(
+            s,
+            r##"<circle cx="{px:.1}" cy="{py:.1}" r="8" fill="{fill}" stroke="#222" stroke-width="1.3"/><text x="{px:.1}" y="{:.1}" font-size="11" text-anchor="middle">{}</text>"##,
+            if label_above.contains(g) { py - 13.0 } else { py + 21.0 },
+            esc(g)
+        );
     }
     s.push_str("</svg>\n");
     s

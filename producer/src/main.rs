@@ -15,6 +15,9 @@ use std::process::ExitCode;
 struct Cli {
     #[command(subcommand)]
     command: Command,
+    /// No progress on stderr (it is shown only when stderr is a terminal anyway).
+    #[arg(long, global = true)]
+    quiet: bool,
 }
 
 #[derive(Subcommand)]
@@ -74,7 +77,9 @@ enum Command {
         output: Option<PathBuf>,
     },
     /// Draw a complex as an SVG picture, optionally highlighting a claim's witness.
-    #[command(after_help = "Example:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png")]
+    #[command(
+        after_help = "Example:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png"
+    )]
     Draw {
         /// A problem file or a certificate.
         file: PathBuf,
@@ -86,6 +91,9 @@ enum Command {
         #[arg(short, long)]
         output: PathBuf,
     },
+    /// What changed between two certificates (exit 0 same, 1 different, 2 unreadable).
+    #[command(after_help = "Example:\n  tubecert diff old.cert.json new.cert.json")]
+    Diff { a: PathBuf, b: PathBuf },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -108,7 +116,9 @@ fn report_errors(errs: &[String]) -> ExitCode {
 }
 
 fn main() -> ExitCode {
-    match Cli::parse().command {
+    let cli = Cli::parse();
+    tubecert::progress::enable(!cli.quiet && std::io::IsTerminal::is_terminal(&std::io::stderr()));
+    match cli.command {
         Command::CheckInput { problem } => match tubecert::load_problem(&problem) {
             Ok((p, ctx, _)) => {
                 println!(
@@ -189,7 +199,10 @@ fn main() -> ExitCode {
             let name = file.display().to_string();
             let converted = tubecert_format::limits::read_file(&file)
                 .map_err(|e| vec![format!("{name}: {e}")])
-                .and_then(|b| tubecert::problem::written_value(&b).map_err(|es| es.into_iter().map(|e| format!("{name}:{e}")).collect()))
+                .and_then(|b| {
+                    tubecert::problem::written_value(&b)
+                        .map_err(|es| es.into_iter().map(|e| format!("{name}:{e}")).collect())
+                })
                 .and_then(|v| match to.as_str() {
                     "text" => tubecert::text_format::render(&v).map_err(|e| vec![format!("{name}: {e}")]),
                     _ => Ok(serde_json::to_string_pretty(&v).expect("values serialize") + "\n"),
@@ -208,16 +221,41 @@ fn main() -> ExitCode {
                 Err(errs) => report_errors(&errs),
             }
         }
-        Command::Draw { file, complex, highlight, output } => match tubecert::draw::draw_file(&file, &complex, highlight) {
-            Ok(svg) => match std::fs::write(&output, svg) {
-                Ok(()) => {
-                    println!("wrote {}", output.display());
-                    ExitCode::SUCCESS
+        Command::Draw { file, complex, highlight, output } => {
+            match tubecert::draw::draw_file(&file, &complex, highlight) {
+                Ok(svg) => match std::fs::write(&output, svg) {
+                    Ok(()) => {
+                        println!("wrote {}", output.display());
+                        ExitCode::SUCCESS
+                    }
+                    Err(e) => report_errors(&[format!("{}: {e}", output.display())]),
+                },
+                Err(errs) => report_errors(&errs),
+            }
+        }
+        Command::Diff { a, b } => {
+            let read = |p: &PathBuf| {
+                tubecert_format::limits::read_file(p)
+                    .and_then(|bytes| tubecheck::parse_certificate(&bytes))
+                    .map_err(|e| format!("{}: {e}", p.display()))
+            };
+            match (read(&a), read(&b)) {
+                (Ok(ca), Ok(cb)) => {
+                    let lines = tubecert::diff::diff(&ca.body, &cb.body);
+                    if lines.is_empty() {
+                        println!("no differences (sha256 {})", ca.sha256);
+                        ExitCode::SUCCESS
+                    } else {
+                        println!("sha256 {} → {}", ca.sha256, cb.sha256);
+                        for l in lines {
+                            println!("{l}");
+                        }
+                        ExitCode::from(1)
+                    }
                 }
-                Err(e) => report_errors(&[format!("{}: {e}", output.display())]),
-            },
-            Err(errs) => report_errors(&errs),
-        },
+                (ra, rb) => report_errors(&[ra.err(), rb.err()].into_iter().flatten().collect::<Vec<_>>()),
+            }
+        }
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

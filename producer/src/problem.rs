@@ -105,7 +105,8 @@ pub struct WrittenProblem {
 pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
     let value = written_value(bytes).map_err(prefix)?;
-    let w: WrittenProblem = serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
+    let w: WrittenProblem =
+        serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
     from_written(w).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect())
 }
 

@@ -39,7 +39,12 @@ struct Line<'a> {
 
 impl Line<'_> {
     fn err(&self, col: usize, expected: &str, found: &str) -> String {
-        format!("{}:{}: expected {expected}, found {}", self.no, col, if found.is_empty() { "end of line".into() } else { format!("\"{found}\"") })
+        format!(
+            "{}:{}: expected {expected}, found {}",
+            self.no,
+            col,
+            if found.is_empty() { "end of line".into() } else { format!("\"{found}\"") }
+        )
     }
 
     /// Tokens with their 1-based columns; a parenthesized group is one token.
@@ -54,7 +59,8 @@ impl Line<'_> {
             }
             let start = i;
             if b[i] == b'(' {
-                let close = self.text[i..].find(')').ok_or_else(|| self.err(i + 1, "a closing ')'", &self.text[i..]))?;
+                let close =
+                    self.text[i..].find(')').ok_or_else(|| self.err(i + 1, "a closing ')'", &self.text[i..]))?;
                 i += close + 1;
             } else if b[i] == b'{' || b[i] == b'[' {
                 out.push((start + 1, self.text[i..].to_string())); // JSON to the end of the line
@@ -71,7 +77,10 @@ impl Line<'_> {
 }
 
 fn grading(line: &Line, col: usize, tok: &str) -> Result<Value, String> {
-    let inner = tok.strip_prefix('(').and_then(|t| t.strip_suffix(')')).ok_or_else(|| line.err(col, "a grading like (0, -1)", tok))?;
+    let inner = tok
+        .strip_prefix('(')
+        .and_then(|t| t.strip_suffix(')'))
+        .ok_or_else(|| line.err(col, "a grading like (0, -1)", tok))?;
     let v: Result<Vec<i64>, _> = inner.split(',').map(|x| x.trim().parse::<i64>()).collect();
     v.map(|v| json!(v)).map_err(|_| line.err(col, "integers separated by commas", tok))
 }
@@ -126,23 +135,38 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
             let col = |k: usize| toks.get(k).map_or(text.len() + 1, |t| t.0);
             let indented = text.starts_with(' ') || text.starts_with('\t');
             if indented {
-                let Some((kind, name)) = &block else { return Err(line.err(col(0), "a declaration (ring, gradings, degree, complex, map, goal)", word(0))) };
+                let Some((kind, name)) = &block else {
+                    return Err(line.err(col(0), "a declaration (ring, gradings, degree, complex, map, goal)", word(0)));
+                };
                 let target = if *kind == "complex" { &mut complexes } else { &mut maps };
                 let entry = target.get_mut(name).expect("block exists");
                 if let Some(arrow) = text.find("->") {
                     let from = text[..arrow].trim();
                     let key = if *kind == "complex" { "differential" } else { "terms" };
                     for (c, t) in targets(&line, arrow + 3, &text[arrow + 2..])? {
-                        entry[key].as_array_mut().ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?.push(json!([from, c, t]));
+                        entry[key]
+                            .as_array_mut()
+                            .ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?
+                            .push(json!([from, c, t]));
                     }
                 } else if *kind == "complex" && toks.len() == 2 {
                     let g = grading(&line, col(1), word(1))?;
-                    let gens = entry["generators"].as_object_mut().ok_or_else(|| line.err(col(0), "a generator of an explicit complex", word(0)))?;
+                    let gens = entry["generators"]
+                        .as_object_mut()
+                        .ok_or_else(|| line.err(col(0), "a generator of an explicit complex", word(0)))?;
                     if gens.insert(word(0).to_string(), g).is_some() {
                         return Err(format!("{}:{}: generator \"{}\" declared twice", line.no, col(0), word(0)));
                     }
                 } else {
-                    return Err(line.err(col(0), if *kind == "complex" { "\"NAME (gradings)\" or \"FROM -> TERMS\"" } else { "\"FROM -> TERMS\"" }, text.trim()));
+                    return Err(line.err(
+                        col(0),
+                        if *kind == "complex" {
+                            "\"NAME (gradings)\" or \"FROM -> TERMS\""
+                        } else {
+                            "\"FROM -> TERMS\""
+                        },
+                        text.trim(),
+                    ));
                 }
                 return Ok(());
             }
@@ -167,7 +191,11 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
                     if name.is_empty() {
                         return Err(line.err(col(1), "a complex name", ""));
                     }
-                    let def = if word(2) == "=" { construction(&line, &toks[3..])? } else { json!({"generators": {}, "differential": []}) };
+                    let def = if word(2) == "=" {
+                        construction(&line, &toks[3..])?
+                    } else {
+                        json!({"generators": {}, "differential": []})
+                    };
                     if complexes.insert(name.clone(), def).is_some() {
                         return Err(format!("{}:{}: complex \"{name}\" declared twice", line.no, col(1)));
                     }
@@ -182,7 +210,11 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
                         json!({"tensor_maps": [word(4), word(5)]})
                     } else {
                         if word(2) != ":" || word(4) != "->" || word(6) != "degree" {
-                            return Err(line.err(col(2), "\"map NAME : FROM -> TO degree (…)\"", &text[col(2).min(text.len() + 1) - 1..]));
+                            return Err(line.err(
+                                col(2),
+                                "\"map NAME : FROM -> TO degree (…)\"",
+                                &text[col(2).min(text.len() + 1) - 1..],
+                            ));
                         }
                         json!({"from": word(3), "to": word(5), "degree": grading(&line, col(7), word(7))?, "terms": []})
                     };
@@ -213,7 +245,9 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
 fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
     let w = |k: usize| toks.get(k).map(|t| t.1.as_str()).unwrap_or("");
     let c = |k: usize| toks.get(k).map_or(line.text.len() + 1, |t| t.0);
-    let ints = |from: usize| -> Result<Vec<i64>, String> { toks[from..].iter().map(|(col, t)| t.parse().map_err(|_| line.err(*col, "an integer", t))).collect() };
+    let ints = |from: usize| -> Result<Vec<i64>, String> {
+        toks[from..].iter().map(|(col, t)| t.parse().map_err(|_| line.err(*col, "an integer", t))).collect()
+    };
     Ok(match w(0) {
         "staircase" if w(1) == "torus_knot" && toks.len() == 4 => json!({"staircase": {"torus_knot": ints(2)?}}),
         "staircase" if w(1) == "alexander" => json!({"staircase": {"alexander": ints(2)?}}),
@@ -303,7 +337,13 @@ fn terms_text(terms: &Value) -> Vec<String> {
     let mut lines: Vec<(String, Vec<String>)> = Vec::new();
     for t in terms.as_array().into_iter().flatten() {
         let (x, c, y) = (t[0].as_str().unwrap_or(""), t[1].as_str().unwrap_or(""), t[2].as_str().unwrap_or(""));
-        let term = if c == "1" { y.to_string() } else if c.contains('+') { format!("({c}) {y}") } else { format!("{c} {y}") };
+        let term = if c == "1" {
+            y.to_string()
+        } else if c.contains('+') {
+            format!("({c}) {y}")
+        } else {
+            format!("{c} {y}")
+        };
         match lines.last_mut() {
             Some((from, ts)) if from == x => ts.push(term),
             _ => lines.push((x.to_string(), vec![term])),
@@ -316,9 +356,19 @@ fn terms_text(terms: &Value) -> Vec<String> {
 pub fn render(p: &Value) -> Result<String, String> {
     let mut out = Vec::new();
     let ring = &p["ring"];
-    let vars: Vec<&str> = ring["variables"].as_array().ok_or("ring.variables missing")?.iter().filter_map(|v| v.as_str()).collect();
+    let vars: Vec<&str> =
+        ring["variables"].as_array().ok_or("ring.variables missing")?.iter().filter_map(|v| v.as_str()).collect();
     out.push(if vars.is_empty() { "ring F2".to_string() } else { format!("ring F2[{}]", vars.join(",")) });
-    out.push(format!("gradings {}", ring["gradings"].as_array().ok_or("ring.gradings missing")?.iter().filter_map(|v| v.as_str()).collect::<Vec<_>>().join(" ")));
+    out.push(format!(
+        "gradings {}",
+        ring["gradings"]
+            .as_array()
+            .ok_or("ring.gradings missing")?
+            .iter()
+            .filter_map(|v| v.as_str())
+            .collect::<Vec<_>>()
+            .join(" ")
+    ));
     for v in &vars {
         out.push(format!("degree {v} {}", grading_text(&ring["variable_degrees"][v])));
     }
@@ -331,11 +381,18 @@ pub fn render(p: &Value) -> Result<String, String> {
             out.extend(terms_text(&c["differential"]));
             continue;
         }
-        let (op, arg) = c.as_object().and_then(|o| o.iter().next()).ok_or(format!("complex {name}: not a construction"))?;
+        let (op, arg) =
+            c.as_object().and_then(|o| o.iter().next()).ok_or(format!("complex {name}: not a construction"))?;
         let args = match (op.as_str(), arg) {
             ("staircase", a) => match (a.get("torus_knot"), a.get("alexander")) {
-                (Some(pq), _) => format!("torus_knot {}", pq.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")),
-                (_, Some(e)) => format!("alexander {}", e.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")),
+                (Some(pq), _) => format!(
+                    "torus_knot {}",
+                    pq.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")
+                ),
+                (_, Some(e)) => format!(
+                    "alexander {}",
+                    e.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")
+                ),
                 _ => return Err(format!("complex {name}: staircase of what?")),
             },
             ("shift", a) => format!("{} {}", a[0].as_str().unwrap_or(""), grading_text(&a[1])),
@@ -348,10 +405,19 @@ pub fn render(p: &Value) -> Result<String, String> {
     for (name, m) in p["maps"].as_object().into_iter().flatten() {
         out.push(String::new());
         if let Some(tm) = m.get("tensor_maps") {
-            out.push(format!("map {name} = tensor_maps {} {}", tm[0].as_str().unwrap_or(""), tm[1].as_str().unwrap_or("")));
+            out.push(format!(
+                "map {name} = tensor_maps {} {}",
+                tm[0].as_str().unwrap_or(""),
+                tm[1].as_str().unwrap_or("")
+            ));
             continue;
         }
-        out.push(format!("map {name} : {} -> {} degree {}", m["from"].as_str().unwrap_or(""), m["to"].as_str().unwrap_or(""), grading_text(&m["degree"])));
+        out.push(format!(
+            "map {name} : {} -> {} degree {}",
+            m["from"].as_str().unwrap_or(""),
+            m["to"].as_str().unwrap_or(""),
+            grading_text(&m["degree"])
+        ));
         out.extend(terms_text(&m["terms"]));
     }
     if p["goals"].as_array().is_some_and(|g| !g.is_empty()) {
@@ -360,7 +426,11 @@ pub fn render(p: &Value) -> Result<String, String> {
     for g in p["goals"].as_array().into_iter().flatten() {
         let (kind, b) = g.as_object().and_then(|o| o.iter().next()).ok_or("goal: expected one key")?;
         let s = |k: &str| b.get(k).and_then(|v| v.as_str()).unwrap_or("").to_string();
-        let pair = |k: &str| b[k].as_array().map(|a| a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" ")).unwrap_or_default();
+        let pair = |k: &str| {
+            b[k].as_array()
+                .map(|a| a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "))
+                .unwrap_or_default()
+        };
         let mut line = format!("goal {kind}");
         match kind.as_str() {
             "torsion_order" => {

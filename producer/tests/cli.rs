@@ -134,3 +134,68 @@ fn emit_reduction_adds_a_verified_equivalence() {
     assert!(report.ok());
     assert!(report.claims.iter().any(|c| c.kind == "homotopy_equivalence" && c.outcome.is_ok()));
 }
+
+#[test]
+fn text_format_converts_both_ways_and_proves() {
+    let json_path = write("conv.problem.json", EXAMPLE);
+    let (code, text, err) = tubecert(&["convert", &json_path, "--to", "text"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        text.contains("complex K\n")
+            && text.contains("  b -> U^2 a")
+            && text.contains("goal torsion_order F G U surfaces"),
+        "{text}"
+    );
+    let text_path = write("conv.problem.txt", &text);
+    let (code, back, _) = tubecert(&["convert", &text_path, "--to", "json"]);
+    assert_eq!(code, 0);
+    let (a, b): (serde_json::Value, serde_json::Value) =
+        (serde_json::from_str(EXAMPLE).unwrap(), serde_json::from_str(&back).unwrap());
+    assert_eq!(a, b, "JSON → text → JSON is the identity");
+    let (code, out, _) = tubecert(&["prove", &text_path, "-o", &dir().join("conv.cert.json").to_string_lossy()]);
+    assert_eq!(code, 0);
+    assert!(out.contains("ord_U(F − G) = 2"));
+}
+
+#[test]
+fn text_format_errors_name_file_line_and_column() {
+    let bad = write("bad.problem.txt", "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex K\n  a (0, 0)\n  b (1; 0)\ngoal homotopy F G\n");
+    let (code, _, err) = tubecert(&["check-input", &bad]);
+    assert_eq!(code, 2);
+    assert!(err.contains("bad.problem.txt:7:5: expected integers separated by commas, found \"(1; 0)\""), "{err}");
+    assert!(err.contains("bad.problem.txt:8:6: expected torsion_order"), "{err}");
+}
+
+#[test]
+fn draw_writes_an_svg_with_every_generator_and_the_highlight() {
+    let cert = format!("{}/../certificates/stair-tower-p3.cert.json", env!("CARGO_MANIFEST_DIR"));
+    let svg = dir().join("k.svg");
+    let (code, _, err) = tubecert(&["draw", &cert, "--complex", "K", "--highlight", "1", "-o", &svg.to_string_lossy()]);
+    assert_eq!(code, 0, "{err}");
+    let text = std::fs::read_to_string(&svg).unwrap();
+    assert_eq!(text.matches("<circle").count(), 21, "T(2,7) ⊗ tower: 7 × 3 generators");
+    assert_eq!(text.matches("#f5a623").count(), 2, "the witness of ord_U touches two generators of K");
+    assert!(text.contains("x6⊗a"));
+    // Rendered to PNG by a standard converter where one is installed (CI installs librsvg2-bin).
+    if std::process::Command::new("rsvg-convert").arg("--version").output().is_ok() {
+        let png = dir().join("k.png");
+        let st = std::process::Command::new("rsvg-convert").arg(&svg).arg("-o").arg(&png).status().unwrap();
+        assert!(st.success());
+        assert_eq!(&std::fs::read(png).unwrap()[..8], b"\x89PNG\r\n\x1a\n");
+    } else {
+        assert!(std::env::var("CI").is_err(), "CI must install rsvg-convert");
+    }
+    let (code, _, err) = tubecert(&["draw", &cert, "--complex", "Q", "-o", &svg.to_string_lossy()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("no complex \"Q\""), "{err}");
+}
+
+#[test]
+fn diff_exit_codes() {
+    let c = |f: &str| format!("{}/../certificates/{f}", env!("CARGO_MANIFEST_DIR"));
+    assert_eq!(tubecert(&["diff", &c("box-uv.cert.json"), &c("box-uv.cert.json")]).0, 0);
+    let (code, out, _) = tubecert(&["diff", &c("disk-pair-p1.cert.json"), &c("disk-pair-p2.cert.json")]);
+    assert_eq!(code, 1);
+    assert!(out.contains("ord_U(F − G) = [-1-]{+2+}"), "{out}");
+    assert_eq!(tubecert(&["diff", &c("box-uv.cert.json"), "/nonexistent.json"]).0, 2);
+}

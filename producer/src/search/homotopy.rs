@@ -102,7 +102,11 @@ pub fn decide_in(
     let mut reducer = ColumnReducer::default();
     for (i, img) in images.iter().enumerate() {
         reducer.add_column(to_rows(img), i as u32);
+        if i % 1024 == 0 {
+            crate::progress::report("eliminating in Hom", i, images.len());
+        }
     }
+    crate::progress::done();
     Ok(match reducer.solve(to_rows(&target)) {
         Solution::Combination(ids) => Verdict::Null(ids.iter().map(|&i| columns[i as usize]).collect()),
         Solution::Functional(ys) => Verdict::NotNull(ys.iter().map(|&r| rows[r as usize]).collect()),

@@ -128,7 +128,11 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         done[au] = true;
         done[bu] = true;
         pairs.push((a, b, m));
+        if pairs.len() % 4096 == 0 {
+            crate::progress::report(&format!("cancelling arrows in {}", c.name), 2 * pairs.len(), n);
+        }
     }
+    crate::progress::done();
     let survivors = (0..n as u32).filter(|&t| !done[t as usize]).collect();
     for (a, _, _) in &pairs {
         out[*a as usize].clear();
