@@ -3,12 +3,13 @@
 //! terms. Homogeneity failures are recorded per object as *defects*: they make the object's
 //! implicit claim (complex / chain map) fail rather than the file unreadable.
 
-use crate::algebra::{normalize, SparseMap, Vector};
+use crate::algebra::SparseMap;
+use crate::report_terms::suggest;
 use std::collections::{BTreeMap, HashMap};
 use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
-use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
+use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Ring, RingInfo, Term, UniqueMap};
 
 /// Collected error messages, capped at [`MAX_REPORTED_ERRORS`].
 #[derive(Debug, Default)]
@@ -67,30 +68,6 @@ pub struct Evaluated {
     pub to: usize,
     pub degree: Grading,
     pub m: SparseMap,
-}
-
-/// A close known name, for "did you mean" (skipped for very large name sets).
-pub fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
-    if known.clone().count() > 100_000 {
-        return String::new();
-    }
-    let dist = |a: &str, b: &str| {
-        let b: Vec<char> = b.chars().collect();
-        let mut prev: Vec<usize> = (0..=b.len()).collect();
-        for (i, ca) in a.chars().enumerate() {
-            let mut cur = vec![i + 1];
-            for (j, cb) in b.iter().enumerate() {
-                cur.push((prev[j] + (ca != *cb) as usize).min(prev[j + 1] + 1).min(cur[j] + 1));
-            }
-            prev = cur;
-        }
-        prev[b.len()]
-    };
-    let best = known.map(|k| (dist(name, k), k)).min();
-    match best {
-        Some((d, k)) if d <= 2.max(name.len() / 3) => format!(" (did you mean \"{k}\"?)"),
-        _ => String::new(),
-    }
 }
 
 pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
@@ -350,50 +327,5 @@ impl Context {
             self.complexes[v.to].name,
             render_grading(&v.degree)
         )
-    }
-
-    /// Written form of a vector in complex `c`, e.g. `U^2·a + b`.
-    pub fn render_vector(&self, c: usize, v: &[(u32, Mono)]) -> String {
-        if v.is_empty() {
-            return "0".into();
-        }
-        let names = &self.complexes[c].names;
-        let term = |&(g, m): &(u32, Mono)| {
-            if m.is_one() {
-                names[g as usize].clone()
-            } else {
-                format!("{}·{}", m.render(&self.ring.variables), names[g as usize])
-            }
-        };
-        let shown: Vec<String> = v.iter().take(12).map(term).collect();
-        let more = if v.len() > 12 { format!(" + … ({} terms)", v.len()) } else { String::new() };
-        format!("{}{more}", shown.join(" + "))
-    }
-
-    /// Compares two vectors of complex `c`; on difference, both sides and the terms in which
-    /// they differ.
-    pub fn compare(
-        &self,
-        c: usize,
-        at: &str,
-        lhs_name: &str,
-        lhs: &Vector,
-        rhs_name: &str,
-        rhs: &Vector,
-    ) -> Result<(), String> {
-        if lhs == rhs {
-            return Ok(());
-        }
-        let only =
-            |a: &Vector, b: &Vector| -> Vector { a.iter().filter(|t| b.binary_search(t).is_err()).copied().collect() };
-        let mut diff = only(lhs, rhs);
-        diff.extend(only(rhs, lhs));
-        normalize(&mut diff);
-        Err(format!(
-            "at generator {at}:\n      {lhs_name} = {}\n      {rhs_name} = {}\n      they differ by {}",
-            self.render_vector(c, lhs),
-            self.render_vector(c, rhs),
-            self.render_vector(c, &diff)
-        ))
     }
 }

@@ -3,6 +3,7 @@
 
 use crate::algebra::{normalize, SparseMap};
 use crate::load::{grading_sum, Context, Errors, Evaluated};
+use crate::report_terms::{compare, render_vector};
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::poly::parse_mono;
@@ -27,7 +28,7 @@ pub fn check_complex(ctx: &Context, c: usize) -> Result<(), String> {
     for (x, row) in cx.d.rows.iter().enumerate() {
         let dd = cx.d.apply(row)?;
         if !dd.is_empty() {
-            return Err(format!("∂∂({}) = {} ≠ 0", cx.names[x], ctx.render_vector(c, &dd)));
+            return Err(format!("∂∂({}) = {} ≠ 0", cx.names[x], render_vector(ctx, c, &dd)));
         }
     }
     Ok(())
@@ -43,7 +44,7 @@ pub fn check_chain_map(ctx: &Context, f: usize) -> Result<(), String> {
     for (x, row) in map.m.rows.iter().enumerate() {
         let lhs = d.d.apply(row)?;
         let rhs = map.m.apply(&c.d.rows[x])?;
-        ctx.compare(map.to, &c.names[x], "∂f", &lhs, "f∂", &rhs)?;
+        compare(ctx, map.to, &c.names[x], "∂f", &lhs, "f∂", &rhs)?;
     }
     Ok(())
 }
@@ -61,7 +62,7 @@ pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Resul
         let mut rhs = d.d.apply(&h.rows[x])?;
         rhs.extend(h.apply(&c.d.rows[x])?);
         normalize(&mut rhs);
-        ctx.compare(phi.to, &c.names[x], "φ", row, "∂H + H∂", &rhs)?;
+        compare(ctx, phi.to, &c.names[x], "φ", row, "∂H + H∂", &rhs)?;
     }
     Ok(())
 }

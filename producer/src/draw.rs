@@ -89,7 +89,7 @@ pub fn draw_file(path: &std::path::Path, name: &str, highlight: Option<usize>) -
         (p.ring, p.complexes, vec![], None)
     };
     let c = complexes.get(name).ok_or_else(|| {
-        vec![format!("{file}: no complex \"{name}\"{}", tubecheck::load::suggest(name, complexes.keys()))]
+        vec![format!("{file}: no complex \"{name}\"{}", tubecheck::report_terms::suggest(name, complexes.keys()))]
     })?;
     let (lit, caption) = match (highlight, &body) {
         (None, _) => (BTreeSet::new(), String::new()),

@@ -136,7 +136,11 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
             let indented = text.starts_with(' ') || text.starts_with('\t');
             if indented {
                 let Some((kind, name)) = &block else {
-                    return Err(line.err(col(0), "a declaration (ring, gradings, degree, complex, map, goal)", word(0)));
+                    return Err(line.err(
+                        col(0),
+                        "a declaration (ring, gradings, degree, complex, map, goal)",
+                        word(0),
+                    ));
                 };
                 let target = if *kind == "complex" { &mut complexes } else { &mut maps };
                 let entry = target.get_mut(name).expect("block exists");

@@ -4,7 +4,8 @@
 use crate::problem::{Goal, Problem};
 use tubecert_format::poly::parse_mono;
 use tubecert_format::MapExpr;
-use tubecheck::load::{load_lenient, suggest, Context, Errors};
+use tubecheck::load::{load_lenient, Context, Errors};
+use tubecheck::report_terms::suggest;
 use tubecheck::verify::{check_chain_map, check_complex};
 
 pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {

@@ -100,58 +100,6 @@ impl RingInfo {
     pub fn var_index(&self, name: &str) -> Option<usize> {
         self.variables.iter().position(|v| v == name)
     }
-
-    /// Every monomial of degree exactly `g` (a finite set by the finiteness condition).
-    pub fn monomials_of_degree(&self, g: &[i64]) -> Vec<Mono> {
-        let d = &self.var_degrees;
-        match d.len() {
-            0 => {
-                if g.iter().all(|&x| x == 0) {
-                    vec![Mono::ONE]
-                } else {
-                    vec![]
-                }
-            }
-            1 => multiple_of(g, &d[0]).map(|a| vec![Mono::power(0, a)]).unwrap_or_default(),
-            _ => two_variable_solutions(g, &d[0], &d[1]),
-        }
-    }
-}
-
-/// All (a, b) ≥ 0 with a·d0 + b·d1 = g, for a validated pair of degrees.
-fn two_variable_solutions(g: &[i64], d0: &[i64], d1: &[i64]) -> Vec<Mono> {
-    let n = g.len();
-    // Independent degrees: at most one solution, by Cramer's rule on a non-zero 2×2 minor.
-    for i in 0..n {
-        for j in i + 1..n {
-            let det = d0[i] * d1[j] - d0[j] * d1[i];
-            if det == 0 {
-                continue;
-            }
-            let (an, bn) = (g[i] * d1[j] - g[j] * d1[i], d0[i] * g[j] - d0[j] * g[i]);
-            if an % det != 0 || bn % det != 0 {
-                return vec![];
-            }
-            let (a, b) = (an / det, bn / det);
-            let max = crate::limits::MAX_EXPONENT as i64;
-            if a < 0 || b < 0 || a > max || b > max || (0..n).any(|k| a * d0[k] + b * d1[k] != g[k]) {
-                return vec![];
-            }
-            return vec![Mono([a as u32, b as u32])];
-        }
-    }
-    // Parallel degrees pointing the same way: a is bounded along a non-zero coordinate.
-    let Some(i) = d0.iter().position(|&x| x != 0) else { return vec![] };
-    let mut out = Vec::new();
-    let mut a: i64 = 0;
-    while a * d0[i].abs() <= g[i].abs() && a <= crate::limits::MAX_EXPONENT as i64 {
-        let rest: Vec<i64> = g.iter().zip(d0).map(|(x, y)| x - a * y).collect();
-        if let Some(b) = multiple_of(&rest, d1) {
-            out.push(Mono([a as u32, b]));
-        }
-        a += 1;
-    }
-    out
 }
 
 fn check_vector(what: &str, v: &[i64], m: usize, errs: &mut Vec<String>) {
@@ -161,19 +109,6 @@ fn check_vector(what: &str, v: &[i64], m: usize, errs: &mut Vec<String>) {
     if v.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
         errs.push(format!("{what} has an entry beyond ±{MAX_GRADING_ABS}"));
     }
-}
-
-/// `Some(a)` with a ≥ 0 and g = a·d, if there is one.
-fn multiple_of(g: &[i64], d: &[i64]) -> Option<u32> {
-    let i = d.iter().position(|&x| x != 0)?;
-    if g[i] % d[i] != 0 {
-        return None;
-    }
-    let a = g[i] / d[i];
-    if a < 0 || a > crate::limits::MAX_EXPONENT as i64 || g.iter().zip(d).any(|(x, y)| *x != a * y) {
-        return None;
-    }
-    Some(a as u32)
 }
 
 /// Why some graded piece is infinite, if it is: a non-trivial monomial of degree zero, i.e. a
@@ -215,16 +150,5 @@ mod tests {
         assert!(ring(&[("U", vec![0, 0])], vec![-1, 0]).is_err());
         // Parallel degrees pointing the same way are fine.
         assert!(ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]).is_ok());
-    }
-    #[test]
-    fn monomials_of_a_degree() {
-        let r = ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]).unwrap();
-        let mut ms = r.monomials_of_degree(&[-8, 0]);
-        ms.sort();
-        assert_eq!(ms, vec![Mono([0, 2]), Mono([2, 1]), Mono([4, 0])]);
-        let r = ring(&[("U", vec![-2, 0]), ("V", vec![0, -2])], vec![-1, -1]).unwrap();
-        assert_eq!(r.monomials_of_degree(&[-4, -2]), vec![Mono([2, 1])]);
-        assert!(r.monomials_of_degree(&[-3, 0]).is_empty());
-        assert!(r.monomials_of_degree(&[2, 0]).is_empty());
     }
 }

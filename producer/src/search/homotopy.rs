@@ -41,7 +41,7 @@ pub fn hom_basis(ring: &RingInfo, c: &Complex, d: &Complex, degree: &[i64]) -> V
     for (gx, xs) in &cg {
         for (gw, ws) in &dg {
             let need: Grading = (0..degree.len()).map(|i| gx[i] + degree[i] - gw[i]).collect();
-            for m in ring.monomials_of_degree(&need) {
+            for m in super::monomials::monomials_of_degree(ring, &need) {
                 for &x in xs {
                     for &w in ws {
                         out.push((x, m, w));

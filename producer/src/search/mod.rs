@@ -8,6 +8,7 @@
 
 pub mod elimination;
 pub mod homotopy;
+pub mod monomials;
 pub mod normal_form;
 pub mod reduce;
 pub mod torsion;

@@ -1,0 +1,77 @@
+//! Formatting of terms for messages: vectors written out, the difference of the two sides of
+//! a failed identity, and "did you mean" suggestions. Presentation only: the decisions are made
+//! by the callers (an identity fails exactly when its two sides differ).
+
+use crate::algebra::{normalize, Vector};
+use crate::load::Context;
+use tubecert_format::Mono;
+
+/// A close known name, for "did you mean" (skipped for very large name sets).
+pub fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
+    if known.clone().count() > 100_000 {
+        return String::new();
+    }
+    let dist = |a: &str, b: &str| {
+        let b: Vec<char> = b.chars().collect();
+        let mut prev: Vec<usize> = (0..=b.len()).collect();
+        for (i, ca) in a.chars().enumerate() {
+            let mut cur = vec![i + 1];
+            for (j, cb) in b.iter().enumerate() {
+                cur.push((prev[j] + (ca != *cb) as usize).min(prev[j + 1] + 1).min(cur[j] + 1));
+            }
+            prev = cur;
+        }
+        prev[b.len()]
+    };
+    let best = known.map(|k| (dist(name, k), k)).min();
+    match best {
+        Some((d, k)) if d <= 2.max(name.len() / 3) => format!(" (did you mean \"{k}\"?)"),
+        _ => String::new(),
+    }
+}
+
+/// Written form of a vector in complex `c`, e.g. `U^2·a + b`.
+pub fn render_vector(ctx: &Context, c: usize, v: &[(u32, Mono)]) -> String {
+    if v.is_empty() {
+        return "0".into();
+    }
+    let names = &ctx.complexes[c].names;
+    let term = |&(g, m): &(u32, Mono)| {
+        if m.is_one() {
+            names[g as usize].clone()
+        } else {
+            format!("{}·{}", m.render(&ctx.ring.variables), names[g as usize])
+        }
+    };
+    let shown: Vec<String> = v.iter().take(12).map(term).collect();
+    let more = if v.len() > 12 { format!(" + … ({} terms)", v.len()) } else { String::new() };
+    format!("{}{more}", shown.join(" + "))
+}
+
+/// Compares two vectors of complex `c`; on difference, both sides and the terms in which
+/// they differ.
+#[allow(clippy::too_many_arguments)]
+pub fn compare(
+    ctx: &Context,
+    c: usize,
+    at: &str,
+    lhs_name: &str,
+    lhs: &Vector,
+    rhs_name: &str,
+    rhs: &Vector,
+) -> Result<(), String> {
+    if lhs == rhs {
+        return Ok(());
+    }
+    let only =
+        |a: &Vector, b: &Vector| -> Vector { a.iter().filter(|t| b.binary_search(t).is_err()).copied().collect() };
+    let mut diff = only(lhs, rhs);
+    diff.extend(only(rhs, lhs));
+    normalize(&mut diff);
+    Err(format!(
+        "at generator {at}:\n      {lhs_name} = {}\n      {rhs_name} = {}\n      they differ by {}",
+        render_vector(ctx, c, lhs),
+        render_vector(ctx, c, rhs),
+        render_vector(ctx, c, &diff)
+    ))
+}
