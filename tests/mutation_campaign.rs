@@ -92,12 +92,7 @@ fn restate(body: &mut Body, i: usize) {
             vars.first().map_or("", |v| v),
         )
     };
-    match &mut body.claims[i] {
-        Claim::TorsionOrder { statement, .. } | Claim::Homology { statement, .. } | Claim::Tau { statement, .. } => {
-            *statement = text
-        }
-        _ => {}
-    }
+    *body.claims[i].statement_mut() = text;
 }
 
 /// Applies one random semantic mutation.

@@ -97,7 +97,7 @@ pub fn draw_file(path: &std::path::Path, name: &str, highlight: Option<usize>) -
             let claim = claims
                 .get(k.wrapping_sub(1))
                 .ok_or_else(|| vec![format!("{file}: there is no claim {k} (it has {})", claims.len())])?;
-            (support(claim, name, b), format!("— highlighted: witness of claim {k}, {}", claim.statement()))
+            (support(claim, name, b), format!("highlighted: the witness of claim {k}, {}", claim.statement()))
         }
         (Some(_), None) => {
             return Err(vec![format!("{file}: --highlight needs a certificate (claims carry the witnesses)")])
@@ -123,7 +123,7 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
     let col: BTreeMap<i64, usize> = xs.iter().enumerate().map(|(i, &x)| (x, i)).collect();
     let row: BTreeMap<i64, usize> = ys.iter().rev().enumerate().map(|(i, &y)| (y, i)).collect();
     let slot = 52.0; // horizontal room per generator in a cell
-    let (margin, top) = (60.0, 50.0);
+    let (margin, top) = (60.0, 56.0);
     // Each column is as wide as its most crowded cell; `left[i]` is where column i starts.
     let mut widths = vec![70.0f64; xs.len()];
     for (&(x, _), gens) in &cells {
@@ -139,7 +139,10 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
         .collect();
     let centre = |i: usize| margin + left[i] + widths[i] / 2.0;
     let cell_h = 70.0;
-    let width = margin * 2.0 + widths.iter().sum::<f64>();
+    let title = format!("{name}: {} generators, {} arrows", c.generators.len(), c.differential.len());
+    // Wide enough for the title and the caption (about 7 px a character at these sizes).
+    let text_width = 7.0 * title.chars().count().max(caption.chars().count()) as f64;
+    let width = (margin * 2.0 + widths.iter().sum::<f64>()).max(text_width + margin);
     let height = top + margin + cell_h * ys.len() as f64;
     // Position of each generator, and whether its label goes above (alternating in a cell).
     let mut at: BTreeMap<&String, (f64, f64)> = BTreeMap::new();
@@ -169,11 +172,8 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
         2 => ("Alexander (gr_U − gr_V)/2".to_string(), ring.gradings.first().cloned().unwrap_or_default()),
         _ => (ring.gradings.get(1).cloned().unwrap_or_default(), ring.gradings.first().cloned().unwrap_or_default()),
     };
-    let _ = writeln!(
-        s,
-        r#"<text x="{margin}" y="22" font-size="15" font-weight="bold">{}</text>"#,
-        esc(&format!("{name}: {} generators, {} arrows {caption}", c.generators.len(), c.differential.len()))
-    );
+    let _ = writeln!(s, r#"<text x="{margin}" y="20" font-size="15" font-weight="bold">{}</text>"#, esc(&title));
+    let _ = writeln!(s, r##"<text x="{margin}" y="38" font-size="12" fill="#b06000">{}</text>"##, esc(caption));
     // Grid: one line per grading in use, labelled with its value.
     for (&x, &i) in &col {
         let px = centre(i);

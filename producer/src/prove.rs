@@ -63,17 +63,7 @@ impl Builder<'_> {
     fn add(&mut self, mut claim: Claim) -> String {
         let vars = &self.ctx.ring.variables;
         let text = render(&claim, &ring_name(vars), vars.first().map_or("", |v| v));
-        match &mut claim {
-            Claim::Complex { statement, .. }
-            | Claim::ChainMap { statement, .. }
-            | Claim::NullHomotopic { statement, .. }
-            | Claim::NotNullHomotopic { statement, .. }
-            | Claim::HomotopyEquivalence { statement, .. }
-            | Claim::Homology { statement, .. }
-            | Claim::TorsionOrder { statement, .. }
-            | Claim::TorsionOrderOfComplex { statement, .. }
-            | Claim::Tau { statement, .. } => *statement = text.clone(),
-        }
+        *claim.statement_mut() = text.clone();
         self.claims.push(claim);
         text
     }

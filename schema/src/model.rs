@@ -312,6 +312,23 @@ pub enum Claim {
     },
 }
 
+/// The `statement` field of any claim (one match for both borrows).
+macro_rules! statement_of {
+    ($claim:expr) => {
+        match $claim {
+            Claim::Complex { statement, .. }
+            | Claim::ChainMap { statement, .. }
+            | Claim::NullHomotopic { statement, .. }
+            | Claim::NotNullHomotopic { statement, .. }
+            | Claim::HomotopyEquivalence { statement, .. }
+            | Claim::Homology { statement, .. }
+            | Claim::TorsionOrder { statement, .. }
+            | Claim::TorsionOrderOfComplex { statement, .. }
+            | Claim::Tau { statement, .. } => statement,
+        }
+    };
+}
+
 impl Claim {
     pub fn kind(&self) -> &'static str {
         match self {
@@ -328,17 +345,11 @@ impl Claim {
     }
 
     pub fn statement(&self) -> &str {
-        match self {
-            Claim::Complex { statement, .. }
-            | Claim::ChainMap { statement, .. }
-            | Claim::NullHomotopic { statement, .. }
-            | Claim::NotNullHomotopic { statement, .. }
-            | Claim::HomotopyEquivalence { statement, .. }
-            | Claim::Homology { statement, .. }
-            | Claim::TorsionOrder { statement, .. }
-            | Claim::TorsionOrderOfComplex { statement, .. }
-            | Claim::Tau { statement, .. } => statement,
-        }
+        statement_of!(self)
+    }
+
+    pub fn statement_mut(&mut self) -> &mut String {
+        statement_of!(self)
     }
 }
 
