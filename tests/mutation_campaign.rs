@@ -236,7 +236,15 @@ fn main() {
             match (accepted, holds) {
                 (false, false) => c.rejected += 1,
                 (true, true) => c.neutral += 1,
-                (false, true) => c.stricter += 1,
+                (false, true) => {
+                    c.stricter += 1;
+                    let why = tubecheck::check_bytes("mutant", &bytes).err().unwrap_or_default();
+                    eprintln!(
+                        "stricter in {} after \"{what}\": {}",
+                        f.display(),
+                        why.lines().next().unwrap_or("a claim fails")
+                    );
+                }
                 (true, false) => {
                     c.unexplained += 1;
                     eprintln!("UNEXPLAINED acceptance in {} after \"{what}\"", f.display());

@@ -93,3 +93,23 @@ fn full_staircase_of_the_trefoil() {
         vec![["x1".to_string(), "U".into(), "x0".into()], ["x1".into(), "V".into(), "x2".into()]]
     );
 }
+
+#[test]
+fn quotients_of_the_full_staircase() {
+    // Setting V = 0 in CFK over F2[U,V] gives the minus version, and U = V = 0 the hat version
+    // (Ozsváth–Szabó; CONVENTIONS): τ from the quotient agrees with τ(T(p,q)) = (p−1)(q−1)/2,
+    // and the hat rank with the number of terms of Δ (Ozsváth–Szabó 2005).
+    for (p, q) in [(2, 5), (3, 4), (3, 5)] {
+        let c = claims(
+            json!({"T": {"quotient": [{"staircase": {"torus_knot": [p, q]}}, "V"]}}),
+            json!([{"tau": {"complex": "T"}}]),
+        );
+        assert_eq!(c[0]["tau"], json!((p - 1) * (q - 1) / 2), "T({p},{q})");
+        let hat = json!({"variables": [], "gradings": ["maslov", "alexander"], "variable_degrees": {}, "differential_degree": [-1, 0]});
+        let problem = json!({"format": "tubecert-problem", "version": 1, "ring": hat,
+            "complexes": {"T": {"quotient": [{"staircase": {"torus_knot": [p, q]}}, "U", "V"]}}, "goals": [{"homology": {"complex": "T"}}]});
+        let c = verified_claims(&prove_value(&problem));
+        let terms = tubecert::construct::torus_knot_exponents(p, q).unwrap().len();
+        assert_eq!(c[0]["free"].as_array().unwrap().len(), terms, "T({p},{q})");
+    }
+}

@@ -323,10 +323,80 @@ fn build_complex(
             let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
             Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree))))
         }
+        "quotient" => {
+            let a = arg.as_array().filter(|a| a.len() >= 2).ok_or("\"quotient\" takes [complex, variable…]")?;
+            let zeroed: Vec<String> = a[1..]
+                .iter()
+                .map(|v| v.as_str().map(String::from).ok_or("quotient: variables are names"))
+                .collect::<Result<_, _>>()?;
+            let source_ring = quotient_source(ring, &zeroed)?;
+            // The source is written over the larger ring, so it is given inline (a definition
+            // or a construction), not as a name of this problem's complexes.
+            if a[0].is_string() {
+                return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
+            }
+            let Some(src) = build_complex(&source_ring, &a[0], done, maps)? else { return Ok(None) };
+            Some(quotient(&source_ring, ring, &src)?)
+        }
         other => {
-            return Err(format!("unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone)"))
+            return Err(format!(
+                "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient)"
+            ))
         }
     })
+}
+
+/// The ring a quotient's source lives over: the full F2[U,V] with (gr_U, gr_V) for the minus
+/// version (V = 0) or the hat version (U = V = 0); the minus F2[U] for hat from minus (U = 0).
+fn quotient_source(target: &Ring, zeroed: &[String]) -> Result<Ring, String> {
+    let minus = target.variables == ["U"]
+        && target.variable_degrees.get("U") == Some(&vec![-2, -1])
+        && target.differential_degree == [-1, 0];
+    let hat = target.variables.is_empty() && target.gradings.len() == 2 && target.differential_degree == [-1, 0];
+    let full = || Ring {
+        variables: vec!["U".into(), "V".into()],
+        gradings: vec!["gr_U".into(), "gr_V".into()],
+        variable_degrees: UniqueMap([("U".to_string(), vec![-2, 0]), ("V".to_string(), vec![0, -2])].into()),
+        differential_degree: vec![-1, -1],
+    };
+    let z: Vec<&str> = zeroed.iter().map(|s| s.as_str()).collect();
+    match (minus, hat, z.as_slice()) {
+        (true, _, ["V"]) => Ok(full()),
+        (_, true, ["U", "V"] | ["V", "U"]) => Ok(full()),
+        (_, true, ["U"]) => Ok(Ring {
+            variables: vec!["U".into()],
+            gradings: target.gradings.clone(),
+            variable_degrees: UniqueMap([("U".to_string(), vec![-2, -1])].into()),
+            differential_degree: vec![-1, 0],
+        }),
+        _ => Err("quotient: supported are [C, \"V\"] into F2[U] with U of degree (−2,−1) (the minus version), and [C, \"U\", \"V\"] or [C, \"U\"] into F2 (the hat version), gradings (Maslov, Alexander)".into()),
+    }
+}
+
+/// Sets the variables missing from `target` to zero: terms whose coefficient involves them are
+/// dropped; (gr_U, gr_V) become (Maslov, Alexander) = (gr_U, (gr_U − gr_V)/2).
+pub fn quotient(source: &Ring, target: &Ring, c: &ComplexSpec) -> Result<ComplexSpec, String> {
+    let from_full = source.variables.len() == 2;
+    let mut generators = Vec::new();
+    for (g, gr) in c.generators.iter() {
+        let converted = match (from_full, gr.as_slice()) {
+            (true, [u, v]) if (u - v) % 2 == 0 => vec![*u, (u - v) / 2],
+            (true, _) => return Err(format!("quotient: generator {g} has gradings {gr:?}; gr_U − gr_V must be even")),
+            (false, _) => gr.clone(),
+        };
+        generators.push((g.clone(), converted));
+    }
+    let mut differential = Vec::new();
+    for [x, coef, y] in &c.differential {
+        let kept: Vec<Mono> = parse_poly(coef, &source.variables)?
+            .into_iter()
+            .filter(|m| (target.variables.len()..source.variables.len()).all(|i| m.0[i] == 0))
+            .collect();
+        if !kept.is_empty() {
+            differential.push([x.clone(), render_poly(&kept, &target.variables), y.clone()]);
+        }
+    }
+    Ok(ComplexSpec { generators: gens(generators), differential })
 }
 
 fn build_tensor_map(

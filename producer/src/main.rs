@@ -104,7 +104,8 @@ enum Command {
 
 fn default_output(problem: &std::path::Path) -> PathBuf {
     let name = problem.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
-    let stem = [".problem.json", ".problem.txt", ".json", ".txt"].iter().find_map(|s| name.strip_suffix(s)).unwrap_or(&name);
+    let stem =
+        [".problem.json", ".problem.txt", ".json", ".txt"].iter().find_map(|s| name.strip_suffix(s)).unwrap_or(&name);
     problem.with_file_name(format!("{stem}.cert.json"))
 }
 
