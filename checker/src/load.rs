@@ -32,11 +32,51 @@ impl Errors {
     }
 }
 
+/// Generator names → indices. Names of up to 22 bytes are kept inline in the table, so a
+/// lookup in a large complex costs one memory access rather than two (the hot path of loading).
+#[derive(Debug, Default)]
+pub struct NameIndex(HashMap<NameKey, u32>);
+
+#[derive(Debug, PartialEq, Eq)]
+enum NameKey {
+    Short(u8, [u8; 22]),
+    Long(String),
+}
+
+impl std::hash::Hash for NameKey {
+    fn hash<H: std::hash::Hasher>(&self, h: &mut H) {
+        match self {
+            NameKey::Short(n, b) => h.write(&b[..*n as usize]),
+            NameKey::Long(s) => h.write(s.as_bytes()),
+        }
+    }
+}
+
+fn name_key(s: &str) -> NameKey {
+    match s.len() {
+        n @ 0..=22 => {
+            let mut b = [0; 22];
+            b[..n].copy_from_slice(s.as_bytes());
+            NameKey::Short(n as u8, b)
+        }
+        _ => NameKey::Long(s.to_string()),
+    }
+}
+
+impl NameIndex {
+    pub fn new<'a>(names: impl Iterator<Item = &'a String>) -> NameIndex {
+        NameIndex(names.enumerate().map(|(i, n)| (name_key(n), i as u32)).collect())
+    }
+    pub fn get(&self, name: &str) -> Option<u32> {
+        self.0.get(&name_key(name)).copied()
+    }
+}
+
 #[derive(Debug)]
 pub struct Complex {
     pub name: String,
     pub names: Vec<String>,
-    pub index: HashMap<String, u32>,
+    pub index: NameIndex,
     pub gradings: Vec<Grading>,
     pub d: SparseMap,
     /// Terms of ∂ that are not homogeneous of the differential's degree.
@@ -95,7 +135,7 @@ pub fn read_terms(
         return (map, defects);
     }
     let lookup = |c: &Complex, n: &str, errs: &mut Errors, pos: usize| match c.index.get(n) {
-        Some(&i) => Some(i),
+        Some(i) => Some(i),
         None => {
             errs.push(format!(
                 "{what}, term {pos}: generator \"{n}\" is not in complex {}{}",
@@ -166,7 +206,7 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
     let mut c = Complex {
         name: name.to_string(),
         names: gens.keys().cloned().collect(),
-        index: gens.keys().enumerate().map(|(i, k)| (k.clone(), i as u32)).collect(),
+        index: NameIndex::new(gens.keys()),
         gradings: gens.values().cloned().collect(),
         d: SparseMap::zero(0),
         defects: Vec::new(),

@@ -53,7 +53,7 @@ impl Reduction {
         let names: Vec<String> = nf.survivors.iter().map(|&t| c.names[t as usize].clone()).collect();
         let complex = Complex {
             name: format!("{}_reduced", c.name),
-            index: names.iter().enumerate().map(|(i, n)| (n.clone(), i as u32)).collect(),
+            index: tubecheck::load::NameIndex::new(names.iter()),
             names,
             gradings: nf.survivors.iter().map(|&t| c.gradings[t as usize].clone()).collect(),
             d: SparseMap { rows: nf.survivors.iter().map(|&t| remap(&nf.out[t as usize])).collect() },
