@@ -16,7 +16,7 @@ pub mod report_terms;
 pub mod report_text;
 pub mod verify;
 
-use tubecert_format::canonical::canonical_sha256;
+use tubecert_format::canonical::body_sha256;
 use tubecert_format::limits::MAX_FILE_BYTES;
 use tubecert_format::{Certificate, CERTIFICATE_FORMAT, CERTIFICATE_VERSION};
 
@@ -62,7 +62,7 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
     let cert = parse_certificate(bytes)?;
     // The hash and the arithmetic are independent: compute them on the machine's two cores.
     let (sha256, claims) = std::thread::scope(|s| {
-        let hash = s.spawn(|| canonical_sha256(&cert.body));
+        let hash = s.spawn(|| body_sha256(&cert.body));
         let claims = verify::check_body(&cert.body).map_err(|errs| errs.join("\n  "));
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });

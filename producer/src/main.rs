@@ -94,6 +94,9 @@ enum Command {
     /// What changed between two certificates (exit 0 same, 1 different, 2 unreadable).
     #[command(after_help = "Example:\n  tubecert diff old.cert.json new.cert.json")]
     Diff { a: PathBuf, b: PathBuf },
+    /// (Used by `bench`: times a plain parse and a full check of FILE in a fresh process.)
+    #[command(hide = true)]
+    BenchCheck { file: PathBuf },
     /// Write the demo scenario's problems and certificates.
     #[command(after_help = "Example:\n  tubecert demo --out /tmp/demo && tubecheck /tmp/demo")]
     Demo {
@@ -257,6 +260,13 @@ fn main() -> ExitCode {
                 (ra, rb) => report_errors(&[ra.err(), rb.err()].into_iter().flatten().collect::<Vec<_>>()),
             }
         }
+        Command::BenchCheck { file } => match tubecert::bench::check_timing(&file) {
+            Ok((parse, check)) => {
+                println!("{parse:.6} {check:.6}");
+                ExitCode::SUCCESS
+            }
+            Err(e) => report_errors(&[e]),
+        },
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {

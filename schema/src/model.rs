@@ -85,21 +85,23 @@ pub struct Ring {
 }
 
 /// A free complex: named generators with gradings, and the differential as sparse terms.
+/// (Fields in sorted order: see `canonical::body_sha256`.)
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct ComplexSpec {
-    pub generators: UniqueMap<Grading>,
     pub differential: Vec<Term>,
+    pub generators: UniqueMap<Grading>,
 }
 
 /// An R-linear map between two declared complexes, homogeneous of `degree`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct MapSpec {
-    pub from: String,
-    pub to: String,
+    // Fields in sorted order, so serde's output is already canonical (see canonical::body_sha256).
     pub degree: Grading,
+    pub from: String,
     pub terms: Vec<Term>,
+    pub to: String,
 }
 
 /// A map expression: `"F"`, `{"id": C}`, `{"sum": [...]}`, `{"compose": [outer, ..., inner]}`,
