@@ -11,6 +11,7 @@
 pub mod algebra;
 pub mod load;
 pub mod report_appendix;
+pub mod report_cli;
 pub mod report_json;
 pub mod report_terms;
 pub mod report_text;

@@ -4,8 +4,8 @@
 use clap::Parser;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
-use tubecert_format::statement::SCOPE;
-use tubecheck::{check_bytes, report_appendix, report_json, report_text};
+use tubecheck::check_bytes;
+use tubecheck::report_cli::{self, Style};
 
 #[derive(Parser)]
 #[command(
@@ -63,67 +63,30 @@ fn main() -> ExitCode {
             return ExitCode::from(2);
         }
     }
-    let (mut failed, mut unreadable, mut verified_claims, mut failed_claims) = (0, 0, 0, 0);
-    let mut hashes = Vec::new();
-    let mut json_out = Vec::new();
+    let mut outcomes = Vec::new();
     for (path, named) in files {
         let name = path.display().to_string();
-        let bytes = match tubecert_format::limits::read_file(&path) {
-            Ok(b) => b,
-            Err(e) => {
-                unreadable += 1;
-                eprintln!("tubecheck: {name}: {e}");
-                json_out.push(report_json::unreadable(&name, &e));
-                continue;
-            }
+        let outcome = match tubecert_format::limits::read_file(&path) {
+            Err(e) => Err(e),
+            Ok(bytes) if !named && is_problem_file(&bytes) => continue,
+            Ok(bytes) => check_bytes(&name, &bytes).map_err(|e| format!("malformed: {e}")),
         };
-        if !named && is_problem_file(&bytes) {
-            continue;
-        }
-        match check_bytes(&name, &bytes) {
-            Ok(r) => {
-                let listed = r.claims.iter().filter(|c| !c.implicit);
-                verified_claims += listed.clone().filter(|c| c.outcome.is_ok()).count();
-                failed_claims += listed.filter(|c| c.outcome.is_err()).count();
-                if !r.ok() {
-                    failed += 1;
-                }
-                hashes.push(r.sha256.clone());
-                if args.json {
-                    json_out.push(report_json::render(&r));
-                } else if let Some(kind) = &args.report {
-                    print!("{}", if kind == "md" { report_appendix::markdown(&r) } else { report_appendix::latex(&r) });
-                } else {
-                    println!("{}", report_text::render(&r));
-                }
-            }
-            Err(e) => {
-                unreadable += 1;
-                eprintln!("tubecheck: {name}: malformed: {e}");
-                json_out.push(report_json::unreadable(&name, &e));
-            }
-        }
+        outcomes.push((name, outcome));
     }
-    let mut expect_failed = false;
-    for h in &args.expect {
-        if !hashes.iter().any(|x| x.eq_ignore_ascii_case(h.trim())) {
-            expect_failed = true;
-            eprintln!("tubecheck: expected hash {h} is not the hash of any verified file");
-        }
-    }
-    if args.json {
-        println!("{}", serde_json::to_string_pretty(&json_out).expect("JSON values serialize"));
-    } else if args.report.is_none() {
-        println!("{SCOPE}");
-        println!(
-            "Total: {} file(s), {verified_claims} claim(s) verified, {failed_claims} failed; {failed} file(s) failed, {unreadable} unreadable{}",
-            hashes.len() + unreadable,
-            if args.expect.is_empty() { String::new() } else if expect_failed { "; expected hash NOT found".into() } else { "; expected hash found".into() }
-        );
-    }
-    if unreadable > 0 {
+    let missing: Vec<&String> = args
+        .expect
+        .iter()
+        .filter(|h| !outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h.trim()))))
+        .collect();
+    let style = if args.json {
+        Style::Json
+    } else {
+        args.report.as_deref().map_or(Style::Text, |r| if r == "md" { Style::Markdown } else { Style::Latex })
+    };
+    report_cli::print(&outcomes, style, &missing, !args.expect.is_empty());
+    if outcomes.iter().any(|(_, o)| o.is_err()) {
         ExitCode::from(2)
-    } else if failed > 0 || expect_failed {
+    } else if !missing.is_empty() || outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| !r.ok())) {
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS
