@@ -199,10 +199,13 @@ pub fn read_terms(
 }
 
 pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut Errors) -> Complex {
-    let gens = &spec.generators;
-    if gens.len() > MAX_GENERATORS {
-        errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", gens.len()));
-    }
+    let empty = UniqueMap::default();
+    let gens = if spec.generators.len() > MAX_GENERATORS {
+        errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", spec.generators.len()));
+        &empty // read no further
+    } else {
+        &spec.generators
+    };
     let mut c = Complex {
         name: name.to_string(),
         names: gens.keys().cloned().collect(),

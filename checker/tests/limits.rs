@@ -89,9 +89,27 @@ fn file_size_is_refused_before_reading() {
 }
 
 #[test]
-fn generator_and_term_counts_are_bounded() {
-    // Files at these sizes are impractical in a test; the limits are what the loaders compare
-    // against, and a limit below what the scale targets need would be a bug.
-    const { assert!(MAX_GENERATORS >= 2_000_000 && MAX_TERMS >= 20_000_000) };
-    const { assert!(MAX_FILE_BYTES >= 1 << 30) };
+fn generator_and_term_counts() {
+    // Built in memory (a file this large would only slow the test down); the loader refuses
+    // them with the limit named. The limits stay above what the scale targets need.
+    const { assert!(MAX_GENERATORS >= 2_000_000 && MAX_TERMS >= 10_000_000) };
+    let ring: tubecert_format::Ring = serde_json::from_value(json!({"variables": ["U"], "gradings": ["m", "a"], "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]})).unwrap();
+    let many: std::collections::BTreeMap<String, Vec<i64>> =
+        (0..=MAX_GENERATORS).map(|i| (format!("g{i}"), vec![0, 0])).collect();
+    let big = tubecert_format::ComplexSpec { differential: vec![], generators: tubecert_format::UniqueMap(many) };
+    let complexes = tubecert_format::UniqueMap([("K".to_string(), big)].into());
+    let e = tubecheck::load::load(&ring, &complexes, &Default::default()).unwrap_err();
+    assert!(e[0].contains("generators, above the limit"), "{e:?}");
+    drop(complexes);
+    let small = tubecert_format::ComplexSpec {
+        differential: vec![[String::new(), String::new(), String::new()]; MAX_TERMS + 1],
+        generators: tubecert_format::UniqueMap([("a".to_string(), vec![0, 0])].into()),
+    };
+    let e = tubecheck::load::load(
+        &ring,
+        &tubecert_format::UniqueMap([("K".to_string(), small)].into()),
+        &Default::default(),
+    )
+    .unwrap_err();
+    assert!(e[0].contains("terms, above the limit"), "{e:?}");
 }

@@ -9,9 +9,9 @@ pub const MAX_GRADING_ABS: i64 = 1 << 31;
 /// Largest file the tools read.
 pub const MAX_FILE_BYTES: u64 = 4 << 30;
 /// Largest number of generators in one complex.
-pub const MAX_GENERATORS: usize = 20_000_000;
+pub const MAX_GENERATORS: usize = 5_000_000;
 /// Largest number of terms in one differential, map or witness.
-pub const MAX_TERMS: usize = 200_000_000;
+pub const MAX_TERMS: usize = 20_000_000;
 /// Longest name of a generator, complex, map, variable or grading (bytes).
 pub const MAX_NAME_LEN: usize = 200;
 /// Deepest nesting of a map expression.
