@@ -57,11 +57,18 @@ impl SparseMap {
     /// The image of a vector.
     pub fn apply(&self, v: &[(u32, Mono)]) -> Result<Vector, String> {
         let mut acc = Vec::new();
-        for &(g, m) in v {
-            push_scaled(&mut acc, m, &self.rows[g as usize])?;
-        }
-        normalize(&mut acc);
+        self.apply_into(v, &mut acc)?;
         Ok(acc)
+    }
+
+    /// The image of a vector, written into `acc` (cleared first): reuses one buffer in loops.
+    pub fn apply_into(&self, v: &[(u32, Mono)], acc: &mut Vector) -> Result<(), String> {
+        acc.clear();
+        for &(g, m) in v {
+            push_scaled(acc, m, &self.rows[g as usize])?;
+        }
+        normalize(acc);
+        Ok(())
     }
 
     /// `self ∘ inner`.
@@ -95,9 +102,14 @@ impl SparseMap {
 
     /// For each target generator, the (source, monomial) terms that reach it.
     pub fn incoming(&self, num_targets: usize) -> Vec<Vector> {
-        let mut inc = vec![Vec::new(); num_targets];
+        self.incoming_to(&vec![true; num_targets])
+    }
+
+    /// Like [`SparseMap::incoming`], but only for the targets marked in `wanted` (one pass).
+    pub fn incoming_to(&self, wanted: &[bool]) -> Vec<Vector> {
+        let mut inc = vec![Vec::new(); wanted.len()];
         for (x, r) in self.rows.iter().enumerate() {
-            for &(y, m) in r {
+            for &(y, m) in r.iter().filter(|t| wanted[t.0 as usize]) {
                 inc[y as usize].push((x as u32, m));
             }
         }

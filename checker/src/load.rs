@@ -9,7 +9,7 @@ use std::collections::{BTreeMap, HashMap};
 use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
-use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Ring, RingInfo, Term, UniqueMap};
+use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
 
 /// Collected error messages, capped at [`MAX_REPORTED_ERRORS`].
 #[derive(Debug, Default)]
@@ -72,12 +72,41 @@ impl NameIndex {
     }
 }
 
+/// The grading vectors of a complex's generators in one allocation (row i is generator i), so
+/// that reading the grading of a random generator costs one memory access.
+#[derive(Debug, Clone, Default)]
+pub struct Gradings {
+    width: usize,
+    flat: Vec<i64>,
+}
+
+impl Gradings {
+    /// Rows of the wrong length (already reported by the caller) are padded or cut to `width`.
+    pub fn new<'a>(width: usize, rows: impl Iterator<Item = &'a [i64]>) -> Gradings {
+        let mut flat = Vec::new();
+        for r in rows {
+            flat.extend((0..width).map(|i| r.get(i).copied().unwrap_or(0)));
+        }
+        Gradings { width, flat }
+    }
+    pub fn iter(&self) -> impl Iterator<Item = &[i64]> {
+        self.flat.chunks_exact(self.width.max(1))
+    }
+}
+
+impl std::ops::Index<usize> for Gradings {
+    type Output = [i64];
+    fn index(&self, i: usize) -> &[i64] {
+        &self.flat[i * self.width..(i + 1) * self.width]
+    }
+}
+
 #[derive(Debug)]
 pub struct Complex {
     pub name: String,
     pub names: Vec<String>,
     pub index: NameIndex,
-    pub gradings: Vec<Grading>,
+    pub gradings: Gradings,
     pub d: SparseMap,
     /// Terms of ∂ that are not homogeneous of the differential's degree.
     pub defects: Vec<String>,
@@ -114,46 +143,40 @@ pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
     a.iter().zip(b).map(|(x, y)| x + y).collect()
 }
 
-/// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` of degree `degree`.
-/// Structural errors go to `errs`; non-homogeneous terms are returned as defects.
-/// With `single_monomial`, each coefficient must be one monomial (dual witnesses).
-#[allow(clippy::too_many_arguments)]
-pub fn read_terms(
+/// Resolves names and coefficients of `terms` (numbered from `offset` + 1 in messages):
+/// the triples (from, to, monomial), structural errors, non-homogeneous terms.
+#[allow(clippy::too_many_arguments, clippy::type_complexity)]
+fn resolve(
     ring: &RingInfo,
     src: &Complex,
     dst: &Complex,
     degree: &[i64],
     terms: &[Term],
+    offset: usize,
     what: &str,
     single_monomial: bool,
-    errs: &mut Errors,
-) -> (SparseMap, Vec<String>) {
-    let mut map = SparseMap::zero(src.names.len());
-    let mut defects = Vec::new();
-    if terms.len() > MAX_TERMS {
-        errs.push(format!("{what}: {} terms, above the limit {MAX_TERMS}", terms.len()));
-        return (map, defects);
-    }
-    let lookup = |c: &Complex, n: &str, errs: &mut Errors, pos: usize| match c.index.get(n) {
-        Some(i) => Some(i),
-        None => {
+) -> (Vec<(u32, u32, Mono)>, Vec<String>, Vec<String>) {
+    let (mut triples, mut errs, mut defects) = (Vec::with_capacity(terms.len()), Vec::new(), Vec::new());
+    let lookup = |c: &Complex, n: &str, errs: &mut Vec<String>, pos: usize| {
+        let found = c.index.get(n);
+        if found.is_none() && errs.len() <= MAX_REPORTED_ERRORS {
             errs.push(format!(
                 "{what}, term {pos}: generator \"{n}\" is not in complex {}{}",
                 c.name,
                 suggest(n, c.names.iter())
             ));
-            None
         }
+        found
     };
     let mut last_from: Option<(&str, u32)> = None; // terms come grouped by source: look up once
     for (k, [from, coef, to]) in terms.iter().enumerate() {
-        let pos = k + 1;
+        let pos = offset + k + 1;
         let x = match last_from {
             Some((name, i)) if name == from => Some(i),
-            _ => lookup(src, from, errs, pos),
+            _ => lookup(src, from, &mut errs, pos),
         };
         last_from = x.map(|i| (from.as_str(), i));
-        let y = lookup(dst, to, errs, pos);
+        let y = lookup(dst, to, &mut errs, pos);
         // (first monomial, the rest): a single monomial, the common case, allocates nothing.
         let monos = if single_monomial || !coef.contains('+') {
             parse_mono(coef, &ring.variables).map(|m| (m, Vec::new()))
@@ -163,7 +186,9 @@ pub fn read_terms(
         let (first, rest) = match monos {
             Ok(m) => m,
             Err(e) => {
-                errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
+                if errs.len() <= MAX_REPORTED_ERRORS {
+                    errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
+                }
                 continue;
             }
         };
@@ -184,9 +209,51 @@ pub fn read_terms(
                     render_grading(&degree.to_vec())
                 ));
             }
+            triples.push((x, y, m));
+        }
+    }
+    (triples, errs, defects)
+}
+
+/// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` of degree `degree`.
+/// Structural errors go to `errs`; non-homogeneous terms are returned as defects.
+/// With `single_monomial`, each coefficient must be one monomial (dual witnesses).
+#[allow(clippy::too_many_arguments)]
+pub fn read_terms(
+    ring: &RingInfo,
+    src: &Complex,
+    dst: &Complex,
+    degree: &[i64],
+    terms: &[Term],
+    what: &str,
+    single_monomial: bool,
+    errs: &mut Errors,
+) -> (SparseMap, Vec<String>) {
+    let mut map = SparseMap::zero(src.names.len());
+    if terms.len() > MAX_TERMS {
+        errs.push(format!("{what}: {} terms, above the limit {MAX_TERMS}", terms.len()));
+        return (map, Vec::new());
+    }
+    let read = |part: &[Term], offset: usize| resolve(ring, src, dst, degree, part, offset, what, single_monomial);
+    // Name lookups dominate loading a large complex: two halves on the machine's two cores.
+    let parts = if terms.len() < 100_000 {
+        vec![read(terms, 0)]
+    } else {
+        let (a, b) = terms.split_at(terms.len() / 2);
+        std::thread::scope(|s| {
+            let second = s.spawn(|| read(b, a.len()));
+            vec![read(a, 0), second.join().expect("resolving terms does not panic")]
+        })
+    };
+    let mut defects = Vec::new();
+    for (triples, part_errs, part_defects) in parts {
+        part_errs.into_iter().for_each(|e| errs.push(e));
+        defects.extend(part_defects);
+        for (x, y, m) in triples {
             map.rows[x as usize].push((y, m));
         }
     }
+    defects.truncate(MAX_REPORTED_ERRORS);
     for (x, row) in map.rows.iter_mut().enumerate() {
         let before = row.len();
         row.sort_unstable();
@@ -210,7 +277,7 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
         name: name.to_string(),
         names: gens.keys().cloned().collect(),
         index: NameIndex::new(gens.keys()),
-        gradings: gens.values().cloned().collect(),
+        gradings: Gradings::new(ring.gradings.len(), gens.values().map(|g| g.as_slice())),
         d: SparseMap::zero(0),
         defects: Vec::new(),
     };

@@ -25,8 +25,9 @@ pub fn check_complex(ctx: &Context, c: usize) -> Result<(), String> {
     if let Some(d) = cx.defects.first() {
         return Err(d.clone());
     }
+    let mut dd = Vec::new();
     for (x, row) in cx.d.rows.iter().enumerate() {
-        let dd = cx.d.apply(row)?;
+        cx.d.apply_into(row, &mut dd)?;
         if !dd.is_empty() {
             return Err(format!("∂∂({}) = {} ≠ 0", cx.names[x], render_vector(ctx, c, &dd)));
         }
@@ -86,7 +87,9 @@ pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> R
         return Err("⟨y, φ⟩ = 0: the functional does not detect φ".into());
     }
     // δy = transpose of ψ ↦ ∂ψ + ψ∂, as triples (x, w, m).
-    let into_w = d.d.incoming(d.names.len());
+    let mut wanted = vec![false; d.names.len()];
+    ymap.rows.iter().flatten().for_each(|&(w, _)| wanted[w as usize] = true);
+    let into_w = d.d.incoming_to(&wanted);
     let mut dy: Vec<(u32, u32, Mono)> = Vec::new();
     for (x, row) in ymap.rows.iter().enumerate() {
         for &(w, m) in row {
@@ -166,10 +169,10 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
         }
         if let [(t, m)] = row.as_slice() {
             if m.0[0] > 0 {
-                dec.torsion.push((m.0[0], new.gradings[*t as usize].clone()));
+                dec.torsion.push((m.0[0], new.gradings[*t as usize].to_vec()));
             }
         } else if !target[a] {
-            dec.free.push(new.gradings[a].clone());
+            dec.free.push(new.gradings[a].to_vec());
         }
     }
     dec.free.sort();

@@ -114,16 +114,16 @@ impl Builder<'_> {
             .flat_map(|(t, v)| v.iter().map(move |&(g, m)| (g, m, t as u32)))
             .collect();
         let witness = BasisWitness {
-            generators: UniqueMap(cx.names.iter().cloned().zip(cx.gradings.iter().cloned()).collect()),
+            generators: UniqueMap(cx.names.iter().cloned().zip(cx.gradings.iter().map(|g| g.to_vec())).collect()),
             basis: terms_of(basis, &cx.names, &cx.names, vars),
             inverse: terms_of(inverse, &cx.names, &cx.names, vars),
         };
-        let mut free: Vec<Vec<i64>> = nf.survivors.iter().map(|&t| cx.gradings[t as usize].clone()).collect();
+        let mut free: Vec<Vec<i64>> = nf.survivors.iter().map(|&t| cx.gradings[t as usize].to_vec()).collect();
         let mut torsion: Vec<(u32, Vec<i64>)> = nf
             .pairs
             .iter()
             .filter(|p| !p.2.is_one())
-            .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].clone()))
+            .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].to_vec()))
             .collect();
         free.sort();
         torsion.sort();
@@ -301,7 +301,9 @@ fn emit_reductions(
         complexes.0.insert(
             small.name.clone(),
             ComplexSpec {
-                generators: UniqueMap(small.names.iter().cloned().zip(small.gradings.iter().cloned()).collect()),
+                generators: UniqueMap(
+                    small.names.iter().cloned().zip(small.gradings.iter().map(|g| g.to_vec())).collect(),
+                ),
                 differential: terms_of(rows(&small.d), &small.names, &small.names, vars),
             },
         );

@@ -26,8 +26,8 @@ pub enum Verdict {
 }
 
 /// Generators grouped by grading (deterministic order).
-fn by_grading(c: &Complex) -> BTreeMap<&Grading, Vec<u32>> {
-    let mut out: BTreeMap<&Grading, Vec<u32>> = BTreeMap::new();
+fn by_grading(c: &Complex) -> BTreeMap<&[i64], Vec<u32>> {
+    let mut out: BTreeMap<&[i64], Vec<u32>> = BTreeMap::new();
     for (i, g) in c.gradings.iter().enumerate() {
         out.entry(g).or_default().push(i as u32);
     }

@@ -55,7 +55,10 @@ impl Reduction {
             name: format!("{}_reduced", c.name),
             index: tubecheck::load::NameIndex::new(names.iter()),
             names,
-            gradings: nf.survivors.iter().map(|&t| c.gradings[t as usize].clone()).collect(),
+            gradings: tubecheck::load::Gradings::new(
+                c.gradings.iter().next().map_or(0, |g| g.len()),
+                nf.survivors.iter().map(|&t| &c.gradings[t as usize]),
+            ),
             d: SparseMap { rows: nf.survivors.iter().map(|&t| remap(&nf.out[t as usize])).collect() },
             defects: Vec::new(),
         };
