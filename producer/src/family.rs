@@ -150,7 +150,9 @@ pub fn run(
     let (name, lo, hi) = parse_param(param).map_err(|e| vec![e])?;
     let file = template_path.display().to_string();
     let bytes = tubecert_format::limits::read_file(template_path).map_err(|e| vec![format!("{file}: {e}")])?;
-    let template: Value = serde_json::from_slice(&bytes).map_err(|e| vec![format!("{file}: {e}")])?;
+    let text = String::from_utf8_lossy(&bytes);
+    crate::problem::refuse_repeated_keys(&text).map_err(|e| vec![format!("{file}:{e}")])?;
+    let template: Value = serde_json::from_str(&text).map_err(|e| vec![format!("{file}: {e}")])?;
     let base = template_path.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
     let stem = base.strip_suffix(".template.json").or(base.strip_suffix(".json")).unwrap_or(&base).to_string();
     std::fs::create_dir_all(out).map_err(|e| vec![format!("{}: {e}", out.display())])?;

@@ -110,11 +110,73 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     from_written(w).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect())
 }
 
+/// "LINE:COL: message" for a JSON error.
+fn json_error(e: &serde_json::Error) -> String {
+    let text = e.to_string();
+    let suffix = format!(" at line {} column {}", e.line(), e.column());
+    format!("{}:{}: {}", e.line(), e.column(), text.strip_suffix(&suffix).unwrap_or(&text))
+}
+
+/// A JSON object keeps only the last of repeated keys: refuse them, so that a generator declared
+/// twice is an error rather than silently dropped.
+pub fn refuse_repeated_keys(json: &str) -> Result<(), String> {
+    serde_json::from_str::<NoRepeatedKeys>(json).map(|_| ()).map_err(|e| json_error(&e))
+}
+
+/// Walks a JSON document and fails on an object with a repeated key.
+struct NoRepeatedKeys;
+
+impl<'de> Deserialize<'de> for NoRepeatedKeys {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct V;
+        impl<'de> serde::de::Visitor<'de> for V {
+            type Value = NoRepeatedKeys;
+            fn expecting(&self, f: &mut std::fmt::Formatter) -> std::fmt::Result {
+                f.write_str("JSON")
+            }
+            fn visit_map<A: serde::de::MapAccess<'de>>(self, mut a: A) -> Result<NoRepeatedKeys, A::Error> {
+                let mut seen = std::collections::HashSet::new();
+                while let Some(k) = a.next_key::<String>()? {
+                    a.next_value::<NoRepeatedKeys>()?;
+                    if !seen.insert(k.clone()) {
+                        return Err(serde::de::Error::custom(format!("\"{k}\" appears twice in one object")));
+                    }
+                }
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_seq<A: serde::de::SeqAccess<'de>>(self, mut a: A) -> Result<NoRepeatedKeys, A::Error> {
+                while a.next_element::<NoRepeatedKeys>()?.is_some() {}
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_bool<E>(self, _: bool) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_i64<E>(self, _: i64) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_u64<E>(self, _: u64) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_f64<E>(self, _: f64) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_str<E>(self, _: &str) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+            fn visit_unit<E>(self) -> Result<NoRepeatedKeys, E> {
+                Ok(NoRepeatedKeys)
+            }
+        }
+        d.deserialize_any(V)
+    }
+}
+
 /// The JSON value of a problem file in either format (errors: "LINE:COL: …" or " …").
 pub fn written_value(bytes: &[u8]) -> Result<serde_json::Value, Vec<String>> {
     let text = std::str::from_utf8(bytes).map_err(|e| vec![format!(" not UTF-8 text: {e}")])?;
     if text.trim_start().starts_with('{') {
-        serde_json::from_str(text).map_err(|e| vec![format!("{}:{}: {e}", e.line(), e.column())])
+        refuse_repeated_keys(text).map_err(|e| vec![e])?;
+        serde_json::from_str(text).map_err(|e| vec![json_error(&e)])
     } else {
         crate::text_format::parse(text)
     }

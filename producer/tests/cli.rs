@@ -199,3 +199,11 @@ fn diff_exit_codes() {
     assert!(out.contains("ord_U(F − G) = [-1-]{+2+}"), "{out}");
     assert_eq!(tubecert(&["diff", &c("box-uv.cert.json"), "/nonexistent.json"]).0, 2);
 }
+
+#[test]
+fn a_generator_declared_twice_is_an_error() {
+    let bad = EXAMPLE.replace("\"z\": [0, 0], \"a\": [0, 0]", "\"z\": [0, 0], \"a\": [0, 0], \"z\": [1, 0]");
+    let (code, _, err) = tubecert(&["check-input", &write("dup.problem.json", &bad)]);
+    assert_eq!(code, 2);
+    assert!(err.contains("\"z\" appears twice in one object"), "{err}");
+}
