@@ -237,12 +237,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             facts.insert("order".into(), json!(order));
         }
         Claim::Tau { complex, alexander, tau, witness, .. } => {
-            let a = ctx
-                .ring
-                .gradings
-                .iter()
-                .position(|g| g == alexander)
-                .ok_or_else(|| format!("no grading named {alexander}"))?;
+            let a = ctx.ring.grading_index(alexander)?;
             if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
                 return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
             }

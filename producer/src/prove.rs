@@ -208,12 +208,7 @@ impl Builder<'_> {
             }
             Goal::Tau { complex, alexander } => {
                 let c = ctx.complex_named(complex)?;
-                let a = ctx
-                    .ring
-                    .gradings
-                    .iter()
-                    .position(|g| g == alexander)
-                    .ok_or_else(|| format!("no grading named \"{alexander}\""))?;
+                let a = ctx.ring.grading_index(alexander)?;
                 let (witness, Decomposition { free, .. }) = self.homology_witness(c)?;
                 let [gen] = free.as_slice() else {
                     return Err(format!(

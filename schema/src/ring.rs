@@ -97,6 +97,11 @@ impl RingInfo {
         self.var_degrees.iter().enumerate().map(|(v, d)| d[i] * m.0[v] as i64).sum()
     }
 
+    /// Position of a named grading.
+    pub fn grading_index(&self, name: &str) -> Result<usize, String> {
+        self.gradings.iter().position(|g| g == name).ok_or_else(|| format!("no grading named \"{name}\""))
+    }
+
     pub fn var_index(&self, name: &str) -> Option<usize> {
         self.variables.iter().position(|v| v == name)
     }
