@@ -7,7 +7,7 @@ use crate::report_terms::{compare, render_vector};
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, ring_name, surface_reading};
+use tubecert_format::statement::{render, render_expr, ring_name, surface_reading};
 use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
@@ -255,16 +255,15 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
                 return Err(format!("variable {variable} is not declared"));
             }
             parse_mono(variable, vars)?;
-            let hom = ctx.eval(&MapExpr::scaled_difference(f, g, variable, *order))?;
-            check_null_homotopic(ctx, &hom, &witness.homotopy)
-                .map_err(|e| format!("{variable}^{order}·({f} + {g}) ≃ 0: {e}"))?;
+            let at = |k: u32| MapExpr::scaled_difference(f, g, variable, k);
+            check_null_homotopic(ctx, &ctx.eval(&at(*order))?, &witness.homotopy)
+                .map_err(|e| format!("{} ≃ 0: {e}", render_expr(&at(*order))))?;
             match (order, &witness.dual) {
                 (0, None) => {}
                 (0, Some(_)) => return Err("order 0 takes no dual witness".into()),
                 (k, Some(y)) => {
-                    let below = ctx.eval(&MapExpr::scaled_difference(f, g, variable, k - 1))?;
-                    check_not_null_homotopic(ctx, &below, y)
-                        .map_err(|e| format!("{variable}^{}·({f} + {g}) ≄ 0: {e}", k - 1))?;
+                    check_not_null_homotopic(ctx, &ctx.eval(&at(k - 1))?, y)
+                        .map_err(|e| format!("{} ≄ 0: {e}", render_expr(&at(k - 1))))?;
                 }
                 (_, None) => return Err("order ≥ 1 needs a dual witness for the order below".into()),
             }
