@@ -368,6 +368,13 @@ pub mod oracle {
             })
         }
 
+        /// A map written back as terms, for the term-based checks above.
+        fn as_terms(phi: &Map) -> Vec<Term> {
+            phi.iter()
+                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
+                .collect()
+        }
+
         fn equal_on(&self, sources: &[String], a: &Map, b: &Map) -> bool {
             sources.iter().all(|x| a.get(x).cloned().unwrap_or_default() == b.get(x).cloned().unwrap_or_default())
         }
@@ -378,10 +385,7 @@ pub mod oracle {
             if !self.homogeneous(h, &from, &to, &hdeg) {
                 return false;
             }
-            let phi_terms: Vec<Term> = phi
-                .iter()
-                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
-                .collect();
+            let phi_terms = Self::as_terms(&phi);
             super::is_homotopy(
                 &self.body.complexes[&from].differential,
                 &self.body.complexes[&to].differential,
@@ -400,10 +404,7 @@ pub mod oracle {
             if !y.iter().all(|t| seen.insert(t.clone())) {
                 return false;
             }
-            let phi_terms: Vec<Term> = phi
-                .iter()
-                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
-                .collect();
+            let phi_terms = Self::as_terms(&phi);
             super::is_dual_witness(
                 &self.body.complexes[&from].differential,
                 &self.body.complexes[&to].differential,
