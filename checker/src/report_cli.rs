@@ -2,7 +2,26 @@
 //! Presentation only; exit codes are decided in `main.rs` from the same outcomes.
 
 use crate::{report_appendix, report_json, report_text, FileReport};
+use std::io::{ErrorKind, Write};
 use tubecert_format::statement::SCOPE;
+
+/// Writes `text` to standard output. A reader that went away early (`| head -1`) is not an
+/// error: the exit code still carries the verdict, so printing just stops. Any other write
+/// failure (a full disk under `> report.json`) must not pass silently: exit 2.
+pub fn emit(text: &str) {
+    if let Err(e) = std::io::stdout().lock().write_all(text.as_bytes()) {
+        if e.kind() != ErrorKind::BrokenPipe {
+            eprintln!("cannot write to standard output: {e}");
+            std::process::exit(2);
+        }
+    }
+}
+
+/// `println!` through [`emit`].
+#[macro_export]
+macro_rules! say {
+    ($($arg:tt)*) => { $crate::report_cli::emit(&format!("{}\n", format_args!($($arg)*))) };
+}
 
 #[derive(Clone, Copy, PartialEq, Eq)]
 pub enum Style {
@@ -30,9 +49,9 @@ pub fn print(
                 failed_files += usize::from(!r.ok());
                 match style {
                     Style::Json => json.push(report_json::render(r)),
-                    Style::Markdown => print!("{}", report_appendix::markdown(r)),
-                    Style::Latex => print!("{}", report_appendix::latex(r)),
-                    Style::Text => println!("{}", report_text::render(r)),
+                    Style::Markdown => emit(&report_appendix::markdown(r)),
+                    Style::Latex => emit(&report_appendix::latex(r)),
+                    Style::Text => crate::say!("{}", report_text::render(r)),
                 }
             }
             Err(e) => {
@@ -46,15 +65,15 @@ pub fn print(
         eprintln!("tubecheck: expected hash {h} is not the hash of any verified file");
     }
     match style {
-        Style::Json => println!("{}", serde_json::to_string_pretty(&json).expect("JSON values serialize")),
+        Style::Json => crate::say!("{}", serde_json::to_string_pretty(&json).expect("JSON values serialize")),
         Style::Text => {
             let expect = match (expected, missing_hashes.is_empty()) {
                 (false, _) => "",
                 (true, true) => "; expected hash found",
                 (true, false) => "; expected hash NOT found",
             };
-            println!("{SCOPE}");
-            println!(
+            crate::say!("{SCOPE}");
+            crate::say!(
                 "Total: {} file(s), {verified} claim(s) verified, {failed_claims} failed; {failed_files} file(s) failed, {unreadable} unreadable{expect}",
                 outcomes.len()
             );

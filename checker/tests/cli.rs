@@ -97,3 +97,20 @@ fn appendix_reports() {
     );
     assert!(tex.contains("$\\tau(\\mathrm{K}) = 2$") && tex.trim_end().ends_with("\\end{document}"));
 }
+
+/// `tubecheck … | head -1` in a CI script: the reader leaves early. The checker must neither
+/// panic nor change its verdict; the exit code still says whether everything verified.
+#[test]
+fn a_closed_output_pipe_keeps_the_verdict() {
+    let (reader, writer) = std::io::pipe().unwrap();
+    drop(reader);
+    let out = Command::new(env!("CARGO_BIN_EXE_tubecheck"))
+        .arg(certificates())
+        .stdout(writer)
+        .stderr(std::process::Stdio::piped())
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    assert!(!err.contains("panicked"), "{err}");
+}

@@ -5,6 +5,7 @@
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
 use std::process::ExitCode;
+use tubecheck::say;
 
 #[derive(Parser)]
 #[command(
@@ -125,7 +126,7 @@ fn main() -> ExitCode {
     match cli.command {
         Command::CheckInput { problem } => match tubecert::load_problem(&problem) {
             Ok((p, ctx, _)) => {
-                println!(
+                say!(
                     "{}: valid ({} complexes, {} maps, {} goals; ring {})",
                     problem.display(),
                     ctx.complexes.len(),
@@ -158,14 +159,14 @@ fn main() -> ExitCode {
                 return ExitCode::from(2);
             }
             for l in &proved.lines {
-                println!("{l}");
+                say!("{l}");
             }
-            println!("certificate {} sha256 {}", out.display(), proved.certificate.sha256);
-            println!("verify with: tubecheck {}", out.display());
+            say!("certificate {} sha256 {}", out.display(), proved.certificate.sha256);
+            say!("verify with: tubecheck {}", out.display());
             if proved.all_as_stated {
                 ExitCode::SUCCESS
             } else {
-                println!("some goals were false; the certificate proves their opposites (exit 3)");
+                say!("some goals were false; the certificate proves their opposites (exit 3)");
                 ExitCode::from(3)
             }
         }
@@ -173,9 +174,9 @@ fn main() -> ExitCode {
             match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
                 Ok((header, row)) => {
                     if !no_header {
-                        println!("{header}");
+                        say!("{header}");
                     }
-                    println!("{row}");
+                    say!("{row}");
                     ExitCode::SUCCESS
                 }
                 Err(e) => {
@@ -187,13 +188,13 @@ fn main() -> ExitCode {
         Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out) {
             Ok((rows, all)) => {
                 for r in rows {
-                    println!("{r}");
+                    say!("{r}");
                 }
-                println!("\nverify with: tubecheck {}", out.display());
+                say!("\nverify with: tubecheck {}", out.display());
                 if all {
                     ExitCode::SUCCESS
                 } else {
-                    println!("some goals were false; the certificates prove their opposites (exit 3)");
+                    say!("some goals were false; the certificates prove their opposites (exit 3)");
                     ExitCode::from(3)
                 }
             }
@@ -218,7 +219,7 @@ fn main() -> ExitCode {
                         Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
                     },
                     None => {
-                        print!("{text}");
+                        tubecheck::report_cli::emit(&text);
                         ExitCode::SUCCESS
                     }
                 },
@@ -229,7 +230,7 @@ fn main() -> ExitCode {
             match tubecert::draw::draw_file(&file, &complex, highlight) {
                 Ok(svg) => match std::fs::write(&output, svg) {
                     Ok(()) => {
-                        println!("wrote {}", output.display());
+                        say!("wrote {}", output.display());
                         ExitCode::SUCCESS
                     }
                     Err(e) => report_errors(&[format!("{}: {e}", output.display())]),
@@ -247,12 +248,12 @@ fn main() -> ExitCode {
                 (Ok(ca), Ok(cb)) => {
                     let lines = tubecert::diff::diff(&ca.body, &cb.body);
                     if lines.is_empty() {
-                        println!("no differences (sha256 {})", ca.sha256);
+                        say!("no differences (sha256 {})", ca.sha256);
                         ExitCode::SUCCESS
                     } else {
-                        println!("sha256 {} → {}", ca.sha256, cb.sha256);
+                        say!("sha256 {} → {}", ca.sha256, cb.sha256);
                         for l in lines {
-                            println!("{l}");
+                            say!("{l}");
                         }
                         ExitCode::from(1)
                     }
@@ -262,7 +263,7 @@ fn main() -> ExitCode {
         }
         Command::BenchCheck { file } => match tubecert::bench::check_timing(&file) {
             Ok((parse, check)) => {
-                println!("{parse:.6} {check:.6}");
+                say!("{parse:.6} {check:.6}");
                 ExitCode::SUCCESS
             }
             Err(e) => report_errors(&[e]),
@@ -270,9 +271,9 @@ fn main() -> ExitCode {
         Command::Demo { out } => match tubecert::demo::write_demo(&out) {
             Ok(lines) => {
                 for l in lines {
-                    println!("{l}");
+                    say!("{l}");
                 }
-                println!("\nverify everything with:\n  cargo run --release --bin tubecheck -- {}", out.display());
+                say!("\nverify everything with:\n  cargo run --release --bin tubecheck -- {}", out.display());
                 ExitCode::SUCCESS
             }
             Err(e) => {

@@ -207,3 +207,23 @@ fn a_generator_declared_twice_is_an_error() {
     assert_eq!(code, 2);
     assert!(err.contains("\"z\" appears twice in one object"), "{err}");
 }
+
+/// `tubecert prove … | head -1`: the certificate is written and the exit code is unchanged
+/// when the reader of standard output leaves early.
+#[test]
+fn a_closed_output_pipe_keeps_the_exit_code_and_the_certificate() {
+    let p = write("piped.problem.json", EXAMPLE);
+    let out_path = dir().join("piped.cert.json");
+    let (reader, writer) = std::io::pipe().unwrap();
+    drop(reader);
+    let out = Command::new(env!("CARGO_BIN_EXE_tubecert"))
+        .args(["prove", &p, "-o", &out_path.to_string_lossy()])
+        .stdout(writer)
+        .stderr(std::process::Stdio::piped())
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(0), "{err}");
+    assert!(!err.contains("panicked"), "{err}");
+    assert!(tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap().ok());
+}
