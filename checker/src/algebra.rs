@@ -100,12 +100,7 @@ impl SparseMap {
         Ok(SparseMap { rows })
     }
 
-    /// For each target generator, the (source, monomial) terms that reach it.
-    pub fn incoming(&self, num_targets: usize) -> Vec<Vector> {
-        self.incoming_to(&vec![true; num_targets])
-    }
-
-    /// Like [`SparseMap::incoming`], but only for the targets marked in `wanted` (one pass).
+    /// For each target generator marked in `wanted`, the (source, monomial) terms that reach it.
     pub fn incoming_to(&self, wanted: &[bool]) -> Vec<Vector> {
         let mut inc = vec![Vec::new(); wanted.len()];
         for (x, r) in self.rows.iter().enumerate() {

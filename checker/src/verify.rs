@@ -279,30 +279,25 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     let rn = ring_name(&ctx.ring.variables);
-    let mut out = Vec::new();
-    for (i, c) in ctx.complexes.iter().enumerate() {
-        let claim = Claim::Complex { complex: c.name.clone(), statement: String::new() };
-        let statement = render(&claim, &rn, "");
-        out.push(ClaimResult {
-            kind: "complex".into(),
-            statement,
-            implicit: true,
-            outcome: check_complex(ctx, i).map(|_| BTreeMap::new()),
-        });
-    }
-    for (name, &i) in &ctx.map_index {
+    let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
+        kind: claim.kind().into(),
+        statement: render(&claim, &rn, "") + &suffix,
+        implicit: true,
+        outcome: outcome.map(|_| BTreeMap::new()),
+    };
+    let complexes = ctx.complexes.iter().enumerate().map(|(i, c)| {
+        implicit(
+            Claim::Complex { complex: c.name.clone(), statement: String::new() },
+            String::new(),
+            check_complex(ctx, i),
+        )
+    });
+    let maps = ctx.map_index.iter().map(|(name, &i)| {
+        let (from, to) = (&ctx.complexes[ctx.maps[i].from].name, &ctx.complexes[ctx.maps[i].to].name);
         let claim = Claim::ChainMap { map: name.clone(), statement: String::new() };
-        let m = &ctx.maps[i];
-        let (from, to) = (&ctx.complexes[m.from].name, &ctx.complexes[m.to].name);
-        let statement = format!("{} {from} → {to}", render(&claim, &rn, ""));
-        out.push(ClaimResult {
-            kind: "chain_map".into(),
-            statement,
-            implicit: true,
-            outcome: check_chain_map(ctx, i).map(|_| BTreeMap::new()),
-        });
-    }
-    out
+        implicit(claim, format!(" {from} → {to}"), check_chain_map(ctx, i))
+    });
+    complexes.chain(maps).collect()
 }
 
 /// Verifies a whole body: implicit object checks, then each claim.

@@ -47,6 +47,8 @@ fn integer(out: &mut Vec<u8>, v: i128) -> Result<(), Error> {
 pub struct Seq<'a> {
     out: &'a mut Vec<u8>,
     first: bool,
+    /// A tuple variant `{"name":[…]}`: close the object too.
+    in_object: bool,
 }
 
 /// Members of one object, sorted when it ends.
@@ -178,7 +180,7 @@ impl<'a> ser::Serializer for Writer<'a> {
     }
     fn serialize_seq(self, _: Option<usize>) -> Result<Seq<'a>, Error> {
         self.out.push(b'[');
-        Ok(Seq { out: self.out, first: true })
+        Ok(Seq { out: self.out, first: true, in_object: false })
     }
     fn serialize_tuple(self, len: usize) -> Result<Seq<'a>, Error> {
         self.serialize_seq(Some(len))
@@ -186,8 +188,17 @@ impl<'a> ser::Serializer for Writer<'a> {
     fn serialize_tuple_struct(self, _: &'static str, len: usize) -> Result<Seq<'a>, Error> {
         self.serialize_seq(Some(len))
     }
-    fn serialize_tuple_variant(self, _: &'static str, _: u32, _: &'static str, _: usize) -> Result<Seq<'a>, Error> {
-        Err(Error("tuple variants are not part of the format".into()))
+    fn serialize_tuple_variant(
+        self,
+        _: &'static str,
+        _: u32,
+        variant: &'static str,
+        _: usize,
+    ) -> Result<Seq<'a>, Error> {
+        self.out.push(b'{');
+        serde_json::to_writer(&mut *self.out, variant).map_err(|e| Error(e.to_string()))?;
+        self.out.extend_from_slice(b":[");
+        Ok(Seq { out: self.out, first: true, in_object: true })
     }
     fn serialize_map(self, _: Option<usize>) -> Result<Object<'a>, Error> {
         Ok(Object { out: self.out, members: Vec::new(), key: None, wrap: None })
@@ -217,7 +228,7 @@ impl ser::SerializeSeq for Seq<'_> {
         v.serialize(Writer { out: self.out })
     }
     fn end(self) -> Result<(), Error> {
-        self.out.push(b']');
+        self.out.extend_from_slice(if self.in_object { b"]}" } else { b"]" });
         Ok(())
     }
 }

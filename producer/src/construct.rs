@@ -3,9 +3,10 @@
 //! Each produces an explicit [`ComplexSpec`] / [`MapSpec`]; certificates only ever contain the
 //! explicit result, so the checker needs none of this.
 
+use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
-use tubecert_format::poly::{parse_poly, render_poly};
+use tubecert_format::poly::parse_poly;
 use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Ring, Term, UniqueMap};
 
 pub type Complexes = BTreeMap<String, ComplexSpec>;

@@ -5,11 +5,11 @@
 
 use crate::problem::{Goal, Problem};
 use crate::search::homotopy::{HomTerm, Solver, Verdict};
+use crate::search::monomials::render_poly;
 use crate::search::normal_form::{normal_form, Pivots};
 use crate::search::torsion::{torsion_order, TorsionOutcome};
 use std::time::{Duration, Instant};
 use tubecert_format::canonical::sha256_hex;
-use tubecert_format::poly::render_poly;
 use tubecert_format::statement::{render, ring_name, surface_reading};
 use tubecert_format::{
     BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,

@@ -106,13 +106,17 @@ pub struct MapSpec {
 
 /// A map expression: `"F"`, `{"id": C}`, `{"sum": [...]}`, `{"compose": [outer, ..., inner]}`,
 /// `{"times": [monomial, e]}`.
-#[derive(Clone, Debug, PartialEq, Eq)]
+/// Serialized by the derive (a name as a bare string, the rest as one-key objects); read by
+/// [`MapExpr::from_value`], which names what is wrong and bounds the nesting.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
 pub enum MapExpr {
-    Named(String),
     Id(String),
     Sum(Vec<MapExpr>),
     Compose(Vec<MapExpr>),
     Times(String, Box<MapExpr>),
+    #[serde(untagged)]
+    Named(String),
 }
 
 impl MapExpr {
@@ -123,17 +127,6 @@ impl MapExpr {
             0 => sum,
             1 => MapExpr::Times(var.into(), Box::new(sum)),
             _ => MapExpr::Times(format!("{var}^{k}"), Box::new(sum)),
-        }
-    }
-
-    pub fn to_value(&self) -> Value {
-        use serde_json::json;
-        match self {
-            MapExpr::Named(n) => json!(n),
-            MapExpr::Id(c) => json!({ "id": c }),
-            MapExpr::Sum(es) => json!({ "sum": es.iter().map(|e| e.to_value()).collect::<Vec<_>>() }),
-            MapExpr::Compose(es) => json!({ "compose": es.iter().map(|e| e.to_value()).collect::<Vec<_>>() }),
-            MapExpr::Times(m, e) => json!({ "times": [m, e.to_value()] }),
         }
     }
 
@@ -188,12 +181,6 @@ impl MapExpr {
             }
             _ => Err(format!("expected a map name or a one-key object (id, sum, compose, times), found {v}")),
         }
-    }
-}
-
-impl Serialize for MapExpr {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        self.to_value().serialize(s)
     }
 }
 

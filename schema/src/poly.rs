@@ -1,7 +1,7 @@
 //! Monomials and polynomials over F2[v_1..v_n], n ≤ 2, and their written notation.
 //!
 //! Written forms: `1`, `U`, `U^2`, `U^2V`, `U*V^3`, `U^2 + V`. The canonical form printed
-//! by [`Mono::render`] / [`render_poly`] is `U^2*V^3` with terms joined by ` + `.
+//! by [`Mono::render`] is `U^2*V^3`; the producer joins terms with ` + `.
 
 use crate::limits::MAX_EXPONENT;
 use std::fmt::Write as _;
@@ -49,10 +49,6 @@ impl Mono {
         self == Mono::ONE
     }
 
-    pub fn total_degree(self) -> u64 {
-        self.0.iter().map(|&e| e as u64).sum()
-    }
-
     /// Canonical written form, e.g. `U^2*V`, or `1`.
     pub fn render(self, variables: &[String]) -> String {
         let mut s = String::new();
@@ -76,33 +72,21 @@ impl Mono {
     }
 }
 
-/// Canonical written form of a polynomial given as distinct monomials.
-pub fn render_poly(monos: &[Mono], variables: &[String]) -> String {
-    let mut sorted = monos.to_vec();
-    sorted.sort_by_key(|m| (m.total_degree(), *m));
-    sorted.iter().map(|m| m.render(variables)).collect::<Vec<_>>().join(" + ")
-}
-
 /// Parses a polynomial over F2 in the declared variables. Returns distinct monomials (sorted);
 /// a repeated monomial or the zero polynomial is an error, since either hides a typo.
 pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String> {
-    if !text.contains('+') {
-        return parse_mono(text, variables).map(|m| vec![m]);
-    }
     let mut monos = Vec::new();
-    for (k, part) in split_terms(text)?.into_iter().enumerate() {
-        let m = parse_mono_at(part.0, part.1, variables)
-            .map_err(|e| format!("coefficient \"{text}\", term {}: {e}", k + 1))?;
-        monos.push(m);
+    let mut column = 1;
+    for part in text.split('+') {
+        monos.push(parse_factors(part, column, variables).map_err(|e| format!("coefficient \"{text}\": {e}"))?);
+        column += part.len() + 1;
     }
     monos.sort();
-    for w in monos.windows(2) {
-        if w[0] == w[1] {
-            return Err(format!(
-                "coefficient \"{text}\": the monomial {} appears twice (over F2 they cancel; write the sum out)",
-                w[0].render(variables)
-            ));
-        }
+    if let Some(w) = monos.windows(2).find(|w| w[0] == w[1]) {
+        return Err(format!(
+            "coefficient \"{text}\": the monomial {} appears twice (over F2 they cancel; write the sum out)",
+            w[0].render(variables)
+        ));
     }
     Ok(monos)
 }
@@ -110,93 +94,59 @@ pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String>
 /// Parses a single monomial (no `+`).
 pub fn parse_mono(text: &str, variables: &[String]) -> Result<Mono, String> {
     if text == "1" {
-        return Ok(Mono::ONE); // the common case, without allocating
+        return Ok(Mono::ONE); // the common case, at once
     }
-    let terms = split_terms(text)?;
-    if terms.len() != 1 {
+    if text.contains('+') {
         return Err(format!("\"{text}\": expected a single monomial, found a sum"));
     }
-    parse_mono_at(terms[0].0, terms[0].1, variables).map_err(|e| format!("monomial \"{text}\": {e}"))
+    parse_factors(text, 1, variables).map_err(|e| format!("monomial \"{text}\": {e}"))
 }
 
-/// Splits on `+`, keeping each part's starting column (1-based) for messages.
-fn split_terms(text: &str) -> Result<Vec<(&str, usize)>, String> {
-    let mut out = Vec::new();
-    let mut start = 0;
-    for (i, c) in text.char_indices().chain(std::iter::once((text.len(), '+'))) {
-        if c == '+' {
-            let part = &text[start..i];
-            if part.trim().is_empty() {
-                return Err(format!("coefficient \"{text}\": empty term at column {}", start + 1));
-            }
-            out.push((part, start + 1));
-            start = i + 1;
-        }
-    }
-    Ok(out)
-}
-
-fn parse_mono_at(part: &str, col0: usize, variables: &[String]) -> Result<Mono, String> {
-    let bytes = part.as_bytes();
-    let mut i = 0;
-    let mut m = Mono::ONE;
-    let mut seen_factor = false;
-    let skip_ws = |i: &mut usize| {
-        while *i < bytes.len() && bytes[*i].is_ascii_whitespace() {
-            *i += 1;
-        }
-    };
-    skip_ws(&mut i);
-    if part.trim() == "1" {
+/// One monomial starting at `column`: `1`, or factors `VAR` / `VAR^e`, optionally separated by
+/// `*`. The longest declared variable name matching is taken.
+fn parse_factors(part: &str, column: usize, variables: &[String]) -> Result<Mono, String> {
+    let at = |rest: &str| column + part.len() - rest.len();
+    let mut rest = part.trim_start();
+    if rest.trim_end() == "1" {
         return Ok(Mono::ONE);
     }
-    while i < bytes.len() {
-        if seen_factor && bytes[i] == b'*' {
-            i += 1;
-            skip_ws(&mut i);
-        }
-        // Longest declared variable name matching here.
-        let var = variables
-            .iter()
-            .enumerate()
-            .filter(|(_, v)| part[i..].starts_with(v.as_str()))
-            .max_by_key(|(_, v)| v.len());
+    if rest.is_empty() {
+        return Err(format!("empty term at column {column}"));
+    }
+    let mut m = Mono::ONE;
+    loop {
+        let var = variables.iter().enumerate().filter(|(_, v)| rest.starts_with(v.as_str())).max_by_key(|v| v.1.len());
         let Some((vi, name)) = var else {
-            let found = part[i..].chars().next().unwrap_or(' ');
             let expected = if variables.is_empty() {
                 "only the constant 1 (the ring has no variables)".to_string()
             } else {
                 format!("a variable ({}) or 1", variables.join(", "))
             };
-            return Err(format!("at column {}: expected {expected}, found '{found}'", col0 + i));
+            let found = rest.chars().next().map_or("the end".into(), |c| format!("'{c}'"));
+            return Err(format!("at column {}: expected {expected}, found {found}", at(rest)));
         };
-        i += name.len();
-        skip_ws(&mut i);
+        rest = rest[name.len()..].trim_start();
         let mut e: u64 = 1;
-        if i < bytes.len() && bytes[i] == b'^' {
-            i += 1;
-            skip_ws(&mut i);
-            let s = i;
-            while i < bytes.len() && bytes[i].is_ascii_digit() {
-                i += 1;
+        if let Some(after) = rest.strip_prefix('^') {
+            let after = after.trim_start();
+            let digits = after.len() - after.trim_start_matches(|c: char| c.is_ascii_digit()).len();
+            if digits == 0 {
+                return Err(format!("at column {}: expected an exponent after '^'", at(after)));
             }
-            if s == i {
-                return Err(format!("at column {}: expected an exponent after '^'", col0 + s));
-            }
-            e = part[s..i].parse::<u64>().unwrap_or(u64::MAX);
-            skip_ws(&mut i);
+            e = after[..digits].parse().unwrap_or(u64::MAX);
+            rest = after[digits..].trim_start();
         }
         let total = m.0[vi] as u64 + e;
         if total > MAX_EXPONENT as u64 {
             return Err(format!("exponent of {name} is {total}, above the limit {MAX_EXPONENT}"));
         }
         m.0[vi] = total as u32;
-        seen_factor = true;
+        match rest.strip_prefix('*') {
+            _ if rest.is_empty() => return Ok(m),
+            Some(after) => rest = after.trim_start(),
+            None => {}
+        }
     }
-    if !seen_factor {
-        return Err(format!("at column {col0}: empty monomial"));
-    }
-    Ok(m)
 }
 
 #[cfg(test)]
@@ -213,7 +163,7 @@ mod tests {
         assert_eq!(parse_poly("U*V^3", &v).unwrap(), vec![Mono([1, 3])]);
         assert_eq!(parse_poly("U^2 + V", &v).unwrap(), vec![Mono([0, 1]), Mono([2, 0])]);
         assert_eq!(Mono([2, 1]).render(&v), "U^2*V");
-        assert_eq!(render_poly(&[Mono([2, 0]), Mono([0, 1])], &v), "V + U^2");
+        assert_eq!(parse_poly(" U * V^ 2+1", &v).unwrap(), vec![Mono::ONE, Mono([1, 2])]);
     }
     #[test]
     fn rejects_bad_coefficients_with_position() {
@@ -224,6 +174,9 @@ mod tests {
         assert!(parse_poly("U^99999999999", &v).unwrap_err().contains("limit"));
         assert!(parse_poly("U +", &v).is_err());
         assert!(parse_poly("U", &[]).unwrap_err().contains("no variables"));
+        assert!(parse_poly("U*", &v).unwrap_err().contains("column 3"));
+        assert!(parse_poly("U + W", &v).unwrap_err().contains("column 5"));
+        assert!(parse_mono("U + V", &v).unwrap_err().contains("single monomial"));
     }
     #[test]
     fn arithmetic_is_checked() {

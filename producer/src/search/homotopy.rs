@@ -79,7 +79,7 @@ pub fn decide_in(
 ) -> Result<Verdict, String> {
     let h_degree: Grading = degree.iter().zip(&ring.differential_degree).map(|(a, b)| a - b).collect();
     let columns = hom_basis(ring, c, d, &h_degree);
-    let c_into = c.d.incoming(c.names.len());
+    let c_into = c.d.incoming_to(&vec![true; c.names.len()]);
     let mut images = Vec::with_capacity(columns.len());
     for &t in &columns {
         images.push(boundary_of(t, &c_into, d)?);
@@ -187,7 +187,7 @@ impl<'a> Solver<'a> {
             }
             Verdict::NotNull(y_small) => {
                 // y = (ι_C ⊗ π_D^∨) y′: ⟨y, ψ⟩ = ⟨y′, π_D ψ ι_C⟩
-                let pi_into = rd.pi.incoming(rd.complex.names.len());
+                let pi_into = rd.pi.incoming_to(&vec![true; rd.complex.names.len()]);
                 let mut y = Vec::new();
                 for (x2, m, w2) in y_small {
                     for &(x, c) in &rc.iota.rows[x2 as usize] {

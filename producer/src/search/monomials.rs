@@ -3,6 +3,14 @@
 
 use tubecert_format::{Mono, RingInfo};
 
+/// The written form of a polynomial given as distinct monomials, in a fixed order (by total
+/// degree, then exponents) so that certificates are reproducible: `V + U^2`.
+pub fn render_poly(monos: &[Mono], variables: &[String]) -> String {
+    let mut sorted = monos.to_vec();
+    sorted.sort_by_key(|m| (m.0.iter().map(|&e| e as u64).sum::<u64>(), *m));
+    sorted.iter().map(|m| m.render(variables)).collect::<Vec<_>>().join(" + ")
+}
+
 /// Every monomial of degree exactly `g` (a finite set by the finiteness condition).
 pub fn monomials_of_degree(ring: &RingInfo, g: &[i64]) -> Vec<Mono> {
     let d = &ring.var_degrees;
@@ -81,6 +89,12 @@ mod tests {
         })
         .unwrap()
     }
+    #[test]
+    fn polynomials_are_written_in_a_fixed_order() {
+        let v = vec!["U".to_string(), "V".to_string()];
+        assert_eq!(render_poly(&[Mono([2, 0]), Mono([0, 1]), Mono([1, 1])], &v), "V + U*V + U^2");
+    }
+
     #[test]
     fn monomials_of_a_degree() {
         let r = ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]);

@@ -69,7 +69,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
             if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
                 let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
-                heap.push(Reverse((m.total_degree(), cost, a, b, m)));
+                heap.push(Reverse((m.0.iter().sum::<u32>(), cost, a, b, m)));
             }
         }
     };
