@@ -37,27 +37,20 @@ impl Errors {
 #[derive(Debug, Default)]
 pub struct NameIndex(HashMap<NameKey, u32>);
 
-#[derive(Debug, PartialEq, Eq)]
+/// A name of up to 22 bytes is stored as its length and bytes, in place.
+#[derive(Debug, PartialEq, Eq, Hash)]
 enum NameKey {
-    Short(u8, [u8; 22]),
+    Short([u8; 23]),
     Long(String),
-}
-
-impl std::hash::Hash for NameKey {
-    fn hash<H: std::hash::Hasher>(&self, h: &mut H) {
-        match self {
-            NameKey::Short(n, b) => h.write(&b[..*n as usize]),
-            NameKey::Long(s) => h.write(s.as_bytes()),
-        }
-    }
 }
 
 fn name_key(s: &str) -> NameKey {
     match s.len() {
         n @ 0..=22 => {
-            let mut b = [0; 22];
-            b[..n].copy_from_slice(s.as_bytes());
-            NameKey::Short(n as u8, b)
+            let mut b = [0; 23];
+            b[0] = n as u8;
+            b[1..=n].copy_from_slice(s.as_bytes());
+            NameKey::Short(b)
         }
         _ => NameKey::Long(s.to_string()),
     }

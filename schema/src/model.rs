@@ -4,7 +4,6 @@
 //! of what the file says.
 
 use serde::de::{self, Deserializer, MapAccess, Visitor};
-use serde::ser::{SerializeMap, Serializer};
 use serde::{Deserialize, Serialize};
 use serde_json::Value;
 use std::collections::BTreeMap;
@@ -18,7 +17,8 @@ pub type Grading = Vec<i64>;
 pub type Term = [String; 3];
 
 /// A JSON object whose keys must be distinct (serde_json would silently keep the last).
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(transparent)]
 pub struct UniqueMap<V>(pub BTreeMap<String, V>);
 
 impl<V> Default for UniqueMap<V> {
@@ -31,16 +31,6 @@ impl<V> std::ops::Deref for UniqueMap<V> {
     type Target = BTreeMap<String, V>;
     fn deref(&self) -> &Self::Target {
         &self.0
-    }
-}
-
-impl<V: Serialize> Serialize for UniqueMap<V> {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        let mut m = s.serialize_map(Some(self.0.len()))?;
-        for (k, v) in &self.0 {
-            m.serialize_entry(k, v)?;
-        }
-        m.end()
     }
 }
 
