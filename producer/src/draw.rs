@@ -139,7 +139,9 @@ pub fn svg(ring: &Ring, name: &str, c: &ComplexSpec, highlight: &BTreeSet<String
         .collect();
     let centre = |i: usize| margin + left[i] + widths[i] / 2.0;
     let cell_h = 70.0;
-    let title = format!("{name}: {} generators, {} arrows", c.generators.len(), c.differential.len());
+    let plural = |n: usize, word: &str| format!("{n} {word}{}", if n == 1 { "" } else { "s" });
+    let title =
+        format!("{name}: {}, {}", plural(c.generators.len(), "generator"), plural(c.differential.len(), "arrow"));
     // Wide enough for the title and the caption (about 7 px a character at these sizes).
     let text_width = 7.0 * title.chars().count().max(caption.chars().count()) as f64;
     let width = (margin * 2.0 + widths.iter().sum::<f64>()).max(text_width + margin);

@@ -15,6 +15,7 @@
 //!   b -> U^2 a
 //! complex T = staircase torus_knot 3 4      # also: alexander 3 2 0 -2 -3
 //! complex S = tensor T K                    # dual T | shift T (1, 0) | direct_sum A B | cone f
+//! complex Q = quotient V of staircase torus_knot 3 4   # the source is over F2[U,V]
 //!
 //! map F : O -> K degree (0, 0)
 //!   o -> z
@@ -258,8 +259,41 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
         "tensor" | "direct_sum" if toks.len() == 3 => json!({ w(0): [w(1), w(2)] }),
         "dual" | "cone" if toks.len() == 2 => json!({ w(0): w(1) }),
         "shift" if toks.len() == 3 => json!({"shift": [w(1), grading(line, c(2), w(2))?]}),
-        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
+        // The source lives over the larger ring, so it is written inline after `of`.
+        "quotient" => match toks.iter().position(|t| t.1 == "of") {
+            Some(k) if k >= 2 => {
+                let mut args = vec![construction(line, &toks[k + 1..])?];
+                args.extend(toks[1..k].iter().map(|t| json!(t.1)));
+                json!({ "quotient": args })
+            }
+            _ => return Err(line.err(c(1), "quotient VARIABLE… of CONSTRUCTION", &w(1))),
+        },
+        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
     })
+}
+
+/// The text form `op args…` of a construction (the inverse of [`construction`]).
+fn construction_text(c: &Value) -> Result<String, String> {
+    let (op, arg) = c.as_object().filter(|o| o.len() == 1).and_then(|o| o.iter().next()).ok_or("not a construction")?;
+    let numbers = |v: &Value| v.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ");
+    let args = match (op.as_str(), arg) {
+        ("staircase", a) => match (a.get("torus_knot"), a.get("alexander")) {
+            (Some(pq), _) => format!("torus_knot {}", numbers(pq)),
+            (_, Some(e)) => format!("alexander {}", numbers(e)),
+            _ => return Err("staircase of what?".into()),
+        },
+        ("shift", a) => format!("{} {}", a[0].as_str().unwrap_or(""), grading_text(&a[1])),
+        ("quotient", Value::Array(a)) if !a.is_empty() => {
+            let source = construction_text(&a[0])
+                .map_err(|_| "a quotient of a complex written out in full has no text form; keep it in JSON")?;
+            let vars: Vec<&str> = a[1..].iter().filter_map(|x| x.as_str()).collect();
+            format!("{} of {source}", vars.join(" "))
+        }
+        (_, Value::String(s)) => s.clone(),
+        (_, Value::Array(a)) => a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "),
+        _ => return Err("unknown construction".into()),
+    };
+    Ok(format!("{op} {args}"))
 }
 
 fn goal(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
@@ -385,26 +419,7 @@ pub fn render(p: &Value) -> Result<String, String> {
             out.extend(terms_text(&c["differential"]));
             continue;
         }
-        let (op, arg) =
-            c.as_object().and_then(|o| o.iter().next()).ok_or(format!("complex {name}: not a construction"))?;
-        let args = match (op.as_str(), arg) {
-            ("staircase", a) => match (a.get("torus_knot"), a.get("alexander")) {
-                (Some(pq), _) => format!(
-                    "torus_knot {}",
-                    pq.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")
-                ),
-                (_, Some(e)) => format!(
-                    "alexander {}",
-                    e.as_array().into_iter().flatten().map(|x| x.to_string()).collect::<Vec<_>>().join(" ")
-                ),
-                _ => return Err(format!("complex {name}: staircase of what?")),
-            },
-            ("shift", a) => format!("{} {}", a[0].as_str().unwrap_or(""), grading_text(&a[1])),
-            (_, Value::String(s)) => s.clone(),
-            (_, Value::Array(a)) => a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "),
-            _ => return Err(format!("complex {name}: unknown construction")),
-        };
-        out.push(format!("complex {name} = {op} {args}"));
+        out.push(format!("complex {name} = {}", construction_text(c).map_err(|e| format!("complex {name}: {e}"))?));
     }
     for (name, m) in p["maps"].as_object().into_iter().flatten() {
         out.push(String::new());
@@ -485,6 +500,22 @@ mod tests {
         assert_eq!(parse(&render(&v).unwrap()).unwrap(), v);
         let poly = parse("ring F2[U,V]\ngradings a b\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)\ncomplex C\n  x (0, 0)\n  y (0, 0)\n  x -> (U + V) y + U*V y2\n").unwrap();
         assert_eq!(poly["complexes"]["C"]["differential"], json!([["x", "U + V", "y"], ["x", "U*V", "y2"]]));
+    }
+
+    #[test]
+    fn quotients_of_inline_staircases_round_trip_and_build() {
+        let text = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex Q = quotient V of staircase torus_knot 3 4\ngoal tau Q\n";
+        let v = parse(text).unwrap();
+        assert_eq!(v["complexes"]["Q"], json!({"quotient": [{"staircase": {"torus_knot": [3, 4]}}, "V"]}));
+        assert_eq!(parse(&render(&v).unwrap()).unwrap(), v);
+        // Resolved to the explicit minus complex of T(3,4): five generators (a staircase of
+        // three steps for Δ = t^3 − t^2 + 1 − t^-2 + t^-3).
+        let p = crate::problem::parse_problem(text.as_bytes(), "q.txt").unwrap();
+        assert_eq!(p.complexes["Q"].generators.len(), 5);
+        let e = parse("ring F2[U]\ncomplex Q = quotient V staircase torus_knot 3 4\n").unwrap_err();
+        assert!(e[0].contains("quotient VARIABLE… of CONSTRUCTION"), "{e:?}");
+        let explicit = json!({"quotient": [{"generators": {"x": [0, 0]}, "differential": []}, "V"]});
+        assert!(construction_text(&explicit).unwrap_err().contains("keep it in JSON"));
     }
 
     #[test]
