@@ -266,7 +266,7 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
                 args.extend(toks[1..k].iter().map(|t| json!(t.1)));
                 json!({ "quotient": args })
             }
-            _ => return Err(line.err(c(1), "quotient VARIABLE… of CONSTRUCTION", &w(1))),
+            _ => return Err(line.err(c(1), "quotient VARIABLE… of CONSTRUCTION", w(1))),
         },
         _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
     })
