@@ -68,6 +68,28 @@ enum Command {
         #[arg(long, default_value = ".")]
         out: PathBuf,
     },
+    /// Build explicit complexes from constructions given on the command line; writes a problem
+    /// file (text or JSON) ready for `prove`.
+    #[command(
+        after_help = "Each --complex is one text-format definition NAME = CONSTRUCTION, in order:\n  staircase torus_knot P Q | staircase alexander A… | tensor A B | dual A | shift A (…)\n  | direct_sum A B | quotient V of staircase …\nEach --goal is one text-format goal (tau K, homology K, torsion_order_of_complex K U, …).\n\nExample:\n  tubecert build --ring 'F2[U]' --complex 'T = staircase torus_knot 3 4' --complex 'M = dual T' \\\n    --complex 'S = tensor T M' --goal 'tau S' -o sum.problem.txt\n  tubecert prove sum.problem.txt"
+    )]
+    Build {
+        /// F2, F2[U] (Maslov, Alexander; the minus version) or F2[U,V] (gr_U, gr_V).
+        #[arg(long, default_value = "F2[U]")]
+        ring: String,
+        /// NAME = CONSTRUCTION (repeatable, in order).
+        #[arg(long = "complex", value_name = "DEFINITION", required = true)]
+        complexes: Vec<String>,
+        /// A goal line (repeatable).
+        #[arg(long = "goal", value_name = "GOAL")]
+        goals: Vec<String>,
+        /// Output format (default: text, or json when OUT ends in .json).
+        #[arg(long, value_parser = ["text", "json"])]
+        to: Option<String>,
+        /// Where to write the problem (default: standard output).
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+    },
     /// Convert a problem file between the JSON and the text format.
     #[command(after_help = "Example:\n  tubecert convert examples/tower.problem.json --to text -o tower.problem.txt")]
     Convert {
@@ -200,6 +222,35 @@ fn main() -> ExitCode {
             }
             Err(errs) => report_errors(&errs),
         },
+        Command::Build { ring, complexes, goals, to, output } => {
+            let json = to.as_deref() == Some("json")
+                || (to.is_none() && output.as_ref().is_some_and(|o| o.extension().is_some_and(|e| e == "json")));
+            let built = tubecert::text_format::from_command_line(&ring, &complexes, &goals)
+                .and_then(|v| serde_json::from_value(v).map_err(|e| vec![e.to_string()]))
+                .and_then(tubecert::problem::from_written)
+                .and_then(|p| {
+                    let bytes = tubecert::demo::problem_bytes(&p);
+                    if json {
+                        return Ok(String::from_utf8(bytes).expect("JSON is UTF-8"));
+                    }
+                    let v = serde_json::from_slice(&bytes).expect("just written");
+                    tubecert::text_format::render(&v).map_err(|e| vec![e])
+                });
+            match (built, output) {
+                (Err(errs), _) => report_errors(&errs),
+                (Ok(text), None) => {
+                    tubecheck::report_cli::emit(&text);
+                    ExitCode::SUCCESS
+                }
+                (Ok(text), Some(o)) => match std::fs::write(&o, text) {
+                    Ok(()) => {
+                        say!("wrote {}", o.display());
+                        ExitCode::SUCCESS
+                    }
+                    Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
+                },
+            }
+        }
         Command::Convert { file, to, output } => {
             let name = file.display().to_string();
             let converted = tubecert_format::limits::read_file(&file)

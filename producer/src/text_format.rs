@@ -272,6 +272,44 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
     })
 }
 
+/// The ring declaration lines of the conventions the constructions use: F2[U,V] with
+/// (gr_U, gr_V); F2[U] with (Maslov, Alexander), the V = 0 minus version; F2, the hat version.
+pub fn standard_ring(ring: &str) -> Result<&'static str, String> {
+    match ring {
+        "F2[U,V]" => Ok("ring F2[U,V]\ngradings gr_U gr_V\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)"),
+        "F2[U]" => Ok("ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)"),
+        "F2" => Ok("ring F2\ngradings maslov alexander\ndegree d (-1, 0)"),
+        other => Err(format!("ring \"{other}\": expected F2, F2[U] or F2[U,V]")),
+    }
+}
+
+/// A problem from command-line pieces: the ring's name, complex definitions `NAME = …` and
+/// goals, each one line of the text format. Errors name the argument and the column in it.
+pub fn from_command_line(ring: &str, complexes: &[String], goals: &[String]) -> Result<Value, Vec<String>> {
+    let header = standard_ring(ring).map_err(|e| vec![e])?;
+    // (argument as given, its keyword); each becomes one line after the header.
+    let pieces: Vec<(&String, &str)> =
+        complexes.iter().map(|c| (c, "complex")).chain(goals.iter().map(|g| (g, "goal"))).collect();
+    let mut doc = header.to_string();
+    for (text, keyword) in &pieces {
+        if text.contains(['\n', '#']) {
+            return Err(vec![format!("--{keyword} \"{text}\": one line, without '#'")]);
+        }
+        doc += &format!("\n{keyword} {text}");
+    }
+    let first = header.lines().count() + 1;
+    parse(&doc).map_err(|errs| {
+        let at = |e: &String| -> Option<String> {
+            let (line, rest) = e.split_once(':')?;
+            let (col, msg) = rest.split_once(':')?;
+            let (text, keyword) = pieces.get(line.parse::<usize>().ok()?.checked_sub(first)?)?;
+            let col = col.parse::<usize>().ok()?.saturating_sub(keyword.len() + 1);
+            Some(format!("--{keyword} \"{text}\", column {col}:{msg}"))
+        };
+        errs.iter().map(|e| at(e).unwrap_or_else(|| e.clone())).collect()
+    })
+}
+
 /// The text form `op args…` of a construction (the inverse of [`construction`]).
 fn construction_text(c: &Value) -> Result<String, String> {
     let (op, arg) = c.as_object().filter(|o| o.len() == 1).and_then(|o| o.iter().next()).ok_or("not a construction")?;
@@ -500,6 +538,17 @@ mod tests {
         assert_eq!(parse(&render(&v).unwrap()).unwrap(), v);
         let poly = parse("ring F2[U,V]\ngradings a b\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)\ncomplex C\n  x (0, 0)\n  y (0, 0)\n  x -> (U + V) y + U*V y2\n").unwrap();
         assert_eq!(poly["complexes"]["C"]["differential"], json!([["x", "U + V", "y"], ["x", "U*V", "y2"]]));
+    }
+
+    #[test]
+    fn command_line_pieces_make_a_problem_and_errors_name_the_argument() {
+        let v = from_command_line("F2[U]", &["T = staircase torus_knot 2 3".into()], &["tau T".into()]).unwrap();
+        assert_eq!(v["complexes"]["T"], json!({"staircase": {"torus_knot": [2, 3]}}));
+        assert_eq!(v["ring"]["variable_degrees"]["U"], json!([-2, -1]));
+        assert_eq!(v["goals"][0], json!({"tau": {"complex": "T"}}));
+        let e = from_command_line("F2[U]", &["T = staircase torus_knot 2 x".into()], &[]).unwrap_err();
+        assert_eq!(e[0], "--complex \"T = staircase torus_knot 2 x\", column 28: expected an integer, found \"x\"");
+        assert!(from_command_line("Z[U]", &[], &[]).unwrap_err()[0].contains("F2, F2[U] or F2[U,V]"));
     }
 
     #[test]

@@ -227,3 +227,30 @@ fn a_closed_output_pipe_keeps_the_exit_code_and_the_certificate() {
     assert!(!err.contains("panicked"), "{err}");
     assert!(tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap().ok());
 }
+
+/// Constructions from the command line: T(2,5) # T(2,5) has τ = 2 + 2 (τ(T(p,q)) = (p−1)(q−1)/2
+/// and additivity, Ozsváth–Szabó 2003); the problem written by `build` proves it.
+#[test]
+fn build_writes_explicit_complexes_that_prove() {
+    let out = dir().join("built.problem.json");
+    let (code, _, err) = tubecert(&[
+        "build",
+        "--complex",
+        "T = staircase torus_knot 2 5",
+        "--complex",
+        "S = tensor T T",
+        "--goal",
+        "tau S",
+        "-o",
+        &out.to_string_lossy(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let written: serde_json::Value = serde_json::from_slice(&std::fs::read(&out).unwrap()).unwrap();
+    assert_eq!(written["complexes"]["S"]["generators"].as_object().unwrap().len(), 25, "explicit 5 × 5 generators");
+    let (code, stdout, err) = tubecert(&["prove", &out.to_string_lossy()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(stdout.contains("✓ τ(S) = 4"), "{stdout}");
+    let (code, _, err) = tubecert(&["build", "--ring", "F2[W]", "--complex", "T = dual X"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("expected F2, F2[U] or F2[U,V]"), "{err}");
+}
