@@ -103,6 +103,21 @@ pub struct WrittenProblem {
 /// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
 /// constructions into explicit complexes and maps. Errors are prefixed with `name`.
 pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
+    // The common large case, a JSON problem written out in full, is read typed in one pass,
+    // with the repeated-key walk beside it on the other core. Anything else (constructions,
+    // the text format, errors) goes through the written form, which resolves constructions
+    // and gives the precise messages.
+    if let Some(text) = std::str::from_utf8(bytes).ok().filter(|t| t.trim_start().starts_with('{')) {
+        let (walk, typed) = std::thread::scope(|s| {
+            let walk = s.spawn(|| refuse_repeated_keys(text).is_ok());
+            (walk.join().unwrap_or(false), serde_json::from_str::<Problem>(text))
+        });
+        if let (true, Ok(p)) = (walk, typed) {
+            if p.format == PROBLEM_FORMAT && p.version == 1 {
+                return Ok(p);
+            }
+        }
+    }
     let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
     let value = written_value(bytes).map_err(prefix)?;
     let w: WrittenProblem =
