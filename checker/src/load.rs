@@ -136,6 +136,18 @@ pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
     a.iter().zip(b).map(|(x, y)| x + y).collect()
 }
 
+/// `f` on 0..n, or, when n is large, on its two halves on the machine's two cores; the
+/// results in order, so that what is reported does not depend on timing.
+pub fn in_two_halves<T: Send>(n: usize, f: impl Fn(std::ops::Range<usize>) -> T + Sync) -> Vec<T> {
+    if n < 100_000 {
+        return vec![f(0..n)];
+    }
+    std::thread::scope(|s| {
+        let second = s.spawn(|| f(n / 2..n));
+        vec![f(0..n / 2), second.join().expect("the work of each half does not panic")]
+    })
+}
+
 /// Resolves names and coefficients of `terms` (numbered from `offset` + 1 in messages):
 /// the triples (from, to, monomial), structural errors, non-homogeneous terms.
 #[allow(clippy::too_many_arguments, clippy::type_complexity)]
@@ -227,17 +239,10 @@ pub fn read_terms(
         errs.push(format!("{what}: {} terms, above the limit {MAX_TERMS}", terms.len()));
         return (map, Vec::new());
     }
-    let read = |part: &[Term], offset: usize| resolve(ring, src, dst, degree, part, offset, what, single_monomial);
     // Name lookups dominate loading a large complex: two halves on the machine's two cores.
-    let parts = if terms.len() < 100_000 {
-        vec![read(terms, 0)]
-    } else {
-        let (a, b) = terms.split_at(terms.len() / 2);
-        std::thread::scope(|s| {
-            let second = s.spawn(|| read(b, a.len()));
-            vec![read(a, 0), second.join().expect("resolving terms does not panic")]
-        })
-    };
+    let parts = in_two_halves(terms.len(), |r| {
+        resolve(ring, src, dst, degree, &terms[r.clone()], r.start, what, single_monomial)
+    });
     let mut defects = Vec::new();
     for (triples, part_errs, part_defects) in parts {
         part_errs.into_iter().for_each(|e| errs.push(e));
