@@ -62,21 +62,28 @@ fn version_1_fixtures_stay_verifiable() {
 }
 
 #[test]
-fn the_same_problem_gives_identical_bytes_across_processes() {
-    // Two separate runs of the command line: each process seeds its hash maps differently, so
-    // any dependence on hash-map order would show. The producer runs on one thread; the
-    // checker's second thread only hashes, so thread counts cannot change a certificate.
+fn the_same_problem_gives_identical_bytes_across_processes_and_thread_counts() {
+    // Separate runs of the command line: each process seeds its hash maps differently, so any
+    // dependence on hash-map order would show. The problem maps one inflated complex into
+    // another, so with two threads both are reduced at once; `--emit-reduction` puts the
+    // reductions themselves into the certificate.
     let exe = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../target/release/tubecert");
     assert!(exe.exists(), "build the release binaries first (the README's test command does)");
-    let problem = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../certificates/box-uv.problem.json");
-    let out = |i: u32| {
-        let path = std::env::temp_dir().join(format!("tubecert-det-{}-{i}.json", std::process::id()));
+    let problem = std::env::temp_dir().join(format!("tubecert-det-{}.problem.json", std::process::id()));
+    let synthetic = tubecert::bench::synthetic_problem(3000, Some(2000), 7).unwrap();
+    std::fs::write(&problem, tubecert::demo::problem_bytes(&synthetic)).unwrap();
+    let out = |run: u32, threads: &str| {
+        let path = std::env::temp_dir().join(format!("tubecert-det-{}-{run}.json", std::process::id()));
         let status = std::process::Command::new(&exe)
-            .args(["prove", &problem.to_string_lossy(), "-o", &path.to_string_lossy()])
+            .args(["prove", &problem.to_string_lossy(), "--emit-reduction", "--threads", threads, "-o"])
+            .arg(&path)
             .output()
             .unwrap();
-        assert!(status.status.success());
+        assert!(status.status.success(), "{}", String::from_utf8_lossy(&status.stderr));
         std::fs::read(path).unwrap()
     };
-    assert_eq!(out(1), out(2));
+    let first = out(1, "2");
+    assert!(String::from_utf8_lossy(&first).contains("iota_"), "the reductions are in the certificate");
+    assert!(first == out(2, "2"), "two runs with two threads differ");
+    assert!(first == out(3, "1"), "one thread and two threads differ");
 }

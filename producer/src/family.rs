@@ -146,6 +146,7 @@ pub fn run(
     template_path: &std::path::Path,
     param: &str,
     out: &std::path::Path,
+    options: crate::prove::Options,
 ) -> Result<(Vec<String>, bool), Vec<String>> {
     let (name, lo, hi) = parse_param(param).map_err(|e| vec![e])?;
     let file = template_path.display().to_string();
@@ -165,7 +166,7 @@ pub fn run(
         let problem = crate::problem::from_written(written).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
         let instance = crate::demo::problem_bytes(&problem);
         let ctx = crate::validate::validate(&problem).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
-        let proved = crate::prove::prove(problem, &ctx, &instance).map_err(|e| vec![at(e)])?;
+        let proved = crate::prove::prove_with(problem, &ctx, &instance, options).map_err(|e| vec![at(e)])?;
         all &= proved.all_as_stated;
         let member = format!("{stem}-{name}{v}");
         let write = |path: std::path::PathBuf, b: &[u8]| {

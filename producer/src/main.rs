@@ -19,6 +19,10 @@ struct Cli {
     /// No progress on stderr (it is shown only when stderr is a terminal anyway).
     #[arg(long, global = true)]
     quiet: bool,
+    /// Threads for independent pieces of work (1: one at a time). Certificates are the same
+    /// byte for byte whatever the number.
+    #[arg(long, global = true, default_value_t = 2, value_parser = clap::value_parser!(u16).range(1..))]
+    threads: u16,
 }
 
 #[derive(Subcommand)]
@@ -144,6 +148,7 @@ fn report_errors(errs: &[String]) -> ExitCode {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    let options = tubecert::prove::Options { threads: cli.threads.into(), ..Default::default() };
     tubecert::progress::enable(!cli.quiet && std::io::IsTerminal::is_terminal(&std::io::stderr()));
     match cli.command {
         Command::CheckInput { problem } => match tubecert::load_problem(&problem) {
@@ -165,7 +170,7 @@ fn main() -> ExitCode {
                 Ok(x) => x,
                 Err(errs) => return report_errors(&errs),
             };
-            let options = tubecert::prove::Options { emit_reduction };
+            let options = tubecert::prove::Options { emit_reduction, ..options };
             let proved = match tubecert::prove::prove_with(p, &ctx, &bytes, options) {
                 Ok(x) => x,
                 Err(e) => {
@@ -207,7 +212,7 @@ fn main() -> ExitCode {
                 }
             }
         }
-        Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out) {
+        Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out, options) {
             Ok((rows, all)) => {
                 for r in rows {
                     say!("{r}");

@@ -262,11 +262,19 @@ impl Builder<'_> {
     }
 }
 
-/// Choices that change what a certificate contains.
-#[derive(Clone, Copy, Debug, Default)]
+/// Choices for one run of the prover.
+#[derive(Clone, Copy, Debug)]
 pub struct Options {
     /// Also certify each reduced model used: C ≃ C_reduced as a homotopy equivalence.
     pub emit_reduction: bool,
+    /// Threads for independent blocks (1: everything in turn). Never changes the certificate.
+    pub threads: usize,
+}
+
+impl Default for Options {
+    fn default() -> Self {
+        Options { emit_reduction: false, threads: 2 }
+    }
 }
 
 /// Adds C_reduced, π: C → C_reduced, ι: C_reduced → C and the claim that they are inverse
@@ -342,7 +350,7 @@ pub fn prove(problem: Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<Pr
 }
 
 pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options: Options) -> Result<Proved, String> {
-    let mut b = Builder { ctx, solver: Solver::new(ctx), claims: Vec::new() };
+    let mut b = Builder { ctx, solver: Solver::new(ctx, options.threads > 1), claims: Vec::new() };
     let mut lines = Vec::new();
     let mut all = true;
     let start = Instant::now();

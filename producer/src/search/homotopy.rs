@@ -131,15 +131,18 @@ pub fn to_map(triples: &[HomTerm], sources: usize) -> SparseMap {
 pub struct Solver<'a> {
     pub ctx: &'a Context,
     reductions: RefCell<BTreeMap<usize, Rc<Reduction>>>,
+    parallel: bool,
     /// Time spent reducing and transporting, for the bench.
     pub reduce_time: Cell<Duration>,
     pub transport_time: Cell<Duration>,
 }
 
 impl<'a> Solver<'a> {
-    pub fn new(ctx: &'a Context) -> Self {
+    /// With `parallel`, independent reductions run on two threads.
+    pub fn new(ctx: &'a Context, parallel: bool) -> Self {
         Solver {
             ctx,
+            parallel,
             reductions: RefCell::new(BTreeMap::new()),
             reduce_time: Cell::default(),
             transport_time: Cell::default(),
@@ -161,7 +164,7 @@ impl<'a> Solver<'a> {
     /// source and target of a map are independent blocks.
     fn reduction_pair(&self, c: usize, d: usize) -> Result<(Rc<Reduction>, Rc<Reduction>), String> {
         let known = |i: usize| self.reductions.borrow().contains_key(&i);
-        if c != d && !known(c) && !known(d) {
+        if self.parallel && c != d && !known(c) && !known(d) {
             let start = Instant::now();
             let complexes = &self.ctx.complexes;
             let (rc, rd) = std::thread::scope(|s| {
