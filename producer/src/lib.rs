@@ -25,7 +25,9 @@ pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::C
     let name = path.display().to_string();
     let bytes = tubecert_format::limits::read_file(path).map_err(|e| vec![format!("{name}: {e}")])?;
     let p = problem::parse_problem(&bytes, &name)?;
-    let ctx =
-        validate::validate(&p).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect::<Vec<_>>())?;
+    let ctx = validate::validate(&p).map_err(|es| {
+        let lines = text_format::TermLines::of(&bytes);
+        es.iter().map(|e| lines.locate(&name, e)).collect::<Vec<_>>()
+    })?;
     Ok((p, ctx, bytes))
 }

@@ -118,6 +118,41 @@ fn targets(line: &Line, col: usize, text: &str) -> Result<Vec<(String, String)>,
 
 /// Parses the text format into the JSON value of a problem file.
 pub fn parse(src: &str) -> Result<Value, Vec<String>> {
+    parse_located(src).map(|(v, _)| v)
+}
+
+/// The line of each differential or map term of a text problem, so that messages about a term
+/// ("complex K, differential, term 3: …", in the checker's words) can point at its line.
+#[derive(Debug, Default)]
+pub struct TermLines(std::collections::BTreeMap<String, Vec<usize>>);
+
+impl TermLines {
+    /// Reads the term lines of a text problem (none for JSON or unreadable input).
+    pub fn of(bytes: &[u8]) -> TermLines {
+        std::str::from_utf8(bytes)
+            .ok()
+            .filter(|t| !t.trim_start().starts_with('{'))
+            .and_then(|t| parse_located(t).ok())
+            .map_or_else(TermLines::default, |(_, lines)| lines)
+    }
+
+    /// `FILE:LINE: message` when the message names a term of this file, else `FILE: message`.
+    pub fn locate(&self, file: &str, message: &str) -> String {
+        let line = self.0.iter().find_map(|(what, lines)| {
+            let rest = message.strip_prefix(what.as_str())?.strip_prefix(", term ")?;
+            let digits = rest.len() - rest.trim_start_matches(|c: char| c.is_ascii_digit()).len();
+            lines.get(rest[..digits].parse::<usize>().ok()?.checked_sub(1)?)
+        });
+        match line {
+            Some(l) => format!("{file}:{l}: {message}"),
+            None => format!("{file}: {message}"),
+        }
+    }
+}
+
+/// [`parse`], with the line of every term.
+pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
+    let mut term_lines = TermLines::default();
     let mut errs = Vec::new();
     let (mut variables, mut gradings) = (Vec::<String>::new(), Vec::<String>::new());
     let (mut var_degrees, mut complexes, mut maps, mut goals) = (Map::new(), Map::new(), Map::new(), Vec::new());
@@ -148,7 +183,13 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
                 if let Some(arrow) = text.find("->") {
                     let from = text[..arrow].trim();
                     let key = if *kind == "complex" { "differential" } else { "terms" };
+                    let what = if *kind == "complex" {
+                        format!("complex {name}, differential")
+                    } else {
+                        format!("map {name}")
+                    };
                     for (c, t) in targets(&line, arrow + 3, &text[arrow + 2..])? {
+                        term_lines.0.entry(what.clone()).or_default().push(line.no);
                         entry[key]
                             .as_array_mut()
                             .ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?
@@ -240,11 +281,12 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
     if !errs.is_empty() {
         return Err(errs);
     }
-    Ok(json!({
+    let problem = json!({
         "format": "tubecert-problem", "version": 1,
         "ring": {"variables": variables, "gradings": gradings, "variable_degrees": var_degrees, "differential_degree": diff_degree},
         "complexes": complexes, "maps": maps, "goals": goals
-    }))
+    });
+    Ok((problem, term_lines))
 }
 
 fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {

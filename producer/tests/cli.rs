@@ -164,6 +164,14 @@ fn text_format_errors_name_file_line_and_column() {
     assert_eq!(code, 2);
     assert!(err.contains("bad.problem.txt:7:5: expected integers separated by commas, found \"(1; 0)\""), "{err}");
     assert!(err.contains("bad.problem.txt:8:6: expected torsion_order"), "{err}");
+    // A file that parses but does not validate: the message points at the line of the term.
+    let unknown = write(
+        "unknown.problem.txt",
+        "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n",
+    );
+    let (code, _, err) = tubecert(&["check-input", &unknown]);
+    assert_eq!(code, 2);
+    assert!(err.contains("unknown.problem.txt:9: complex K, differential, term 2: generator \"c\""), "{err}");
 }
 
 #[test]
