@@ -97,7 +97,10 @@ pub fn draw_file(path: &std::path::Path, name: &str, highlight: Option<usize>) -
             let claim = claims
                 .get(k.wrapping_sub(1))
                 .ok_or_else(|| vec![format!("{file}: there is no claim {k} (it has {})", claims.len())])?;
-            (support(claim, name, b), format!("highlighted: the witness of claim {k}, {}", claim.statement()))
+            // A long statement (a big homology) is cut so that it does not set the picture's width.
+            let statement: String = claim.statement().chars().take(80).collect();
+            let cut = if statement.len() < claim.statement().len() { "…" } else { "" };
+            (support(claim, name, b), format!("highlighted: the witness of claim {k}, {statement}{cut}"))
         }
         (Some(_), None) => {
             return Err(vec![format!("{file}: --highlight needs a certificate (claims carry the witnesses)")])
