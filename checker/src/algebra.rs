@@ -9,8 +9,8 @@ use tubecert_format::Mono;
 /// Σ m·g over the listed terms; sorted by (generator, monomial), no repeats.
 pub type Vector = Vec<(u32, Mono)>;
 
-/// Sorts and cancels repeated terms in pairs (addition mod 2).
-pub fn normalize(v: &mut Vector) {
+/// Sorts and cancels repeated terms in pairs (addition mod 2); for any kind of term.
+pub fn normalize<T: Ord + Copy>(v: &mut Vec<T>) {
     v.sort_unstable();
     let mut out = 0;
     let mut i = 0;

@@ -138,17 +138,9 @@ pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[Strin
     }
     let mut terms = Vec::new();
     for ((x, y), mut monos) in acc {
-        monos.sort();
-        let mut kept: Vec<Mono> = Vec::new();
-        for m in monos {
-            if kept.last() == Some(&m) {
-                kept.pop();
-            } else {
-                kept.push(m);
-            }
-        }
-        if !kept.is_empty() {
-            terms.push([x, render_poly(&kept, vars), y]);
+        tubecheck::algebra::normalize(&mut monos);
+        if !monos.is_empty() {
+            terms.push([x, render_poly(&monos, vars), y]);
         }
     }
     Ok(MapSpec { from: from.into(), to: to.into(), degree: add(&f.degree, &g.degree), terms })

@@ -220,16 +220,8 @@ impl<'a> Solver<'a> {
                         }
                     }
                 }
-                y.sort_unstable();
-                let mut kept: Vec<HomTerm> = Vec::with_capacity(y.len());
-                for t in y {
-                    if kept.last() == Some(&t) {
-                        kept.pop();
-                    } else {
-                        kept.push(t);
-                    }
-                }
-                Verdict::NotNull(kept)
+                normalize(&mut y);
+                Verdict::NotNull(y)
             }
         };
         self.transport_time.set(self.transport_time.get() + start.elapsed());
