@@ -329,10 +329,8 @@ pub fn load_lenient(
         complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
     let mut ctx = Context { ring, complexes, complex_index, maps: Vec::new(), map_index: BTreeMap::new() };
     for (name, spec) in maps.iter() {
-        let (Some(from), Some(to)) = (
-            ctx.complex(&spec.from, &mut errs, &format!("map {name}")),
-            ctx.complex(&spec.to, &mut errs, &format!("map {name}")),
-        ) else {
+        let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
+        let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else {
             continue;
         };
         if spec.degree.len() != ctx.ring.gradings.len() || spec.degree.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
@@ -353,20 +351,9 @@ pub fn load_lenient(
 }
 
 impl Context {
-    fn complex(&self, name: &str, errs: &mut Errors, user: &str) -> Option<usize> {
-        let found = self.complex_index.get(name).copied();
-        if found.is_none() {
-            errs.push(format!(
-                "{user}: complex \"{name}\" is not declared{}",
-                suggest(name, self.complex_index.keys())
-            ));
-        }
-        found
-    }
-
     pub fn complex_named(&self, name: &str) -> Result<usize, String> {
-        let mut e = Errors::default();
-        self.complex(name, &mut e, "claim").ok_or_else(|| e.0.join("; "))
+        let found = self.complex_index.get(name).copied();
+        found.ok_or_else(|| format!("complex \"{name}\" is not declared{}", suggest(name, self.complex_index.keys())))
     }
 
     /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
