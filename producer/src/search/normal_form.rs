@@ -8,7 +8,7 @@
 //! first (so divisibility holds over a PID), then fewest fill-in (Markowitz count).
 
 use std::cmp::Reverse;
-use std::collections::{BTreeSet, BinaryHeap};
+use std::collections::BinaryHeap;
 use tubecert_format::Mono;
 use tubecheck::algebra::{normalize, push_scaled, Vector};
 use tubecheck::load::Complex;
@@ -35,6 +35,30 @@ pub struct NormalForm {
     pub out: Vec<Vector>,
 }
 
+/// The sources of the arrows into one generator: a small sorted set (a few entries each, so a
+/// sorted vector beats a tree), iterated in increasing order.
+#[derive(Clone, Default)]
+struct Sources(Vec<u32>);
+
+impl Sources {
+    fn insert(&mut self, a: u32) {
+        if let Err(i) = self.0.binary_search(&a) {
+            self.0.insert(i, a);
+        }
+    }
+    fn remove(&mut self, a: &u32) {
+        if let Ok(i) = self.0.binary_search(a) {
+            self.0.remove(i);
+        }
+    }
+    fn len(&self) -> usize {
+        self.0.len()
+    }
+    fn iter(&self) -> impl Iterator<Item = &u32> {
+        self.0.iter()
+    }
+}
+
 fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
     let start = row.partition_point(|t| t.0 < b);
     row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
@@ -52,7 +76,7 @@ fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<()
 pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let n = c.names.len();
     let mut out: Vec<Vector> = c.d.rows.clone();
-    let mut inc: Vec<BTreeSet<u32>> = vec![BTreeSet::new(); n];
+    let mut inc: Vec<Sources> = vec![Sources::default(); n];
     for (a, row) in out.iter().enumerate() {
         for &(b, _) in row {
             inc[b as usize].insert(a as u32);
@@ -64,7 +88,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let mut done = vec![false; n];
     let mut pairs = Vec::new();
     let mut heap = BinaryHeap::new();
-    let push_arrows = |heap: &mut BinaryHeap<_>, a: u32, row: &Vector, inc: &[BTreeSet<u32>]| {
+    let push_arrows = |heap: &mut BinaryHeap<_>, a: u32, row: &Vector, inc: &[Sources]| {
         for (i, &(b, m)) in row.iter().enumerate() {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
             if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
@@ -108,7 +132,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             add_multiple(&mut inverse_rows[au], &factor, &ia2)?;
         }
         // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
-        for x in std::mem::take(&mut inc[au]) {
+        for x in std::mem::take(&mut inc[au]).0 {
             out[x as usize].retain(|t| t.0 != a);
         }
         // b ← b + Σ (c''/m)·b'' absorbs the rest of ∂a.
