@@ -200,11 +200,11 @@ fn measure_in_child(cert: &[u8]) -> Result<(Duration, Duration), String> {
     }
 }
 
-/// The child's side: best of three plain parses and three full checks of one file.
+/// The child's side: best of five plain parses and five full checks (alternating) of one file.
 pub fn check_timing(path: &std::path::Path) -> Result<(f64, f64), String> {
     let cert = tubecert_format::limits::read_file(path)?;
     let (mut parse_only, mut check) = (f64::MAX, f64::MAX);
-    for _ in 0..3 {
+    for _ in 0..5 {
         let t = Instant::now();
         let plain: tubecert_format::Certificate = serde_json::from_slice(&cert).map_err(|e| e.to_string())?;
         drop(plain); // the checker frees what it parsed too: time both the same way
@@ -270,7 +270,7 @@ pub fn run(
         ));
     }
     // The checker's cost next to a plain parse, measured in a fresh process (as a referee runs
-    // it), best of three each, so that neither inherits this process's heap.
+    // it), best of five each, so that neither inherits this process's heap.
     drop(proved);
     let (parse_only, check) = measure_in_child(&cert)?;
     let secs = |d: Duration| format!("{:.3}", d.as_secs_f64());
