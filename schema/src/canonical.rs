@@ -5,6 +5,7 @@
 
 use serde_json::Value;
 use sha2::{Digest, Sha256};
+use std::io::Write;
 
 /// Appends the canonical form of `value` to `out`.
 pub fn write_canonical(value: &Value, out: &mut Vec<u8>) -> Result<(), String> {
@@ -68,18 +69,26 @@ pub fn body_sha256(body: &crate::Body) -> Result<String, String> {
     if names.chain(body.maps.keys()).any(odd) {
         return canonical_sha256(body);
     }
-    let mut out = b"{\"claims\":".to_vec();
-    out.extend(value(&body.claims)?);
-    out.extend_from_slice(b",\"complexes\":");
-    out.extend(serde_json::to_vec(&body.complexes).map_err(|e| e.to_string())?);
-    out.extend_from_slice(b",\"maps\":");
-    out.extend(serde_json::to_vec(&body.maps).map_err(|e| e.to_string())?);
-    out.extend_from_slice(b",\"provenance\":");
-    out.extend(value(&body.provenance)?);
-    out.extend_from_slice(b",\"ring\":");
-    out.extend(value(&body.ring)?);
-    out.push(b'}');
-    Ok(sha256_hex(&out))
+    // Streamed into the digest: no copy of a large body is held in memory.
+    let mut digest = std::io::BufWriter::with_capacity(1 << 16, Sha256::new());
+    write_body(body, &mut digest).map_err(|e| e.to_string())?;
+    Ok(hex(&digest.into_inner().map_err(|e| e.to_string())?.finalize()))
+}
+
+/// The canonical form of a body, complexes and maps straight from serde (see [`body_sha256`]).
+fn write_body(body: &crate::Body, w: &mut impl Write) -> Result<(), Box<dyn std::error::Error>> {
+    w.write_all(b"{\"claims\":")?;
+    w.write_all(&value(&body.claims)?)?;
+    w.write_all(b",\"complexes\":")?;
+    serde_json::to_writer(&mut *w, &body.complexes)?;
+    w.write_all(b",\"maps\":")?;
+    serde_json::to_writer(&mut *w, &body.maps)?;
+    w.write_all(b",\"provenance\":")?;
+    w.write_all(&value(&body.provenance)?)?;
+    w.write_all(b",\"ring\":")?;
+    w.write_all(&value(&body.ring)?)?;
+    w.write_all(b"}")?;
+    Ok(())
 }
 
 /// Canonical bytes through a `Value`, for the small or irregular parts.
@@ -90,7 +99,11 @@ fn value<T: serde::Serialize>(v: &T) -> Result<Vec<u8>, String> {
 }
 
 pub fn sha256_hex(bytes: &[u8]) -> String {
-    Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+    hex(&Sha256::digest(bytes))
+}
+
+fn hex(bytes: &[u8]) -> String {
+    bytes.iter().map(|b| format!("{b:02x}")).collect()
 }
 
 #[cfg(test)]
