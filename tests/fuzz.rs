@@ -77,7 +77,7 @@ fn damage_bytes(mut b: Vec<u8>, ops: &[(u64, u8)]) -> Vec<u8> {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(64))]
+    #![proptest_config(ProptestConfig::with_cases(tubecert_tests::cases(64)))]
 
     #[test]
     fn checker_never_panics_on_damaged_bytes(which: usize, ops in prop::collection::vec((any::<u64>(), any::<u8>()), 1..6)) {

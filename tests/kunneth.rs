@@ -43,7 +43,7 @@ fn kunneth(c: &Decomp, d: &Decomp) -> Decomp {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(24))]
+    #![proptest_config(ProptestConfig::with_cases(tubecert_tests::cases(24)))]
     #[test]
     fn homology_of_tensor_products(c in prop::collection::vec(block(), 1..4), d in prop::collection::vec(block(), 1..4), s1: u64, s2: u64) {
         let (pc, pd) = (planted_complex(&c, s1), planted_complex(&d, s2));

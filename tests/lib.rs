@@ -7,6 +7,12 @@ use std::collections::BTreeMap;
 use tubecert::prove::Proved;
 use tubecert_format::Body;
 
+/// The number of cases for a property test: `PROPTEST_CASES` when set (long local campaigns),
+/// else the small default sized for the 2-core CI machine.
+pub fn cases(default: u32) -> u32 {
+    std::env::var("PROPTEST_CASES").ok().and_then(|v| v.parse().ok()).unwrap_or(default)
+}
+
 /// Proves a problem given as JSON; panics with the producer's messages on bad input.
 pub fn prove_value(problem: &Value) -> Proved {
     let bytes = serde_json::to_vec(problem).unwrap();

@@ -84,7 +84,7 @@ fn homogeneous(terms: &[Term], gr: &serde_json::Map<String, Value>, k: u32) -> b
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(32))]
+    #![proptest_config(ProptestConfig::with_cases(tubecert_tests::cases(32)))]
     #[test]
     fn finds_the_planted_order_and_survives_mutation(k in 0u32..5, others in prop::collection::vec(block(), 0..4), seed: u64, choice: u64, on_dual: bool) {
         let (prob, planted) = problem(k, &others, seed);
@@ -123,7 +123,7 @@ proptest! {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(32))]
+    #![proptest_config(ProptestConfig::with_cases(tubecert_tests::cases(32)))]
     /// The reduction data satisfy π∘ι = id, ι∘π + id = ∂h + h∂, and π, ι are chain maps; the
     /// emitted equivalence claim verifies; and the reduced model has no unit arrows left.
     #[test]
