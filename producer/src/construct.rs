@@ -15,6 +15,17 @@ fn gens(pairs: impl IntoIterator<Item = (String, Grading)>) -> UniqueMap<Grading
     UniqueMap(pairs.into_iter().collect())
 }
 
+/// Generators of a product or sum, whose names are made from the pieces' names: a name made
+/// twice (e.g. `a⊗b⊗c` from `a⊗b`, `c` and from `a`, `b⊗c`) is an error, never a merge.
+fn distinct(pairs: Vec<(String, Grading)>) -> Result<UniqueMap<Grading>, String> {
+    let n = pairs.len();
+    let out = gens(pairs);
+    if out.len() != n {
+        return Err("two generators of the result get the same name; rename the pieces' generators".into());
+    }
+    Ok(out)
+}
+
 fn add(a: &[i64], b: &[i64]) -> Grading {
     a.iter().zip(b).map(|(x, y)| x + y).collect()
 }
@@ -102,7 +113,7 @@ pub fn tensor_name(x: &str, y: &str) -> String {
 }
 
 /// C ⊗_R D: generators x⊗y, gradings add, ∂(x⊗y) = ∂x⊗y + x⊗∂y (no signs over F2).
-pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> ComplexSpec {
+pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> Result<ComplexSpec, String> {
     let mut diff = Vec::new();
     for [x, cf, x2] in &c.differential {
         for y in d.generators.keys() {
@@ -115,12 +126,13 @@ pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> ComplexSpec {
         }
     }
     diff.sort();
-    let generators = gens(
+    let generators = distinct(
         c.generators
             .iter()
-            .flat_map(|(x, gx)| d.generators.iter().map(move |(y, gy)| (tensor_name(x, y), add(gx, gy)))),
-    );
-    ComplexSpec { generators, differential: diff }
+            .flat_map(|(x, gx)| d.generators.iter().map(move |(y, gy)| (tensor_name(x, y), add(gx, gy))))
+            .collect(),
+    )?;
+    Ok(ComplexSpec { generators, differential: diff })
 }
 
 /// f ⊗ g: x⊗y ↦ f(x)⊗g(y).
@@ -167,15 +179,17 @@ fn prefixed(name: &str, x: &str) -> String {
     format!("{name}.{x}")
 }
 
-/// C ⊕ D with generators named `C.x`, `D.y`; with `map` (f: C → D) the cone, ∂x ↦ ∂x + f(x),
-/// C shifted by deg f − deg ∂ so the differential stays homogeneous.
+/// C ⊕ D with generators named `C.x`, `D.y` (`C.x`, `C'.y` for C ⊕ C); with `map` (f: C → D)
+/// the cone, ∂x ↦ ∂x + f(x), C shifted by deg f − deg ∂ so the differential stays homogeneous.
 pub fn direct_sum(
     cn: &str,
     c: &ComplexSpec,
     dn: &str,
     d: &ComplexSpec,
     map: Option<(&MapSpec, &Grading)>,
-) -> ComplexSpec {
+) -> Result<ComplexSpec, String> {
+    let second = if cn == dn { format!("{dn}'") } else { dn.to_string() };
+    let dn = second.as_str();
     let cshift: Grading = match map {
         Some((f, delta)) => f.degree.iter().zip(delta.iter()).map(|(a, b)| a - b).collect(),
         None => vec![0; c.generators.values().next().map_or(0, |g| g.len())],
@@ -190,7 +204,7 @@ pub fn direct_sum(
         diff.extend(f.terms.iter().map(|[x, cf, y]| [prefixed(cn, x), cf.clone(), prefixed(dn, y)]));
     }
     diff.sort();
-    ComplexSpec { generators: gens(generators), differential: diff }
+    Ok(ComplexSpec { generators: distinct(generators)?, differential: diff })
 }
 
 /// Resolves the complexes and maps of a problem whose entries may be constructions, in
@@ -295,7 +309,7 @@ fn build_complex(
         "tensor" | "direct_sum" => {
             let n = names(2)?;
             let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
-            Some(if op == "tensor" { tensor(c, d) } else { direct_sum(&n[0], c, &n[1], d, None) })
+            Some(if op == "tensor" { tensor(c, d)? } else { direct_sum(&n[0], c, &n[1], d, None)? })
         }
         "dual" => {
             let n = arg.as_str().ok_or("\"dual\" takes a complex name")?;
@@ -314,7 +328,7 @@ fn build_complex(
             let f = arg.as_str().ok_or("\"cone\" takes a map name")?;
             let m = maps.get(f).ok_or(format!("cone: map \"{f}\" must be an explicit declared map"))?;
             let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
-            Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree))))
+            Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree)))?)
         }
         "quotient" => {
             let a = arg.as_array().filter(|a| a.len() >= 2).ok_or("\"quotient\" takes [complex, variable…]")?;
@@ -423,5 +437,28 @@ mod tests {
         assert_eq!(torus_knot_exponents(2, 3).unwrap(), vec![1, 0, -1]);
         assert_eq!(torus_knot_exponents(3, 4).unwrap(), vec![3, 2, 0, -2, -3]);
         assert!(torus_knot_exponents(2, 4).is_err());
+    }
+
+    fn complex(gens: &[&str], d: &[[&str; 3]]) -> ComplexSpec {
+        ComplexSpec {
+            generators: super::gens(gens.iter().map(|g| (g.to_string(), vec![0, 0]))),
+            differential: d.iter().map(|t| t.map(String::from)).collect(),
+        }
+    }
+
+    #[test]
+    fn a_sum_of_a_complex_with_itself_keeps_both_copies() {
+        let c = complex(&["a", "b"], &[["b", "1", "a"]]);
+        let s = direct_sum("C", &c, "C", &c, None).unwrap();
+        assert_eq!(s.generators.keys().collect::<Vec<_>>(), ["C'.a", "C'.b", "C.a", "C.b"]);
+        assert_eq!(s.differential.len(), 2);
+    }
+
+    #[test]
+    fn a_name_made_twice_is_an_error_not_a_merge() {
+        // a⊗b ⊗ c and a ⊗ b⊗c are both named a⊗b⊗c.
+        let c = complex(&["a⊗b", "a"], &[]);
+        let d = complex(&["c", "b⊗c"], &[]);
+        assert!(tensor(&c, &d).unwrap_err().contains("same name"));
     }
 }
