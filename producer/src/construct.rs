@@ -242,9 +242,18 @@ pub fn resolve(
             }
         }
         if still.len() == before {
-            errs.extend(
-                still.iter().map(|n| format!("complex {n}: refers to complexes that are missing or form a cycle")),
-            );
+            for n in still {
+                let refs = referenced(&complexes[n]);
+                errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
+                    Some(m) => format!(
+                        "complex {n}: complex \"{m}\" is not declared{}",
+                        tubecheck::report_terms::suggest(m, complexes.keys())
+                    ),
+                    None => {
+                        format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", "))
+                    }
+                });
+            }
             break;
         }
         pending = still;
@@ -267,6 +276,17 @@ pub fn resolve(
         Ok((done, done_maps))
     } else {
         Err(errs)
+    }
+}
+
+/// The complexes a construction is made from, by name.
+fn referenced(v: &Value) -> Vec<&str> {
+    let Some((op, arg)) = v.as_object().and_then(|o| o.iter().next()) else { return Vec::new() };
+    match (op.as_str(), arg) {
+        ("tensor" | "direct_sum", Value::Array(a)) => a.iter().filter_map(Value::as_str).collect(),
+        ("dual", Value::String(c)) => vec![c.as_str()],
+        ("shift", Value::Array(a)) => a.first().and_then(Value::as_str).into_iter().collect(),
+        _ => Vec::new(),
     }
 }
 

@@ -261,4 +261,10 @@ fn build_writes_explicit_complexes_that_prove() {
     let (code, _, err) = tubecert(&["build", "--ring", "F2[W]", "--complex", "T = dual X"]);
     assert_eq!(code, 2);
     assert!(err.contains("expected F2, F2[U] or F2[U,V]"), "{err}");
+    let (code, _, err) =
+        tubecert(&["build", "--complex", "T = staircase torus_knot 2 3", "--complex", "S = tensor T X"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("complex S: complex \"X\" is not declared"), "{err}");
+    let (_, _, err) = tubecert(&["build", "--complex", "A = dual B", "--complex", "B = dual A"]);
+    assert!(err.contains("complex A: waits for B"), "{err}");
 }
