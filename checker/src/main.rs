@@ -66,10 +66,15 @@ fn main() -> ExitCode {
     let mut outcomes = Vec::new();
     for (path, named) in files {
         let name = path.display().to_string();
-        let outcome = match tubecert_format::limits::read_file(&path) {
+        let outcome = match tubecert_format::limits::read_file(&path).map(|b| (check_bytes(&name, &b), b)) {
             Err(e) => Err(e),
-            Ok(bytes) if !named && is_problem_file(&bytes) => continue,
-            Ok(bytes) => check_bytes(&name, &bytes).map_err(|e| format!("malformed: {e}")),
+            Ok((Ok(report), _)) => Ok(report),
+            // Problem files sit beside their certificates: skipped in folders, explained if named.
+            Ok((Err(_), bytes)) if is_problem_file(&bytes) && !named => continue,
+            Ok((Err(_), bytes)) if is_problem_file(&bytes) => {
+                Err("a problem file, not a certificate (`tubecert prove` makes one from it)".into())
+            }
+            Ok((Err(e), _)) => Err(format!("malformed: {e}")),
         };
         outcomes.push((name, outcome));
     }

@@ -114,3 +114,11 @@ fn a_closed_output_pipe_keeps_the_verdict() {
     assert_eq!(out.status.code(), Some(0), "{err}");
     assert!(!err.contains("panicked"), "{err}");
 }
+
+#[test]
+fn a_problem_file_named_by_mistake_is_explained() {
+    let problem = format!("{}/disk-pair-p2.problem.json", certificates());
+    let (code, _, err) = tubecheck(&[&problem]);
+    assert_eq!(code, 2);
+    assert!(err.contains("a problem file, not a certificate"), "{err}");
+}
