@@ -146,6 +146,20 @@ fn report_errors(errs: &[String]) -> ExitCode {
     ExitCode::from(2)
 }
 
+/// Writes `text` to the file `output`, or to standard output.
+fn write_output(text: &str, output: Option<PathBuf>) -> ExitCode {
+    match output {
+        None => {
+            tubecheck::report_cli::emit(text);
+            ExitCode::SUCCESS
+        }
+        Some(o) => match std::fs::write(&o, text) {
+            Ok(()) => ExitCode::SUCCESS,
+            Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
+        },
+    }
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let options = tubecert::prove::Options { threads: cli.threads.into(), ..Default::default() };
@@ -233,27 +247,14 @@ fn main() -> ExitCode {
             let built = tubecert::text_format::from_command_line(&ring, &complexes, &goals)
                 .and_then(|v| serde_json::from_value(v).map_err(|e| vec![e.to_string()]))
                 .and_then(tubecert::problem::from_written)
-                .and_then(|p| {
-                    let bytes = tubecert::demo::problem_bytes(&p);
-                    if json {
-                        return Ok(String::from_utf8(bytes).expect("JSON is UTF-8"));
-                    }
-                    let v = serde_json::from_slice(&bytes).expect("just written");
-                    tubecert::text_format::render(&v).map_err(|e| vec![e])
+                .and_then(|p| match json {
+                    true => Ok(String::from_utf8(tubecert::demo::problem_bytes(&p)).expect("JSON is UTF-8")),
+                    false => tubecert::text_format::render(&serde_json::to_value(&p).expect("problems serialize"))
+                        .map_err(|e| vec![e]),
                 });
-            match (built, output) {
-                (Err(errs), _) => report_errors(&errs),
-                (Ok(text), None) => {
-                    tubecheck::report_cli::emit(&text);
-                    ExitCode::SUCCESS
-                }
-                (Ok(text), Some(o)) => match std::fs::write(&o, text) {
-                    Ok(()) => {
-                        say!("wrote {}", o.display());
-                        ExitCode::SUCCESS
-                    }
-                    Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
-                },
+            match built {
+                Ok(text) => write_output(&text, output),
+                Err(errs) => report_errors(&errs),
             }
         }
         Command::Convert { file, to, output } => {
@@ -269,16 +270,7 @@ fn main() -> ExitCode {
                     _ => Ok(serde_json::to_string_pretty(&v).expect("values serialize") + "\n"),
                 });
             match converted {
-                Ok(text) => match output {
-                    Some(o) => match std::fs::write(&o, text) {
-                        Ok(()) => ExitCode::SUCCESS,
-                        Err(e) => report_errors(&[format!("{}: {e}", o.display())]),
-                    },
-                    None => {
-                        tubecheck::report_cli::emit(&text);
-                        ExitCode::SUCCESS
-                    }
-                },
+                Ok(text) => write_output(&text, output),
                 Err(errs) => report_errors(&errs),
             }
         }
