@@ -26,7 +26,7 @@ pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::C
     let bytes = tubecert_format::limits::read_file(path).map_err(|e| vec![format!("{name}: {e}")])?;
     let p = problem::parse_problem(&bytes, &name)?;
     let ctx = validate::validate(&p).map_err(|es| {
-        let lines = text_format::TermLines::of(&bytes);
+        let lines = text_format::SourceLines::of(&bytes);
         es.iter().map(|e| lines.locate(&name, e)).collect::<Vec<_>>()
     })?;
     Ok((p, ctx, bytes))

@@ -122,7 +122,10 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     let value = written_value(bytes).map_err(prefix)?;
     let w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
-    from_written(w).map_err(|es| es.into_iter().map(|e| format!("{name}: {e}")).collect())
+    from_written(w).map_err(|es| {
+        let lines = crate::text_format::SourceLines::of(bytes);
+        es.iter().map(|e| lines.locate(name, e)).collect()
+    })
 }
 
 /// "LINE:COL: message" for a JSON error.

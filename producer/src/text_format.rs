@@ -121,38 +121,49 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
     parse_located(src).map(|(v, _)| v)
 }
 
-/// The line of each differential or map term of a text problem, so that messages about a term
-/// ("complex K, differential, term 3: …", in the checker's words) can point at its line.
+/// Where things are declared in a text problem, so that a message about one ("complex K:",
+/// "complex K, generator \"b\":", "map F, term 3:", in the checker's and the constructions'
+/// words) can point at its line.
 #[derive(Debug, Default)]
-pub struct TermLines(std::collections::BTreeMap<String, Vec<usize>>);
+pub struct SourceLines {
+    /// "complex K", "map F", "complex K, generator \"b\"" → line.
+    places: std::collections::BTreeMap<String, usize>,
+    /// "complex K, differential", "map F" → the line of each term, in order.
+    terms: std::collections::BTreeMap<String, Vec<usize>>,
+}
 
-impl TermLines {
-    /// Reads the term lines of a text problem (none for JSON or unreadable input).
-    pub fn of(bytes: &[u8]) -> TermLines {
+impl SourceLines {
+    /// Reads the lines of a text problem (none for JSON or unreadable input).
+    pub fn of(bytes: &[u8]) -> SourceLines {
         std::str::from_utf8(bytes)
             .ok()
             .filter(|t| !t.trim_start().starts_with('{'))
             .and_then(|t| parse_located(t).ok())
-            .map_or_else(TermLines::default, |(_, lines)| lines)
+            .map_or_else(SourceLines::default, |(_, lines)| lines)
     }
 
-    /// `FILE:LINE: message` when the message names a term of this file, else `FILE: message`.
+    /// `FILE:LINE: message` when the message names something of this file, else `FILE: message`.
     pub fn locate(&self, file: &str, message: &str) -> String {
-        let line = self.0.iter().find_map(|(what, lines)| {
+        let term = self.terms.iter().find_map(|(what, lines)| {
             let rest = message.strip_prefix(what.as_str())?.strip_prefix(", term ")?;
             let digits = rest.len() - rest.trim_start_matches(|c: char| c.is_ascii_digit()).len();
             lines.get(rest[..digits].parse::<usize>().ok()?.checked_sub(1)?)
         });
-        match line {
+        // Otherwise the longest name of a place the message starts with.
+        let place = || {
+            let named = |k: &&String| message.strip_prefix(k.as_str()).is_some_and(|r| r.starts_with([':', ',', ' ']));
+            self.places.keys().filter(named).max_by_key(|k| k.len()).map(|k| &self.places[k])
+        };
+        match term.or_else(place) {
             Some(l) => format!("{file}:{l}: {message}"),
             None => format!("{file}: {message}"),
         }
     }
 }
 
-/// [`parse`], with the line of every term.
-pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
-    let mut term_lines = TermLines::default();
+/// [`parse`], with where everything is declared.
+pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
+    let mut lines = SourceLines::default();
     let mut errs = Vec::new();
     let (mut variables, mut gradings) = (Vec::<String>::new(), Vec::<String>::new());
     let (mut var_degrees, mut complexes, mut maps, mut goals) = (Map::new(), Map::new(), Map::new(), Vec::new());
@@ -189,7 +200,7 @@ pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
                         format!("map {name}")
                     };
                     for (c, t) in targets(&line, arrow + 3, &text[arrow + 2..])? {
-                        term_lines.0.entry(what.clone()).or_default().push(line.no);
+                        lines.terms.entry(what.clone()).or_default().push(line.no);
                         entry[key]
                             .as_array_mut()
                             .ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?
@@ -200,6 +211,7 @@ pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
                     let gens = entry["generators"]
                         .as_object_mut()
                         .ok_or_else(|| line.err(col(0), "a generator of an explicit complex", word(0)))?;
+                    lines.places.insert(format!("complex {name}, generator \"{}\"", word(0)), line.no);
                     if gens.insert(word(0).to_string(), g).is_some() {
                         return Err(format!("{}:{}: generator \"{}\" declared twice", line.no, col(0), word(0)));
                     }
@@ -242,6 +254,7 @@ pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
                     } else {
                         json!({"generators": {}, "differential": []})
                     };
+                    lines.places.insert(format!("complex {name}"), line.no);
                     if complexes.insert(name.clone(), def).is_some() {
                         return Err(format!("{}:{}: complex \"{name}\" declared twice", line.no, col(1)));
                     }
@@ -264,6 +277,7 @@ pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
                         }
                         json!({"from": word(3), "to": word(5), "degree": grading(&line, col(7), word(7))?, "terms": []})
                     };
+                    lines.places.insert(format!("map {name}"), line.no);
                     if maps.insert(name.clone(), def).is_some() {
                         return Err(format!("{}:{}: map \"{name}\" declared twice", line.no, col(1)));
                     }
@@ -286,7 +300,7 @@ pub fn parse_located(src: &str) -> Result<(Value, TermLines), Vec<String>> {
         "ring": {"variables": variables, "gradings": gradings, "variable_degrees": var_degrees, "differential_degree": diff_degree},
         "complexes": complexes, "maps": maps, "goals": goals
     });
-    Ok((problem, term_lines))
+    Ok((problem, lines))
 }
 
 fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {

@@ -172,6 +172,22 @@ fn text_format_errors_name_file_line_and_column() {
     let (code, _, err) = tubecert(&["check-input", &unknown]);
     assert_eq!(code, 2);
     assert!(err.contains("unknown.problem.txt:9: complex K, differential, term 2: generator \"c\""), "{err}");
+    // … and at the line of a generator, or of a construction.
+    let graded = write(
+        "graded.problem.txt",
+        "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex T = staircase torus_knot 2 4\ncomplex K\n  a (0, 0)\n  b (-1, 0, 3)\n",
+    );
+    let (_, _, err) = tubecert(&["check-input", &graded]);
+    assert!(err.contains("graded.problem.txt:5: complex T: T(2,4)"), "{err}");
+    let graded = write(
+        "graded.problem.txt",
+        &std::fs::read_to_string(&graded).unwrap().replace("complex T = staircase torus_knot 2 4\n", ""),
+    );
+    let (_, _, err) = tubecert(&["check-input", &graded]);
+    assert!(
+        err.contains("graded.problem.txt:7: complex K, generator \"b\": grading (-1, 0, 3) has 3 entries"),
+        "{err}"
+    );
 }
 
 #[test]
