@@ -3,6 +3,35 @@
 
 use crate::FileReport;
 use std::fmt::Write as _;
+use tubecert_format::statement::render_expr;
+use tubecert_format::{Claim, MapExpr, Term};
+
+/// A dual witness in the familiar form, when all its triples start at one generator x: the
+/// functional ψ ↦ c(ψ(x)), with c = Σ (m·w)* a functional on the target ("y = x ⊗ c").
+pub fn factored_dual(phi: &MapExpr, y: &[Term]) -> Option<String> {
+    let x = &y.first()?[0];
+    if y.iter().any(|t| &t[0] != x) {
+        return None;
+    }
+    let c: Vec<String> =
+        y.iter().map(|[_, m, w]| if m == "1" { format!("{w}*") } else { format!("({m}·{w})*") }).collect();
+    Some(format!(
+        "ψ ↦ c(ψ({x})) with c = {}; it is 1 on {} and vanishes on every ∂H + H∂",
+        c.join(" + "),
+        render_expr(phi)
+    ))
+}
+
+/// The map a claim's dual witness detects, and the witness.
+fn dual_of(c: &Claim) -> Option<(MapExpr, &[Term])> {
+    match c {
+        Claim::NotNullHomotopic { map, witness, .. } => Some((map.clone(), &witness.dual)),
+        Claim::TorsionOrder { maps: [f, g], variable, order, witness, .. } => {
+            Some((MapExpr::scaled_difference(f, g, variable, order.checked_sub(1)?), witness.dual.as_deref()?))
+        }
+        _ => None,
+    }
+}
 
 pub fn render(r: &FileReport) -> String {
     let mut s = String::new();
@@ -22,12 +51,18 @@ pub fn render(r: &FileReport) -> String {
             count("chain_map")
         );
     }
-    for c in implicit.iter().filter(|c| c.outcome.is_err()).chain(listed.iter()) {
+    // The listed results are the body's claims, in order.
+    let claims = std::iter::repeat_n(None, implicit.len()).chain(r.body.claims.iter().map(Some));
+    let results = implicit.iter().chain(listed.iter()).zip(claims).filter(|(c, _)| !c.implicit || c.outcome.is_err());
+    for (c, claim) in results {
         match &c.outcome {
             Ok(facts) => {
                 let _ = writeln!(s, "  ✓ {}", c.statement);
                 if let Some(reading) = facts.get("reading").and_then(|v| v.as_str()) {
                     let _ = writeln!(s, "      reading: {reading}");
+                }
+                if let Some(factored) = claim.and_then(dual_of).and_then(|(phi, y)| factored_dual(&phi, y)) {
+                    let _ = writeln!(s, "      witness: {factored}");
                 }
             }
             Err(e) => {
@@ -38,4 +73,22 @@ pub fn render(r: &FileReport) -> String {
     let failed = listed.iter().filter(|c| c.outcome.is_err()).count();
     let _ = writeln!(s, "  {} claims: {} verified, {} failed", listed.len(), listed.len() - failed, failed);
     s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn only_a_witness_with_one_source_generator_is_factored() {
+        let phi = MapExpr::Named("F".into());
+        let t = |x: &str, m: &str, w: &str| [x.to_string(), m.to_string(), w.to_string()];
+        let one = [t("x", "1", "a"), t("x", "U", "b")];
+        assert_eq!(
+            factored_dual(&phi, &one).unwrap(),
+            "ψ ↦ c(ψ(x)) with c = a* + (U·b)*; it is 1 on F and vanishes on every ∂H + H∂"
+        );
+        assert!(factored_dual(&phi, &[t("x", "1", "a"), t("z", "1", "a")]).is_none());
+        assert!(factored_dual(&phi, &[]).is_none());
+    }
 }

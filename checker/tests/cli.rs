@@ -29,6 +29,8 @@ fn stored_certificates_pass() {
     assert_eq!(code, 0, "{out}");
     assert!(out.contains("✓ ord_U(F − G) = 2"));
     assert!(out.contains("Scope:"));
+    // A dual witness with one source generator is shown in the familiar factored form.
+    assert!(out.contains("witness: ψ ↦ c(ψ(o)) with c = (U·a)*; it is 1 on U·(F + G)"), "{out}");
     assert!(out.contains("0 failed"));
 }
 
