@@ -29,7 +29,7 @@ pub fn verified_claims(proved: &Proved) -> Vec<Value> {
     serde_json::to_value(&proved.certificate.body.claims).unwrap().as_array().unwrap().clone()
 }
 
-/// The ring F2[U] with (Maslov, Alexander), U of degree (−2, −1).
+/// The ring `F2[U]` with (Maslov, Alexander), U of degree (−2, −1).
 pub fn minus_ring() -> Value {
     serde_json::json!({"variables": ["U"], "gradings": ["maslov", "alexander"],
         "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]})
@@ -159,7 +159,7 @@ pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[Str
     })
 }
 
-/// A block of a planted complex over F2[U] with (Maslov, Alexander) gradings.
+/// A block of a planted complex over `F2[U]` with (Maslov, Alexander) gradings.
 #[derive(Clone, Debug)]
 pub enum Block {
     /// A free generator at (m, a).

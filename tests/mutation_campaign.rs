@@ -7,7 +7,7 @@
 //! `tests/lib.rs`. An accepted mutation is *neutral* only when the oracle confirms that every
 //! claim still holds; any other acceptance is *unexplained* and fails the run.
 //!
-//! Usage: mutation-campaign [--per-certificate N] [--seed S] [FOLDER]
+//! Usage: `mutation-campaign [--per-certificate N] [--seed S] [FOLDER]`
 
 use std::path::PathBuf;
 use tubecert_format::{Body, Certificate, Claim, Term};

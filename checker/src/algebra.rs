@@ -1,4 +1,4 @@
-//! Sparse arithmetic in free modules over F2[U,V].
+//! Sparse arithmetic in free modules over `F2[U,V]`.
 //!
 //! An element of a free module is a [`Vector`]: the set of its terms (generator, monomial),
 //! sorted, each at most once (coefficients are in F2, so a repeated term cancels). A map is a

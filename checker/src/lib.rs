@@ -1,5 +1,5 @@
 //! `tubecheck`: the independent checker. It reads a certificate, recomputes its canonical
-//! hash, and re-verifies every claim by sparse arithmetic over F2[U,V] ([`verify`]).
+//! hash, and re-verifies every claim by sparse arithmetic over `F2[U,V]` ([`verify`]).
 //! It contains no search: every witness must be in the certificate.
 //!
 //! - [`algebra`]: vectors and sparse maps over F2[v_1..v_n];

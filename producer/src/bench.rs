@@ -1,5 +1,5 @@
 //! `tubecert bench`: a synthetic problem of a chosen size with a known answer, timed stage by
-//! stage. The scenario is ours: over F2[U], a small reduced model (a free generator z, a tower
+//! stage. The scenario is ours: over `F2[U]`, a small reduced model (a free generator z, a tower
 //! ∂b = U^k·a, the staircase of T(3,4), and a few other towers) is inflated to N generators by
 //! random cancelling pairs and rounds of random homogeneous changes of basis; two maps from a
 //! one-generator complex send o to z and to z + a, so ord_U(F − G) = k whatever the inflation.

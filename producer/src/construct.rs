@@ -72,7 +72,7 @@ fn gcd(a: u32, b: u32) -> u32 {
 }
 
 /// The staircase complex of an L-space knot with Alexander exponents a_0 > … > a_2n, over the
-/// declared ring: F2[U,V] with gradings (gr_U, gr_V); F2[U] with (Maslov, Alexander) as the
+/// declared ring: `F2[U,V]` with gradings (gr_U, gr_V); `F2[U]` with (Maslov, Alexander) as the
 /// V = 0 quotient; or F2 with (Maslov, Alexander) as the hat version U = V = 0.
 pub fn staircase(ring: &Ring, a: &[i64]) -> Result<ComplexSpec, String> {
     if a.len().is_multiple_of(2) || a.windows(2).any(|w| w[0] <= w[1]) {

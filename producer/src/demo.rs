@@ -1,11 +1,11 @@
 //! The demo scenario (invented complexes and maps, ours):
 //!
-//! - `disk-pair-p{1..6}`: over F2[U], a complex with a free generator z, a tower ∂b = U^p·a and
+//! - `disk-pair-p{1..6}`: over `F2[U]`, a complex with a free generator z, a tower ∂b = U^p·a and
 //!   a cancelling pair, and two maps from a one-generator complex that differ by a; their
 //!   difference is U^p-torsion and non-zero, the shape of two disks at stabilization distance p;
-//! - `box-uv`: over F2[U,V], a square ∂a = U^2·b + V·c, ∂b = V·d, ∂c = U^2·d beside a free
+//! - `box-uv`: over `F2[U,V]`, a square ∂a = U^2·b + V·c, ∂b = V·d, ∂c = U^2·d beside a free
 //!   generator, with ord_U = 2 and ord_V = 1 for a pair of maps;
-//! - `ext-class`: over F2[U], two maps that agree on homology but are not homotopic (the
+//! - `ext-class`: over `F2[U]`, two maps that agree on homology but are not homotopic (the
 //!   difference lives in Ext, so only the dual witness can tell them apart).
 
 use crate::problem::{Goal, Problem, PROBLEM_FORMAT};
@@ -83,7 +83,7 @@ pub fn disk_pair(p: u32) -> Problem {
     )
 }
 
-/// The F2[U,V] square beside a free generator.
+/// The `F2[U,V]` square beside a free generator.
 pub fn box_uv() -> Problem {
     let ring = Ring {
         variables: vec!["U".into(), "V".into()],

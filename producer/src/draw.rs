@@ -1,5 +1,5 @@
 //! `tubecert draw`: a complex as an SVG picture. Generators sit on the lattice of their
-//! gradings — Alexander grading across, the first grading (Maslov, or gr_U) up; over F2[U,V]
+//! gradings — Alexander grading across, the first grading (Maslov, or gr_U) up; over `F2[U,V]`
 //! with (gr_U, gr_V) the Alexander grading is (gr_U − gr_V)/2 — with several generators of one
 //! bidegree side by side in their cell. Arrows of ∂ carry their coefficient when it is not 1.
 //! With a claim to highlight, the generators in its witness's support are filled in colour.

@@ -57,7 +57,7 @@ pub enum Goal {
     NullHomotopic { map: MapExpr },
     /// Any map expression not null-homotopic.
     NotNullHomotopic { map: MapExpr },
-    /// H_*(C) over F2 or F2[U].
+    /// H_*(C) over F2 or `F2[U]`.
     Homology { complex: String },
     /// f: C → D and g: D → C are inverse homotopy equivalences.
     Equivalent { complexes: [String; 2], maps: [String; 2] },

@@ -328,8 +328,8 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
     })
 }
 
-/// The ring declaration lines of the conventions the constructions use: F2[U,V] with
-/// (gr_U, gr_V); F2[U] with (Maslov, Alexander), the V = 0 minus version; F2, the hat version.
+/// The ring declaration lines of the conventions the constructions use: `F2[U,V]` with
+/// (gr_U, gr_V); `F2[U]` with (Maslov, Alexander), the V = 0 minus version; F2, the hat version.
 pub fn standard_ring(ring: &str) -> Result<&'static str, String> {
     match ring {
         "F2[U,V]" => Ok("ring F2[U,V]\ngradings gr_U gr_V\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)"),

@@ -6,7 +6,7 @@
 use crate::limits::MAX_EXPONENT;
 use std::fmt::Write as _;
 
-/// Maximum number of ring variables the format supports (F2, F2[U], F2[U,V]).
+/// Maximum number of ring variables the format supports (F2, `F2[U]`, `F2[U,V]`).
 pub const MAX_VARIABLES: usize = 2;
 
 /// A monomial v_1^e_1 v_2^e_2; unused variables have exponent 0.

@@ -1,5 +1,5 @@
 //! Cancellation of arrows by change of basis: the graded Smith normal form over a PID, and,
-//! restricted to unit arrows, the cancellation lemma that reduces any complex over F2[U,V].
+//! restricted to unit arrows, the cancellation lemma that reduces any complex over `F2[U,V]`.
 //!
 //! An arrow a → m·b is cancelled when m divides every other coefficient into b and out of a:
 //! other sources a' hitting b become a' + (c'/m)·a, and b becomes b + Σ (c''/m)·b'' over the
@@ -16,7 +16,7 @@ use tubecheck::load::Complex;
 /// Which arrows may be cancelled.
 #[derive(Clone, Copy, PartialEq, Eq, Debug)]
 pub enum Pivots {
-    /// Any arrow, smallest first: the normal form over F2 or F2[U].
+    /// Any arrow, smallest first: the normal form over F2 or `F2[U]`.
     Minimal,
     /// Only arrows with coefficient 1: a homotopy-equivalent reduced complex over any ring.
     Units,
