@@ -188,7 +188,8 @@ fn main() -> ExitCode {
             let proved = match tubecert::prove::prove_with(p, &ctx, &bytes, options) {
                 Ok(x) => x,
                 Err(e) => {
-                    eprintln!("error: {}: {e}", problem.display());
+                    let lines = tubecert::text_format::SourceLines::of(&bytes);
+                    eprintln!("error: {}", lines.locate(&problem.display().to_string(), &e));
                     return ExitCode::from(if e.starts_with("internal") { 4 } else { 2 });
                 }
             };

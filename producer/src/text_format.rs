@@ -122,11 +122,11 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
 }
 
 /// Where things are declared in a text problem, so that a message about one ("complex K:",
-/// "complex K, generator \"b\":", "map F, term 3:", in the checker's and the constructions'
-/// words) can point at its line.
+/// "complex K, generator \"b\":", "map F, term 3:", "goal 2:", in the words of the checker,
+/// the constructions and the prover) can point at its line.
 #[derive(Debug, Default)]
 pub struct SourceLines {
-    /// "complex K", "map F", "complex K, generator \"b\"" → line.
+    /// "complex K", "map F", "complex K, generator \"b\"", "goal 2" → line.
     places: std::collections::BTreeMap<String, usize>,
     /// "complex K, differential", "map F" → the line of each term, in order.
     terms: std::collections::BTreeMap<String, Vec<usize>>,
@@ -283,7 +283,10 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                     }
                     block = Some(("map", name));
                 }
-                "goal" => goals.push(goal(&line, &toks)?),
+                "goal" => {
+                    goals.push(goal(&line, &toks)?);
+                    lines.places.insert(format!("goal {}", goals.len()), line.no);
+                }
                 other => return Err(line.err(col(0), "ring, gradings, degree, complex, map or goal", other)),
             }
             Ok(())

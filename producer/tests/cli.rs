@@ -188,6 +188,14 @@ fn text_format_errors_name_file_line_and_column() {
         err.contains("graded.problem.txt:7: complex K, generator \"b\": grading (-1, 0, 3) has 3 entries"),
         "{err}"
     );
+    // … and at the line of a goal that cannot be decided.
+    let uv = write(
+        "uv.problem.txt",
+        "ring F2[U,V]\ngradings a b\ndegree U (-2, 0)\ndegree V (0, -2)\ndegree d (-1, -1)\ncomplex C\n  x (0, 0)\n\ngoal homology C\n",
+    );
+    let (code, _, err) = tubecert(&["prove", &uv]);
+    assert_eq!(code, 2);
+    assert!(err.contains("uv.problem.txt:9: goal 1: homology is computed over F2 or F2[U]"), "{err}");
 }
 
 #[test]
