@@ -233,38 +233,27 @@ impl ser::SerializeSeq for Seq<'_> {
     }
 }
 
-impl ser::SerializeTuple for Seq<'_> {
-    type Ok = ();
-    type Error = Error;
-    fn serialize_element<T: Serialize + ?Sized>(&mut self, v: &T) -> Result<(), Error> {
-        ser::SerializeSeq::serialize_element(self, v)
-    }
-    fn end(self) -> Result<(), Error> {
-        ser::SerializeSeq::end(self)
-    }
+/// Tuples, tuple structs and tuple variants are written as sequences.
+macro_rules! as_sequence {
+    ($($trait:ident :: $method:ident),*) => {$(
+        impl ser::$trait for Seq<'_> {
+            type Ok = ();
+            type Error = Error;
+            fn $method<T: Serialize + ?Sized>(&mut self, v: &T) -> Result<(), Error> {
+                ser::SerializeSeq::serialize_element(self, v)
+            }
+            fn end(self) -> Result<(), Error> {
+                ser::SerializeSeq::end(self)
+            }
+        }
+    )*};
 }
 
-impl ser::SerializeTupleStruct for Seq<'_> {
-    type Ok = ();
-    type Error = Error;
-    fn serialize_field<T: Serialize + ?Sized>(&mut self, v: &T) -> Result<(), Error> {
-        ser::SerializeSeq::serialize_element(self, v)
-    }
-    fn end(self) -> Result<(), Error> {
-        ser::SerializeSeq::end(self)
-    }
-}
-
-impl ser::SerializeTupleVariant for Seq<'_> {
-    type Ok = ();
-    type Error = Error;
-    fn serialize_field<T: Serialize + ?Sized>(&mut self, v: &T) -> Result<(), Error> {
-        ser::SerializeSeq::serialize_element(self, v)
-    }
-    fn end(self) -> Result<(), Error> {
-        ser::SerializeSeq::end(self)
-    }
-}
+as_sequence!(
+    SerializeTuple::serialize_element,
+    SerializeTupleStruct::serialize_field,
+    SerializeTupleVariant::serialize_field
+);
 
 impl ser::SerializeMap for Object<'_> {
     type Ok = ();

@@ -103,29 +103,36 @@ pub struct WrittenProblem {
 /// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
 /// constructions into explicit complexes and maps. Errors are prefixed with `name`.
 pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
-    // The common large case, a JSON problem written out in full, is read typed in one pass,
-    // with the repeated-key walk beside it on the other core. Anything else (constructions,
-    // the text format, errors) goes through the written form, which resolves constructions
-    // and gives the precise messages.
-    if let Some(text) = std::str::from_utf8(bytes).ok().filter(|t| t.trim_start().starts_with('{')) {
-        let (walk, typed) = std::thread::scope(|s| {
-            let walk = s.spawn(|| refuse_repeated_keys(text).is_ok());
-            (walk.join().unwrap_or(false), serde_json::from_str::<Problem>(text))
-        });
-        if let (true, Ok(p)) = (walk, typed) {
-            if p.format == PROBLEM_FORMAT && p.version == 1 {
-                return Ok(p);
-            }
-        }
-    }
     let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
-    let value = written_value(bytes).map_err(prefix)?;
+    let text = std::str::from_utf8(bytes).map_err(|e| prefix(vec![format!(" not UTF-8 text: {e}")]))?;
+    let value = if is_json(text) {
+        // The common large case, a problem written out in full, is read typed in one pass,
+        // with the repeated-key walk beside it on the other core. Anything else (constructions,
+        // errors) goes on through the written form, which resolves constructions and gives the
+        // precise messages.
+        let (walk, typed) = std::thread::scope(|s| {
+            let walk = s.spawn(|| refuse_repeated_keys(text));
+            (walk.join().unwrap_or_else(|_| Err("reading failed".into())), serde_json::from_str::<Problem>(text))
+        });
+        walk.map_err(|e| prefix(vec![e]))?;
+        match typed {
+            Ok(p) if p.format == PROBLEM_FORMAT && p.version == 1 => return Ok(p),
+            _ => serde_json::from_str(text).map_err(|e| prefix(vec![json_error(&e)]))?,
+        }
+    } else {
+        crate::text_format::parse(text).map_err(prefix)?
+    };
     let w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
     from_written(w).map_err(|es| {
         let lines = crate::text_format::SourceLines::of(bytes);
         es.iter().map(|e| lines.locate(name, e)).collect()
     })
+}
+
+/// A problem file in JSON rather than the text format.
+pub fn is_json(text: &str) -> bool {
+    text.trim_start().starts_with('{')
 }
 
 /// "LINE:COL: message" for a JSON error.
@@ -192,7 +199,7 @@ impl<'de> Deserialize<'de> for NoRepeatedKeys {
 /// The JSON value of a problem file in either format (errors: "LINE:COL: …" or " …").
 pub fn written_value(bytes: &[u8]) -> Result<serde_json::Value, Vec<String>> {
     let text = std::str::from_utf8(bytes).map_err(|e| vec![format!(" not UTF-8 text: {e}")])?;
-    if text.trim_start().starts_with('{') {
+    if is_json(text) {
         refuse_repeated_keys(text).map_err(|e| vec![e])?;
         serde_json::from_str(text).map_err(|e| vec![json_error(&e)])
     } else {

@@ -137,7 +137,7 @@ impl SourceLines {
     pub fn of(bytes: &[u8]) -> SourceLines {
         std::str::from_utf8(bytes)
             .ok()
-            .filter(|t| !t.trim_start().starts_with('{'))
+            .filter(|t| !crate::problem::is_json(t))
             .and_then(|t| parse_located(t).ok())
             .map_or_else(SourceLines::default, |(_, lines)| lines)
     }

@@ -25,6 +25,13 @@ fn write(name: &str, text: &str) -> String {
     p.to_string_lossy().into()
 }
 
+/// Writes a problem, validates it, asserts the refusal (exit 2) and returns the messages.
+fn refused(name: &str, text: &str) -> String {
+    let (code, _, err) = tubecert(&["check-input", &write(name, text)]);
+    assert_eq!(code, 2, "{name} was accepted");
+    err
+}
+
 #[test]
 fn the_issue_example_reports_order_two() {
     let p = write("tower.problem.json", EXAMPLE);
@@ -78,23 +85,20 @@ fn dd_and_chain_map_failures_show_the_generator() {
     let bad = EXAMPLE
         .replace("\"b\": [-3, -2]}", "\"b\": [-3, -2], \"c\": [-2, -2]}")
         .replace("[\"b\", \"U^2\", \"a\"]", "[\"b\", \"U^2\", \"a\"], [\"c\", \"1\", \"b\"]");
-    let (code, _, err) = tubecert(&["check-input", &write("dd.problem.json", &bad)]);
-    assert_eq!(code, 2);
+    let err = refused("dd.problem.json", &bad);
     assert!(err.contains("∂∂(c) = U^2·a ≠ 0"), "{err}");
     let bad = EXAMPLE
         .replace("[[\"o\", \"1\", \"z\"]]}", "[[\"o\", \"1\", \"z\"], [\"o\", \"1\", \"b\"]]}")
         .replace("\"b\": [-3, -2]", "\"b\": [0, 0]");
     let bad = bad.replace("[\"b\", \"U^2\", \"a\"]", "[\"b\", \"1\", \"a\"]").replace("\"b\": [0, 0]", "\"b\": [1, 0]");
-    let (code, _, err) = tubecert(&["check-input", &write("cm.problem.json", &bad)]);
-    assert_eq!(code, 2);
+    let err = refused("cm.problem.json", &bad);
     assert!(err.contains("not homogeneous") || err.contains("not a chain map"), "{err}");
 }
 
 #[test]
 fn refuses_rings_with_infinite_graded_pieces() {
     let bad = EXAMPLE.replace("\"U\": [-2, -1]", "\"U\": [0, 0]");
-    let (code, _, err) = tubecert(&["check-input", &write("ring.problem.json", &bad)]);
-    assert_eq!(code, 2);
+    let err = refused("ring.problem.json", &bad);
     assert!(err.contains("infinite-dimensional"), "{err}");
 }
 
@@ -159,31 +163,19 @@ fn text_format_converts_both_ways_and_proves() {
 
 #[test]
 fn text_format_errors_name_file_line_and_column() {
-    let bad = write("bad.problem.txt", "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex K\n  a (0, 0)\n  b (1; 0)\ngoal homotopy F G\n");
-    let (code, _, err) = tubecert(&["check-input", &bad]);
-    assert_eq!(code, 2);
+    const RING: &str = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\n";
+    let err = refused("bad.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (1; 0)\ngoal homotopy F G\n"));
     assert!(err.contains("bad.problem.txt:7:5: expected integers separated by commas, found \"(1; 0)\""), "{err}");
     assert!(err.contains("bad.problem.txt:8:6: expected torsion_order"), "{err}");
-    // A file that parses but does not validate: the message points at the line of the term.
-    let unknown = write(
-        "unknown.problem.txt",
-        "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n",
-    );
-    let (code, _, err) = tubecert(&["check-input", &unknown]);
-    assert_eq!(code, 2);
+    // A file that parses but does not validate: the message points at the line of the term…
+    let err =
+        refused("unknown.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n"));
     assert!(err.contains("unknown.problem.txt:9: complex K, differential, term 2: generator \"c\""), "{err}");
-    // … and at the line of a generator, or of a construction.
-    let graded = write(
-        "graded.problem.txt",
-        "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex T = staircase torus_knot 2 4\ncomplex K\n  a (0, 0)\n  b (-1, 0, 3)\n",
-    );
-    let (_, _, err) = tubecert(&["check-input", &graded]);
+    // … of a construction, or of a generator …
+    let graded = "complex K\n  a (0, 0)\n  b (-1, 0, 3)\n";
+    let err = refused("graded.problem.txt", &format!("{RING}complex T = staircase torus_knot 2 4\n{graded}"));
     assert!(err.contains("graded.problem.txt:5: complex T: T(2,4)"), "{err}");
-    let graded = write(
-        "graded.problem.txt",
-        &std::fs::read_to_string(&graded).unwrap().replace("complex T = staircase torus_knot 2 4\n", ""),
-    );
-    let (_, _, err) = tubecert(&["check-input", &graded]);
+    let err = refused("graded.problem.txt", &format!("{RING}{graded}"));
     assert!(
         err.contains("graded.problem.txt:7: complex K, generator \"b\": grading (-1, 0, 3) has 3 entries"),
         "{err}"
@@ -235,8 +227,7 @@ fn diff_exit_codes() {
 #[test]
 fn a_generator_declared_twice_is_an_error() {
     let bad = EXAMPLE.replace("\"z\": [0, 0], \"a\": [0, 0]", "\"z\": [0, 0], \"a\": [0, 0], \"z\": [1, 0]");
-    let (code, _, err) = tubecert(&["check-input", &write("dup.problem.json", &bad)]);
-    assert_eq!(code, 2);
+    let err = refused("dup.problem.json", &bad);
     assert!(err.contains("\"z\" appears twice in one object"), "{err}");
 }
 

@@ -3,11 +3,16 @@
 
 use tubecert_format::{Mono, RingInfo};
 
+/// The sum of the exponents of a monomial.
+pub fn total_degree(m: Mono) -> u64 {
+    m.0.iter().map(|&e| e as u64).sum()
+}
+
 /// The written form of a polynomial given as distinct monomials, in a fixed order (by total
 /// degree, then exponents) so that certificates are reproducible: `V + U^2`.
 pub fn render_poly(monos: &[Mono], variables: &[String]) -> String {
     let mut sorted = monos.to_vec();
-    sorted.sort_by_key(|m| (m.0.iter().map(|&e| e as u64).sum::<u64>(), *m));
+    sorted.sort_by_key(|&m| (total_degree(m), m));
     sorted.iter().map(|m| m.render(variables)).collect::<Vec<_>>().join(" + ")
 }
 

@@ -7,6 +7,7 @@
 //! ∂b = 0 and nothing hits a (both forced by ∂∂ = 0). Pivots are taken smallest coefficient
 //! first (so divisibility holds over a PID), then fewest fill-in (Markowitz count).
 
+use super::monomials::total_degree;
 use std::cmp::Reverse;
 use std::collections::BinaryHeap;
 use tubecert_format::Mono;
@@ -93,7 +94,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
             if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
                 let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
-                heap.push(Reverse((m.0.iter().sum::<u32>(), cost, a, b, m)));
+                heap.push(Reverse((total_degree(m), cost, a, b, m)));
             }
         }
     };
