@@ -8,7 +8,7 @@ use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr, ring_name, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -183,6 +183,31 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
+/// The Alexander grading τ is read in: over F2[U] the named grading, which U must lower by 1;
+/// over F2[U,V] (on the V = 0 quotient) A = (g_1 − g_2)/2, which U must lower by 1, V raise by
+/// 1 and ∂ preserve. Anything else has no τ, and the error says why.
+pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> i64, String> {
+    let two = r.num_vars() == 2;
+    let a = if r.num_vars() == 1 { r.grading_index(alexander)? } else { 0 };
+    let alex = move |g: &[i64]| if two { (g[0] - g[1]).div_euclid(2) } else { g[a] };
+    let usual = match r.num_vars() {
+        1 => r.var_degrees[0][a] == -1,
+        2 => {
+            r.variables[0] == "U"
+                && alex(&r.var_degrees[0]) == -1
+                && alex(&r.var_degrees[1]) == 1
+                && r.differential_degree[0] == r.differential_degree[1]
+        }
+        _ => false,
+    };
+    match (r.num_vars(), usual) {
+        (_, true) => Ok(alex),
+        (0, _) => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
+        (1, _) => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
+        _ => Err("τ over F2[U,V] needs the gradings (gr_U, gr_V) with U lowering A = (gr_U − gr_V)/2 by 1, V raising it by 1 and ∂ preserving it".into()),
+    }
+}
+
 /// Verifies one claim; returns the facts it established.
 pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
     let vars = &ctx.ring.variables;
@@ -229,10 +254,15 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             facts.insert("torsion".into(), json!(dec.torsion));
         }
         Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
-            if vars.first() != Some(variable) {
+            let c = ctx.complex_named(complex)?;
+            // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
+            let other = vars.iter().find(|v| *v != variable).filter(|_| vars.len() == 2);
+            let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            if hctx.ring.variables.first() != Some(variable) {
                 return Err(format!("variable {variable} is not the ring's variable"));
             }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let dec = check_homology(hctx, hc, witness)?;
             let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
             if found != *order {
                 return Err(format!("the basis shows torsion order {found}, not {order}"));
@@ -240,16 +270,24 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             facts.insert("order".into(), json!(order));
         }
         Claim::Tau { complex, alexander, tau, witness, .. } => {
-            let a = ctx.ring.grading_index(alexander)?;
-            if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
-                return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
-            }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let c = ctx.complex_named(complex)?;
+            let alex = alexander_of(&ctx.ring, alexander)?;
+            let two = vars.len() == 2;
+            let quotient = if two { Some(ctx.specialized(c, "V", 0)?) } else { None };
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            let dec = check_homology(hctx, hc, witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
             };
-            if -g[a] != *tau {
-                return Err(format!("the free generator has Alexander grading {}, so τ = {}, not {tau}", g[a], -g[a]));
+            if two && (g[0] - g[1]) % 2 != 0 {
+                return Err("the free generator has gr_U − gr_V odd: no Alexander grading".into());
+            }
+            if -alex(g) != *tau {
+                return Err(format!(
+                    "the free generator has Alexander grading {}, so τ = {}, not {tau}",
+                    alex(g),
+                    -alex(g)
+                ));
             }
             facts.insert("tau".into(), json!(tau));
         }

@@ -50,11 +50,24 @@ pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
             format!("H_*({complex}) ≅ {}", render_homology(ring_name, first_variable, free, torsion))
         }
         Claim::TorsionOrder { maps: [f, g], variable, order, .. } => format!("ord_{variable}({f} − {g}) = {order}"),
-        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => {
-            format!("Ord_{variable}(H_*({complex})) = {order}")
-        }
-        Claim::Tau { complex, tau, .. } => format!("τ({complex}) = {tau}"),
+        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => match other_variable(ring_name, variable) {
+            Some(o) => format!("Ord_{variable}(H_*({complex}/({o}))) = {order} (read on the {o} = 0 quotient)"),
+            None => format!("Ord_{variable}(H_*({complex})) = {order}"),
+        },
+        Claim::Tau { complex, tau, .. } => match other_variable(ring_name, "U") {
+            Some(_) => {
+                format!("τ({complex}) = {tau} (read on {complex}/(V), the V = 0 quotient, with A = (gr_U − gr_V)/2)")
+            }
+            None => format!("τ({complex}) = {tau}"),
+        },
     }
+}
+
+/// Over a ring of two variables, the one that is not `variable` (quotiented out to read homology).
+fn other_variable<'a>(ring_name: &'a str, variable: &str) -> Option<&'a str> {
+    let vars = ring_name.strip_prefix("F2[")?.strip_suffix(']')?;
+    let (a, b) = vars.split_once(',')?;
+    Some(if a == variable { b } else { a })
 }
 
 /// The reading of a torsion-order claim about maps induced by surfaces.
