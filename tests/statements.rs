@@ -144,14 +144,21 @@ fn homologies(s: &str, ring: &Ring) -> Vec<Homology> {
         for p in parts {
             let mut next = Vec::new();
             for r in &readings {
-                for [g] in spell(p, &[P::Lit(&rn), P::Lit("⟨"), P::Hole, P::Lit("⟩")]).iter().filter_map(|h| <[&str; 1]>::try_from(h.as_slice()).ok()) {
+                for [g] in spell(p, &[P::Lit(&rn), P::Lit("⟨"), P::Hole, P::Lit("⟩")])
+                    .iter()
+                    .filter_map(|h| <[&str; 1]>::try_from(h.as_slice()).ok())
+                {
                     if let Some(g) = tuple(g, n) {
                         next.push(([r.0.clone(), vec![g]].concat(), r.1.clone()));
                     }
                 }
                 let pat = [P::Lit(&rn), P::Lit("/("), P::Hole, P::Lit(")⟨"), P::Hole, P::Lit("⟩")];
                 for h in spell(p, &pat) {
-                    let k = if h[0] == v { Some(1) } else { h[0].strip_prefix(&format!("{v}^")).and_then(uint).filter(|&k| k >= 2) };
+                    let k = if h[0] == v {
+                        Some(1)
+                    } else {
+                        h[0].strip_prefix(&format!("{v}^")).and_then(uint).filter(|&k| k >= 2)
+                    };
                     if let (Some(k), Some(g), false) = (k, tuple(h[1], n), v.is_empty()) {
                         next.push((r.0.clone(), [r.1.clone(), vec![(k, g)]].concat()));
                     }
@@ -220,7 +227,14 @@ fn readings(s: &str, ring: &Ring) -> Vec<Claim> {
         if let (true, true, true, Some(order)) = (is_var(h[0]), map_name_ok(h[1]), map_name_ok(h[2]), uint(h[3])) {
             let witness = TorsionWitness { homotopy: vec![], dual: None };
             let maps = [h[1].into(), h[2].into()];
-            out.push(Claim::TorsionOrder { maps, variable: h[0].into(), order, surfaces: false, statement: st(), witness });
+            out.push(Claim::TorsionOrder {
+                maps,
+                variable: h[0].into(),
+                order,
+                surfaces: false,
+                statement: st(),
+                witness,
+            });
         }
     }
     for h in spell(s, &[Lit("Ord_"), Hole, Lit("(H_*("), Hole, Lit(")) = "), Hole]) {
@@ -233,13 +247,25 @@ fn readings(s: &str, ring: &Ring) -> Vec<Claim> {
     for h in spell(s, &[Lit("τ("), Hole, Lit(") = "), Hole]) {
         for g in ring.gradings.iter().filter(|_| name_ok(h[0])) {
             if let Some(tau) = int(h[1]) {
-                out.push(Claim::Tau { complex: h[0].into(), alexander: g.clone(), tau, statement: st(), witness: basis() });
+                out.push(Claim::Tau {
+                    complex: h[0].into(),
+                    alexander: g.clone(),
+                    tau,
+                    statement: st(),
+                    witness: basis(),
+                });
             }
         }
     }
     for h in spell(s, &[Lit("τ("), Hole, Lit(") = "), Hole, Lit(" (Alexander grading "), Hole, Lit(")")]) {
         if let (true, Some(tau), true) = (name_ok(h[0]), int(h[1]), ring.gradings.iter().any(|g| g == h[2])) {
-            out.push(Claim::Tau { complex: h[0].into(), alexander: h[2].into(), tau, statement: st(), witness: basis() });
+            out.push(Claim::Tau {
+                complex: h[0].into(),
+                alexander: h[2].into(),
+                tau,
+                statement: st(),
+                witness: basis(),
+            });
         }
     }
     out
@@ -388,9 +414,9 @@ fn claim(ring: Ring) -> impl Strategy<Value = Claim> {
             statement: st(),
             witness: basis()
         }),
-        (name(), prop::sample::select(ring.gradings.clone()), -50i64..50).prop_map(
-            move |(complex, alexander, tau)| Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() }
-        ),
+        (name(), prop::sample::select(ring.gradings.clone()), -50i64..50).prop_map(move |(complex, alexander, tau)| {
+            Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() }
+        }),
     ]
 }
 
@@ -414,7 +440,8 @@ fn the_reader_sees_the_ambiguities_version_1_had() {
         "variable_degrees": {"U": [-1, -1]}, "differential_degree": [-1, 0]}))
     .unwrap();
     let info = RingInfo::new(&ring).unwrap();
-    let tau = Claim::Tau { complex: "T".into(), alexander: "b".into(), tau: -2, statement: String::new(), witness: basis() };
+    let tau =
+        Claim::Tau { complex: "T".into(), alexander: "b".into(), tau: -2, statement: String::new(), witness: basis() };
     assert_eq!(readings(&tubecert_format::statement::render(&tau, &info, 1), &ring).len(), 2);
     assert_eq!(readings(&tubecert_format::statement::render(&tau, &info, 2), &ring), vec![fields(&tau)]);
     let f = |n: &str| MapExpr::Named(n.into());
@@ -465,7 +492,10 @@ fn run(tool: &str, args: &[&str], file: &str, content: &[u8]) -> (i32, String) {
     std::fs::write(&path, content).unwrap();
     let out = std::process::Command::new(exe(tool)).args(args).arg(&path).output().unwrap();
     let _ = std::fs::remove_file(&path);
-    (out.status.code().unwrap_or(-1), String::from_utf8_lossy(&out.stdout).to_string() + &String::from_utf8_lossy(&out.stderr))
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).to_string() + &String::from_utf8_lossy(&out.stderr),
+    )
 }
 
 /// (class, a name of that class, its first illegal code point)
