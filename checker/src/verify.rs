@@ -6,9 +6,10 @@ use crate::load::{grading_sum, in_two_halves, Context, Errors, Evaluated};
 use crate::report_terms::{compare, render_vector};
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
+use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, render_expr, ring_name, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term};
+use tubecert_format::statement::{render, render_expr, surface_reading};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -183,9 +184,10 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
-/// The Alexander grading τ is read in: over F2[U] the named grading, which U must lower by 1;
-/// over F2[U,V] (on the V = 0 quotient) A = (g_1 − g_2)/2, which U must lower by 1, V raise by
-/// 1 and ∂ preserve. Anything else has no τ, and the error says why.
+/// The Alexander grading τ is read in: over `F2[U]` the named grading, which U must lower by 1;
+/// over `F2[U,V]` (on the V = 0 quotient) A = (g_1 − g_2)/2, which U must lower by 1, V raise by
+/// 1 and ∂ preserve, named by `alexander` (not one of the ring's gradings). Anything else has
+/// no τ, and the error says why.
 pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> i64, String> {
     let two = r.num_vars() == 2;
     let a = if r.num_vars() == 1 { r.grading_index(alexander)? } else { 0 };
@@ -193,7 +195,8 @@ pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> 
     let usual = match r.num_vars() {
         1 => r.var_degrees[0][a] == -1,
         2 => {
-            r.variables[0] == "U"
+            r.gradings.len() == 2
+                && !r.gradings.iter().any(|g| g == alexander)
                 && alex(&r.var_degrees[0]) == -1
                 && alex(&r.var_degrees[1]) == 1
                 && r.differential_degree[0] == r.differential_degree[1]
@@ -204,14 +207,41 @@ pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> 
         (_, true) => Ok(alex),
         (0, _) => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
         (1, _) => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
-        _ => Err("τ over F2[U,V] needs the gradings (gr_U, gr_V) with U lowering A = (gr_U − gr_V)/2 by 1, V raising it by 1 and ∂ preserving it".into()),
+        _ => Err(format!("τ over F2[U,V] is read on the V = 0 quotient in A = (g_1 − g_2)/2, named \"{alexander}\": it needs two gradings, U lowering A by 1, V raising it by 1, ∂ preserving it, and a name that is not one of the ring's gradings")),
     }
 }
 
-/// Verifies one claim; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+/// The names a claim holds are in the alphabet, and the monomials of its map expressions are
+/// written canonically, so that its statement prints its fields and nothing else (exit 2).
+pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
+    fn expr(e: &MapExpr, vars: &[String]) -> Result<(), String> {
+        match e {
+            MapExpr::Named(n) | MapExpr::Id(n) => check_name(n),
+            MapExpr::Sum(es) | MapExpr::Compose(es) => es.iter().try_for_each(|e| expr(e, vars)),
+            MapExpr::Times(m, e) => match parse_mono(m, vars)?.render(vars) {
+                canonical if canonical == *m => expr(e, vars),
+                canonical => Err(format!("monomial {m:?} must be written \"{canonical}\"")),
+            },
+        }
+    }
+    let (names, basis): (Vec<&String>, _) = match claim {
+        Claim::Complex { complex, .. } => (vec![complex], None),
+        Claim::ChainMap { map, .. } => (vec![map], None),
+        Claim::NullHomotopic { map, .. } | Claim::NotNullHomotopic { map, .. } => return expr(map, vars),
+        Claim::HomotopyEquivalence { maps, .. } => (maps.iter().collect(), None),
+        Claim::TorsionOrder { maps: [f, g], variable, .. } => (vec![f, g, variable], None),
+        Claim::Homology { complex, witness, .. } => (vec![complex], Some(witness)),
+        Claim::TorsionOrderOfComplex { complex, variable, witness, .. } => (vec![complex, variable], Some(witness)),
+        Claim::Tau { complex, alexander, witness, .. } => (vec![complex, alexander], Some(witness)),
+    };
+    let generators = basis.into_iter().flat_map(|w| w.generators.keys());
+    names.into_iter().chain(generators).try_for_each(|n| check_name(n))
+}
+
+/// Verifies one claim of a certificate of format `version`; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
     let vars = &ctx.ring.variables;
-    let expected = render(claim, &ring_name(vars), vars.first().map_or("", |v| v));
+    let expected = render(claim, &ctx.ring, version);
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
@@ -273,7 +303,12 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             let c = ctx.complex_named(complex)?;
             let alex = alexander_of(&ctx.ring, alexander)?;
             let two = vars.len() == 2;
-            let quotient = if two { Some(ctx.specialized(c, "V", 0)?) } else { None };
+            // Version 1 did not name the grading: read it only where the words cannot mislead.
+            let choices = ctx.ring.var_degrees.first().map_or(0, |d| d.iter().filter(|&&d| d == -1).count());
+            if !two && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+                return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
+            }
+            let quotient = if two { Some(ctx.specialized(c, &vars[1], 0)?) } else { None };
             let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
             let dec = check_homology(hctx, hc, witness)?;
             let [g] = dec.free.as_slice() else {
@@ -319,10 +354,9 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
 
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
-    let rn = ring_name(&ctx.ring.variables);
     let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
         kind: claim.kind().into(),
-        statement: render(&claim, &rn, "") + &suffix,
+        statement: render(&claim, &ctx.ring, CERTIFICATE_VERSION) + &suffix,
         implicit: true,
         outcome: outcome.map(|_| BTreeMap::new()),
     };
@@ -341,16 +375,21 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
-/// Verifies a whole body: implicit object checks, then each claim.
-pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<String>> {
+/// Verifies a whole body of a certificate of format `version`: implicit object checks, then
+/// each claim.
+pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<ClaimResult>, Vec<String>> {
     let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    for (i, claim) in body.claims.iter().enumerate() {
+        check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
+    }
     let mut out = check_objects(&ctx);
     for claim in &body.claims {
         out.push(ClaimResult {
             kind: claim.kind().into(),
-            statement: claim.statement().to_string(),
+            // What the fields say: a statement that differs is not shown as if it were checked.
+            statement: render(claim, &ctx.ring, version),
             implicit: false,
-            outcome: check_claim(&ctx, claim),
+            outcome: check_claim(&ctx, claim, version),
         });
     }
     Ok(out)

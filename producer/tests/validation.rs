@@ -79,10 +79,13 @@ fn tau_and_torsion_order_over_the_full_ring_are_read_on_the_v_zero_quotient() {
     let text = format!("{FULL}complex T = staircase torus_knot 3 4\ncomplex M = dual T\ngoal tau T\ngoal torsion_order_of_complex T U\ngoal tau M\n");
     let (check, err, prove, out) = both("uv-t34", &text);
     assert_eq!((check, prove), (0, 0), "{err}");
-    assert!(out.contains("τ(T) = 3 (read on T/(V), the V = 0 quotient"), "{out}");
+    assert!(
+        out.contains("τ(T) = 3 (Alexander grading alexander = (gr_U − gr_V)/2, read on T/(V), the V = 0 quotient)"),
+        "{out}"
+    );
     assert!(out.contains("Ord_U(H_*(T/(V))) = 2"), "{out}");
     // τ(mirror K) = −τ(K) (same paper).
-    assert!(out.contains("τ(M) = -3"), "{out}");
+    assert!(out.contains("τ(M) = -3 (Alexander"), "{out}");
     let cert = format!("{}.cert.json", write("uv-t34", &text));
     let report = tubecheck::check_bytes("t", &std::fs::read(cert).unwrap()).unwrap();
     assert!(report.ok());
@@ -97,9 +100,10 @@ fn a_forged_tau_over_the_full_ring_is_rejected() {
     let mut c: serde_json::Value = serde_json::from_slice(&std::fs::read(&cert).unwrap()).unwrap();
     let claim = &mut c["body"]["claims"][0];
     claim["tau"] = serde_json::json!(2);
-    claim["statement"] = serde_json::json!("τ(T) = 2 (read on T/(V), the V = 0 quotient, with A = (gr_U − gr_V)/2)");
+    let forged = claim["statement"].as_str().unwrap().replace("τ(T) = 1", "τ(T) = 2");
+    claim["statement"] = serde_json::json!(forged);
     let body: tubecert_format::Body = serde_json::from_value(c["body"].clone()).unwrap();
-    let results = tubecheck::verify::check_body(&body).unwrap();
+    let results = tubecheck::verify::check_body(&body, tubecert_format::CERTIFICATE_VERSION).unwrap();
     let r = results.iter().find(|r| r.kind == "tau").unwrap();
     assert!(r.outcome.as_ref().unwrap_err().contains("τ = 1, not 2"), "{:?}", r.outcome);
 }

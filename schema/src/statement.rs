@@ -2,16 +2,29 @@
 //! re-renders it from the claim's fields and refuses a claim whose statement differs, so the
 //! sentence a reader sees is the one that was verified.
 
-use crate::model::{Claim, Grading, MapExpr};
+use crate::model::{Claim, Grading, MapExpr, CERTIFICATE_VERSION};
+use crate::ring::RingInfo;
 
-/// Mathematical notation for a map expression, e.g. `U^2·(F + G)`.
+/// Mathematical notation for a map expression, e.g. `U^2·(F + G)`, as the current format
+/// version writes it: every statement reads back as exactly one expression.
 pub fn render_expr(e: &MapExpr) -> String {
+    expr_in(e, CERTIFICATE_VERSION)
+}
+
+/// Version 1 wrote a composite inside a composition without parentheses (`U·F∘G` for both
+/// U·(F∘G) and (U·F)∘G: the same map, two readings); version 2 brackets it.
+fn expr_in(e: &MapExpr, version: u32) -> String {
+    let inner = |e: &MapExpr| match e {
+        MapExpr::Compose(_) | MapExpr::Times(..) if version >= 2 => format!("({})", expr_in(e, version)),
+        _ => expr_in(e, version),
+    };
     match e {
         MapExpr::Named(n) => n.clone(),
         MapExpr::Id(c) => format!("id_{c}"),
-        MapExpr::Sum(es) => format!("({})", es.iter().map(render_expr).collect::<Vec<_>>().join(" + ")),
-        MapExpr::Compose(es) => es.iter().map(render_expr).collect::<Vec<_>>().join("∘"),
-        MapExpr::Times(m, e) => format!("{m}·{}", render_expr(e)),
+        MapExpr::Sum(es) => format!("({})", es.iter().map(|e| expr_in(e, version)).collect::<Vec<_>>().join(" + ")),
+        MapExpr::Compose(es) => es.iter().map(inner).collect::<Vec<_>>().join("∘"),
+        MapExpr::Times(m, e) if matches!(**e, MapExpr::Compose(_)) => format!("{m}·{}", inner(e)),
+        MapExpr::Times(m, e) => format!("{m}·{}", expr_in(e, version)),
     }
 }
 
@@ -33,16 +46,20 @@ pub fn render_homology(ring_name: &str, var: &str, free: &[Grading], torsion: &[
     }
 }
 
-/// The statement of a claim. `ring_name` is e.g. `F2[U]`; `variable` the ring's first variable
-/// (used by homology).
-pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
+/// The statement of a claim in a certificate of format `version` over `ring`. Every field that
+/// changes what is proved appears in it (`surfaces` only selects a reading printed beside it,
+/// derived from the variable and the order); version 1 left out τ's grading (see DEVELOPERS.md).
+pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
+    let ring_name = &ring_name(&ring.variables);
+    let first_variable = ring.variables.first().map_or("", |v| v.as_str());
+    let expr = |e: &MapExpr| expr_in(e, version);
     match claim {
         Claim::Complex { complex, .. } => {
             format!("{complex} is a chain complex over {ring_name} (∂∘∂ = 0, ∂ homogeneous)")
         }
         Claim::ChainMap { map, .. } => format!("{map} is a homogeneous chain map"),
-        Claim::NullHomotopic { map, .. } => format!("{} ≃ 0 (null-homotopic)", render_expr(map)),
-        Claim::NotNullHomotopic { map, .. } => format!("{} is not null-homotopic", render_expr(map)),
+        Claim::NullHomotopic { map, .. } => format!("{} ≃ 0 (null-homotopic)", expr(map)),
+        Claim::NotNullHomotopic { map, .. } => format!("{} is not null-homotopic", expr(map)),
         Claim::HomotopyEquivalence { maps: [f, g], .. } => {
             format!("{f} and {g} are mutually inverse homotopy equivalences")
         }
@@ -50,24 +67,26 @@ pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
             format!("H_*({complex}) ≅ {}", render_homology(ring_name, first_variable, free, torsion))
         }
         Claim::TorsionOrder { maps: [f, g], variable, order, .. } => format!("ord_{variable}({f} − {g}) = {order}"),
-        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => match other_variable(ring_name, variable) {
-            Some(o) => format!("Ord_{variable}(H_*({complex}/({o}))) = {order} (read on the {o} = 0 quotient)"),
-            None => format!("Ord_{variable}(H_*({complex})) = {order}"),
-        },
-        Claim::Tau { complex, tau, .. } => match other_variable(ring_name, "U") {
-            Some(_) => {
-                format!("τ({complex}) = {tau} (read on {complex}/(V), the V = 0 quotient, with A = (gr_U − gr_V)/2)")
+        Claim::TorsionOrderOfComplex { complex, variable, order, .. } => {
+            match ring.variables.iter().find(|v| *v != variable).filter(|_| ring.variables.len() == 2) {
+                Some(o) => format!("Ord_{variable}(H_*({complex}/({o}))) = {order} (read on the {o} = 0 quotient)"),
+                None => format!("Ord_{variable}(H_*({complex})) = {order}"),
             }
-            None => format!("τ({complex}) = {tau}"),
-        },
+        }
+        // Over F2[U,V] τ is read on the V = 0 quotient, in the grading A = (g_1 − g_2)/2, which
+        // the claim's `alexander` names (checked by `verify::alexander_of`).
+        Claim::Tau { complex, tau, alexander, .. } if ring.variables.len() == 2 && ring.gradings.len() == 2 => {
+            let (g, v) = (&ring.gradings, &ring.variables[1]);
+            format!(
+                "τ({complex}) = {tau} (Alexander grading {alexander} = ({} − {})/2, read on {complex}/({v}), the {v} = 0 quotient)",
+                g[0], g[1]
+            )
+        }
+        Claim::Tau { complex, tau, alexander, .. } if version >= 2 && ring.gradings.len() > 1 => {
+            format!("τ({complex}) = {tau} (Alexander grading {alexander})")
+        }
+        Claim::Tau { complex, tau, .. } => format!("τ({complex}) = {tau}"),
     }
-}
-
-/// Over a ring of two variables, the one that is not `variable` (quotiented out to read homology).
-fn other_variable<'a>(ring_name: &'a str, variable: &str) -> Option<&'a str> {
-    let vars = ring_name.strip_prefix("F2[")?.strip_suffix(']')?;
-    let (a, b) = vars.split_once(',')?;
-    Some(if a == variable { b } else { a })
 }
 
 /// The reading of a torsion-order claim about maps induced by surfaces.
