@@ -353,3 +353,23 @@ fn a_bad_shard_is_refused_with_exit_2() {
         assert!(!out.exists(), "nothing is written for a bad shard");
     }
 }
+
+#[test]
+fn bench_reduced_cases_and_density() {
+    for case in ["reduced-identity", "reduced-uv"] {
+        let (code, out, err) = tubecert(&["bench", "--case", case, "--torus", "3,4"]);
+        assert_eq!(code, 0, "{case}: {err}");
+        let row: Vec<&str> = out.lines().nth(1).unwrap().split('\t').collect();
+        assert_eq!(&row[..2], ["125", "125"], "C = T(3,4)^⊗3 has 5^3 generators");
+    }
+    let (code, _, err) = tubecert(&["bench", "--case", "reduced-uv", "--torus", "1,4"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("expected P,Q"), "{err}");
+    // More rounds of basis change, more arrows on the same generators.
+    let arrows = |rounds: &str| {
+        let (code, out, err) = tubecert(&["bench", "--generators", "2000", "--rounds", rounds, "--no-header"]);
+        assert_eq!(code, 0, "{err}");
+        out.split('\t').nth(2).unwrap().parse::<f64>().unwrap()
+    };
+    assert!(arrows("7") > 1.5 * arrows("5"));
+}
