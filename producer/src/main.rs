@@ -45,7 +45,7 @@ enum Command {
     CheckInput { problem: PathBuf },
     /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
     #[command(
-        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --rounds 6     # denser: about 9 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3"
+        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --density 9.4  # denser: 9.4 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3"
     )]
     Bench {
         /// Which problem: an inflated complex with a planted torsion order, or a Hom question
@@ -57,9 +57,10 @@ enum Command {
         /// Inflate the source complex too, to this many generators (maps between two big complexes).
         #[arg(long)]
         source_generators: Option<usize>,
-        /// Rounds of random homogeneous basis change (density: more rounds, more arrows per generator).
-        #[arg(long, default_value_t = tubecert::bench::ROUNDS as u16, value_parser = clap::value_parser!(u16).range(0..=12))]
-        rounds: u16,
+        /// Arrows per generator of the inflated complexes, about (default: five rounds of random
+        /// basis change, about 4.4).
+        #[arg(long, value_parser = parse_density)]
+        density: Option<f64>,
         /// P,Q: the torus knot T(P,Q) of the reduced cases (default 13,14 for reduced-identity, 11,12 for reduced-uv).
         #[arg(long, value_parser = parse_torus)]
         torus: Option<(u32, u32)>,
@@ -145,6 +146,14 @@ enum Command {
         #[arg(long, default_value = "tubecert-demo")]
         out: PathBuf,
     },
+}
+
+/// Arrows per generator for `--density`.
+fn parse_density(text: &str) -> Result<f64, String> {
+    match text.parse::<f64>() {
+        Ok(d) if (1.0..=40.0).contains(&d) => Ok(d),
+        _ => Err(format!("expected a number of arrows per generator between 1 and 40 (got \"{text}\")")),
+    }
 }
 
 /// `P,Q` for `--torus`.
@@ -238,9 +247,8 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
-        Command::Bench { case, generators, source_generators, rounds, torus, seed, out, no_header } => {
-            let o =
-                tubecert::bench::Options { case, generators, source_generators, rounds: rounds.into(), seed, torus };
+        Command::Bench { case, generators, source_generators, density, torus, seed, out, no_header } => {
+            let o = tubecert::bench::Options { case, generators, source_generators, density, seed, torus };
             match tubecert::bench::run(&o, out.as_deref()) {
                 Ok((header, row)) => {
                     if !no_header {

@@ -365,11 +365,16 @@ fn bench_reduced_cases_and_density() {
     let (code, _, err) = tubecert(&["bench", "--case", "reduced-uv", "--torus", "1,4"]);
     assert_eq!(code, 2);
     assert!(err.contains("expected P,Q"), "{err}");
-    // More rounds of basis change, more arrows on the same generators.
-    let arrows = |rounds: &str| {
-        let (code, out, err) = tubecert(&["bench", "--generators", "2000", "--rounds", rounds, "--no-header"]);
+    // A density asked for is the density built (within a few percent), on the same generators.
+    let per_generator = |density: &[&str]| {
+        let args = [&["bench", "--generators", "4000", "--no-header"], density].concat();
+        let (code, out, err) = tubecert(&args);
         assert_eq!(code, 0, "{err}");
-        out.split('\t').nth(2).unwrap().parse::<f64>().unwrap()
+        let row: Vec<f64> = out.split('\t').take(3).map(|x| x.trim().parse().unwrap()).collect();
+        row[2] / row[1]
     };
-    assert!(arrows("7") > 1.5 * arrows("5"));
+    let (default, dense) = (per_generator(&[]), per_generator(&["--density", "9.4"]));
+    assert!((3.0..6.0).contains(&default), "{default}");
+    assert!((9.0..10.5).contains(&dense), "{dense}");
+    assert_eq!(tubecert(&["bench", "--density", "0.5"]).0, 2);
 }
