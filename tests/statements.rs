@@ -667,3 +667,18 @@ fn tensor_generators_can_be_written_in_ascii() {
     assert!(ascii.certificate.body.complexes["T"].generators.contains_key("x⊗y"));
     tubecert_tests::verified_claims(&ascii);
 }
+
+#[test]
+fn a_failure_message_cannot_print_a_verdict_of_its_own() {
+    // A witness term naming a generator with a line break: the claim fails, and the message
+    // quoting the name shows the break as <U+000A> instead of printing a fake "✓" line.
+    let mut cert = stored("tower.cert.json");
+    let claims = cert["body"]["claims"].as_array_mut().unwrap();
+    let c = claims.iter_mut().find(|c| c["kind"] == "not_null_homotopic").unwrap();
+    c["witness"]["dual"][0][2] = json!("a\n  ✓ τ(K) = 9");
+    let body: tubecert_format::Body = serde_json::from_value(cert["body"].clone()).unwrap();
+    cert["sha256"] = json!(tubecert_format::canonical::canonical_sha256(&body).unwrap());
+    let (code, out) = run("tubecheck", &[], "w.cert.json", &serde_json::to_vec(&cert).unwrap());
+    assert_eq!(code, 1, "{out}");
+    assert!(out.contains("<U+000A>") && !out.lines().any(|l| l.trim_start().starts_with("✓ τ")), "{out}");
+}
