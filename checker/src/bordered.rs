@@ -424,11 +424,13 @@ fn paths(
             on_path.truncate(len);
             if child == 0 {
                 o.spend(1 + f.pattern.len() as u64, "box tensor")?;
-                if on_path.contains(&(y, mask)) {
-                    let cycle: Vec<String> = on_path.iter().map(|p| names(p.0)).collect();
+                if let Some(first) = on_path.iter().position(|p| *p == (y, mask)) {
+                    let cycle: Vec<String> = on_path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
                     return Err(Failure::Refused(format!(
-                        "an infinite sum: the cycle through {} can be followed forever while its word stays a prefix of an operation's input",
-                        cycle.join(" → ")
+                        "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
+                        cycle.join(" → "),
+                        names(start),
+                        m.names[x as usize]
                     )));
                 }
                 if let (true, Some(p)) = (can_end, f.output(mask, len)) {
