@@ -69,8 +69,11 @@ fn the_core_pattern_gives_back_the_companions_minus_complex() {
                 k.generators.iter().map(|(g, gr)| (g.strip_prefix("x⊗").unwrap().to_string(), gr.clone())).collect();
             let plain: Vec<(String, Vec<i64>)> = qc.generators.iter().map(|(g, gr)| (g.clone(), gr.clone())).collect();
             assert_eq!(renamed, plain, "{name}, q = {q}: generators and gradings");
-            let mut kd: Vec<[String; 3]> =
-                k.differential.iter().map(|[a, c, b]| [a["x⊗".len()..].to_string(), c.clone(), b["x⊗".len()..].to_string()]).collect();
+            let mut kd: Vec<[String; 3]> = k
+                .differential
+                .iter()
+                .map(|[a, c, b]| [a["x⊗".len()..].to_string(), c.clone(), b["x⊗".len()..].to_string()])
+                .collect();
             let mut qd = qc.differential.clone();
             kd.sort();
             qd.sort();
@@ -94,7 +97,10 @@ fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_frami
     for (name, src) in companions() {
         let t2 = 2 * tau(&src);
         for t in [t2 - 3, t2 - 1, t2, t2 + 1, t2 + 4] {
-            let p = problem(json!({}), json!({"type_d_structures": {"N": {"complement": {"companion": src, "framing": t}}}}));
+            let p = problem(
+                json!({}),
+                json!({"type_d_structures": {"N": {"complement": {"companion": src, "framing": t}}}}),
+            );
             let body = body_of(&p);
             assert!(failed_kinds(body.clone()).is_empty(), "{name}, t = {t}");
             let n = &body.bordered.as_ref().unwrap().type_d_structures["N"];
@@ -114,7 +120,10 @@ fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_frami
 fn the_trefoil_complement_has_the_recalled_shape() {
     // T(2,3): ∂x1 = U·x0 + V·x2, τ = 1, ξ0 = x0, η0 = x2 (Ozsváth–Szabó 2005; LOT Thm 11.26,
     // memory). Framing 0 < 2τ: m = 2.
-    let p = problem(json!({}), json!({"type_d_structures": {"N": {"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": 0}}}}));
+    let p = problem(
+        json!({}),
+        json!({"type_d_structures": {"N": {"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": 0}}}}),
+    );
     let body = body_of(&p);
     let n = &body.bordered.as_ref().unwrap().type_d_structures["N"];
     let mut d: Vec<String> = n.differential.iter().map(|t| t.join(" ")).collect();
@@ -223,7 +232,10 @@ fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_ha
     // Every input of the core starts with ρ3, so the walk never enters them: the box tensor
     // product is the unknot's complex, one generator.
     for q in [1, 2, 4] {
-        let body = body_of(&problem(json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}), json!({})));
+        let body = body_of(&problem(
+            json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
+            json!({}),
+        ));
         assert!(failed_kinds(body.clone()).is_empty());
         assert_eq!(body.complexes["K"].generators.len(), 1);
     }
@@ -264,7 +276,10 @@ fn a_quotient_of_a_tensor_of_named_staircases_is_the_tensor_of_their_quotients()
         "T": {"tensor": ["A", "A"]}}});
     let b = body_of(&p);
     assert_eq!(b.complexes["Q"], b.complexes["T"]);
-    let minus = problem(json!({"A": {"staircase": {"torus_knot": [3, 4]}}, "Q": {"quotient": [{"tensor": ["A", {"dual": "A"}]}, "V"]}, "D": {"dual": "A"}, "T": {"tensor": ["A", "D"]}}), json!({}));
+    let minus = problem(
+        json!({"A": {"staircase": {"torus_knot": [3, 4]}}, "Q": {"quotient": [{"tensor": ["A", {"dual": "A"}]}, "V"]}, "D": {"dual": "A"}, "T": {"tensor": ["A", "D"]}}),
+        json!({}),
+    );
     let b = body_of(&minus);
     assert_eq!(b.complexes["Q"], b.complexes["T"]);
 }
@@ -280,7 +295,8 @@ fn maps_id_box_f() {
                "type_d_morphisms": {"f": {"from": "N", "to": "N", "terms": terms}}})
     };
     let complexes = json!({"K": {"box_tensor": ["M", "N"]}});
-    let ids: Vec<Value> = ["x0", "x1", "x2", "kappa1.x1.x2", "lambda1.x1.x0", "gamma1"].iter().map(|g| json!([g, "1", g])).collect();
+    let ids: Vec<Value> =
+        ["x0", "x1", "x2", "kappa1.x1.x2", "lambda1.x1.x0", "gamma1"].iter().map(|g| json!([g, "1", g])).collect();
     let mut p = problem(complexes.clone(), sections(json!(ids)));
     p["maps"] = json!({"F": {"box_tensor_map": ["M", "f"]}});
     let body = body_of(&p);
@@ -303,14 +319,21 @@ fn maps_id_box_f() {
     let failed = failed_kinds(b);
     assert!(failed.contains(&"box_tensor_map".to_string()), "{failed:?}");
     let mut b = body.clone();
-    b.bordered.as_mut().unwrap().type_d_morphisms.0.get_mut("f").unwrap().terms.push(["x1".into(), "rho1".into(), "lambda1.x1.x0".into()]);
+    b.bordered.as_mut().unwrap().type_d_morphisms.0.get_mut("f").unwrap().terms.push([
+        "x1".into(),
+        "rho1".into(),
+        "lambda1.x1.x0".into(),
+    ]);
     let failed = failed_kinds(b);
     assert!(failed.contains(&"type_d_morphism".to_string()), "{failed:?}");
 }
 
 #[test]
 fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
-    let body = body_of(&problem(json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 2}}}), json!({})));
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
     let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
     assert_eq!(cert["version"], 2);
     cert["version"] = json!(1);
