@@ -124,3 +124,11 @@ fn a_problem_file_named_by_mistake_is_explained() {
     assert_eq!(code, 2);
     assert!(err.contains("a problem file, not a certificate"), "{err}");
 }
+
+#[test]
+fn expect_needs_the_whole_hash() {
+    let cert = format!("{}/tower.cert.json", certificates());
+    let (code, _, err) = tubecheck(&[&cert, "--expect", "3f1c"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("all 64 hex digits (4 given)"), "{err}");
+}
