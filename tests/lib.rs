@@ -547,3 +547,5 @@ pub mod oracle {
         })
     }
 }
+
+pub mod bombs;

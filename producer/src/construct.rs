@@ -137,13 +137,15 @@ pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> Result<ComplexSpec, String> {
 
 /// f ⊗ g: x⊗y ↦ f(x)⊗g(y).
 pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[String]) -> Result<MapSpec, String> {
+    let polys = |m: &MapSpec| m.terms.iter().map(|t| parse_poly(&t[1], vars)).collect::<Result<Vec<_>, _>>();
+    let (pf, pg) = (polys(f)?, polys(g)?);
     let mut acc: BTreeMap<(String, String), Vec<Mono>> = BTreeMap::new();
-    for [x, cf, x2] in &f.terms {
-        for [y, cg, y2] in &g.terms {
+    for ([x, _, x2], cf) in f.terms.iter().zip(&pf) {
+        for ([y, _, y2], cg) in g.terms.iter().zip(&pg) {
             let entry = acc.entry((tensor_name(x, y), tensor_name(x2, y2))).or_default();
-            for a in parse_poly(cf, vars)? {
-                for b in parse_poly(cg, vars)? {
-                    entry.push(a.checked_mul(b).ok_or("exponent overflow")?);
+            for a in cf {
+                for b in cg {
+                    entry.push(a.checked_mul(*b).ok_or("exponent overflow")?);
                 }
             }
         }
@@ -207,6 +209,37 @@ pub fn direct_sum(
     Ok(ComplexSpec { generators: distinct(generators)?, differential: diff })
 }
 
+/// How many generators and terms constructions may still make (`limits::CONSTRUCTED_BASE`):
+/// each construction counts its result's size before building it, so a few lines cannot ask
+/// for a tensor tower of 10^12 generators.
+struct Made(u64);
+
+impl Made {
+    fn take(&mut self, n: u64, what: &str) -> Result<(), String> {
+        self.0 = self.0.checked_sub(n).ok_or_else(|| {
+            format!(
+                "{what} would make {n} generators and terms, beyond what the constructions of this problem may make (limits::CONSTRUCTED_BASE {} + {} per generator or term written out)",
+                tubecert_format::limits::CONSTRUCTED_BASE,
+                tubecert_format::limits::CONSTRUCTED_PER_ENTRY
+            )
+        })?;
+        Ok(())
+    }
+}
+
+fn size(c: &ComplexSpec) -> u64 {
+    (c.generators.len() + c.differential.len()) as u64
+}
+
+/// Generators and terms written out in a problem's explicit complexes and maps.
+fn written_entries(complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, Value>) -> u64 {
+    let len = |v: &Value, k: &str| {
+        v.get(k).map_or(0, |x| x.as_array().map_or(0, |a| a.len()) + x.as_object().map_or(0, |o| o.len()))
+    };
+    let c: usize = complexes.values().map(|v| len(v, "generators") + len(v, "differential")).sum();
+    (c + maps.values().map(|v| len(v, "terms")).sum::<usize>()) as u64
+}
+
 /// Resolves the complexes and maps of a problem whose entries may be constructions, in
 /// dependency order. Explicit entries are taken as they are.
 pub fn resolve(
@@ -214,6 +247,9 @@ pub fn resolve(
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, Value>,
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
+    use tubecert_format::limits::{CONSTRUCTED_BASE, CONSTRUCTED_PER_ENTRY, MAX_SUGGESTIONS};
+    let mut made =
+        Made(CONSTRUCTED_BASE.saturating_add(CONSTRUCTED_PER_ENTRY.saturating_mul(written_entries(complexes, maps))));
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
@@ -228,39 +264,68 @@ pub fn resolve(
             }
         }
     }
-    let mut pending: Vec<&String> = complexes.keys().collect();
-    while !pending.is_empty() {
-        let before = pending.len();
-        let mut still = Vec::new();
-        for name in pending {
-            match build_complex(ring, &complexes[name], &done, &done_maps) {
-                Ok(Some(c)) => {
-                    done.insert(name.clone(), c);
-                }
-                Ok(None) => still.push(name),
-                Err(e) => errs.push(format!("complex {name}: {e}")),
-            }
+    // Dependency order: each complex is tried once, when the complexes it names are built.
+    let mut dependents: BTreeMap<&str, Vec<&String>> = BTreeMap::new();
+    let mut waiting: BTreeMap<&String, usize> = BTreeMap::new();
+    let mut ready = std::collections::VecDeque::new();
+    for (name, v) in complexes {
+        let mut refs = referenced(v);
+        if let Some(m) = v.get("cone").and_then(Value::as_str).and_then(|f| done_maps.get(f)) {
+            refs.extend([m.from.as_str(), m.to.as_str()]);
         }
-        if still.len() == before {
-            for n in still {
-                let refs = referenced(&complexes[n]);
-                errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
-                    Some(m) => format!(
-                        "complex {n}: complex \"{m}\" is not declared{}",
-                        tubecheck::report_terms::suggest(m, complexes.keys())
-                    ),
-                    None => {
-                        format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", "))
+        refs.sort_unstable();
+        refs.dedup();
+        refs.retain(|r| complexes.contains_key(*r));
+        refs.iter().for_each(|r| dependents.entry(r).or_default().push(name));
+        waiting.insert(name, refs.len());
+        if refs.is_empty() {
+            ready.push_back(name);
+        }
+    }
+    let mut failed = std::collections::BTreeSet::new();
+    while let Some(name) = ready.pop_front() {
+        match build_complex(ring, &complexes[name], &done, &done_maps, &mut made) {
+            Ok(Some(c)) => {
+                done.insert(name.clone(), c);
+                for d in dependents.get(name.as_str()).into_iter().flatten() {
+                    let w = waiting.get_mut(d).expect("every complex waits");
+                    *w -= 1;
+                    if *w == 0 {
+                        ready.push_back(d);
                     }
-                });
+                }
             }
-            break;
+            Ok(None) => {}
+            Err(e) => {
+                failed.insert(name);
+                errs.push(format!("complex {name}: {e}"));
+            }
         }
-        pending = still;
+    }
+    let mut hints = MAX_SUGGESTIONS;
+    for n in complexes.keys().filter(|n| !done.contains_key(*n) && !failed.contains(n)) {
+        let refs = referenced(&complexes[n]);
+        errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
+            Some(m) => {
+                hints = hints.saturating_sub(1);
+                let hint =
+                    if hints > 0 { tubecheck::report_terms::suggest(m, complexes.keys()) } else { String::new() };
+                format!("complex {n}: complex \"{m}\" is not declared{hint}")
+            }
+            None => format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", ")),
+        });
+    }
+    // A tensor_maps entry finds the tensor complexes of its source and target here.
+    let mut tensors: BTreeMap<(&str, &str), &String> = BTreeMap::new();
+    for (n, v) in complexes {
+        if let Some([Value::String(a), Value::String(b)]) = v.get("tensor").and_then(Value::as_array).map(Vec::as_slice)
+        {
+            tensors.entry((a.as_str(), b.as_str())).or_insert(n);
+        }
     }
     for (name, v) in maps {
         if let Some(arg) = v.get("tensor_maps") {
-            match build_tensor_map(ring, arg, complexes, &done_maps) {
+            match build_tensor_map(ring, arg, &tensors, &done_maps, &mut made) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -296,6 +361,7 @@ fn build_complex(
     v: &Value,
     done: &Complexes,
     maps: &BTreeMap<String, MapSpec>,
+    made: &mut Made,
 ) -> Result<Option<ComplexSpec>, String> {
     if v.get("generators").is_some() {
         return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
@@ -324,16 +390,30 @@ fn build_complex(
             } else {
                 return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
             };
-            Some(staircase(ring, &exps)?)
+            let s = staircase(ring, &exps)?;
+            made.take(size(&s), "the staircase")?;
+            Some(s)
         }
         "tensor" | "direct_sum" => {
             let n = names(2)?;
             let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
-            Some(if op == "tensor" { tensor(c, d)? } else { direct_sum(&n[0], c, &n[1], d, None)? })
+            if op == "tensor" {
+                let (gc, gd) = (c.generators.len() as u64, d.generators.len() as u64);
+                let terms = (c.differential.len() as u64)
+                    .saturating_mul(gd)
+                    .saturating_add((d.differential.len() as u64).saturating_mul(gc));
+                made.take(gc.saturating_mul(gd).saturating_add(terms), "the tensor product")?;
+                Some(tensor(c, d)?)
+            } else {
+                made.take(size(c) + size(d), "the direct sum")?;
+                Some(direct_sum(&n[0], c, &n[1], d, None)?)
+            }
         }
         "dual" => {
             let n = arg.as_str().ok_or("\"dual\" takes a complex name")?;
-            get(n).map(dual)
+            let Some(c) = get(n) else { return Ok(None) };
+            made.take(size(c), "the dual")?;
+            Some(dual(c))
         }
         "shift" => {
             let a = arg.as_array().filter(|a| a.len() == 2).ok_or("\"shift\" takes [complex, [shift…]]")?;
@@ -342,12 +422,15 @@ fn build_complex(
             if s.len() != ring.gradings.len() {
                 return Err(format!("shift has {} entries, expected {}", s.len(), ring.gradings.len()));
             }
-            get(n).map(|c| shift(c, &s))
+            let Some(c) = get(n) else { return Ok(None) };
+            made.take(size(c), "the shift")?;
+            Some(shift(c, &s))
         }
         "cone" => {
             let f = arg.as_str().ok_or("\"cone\" takes a map name")?;
             let m = maps.get(f).ok_or(format!("cone: map \"{f}\" must be an explicit declared map"))?;
             let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
+            made.take(size(c) + size(d) + m.terms.len() as u64, "the cone")?;
             Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree)))?)
         }
         "quotient" => {
@@ -362,7 +445,8 @@ fn build_complex(
             if a[0].is_string() {
                 return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
             }
-            let Some(src) = build_complex(&source_ring, &a[0], done, maps)? else { return Ok(None) };
+            let Some(src) = build_complex(&source_ring, &a[0], done, maps, made)? else { return Ok(None) };
+            made.take(size(&src), "the quotient")?;
             Some(quotient(&source_ring, ring, &src)?)
         }
         other => {
@@ -429,8 +513,9 @@ pub fn quotient(source: &Ring, target: &Ring, c: &ComplexSpec) -> Result<Complex
 fn build_tensor_map(
     ring: &Ring,
     arg: &Value,
-    complexes: &BTreeMap<String, Value>,
+    tensors: &BTreeMap<(&str, &str), &String>,
     maps: &BTreeMap<String, MapSpec>,
+    made: &mut Made,
 ) -> Result<MapSpec, String> {
     let pair: [String; 2] =
         serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
@@ -439,12 +524,14 @@ fn build_tensor_map(
         maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?,
     );
     let find = |a: &str, b: &str| {
-        complexes
-            .iter()
-            .find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b])))
-            .map(|(n, _)| n.clone())
+        tensors
+            .get(&(a, b))
+            .map(|n| n.to_string())
             .ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
     };
+    // Each pair of terms makes the products of their monomials.
+    let monomials = |m: &MapSpec| m.terms.iter().map(|t| 1 + t[1].matches('+').count() as u64).sum::<u64>();
+    made.take(monomials(f).saturating_mul(monomials(g)), "the tensor product of maps")?;
     tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
 }
 
