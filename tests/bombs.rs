@@ -19,15 +19,14 @@ pub fn ring_uv_same_degree() -> Value {
 /// A certificate file with the given objects and claims (statements rendered, hash correct),
 /// so that only the work it asks for can make the checker refuse it.
 pub fn certificate(ring: Value, complexes: Value, maps: Value, claims: Vec<Value>) -> Vec<u8> {
-    let vars: Vec<String> = serde_json::from_value(ring["variables"].clone()).unwrap();
-    let ring_name = tubecert_format::statement::ring_name(&vars);
+    let version = tubecert_format::CERTIFICATE_VERSION;
+    let info = tubecert_format::RingInfo::new(&serde_json::from_value(ring.clone()).unwrap()).unwrap();
     let claims: Vec<Value> = claims
         .into_iter()
         .map(|mut c| {
             c["statement"] = json!("");
             let parsed: tubecert_format::Claim = serde_json::from_value(c.clone()).unwrap();
-            let first = vars.first().map_or("", |v| v.as_str());
-            c["statement"] = json!(tubecert_format::statement::render(&parsed, &ring_name, first));
+            c["statement"] = json!(tubecert_format::statement::render(&parsed, &info, version));
             c
         })
         .collect();
@@ -35,7 +34,8 @@ pub fn certificate(ring: Value, complexes: Value, maps: Value, claims: Vec<Value
                       "provenance": {"producer": "bomb", "problem_sha256": "0".repeat(64)}});
     let typed: tubecert_format::Body = serde_json::from_value(body.clone()).unwrap();
     let sha = tubecert_format::canonical::body_sha256(&typed).unwrap();
-    serde_json::to_vec(&json!({"format": "tubecert-certificate", "version": 1, "sha256": sha, "body": body})).unwrap()
+    serde_json::to_vec(&json!({"format": "tubecert-certificate", "version": version, "sha256": sha, "body": body}))
+        .unwrap()
 }
 
 /// A problem file with the given objects and goals.

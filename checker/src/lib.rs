@@ -49,9 +49,9 @@ pub fn parse_certificate(bytes: &[u8]) -> Result<Certificate, String> {
         return Err(format!("file is {} bytes, above the limit {MAX_FILE_BYTES}", bytes.len()));
     }
     let cert: Certificate = serde_json::from_slice(bytes).map_err(|e| format!("not a certificate: {e}"))?;
-    if cert.format != CERTIFICATE_FORMAT || cert.version != CERTIFICATE_VERSION {
+    if cert.format != CERTIFICATE_FORMAT || !(1..=CERTIFICATE_VERSION).contains(&cert.version) {
         return Err(format!(
-            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version {CERTIFICATE_VERSION}",
+            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version 1 to {CERTIFICATE_VERSION}",
             cert.format, cert.version
         ));
     }
@@ -65,7 +65,7 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
     let (sha256, claims) = std::thread::scope(|s| {
         let hash = s.spawn(|| body_sha256(&cert.body));
         let limit = tubecert_format::limits::work_limit(bytes.len() as u64);
-        let claims = verify::check_body(&cert.body, limit).map_err(|errs| errs.join("\n  "));
+        let claims = verify::check_body(&cert.body, cert.version, limit).map_err(|errs| errs.join("\n  "));
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });
     let (sha256, claims) = (sha256?, claims?);

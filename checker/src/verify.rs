@@ -6,9 +6,10 @@ use crate::load::{grading_sum, in_two_halves, Context, Errors, Evaluated};
 use crate::report_terms::{compare, render_vector};
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
+use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, render_expr, ring_name, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term};
+use tubecert_format::statement::{render, render_expr, surface_reading};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -204,10 +205,37 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
-/// Verifies one claim; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+/// The names a claim holds are in the alphabet, and the monomials of its map expressions are
+/// written canonically, so that its statement prints its fields and nothing else (exit 2).
+pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
+    fn expr(e: &MapExpr, vars: &[String]) -> Result<(), String> {
+        match e {
+            MapExpr::Named(n) | MapExpr::Id(n) => check_name(n),
+            MapExpr::Sum(es) | MapExpr::Compose(es) => es.iter().try_for_each(|e| expr(e, vars)),
+            MapExpr::Times(m, e) => match parse_mono(m, vars)?.render(vars) {
+                canonical if canonical == *m => expr(e, vars),
+                canonical => Err(format!("monomial {m:?} must be written \"{canonical}\"")),
+            },
+        }
+    }
+    let (names, basis): (Vec<&String>, _) = match claim {
+        Claim::Complex { complex, .. } => (vec![complex], None),
+        Claim::ChainMap { map, .. } => (vec![map], None),
+        Claim::NullHomotopic { map, .. } | Claim::NotNullHomotopic { map, .. } => return expr(map, vars),
+        Claim::HomotopyEquivalence { maps, .. } => (maps.iter().collect(), None),
+        Claim::TorsionOrder { maps: [f, g], variable, .. } => (vec![f, g, variable], None),
+        Claim::Homology { complex, witness, .. } => (vec![complex], Some(witness)),
+        Claim::TorsionOrderOfComplex { complex, variable, witness, .. } => (vec![complex, variable], Some(witness)),
+        Claim::Tau { complex, alexander, witness, .. } => (vec![complex, alexander], Some(witness)),
+    };
+    let generators = basis.into_iter().flat_map(|w| w.generators.keys());
+    names.into_iter().chain(generators).try_for_each(|n| check_name(n))
+}
+
+/// Verifies one claim of a certificate of format `version`; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
     let vars = &ctx.ring.variables;
-    let expected = render(claim, &ring_name(vars), vars.first().map_or("", |v| v));
+    let expected = render(claim, &ctx.ring, version);
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
@@ -265,6 +293,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
                 return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
             }
+            // Version 1 did not name the grading: read it only where the words cannot mislead.
+            let choices = ctx.ring.var_degrees[0].iter().filter(|&&d| d == -1).count();
+            if version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+                return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
+            }
             let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
@@ -302,10 +335,9 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
 
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
-    let rn = ring_name(&ctx.ring.variables);
     let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
         kind: claim.kind().into(),
-        statement: render(&claim, &rn, "") + &suffix,
+        statement: render(&claim, &ctx.ring, CERTIFICATE_VERSION) + &suffix,
         implicit: true,
         outcome: outcome.map(|_| BTreeMap::new()),
     };
@@ -324,11 +356,18 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
-/// Verifies a whole body within `work_limit` units of work (`limits::work_limit` of the
-/// file's size): implicit object checks, then each claim. A file whose checks need more is
-/// refused (`Err`), not failed.
-pub fn check_body(body: &tubecert_format::Body, work_limit: u64) -> Result<Vec<ClaimResult>, Vec<String>> {
+/// Verifies a whole body of a certificate of format `version` within `work_limit` units of
+/// work (`limits::work_limit` of the file's size): implicit object checks, then each claim. A
+/// file whose checks need more is refused (`Err`), not failed.
+pub fn check_body(
+    body: &tubecert_format::Body,
+    version: u32,
+    work_limit: u64,
+) -> Result<Vec<ClaimResult>, Vec<String>> {
     let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    for (i, claim) in body.claims.iter().enumerate() {
+        check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
+    }
     ctx.work = crate::load::Work::new(work_limit);
     let refused = |ctx: &Context| ctx.work.refused().map(|e| vec![e.clone()]);
     let mut out = check_objects(&ctx);
@@ -338,9 +377,10 @@ pub fn check_body(body: &tubecert_format::Body, work_limit: u64) -> Result<Vec<C
         }
         out.push(ClaimResult {
             kind: claim.kind().into(),
-            statement: claim.statement().to_string(),
+            // What the fields say: a statement that differs is not shown as if it were checked.
+            statement: render(claim, &ctx.ring, version),
             implicit: false,
-            outcome: check_claim(&ctx, claim),
+            outcome: check_claim(&ctx, claim, version),
         });
     }
     refused(&ctx).map_or(Ok(out), Err)

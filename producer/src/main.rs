@@ -44,13 +44,26 @@ enum Command {
     #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
     CheckInput { problem: PathBuf },
     /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
-    #[command(after_help = "Example:\n  tubecert bench --generators 100000 --seed 1")]
+    #[command(
+        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --density 9.4  # denser: 9.4 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3"
+    )]
     Bench {
+        /// Which problem: an inflated complex with a planted torsion order, or a Hom question
+        /// between reduced complexes over F2[U,V].
+        #[arg(long, value_enum, default_value = "inflated")]
+        case: tubecert::bench::Case,
         #[arg(long, default_value_t = 100_000)]
         generators: usize,
         /// Inflate the source complex too, to this many generators (maps between two big complexes).
         #[arg(long)]
         source_generators: Option<usize>,
+        /// Arrows per generator of the inflated complexes, about (default: five rounds of random
+        /// basis change, about 4.4).
+        #[arg(long, value_parser = parse_density)]
+        density: Option<f64>,
+        /// P,Q: the torus knot T(P,Q) of the reduced cases (default 13,14 for reduced-identity, 11,12 for reduced-uv).
+        #[arg(long, value_parser = parse_torus)]
+        torus: Option<(u32, u32)>,
         #[arg(long, default_value_t = 1)]
         seed: u64,
         /// Also write the problem and certificate here.
@@ -62,13 +75,16 @@ enum Command {
     },
     /// Prove every member of a family of problems given by a template.
     #[command(
-        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates"
+        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\n--shard I/N runs only the members at positions I, I+N, I+2N, … of the parameter order and\nwrites the same files a whole run writes for them: run shards 1/N … N/N anywhere (a job array,\na CI matrix), gather the folders, then tubecheck the result.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates\n  tubecert family examples/stair-tower.template.json --param p=1..6 --shard 2/3 --out part2"
     )]
     Family {
         template: PathBuf,
         /// NAME=LO..HI, e.g. p=1..8
         #[arg(long)]
         param: String,
+        /// I/N: prove only the members at positions I, I+N, I+2N, … (1 ≤ I ≤ N).
+        #[arg(long, value_name = "I/N")]
+        shard: Option<String>,
         #[arg(long, default_value = ".")]
         out: PathBuf,
     },
@@ -130,6 +146,25 @@ enum Command {
         #[arg(long, default_value = "tubecert-demo")]
         out: PathBuf,
     },
+}
+
+/// Arrows per generator for `--density`.
+fn parse_density(text: &str) -> Result<f64, String> {
+    match text.parse::<f64>() {
+        Ok(d) if (1.0..=40.0).contains(&d) => Ok(d),
+        _ => Err(format!("expected a number of arrows per generator between 1 and 40 (got \"{text}\")")),
+    }
+}
+
+/// `P,Q` for `--torus`.
+fn parse_torus(text: &str) -> Result<(u32, u32), String> {
+    let err = || format!("expected P,Q with 2 ≤ P, Q ≤ 40, e.g. 13,14 (got \"{text}\")");
+    let (p, q) = text.split_once(',').ok_or_else(err)?;
+    let (p, q): (u32, u32) = (p.trim().parse().map_err(|_| err())?, q.trim().parse().map_err(|_| err())?);
+    if !(2..=40).contains(&p) || !(2..=40).contains(&q) {
+        return Err(err());
+    }
+    Ok((p, q))
 }
 
 fn default_output(problem: &std::path::Path) -> PathBuf {
@@ -212,8 +247,9 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
-        Command::Bench { generators, source_generators, seed, out, no_header } => {
-            match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
+        Command::Bench { case, generators, source_generators, density, torus, seed, out, no_header } => {
+            let o = tubecert::bench::Options { case, generators, source_generators, density, seed, torus };
+            match tubecert::bench::run(&o, out.as_deref()) {
                 Ok((header, row)) => {
                     if !no_header {
                         say!("{header}");
@@ -227,8 +263,17 @@ fn main() -> ExitCode {
                 }
             }
         }
-        Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out, options) {
+        Command::Family { template, param, shard, out } => match shard
+            .as_deref()
+            .map(tubecert::family::parse_shard)
+            .transpose()
+            .map_err(|e| vec![e])
+            .and_then(|shard| tubecert::family::run(&template, &param, shard, &out, options))
+        {
             Ok((rows, all)) => {
+                if rows.is_empty() {
+                    say!("this shard has no members (there are fewer members than shards)");
+                }
                 for r in rows {
                     say!("{r}");
                 }

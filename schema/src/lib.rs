@@ -6,12 +6,14 @@
 //! - [`ring`]: the checked ring, degrees of monomials, the finiteness condition;
 //! - [`canonical`]: RFC 8785 canonical JSON and the body's SHA-256;
 //! - [`statement`]: the one wording of each claim;
-//! - [`limits`]: size limits on input.
+//! - [`limits`]: size limits on input;
+//! - [`names`]: the alphabet of names.
 #![forbid(unsafe_code)]
 
 pub mod canonical;
 pub mod limits;
 pub mod model;
+pub mod names;
 pub mod poly;
 pub mod ring;
 pub mod statement;
