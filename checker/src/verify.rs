@@ -227,18 +227,30 @@ pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
         Claim::Homology { complex, witness, .. } => (vec![complex], Some(witness)),
         Claim::TorsionOrderOfComplex { complex, variable, witness, .. } => (vec![complex, variable], Some(witness)),
         Claim::Tau { complex, alexander, witness, .. } => (vec![complex, alexander], Some(witness)),
+        Claim::TypeDStructure { structure, .. } => (vec![structure], None),
+        Claim::TypeAModule { module, .. } => (vec![module], None),
+        Claim::TypeDMorphism { morphism, .. } => (vec![morphism], None),
+        Claim::BoxTensor { complex, module, structure, .. } => (vec![complex, module, structure], None),
+        Claim::BoxTensorMap { map, module, morphism, .. } => (vec![map, module, morphism], None),
+        Claim::Complement { complex, structure, .. } => (vec![complex, structure], None),
     };
     let generators = basis.into_iter().flat_map(|w| w.generators.keys());
     names.into_iter().chain(generators).try_for_each(|n| check_name(n))
 }
 
-/// Verifies one claim of a certificate of format `version`; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
-    let vars = &ctx.ring.variables;
+/// The claim's statement is the checker's own wording of its fields.
+pub fn check_statement(ctx: &Context, claim: &Claim, version: u32) -> Result<(), String> {
     let expected = render(claim, &ctx.ring, version);
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
+    Ok(())
+}
+
+/// Verifies one claim of a certificate of format `version`; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
+    let vars = &ctx.ring.variables;
+    check_statement(ctx, claim, version)?;
     let mut facts = BTreeMap::new();
     match claim {
         Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
@@ -329,6 +341,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
                 facts.insert("reading".into(), json!(surface_reading(variable, *order)));
             }
         }
+        _ => return Err("a bordered claim is checked by crate::bordered".into()),
     }
     Ok(facts)
 }
@@ -364,24 +377,67 @@ pub fn check_body(
     version: u32,
     work_limit: u64,
 ) -> Result<Vec<ClaimResult>, Vec<String>> {
+    use crate::bordered::{Failure, Objects};
     let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     for (i, claim) in body.claims.iter().enumerate() {
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
+    let b = body.bordered.as_ref();
+    let mut objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
+    if let Some(b) = b {
+        let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
+        names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
+        names.sort();
+        names.iter().try_for_each(|n| check_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
+        if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
+            return Err(vec![format!(
+                "the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)",
+                w[0]
+            )]);
+        }
+    }
     ctx.work = crate::load::Work::new(work_limit);
     let refused = |ctx: &Context| ctx.work.refused().map(|e| vec![e.clone()]);
     let mut out = check_objects(&ctx);
+    if let Some(o) = objects.as_mut() {
+        o.full.work = crate::load::Work::new(work_limit);
+        out.extend(check_objects(&o.full));
+        if let Some(e) = refused(&o.full) {
+            return Err(e);
+        }
+    }
     for claim in &body.claims {
         if let Some(e) = refused(&ctx) {
             return Err(e);
         }
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
+            None => check_claim(&ctx, claim, version),
+            Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
+            Some(Err(Failure::False(e))) => Err(e),
+            Some(Ok(facts)) => Ok(facts),
+        };
         out.push(ClaimResult {
             kind: claim.kind().into(),
             // What the fields say: a statement that differs is not shown as if it were checked.
             statement: render(claim, &ctx.ring, version),
             implicit: false,
-            outcome: check_claim(&ctx, claim, version),
+            outcome,
         });
     }
     refused(&ctx).map_or(Ok(out), Err)
+}
+
+/// The number of written items (generators, terms, families, claims) of a body: the work
+/// budget of the bordered checks is proportional to it.
+fn written_items(body: &tubecert_format::Body) -> u64 {
+    let cx = |c: &tubecert_format::ComplexSpec| c.generators.len() + c.differential.len();
+    let mut n = body.claims.len() + body.complexes.values().map(cx).sum::<usize>();
+    n += body.maps.values().map(|m| m.terms.len()).sum::<usize>();
+    if let Some(b) = &body.bordered {
+        n += b.full_complexes.values().map(cx).sum::<usize>();
+        n += b.type_d_structures.values().map(|d| d.generators.len() + d.differential.len()).sum::<usize>();
+        n += b.type_a_modules.values().map(|m| m.generators.len() + m.operations.len()).sum::<usize>();
+        n += b.type_d_morphisms.values().map(|f| f.terms.len()).sum::<usize>();
+    }
+    n as u64 + 1
 }
