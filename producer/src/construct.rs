@@ -383,6 +383,7 @@ pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> 
 }
 
 /// Builds one complex; `Ok(None)` when it depends on one not built yet.
+#[allow(clippy::too_many_arguments)]
 fn build_complex(
     ring: &Ring,
     name: &str,
