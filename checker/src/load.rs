@@ -8,7 +8,9 @@ use crate::report_terms::suggest;
 use std::collections::{BTreeMap, HashMap};
 use std::sync::atomic::{AtomicU64, AtomicUsize, Ordering::Relaxed};
 use std::sync::OnceLock;
-use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS};
+use tubecert_format::limits::{
+    grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS,
+};
 use tubecert_format::names::{check_map_name, check_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
@@ -329,7 +331,7 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
         if let Err(e) = check_name(g) {
             errs.push(format!("complex {name}, generator {e}"));
         }
-        if gr.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+        if !gr.iter().all(|&x| grading_in_bounds(x)) {
             well_graded = false;
             errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
         } else if gr.len() != ring.gradings.len() {
@@ -396,7 +398,7 @@ pub fn load_lenient(
         let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else {
             continue;
         };
-        if spec.degree.len() != ctx.ring.gradings.len() || spec.degree.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+        if spec.degree.len() != ctx.ring.gradings.len() || !spec.degree.iter().all(|&x| grading_in_bounds(x)) {
             errs.push(format!(
                 "map {name}: degree must have {} entries within ±{MAX_GRADING_ABS}, found {}",
                 ctx.ring.gradings.len(),
@@ -498,5 +500,62 @@ impl Context {
             self.complexes[v.to].name,
             render_grading(&v.degree)
         )
+    }
+}
+
+impl Context {
+    /// Complex c with the variable `var` set to `value`: 0 gives the quotient C/(var), 1 the
+    /// localization C/(var − 1), over the ring in the other variable. Setting var to 1 keeps
+    /// only the gradings var does not change (the others stop being gradings). A context of its
+    /// own, holding just that complex, so every check on one complex applies to it unchanged.
+    pub fn specialized(&self, c: usize, var: &str, value: u32) -> Result<Context, String> {
+        let r = &self.ring;
+        let v = r.var_index(var).ok_or_else(|| format!("variable {var} is not declared"))?;
+        let keep: Vec<usize> = (0..r.gradings.len()).filter(|&i| value == 0 || r.var_degrees[v][i] == 0).collect();
+        let others: Vec<usize> = (0..r.num_vars()).filter(|&i| i != v).collect();
+        if keep.is_empty() || value > 1 {
+            return Err(format!("{var} = {value} leaves no grading"));
+        }
+        let pick = |g: &[i64]| keep.iter().map(|&i| g[i]).collect::<Grading>();
+        let ring = RingInfo {
+            variables: others.iter().map(|&i| r.variables[i].clone()).collect(),
+            gradings: keep.iter().map(|&i| r.gradings[i].clone()).collect(),
+            var_degrees: others.iter().map(|&i| pick(&r.var_degrees[i])).collect(),
+            differential_degree: pick(&r.differential_degree),
+        };
+        let relabel = |m: Mono| {
+            let mut out = Mono::ONE;
+            others.iter().enumerate().for_each(|(k, &i)| out.0[k] = m.0[i]);
+            out
+        };
+        let cx = &self.complexes[c];
+        let rows = cx.d.rows.iter().map(|row| {
+            let mut out: Vec<(u32, Mono)> =
+                row.iter().filter(|t| value == 1 || t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect();
+            crate::algebra::normalize(&mut out);
+            out
+        });
+        let gradings: Vec<Grading> = cx.gradings.iter().map(pick).collect();
+        let name = format!("{}/({var}{})", cx.name, if value == 1 { " − 1" } else { "" });
+        let complex = Complex {
+            name: name.clone(),
+            names: cx.names.clone(),
+            index: NameIndex::new(cx.names.iter()),
+            gradings: Gradings::new(keep.len(), gradings.iter().map(|g| g.as_slice())),
+            d: SparseMap { rows: rows.collect() },
+            defects: cx.defects.clone(),
+        };
+        let complex_index = BTreeMap::from([(name, 0)]);
+        // The quotient is no larger than the complex: its checks get the same budget again.
+        let (work, hints) = (Work::new(self.work.limit), AtomicUsize::new(0));
+        Ok(Context {
+            ring,
+            complexes: vec![complex],
+            complex_index,
+            maps: vec![],
+            map_index: BTreeMap::new(),
+            work,
+            hints,
+        })
     }
 }

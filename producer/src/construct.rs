@@ -7,6 +7,7 @@ use crate::bordered::Built;
 use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
+use tubecert_format::limits::{grading_in_bounds, MAX_GRADING_ABS};
 use tubecert_format::poly::parse_poly;
 use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Ring, Term, UniqueMap};
 
@@ -241,6 +242,30 @@ fn written_entries(complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, 
     (c + maps.values().map(|v| len(v, "terms")).sum::<usize>()) as u64
 }
 
+/// The size of what a construction from complexes already built will make (0 for the others,
+/// which are counted once built: staircases, quotients and bordered constructions).
+fn planned_size(v: &Value, done: &Complexes, maps: &BTreeMap<String, MapSpec>) -> u64 {
+    let Some((op, arg)) = v.as_object().filter(|o| o.len() == 1).and_then(|o| o.iter().next()) else { return 0 };
+    let get = |x: Option<&Value>| x.and_then(Value::as_str).and_then(|n| done.get(n));
+    match op.as_str() {
+        "tensor" => get(arg.get(0)).zip(get(arg.get(1))).map_or(0, |(c, d)| {
+            let (gc, gd) = (c.generators.len() as u64, d.generators.len() as u64);
+            let terms = (c.differential.len() as u64)
+                .saturating_mul(gd)
+                .saturating_add((d.differential.len() as u64).saturating_mul(gc));
+            gc.saturating_mul(gd).saturating_add(terms)
+        }),
+        "direct_sum" => get(arg.get(0)).zip(get(arg.get(1))).map_or(0, |(c, d)| size(c) + size(d)),
+        "dual" => get(Some(arg)).map_or(0, size),
+        "shift" => get(arg.get(0)).map_or(0, size),
+        "cone" => arg.as_str().and_then(|f| maps.get(f)).map_or(0, |m| {
+            let (c, d) = (done.get(&m.from).map_or(0, size), done.get(&m.to).map_or(0, size));
+            c + d + m.terms.len() as u64
+        }),
+        _ => 0,
+    }
+}
+
 /// Resolves the complexes and maps of a problem whose entries may be constructions, in
 /// dependency order. Explicit entries are taken as they are.
 pub fn resolve(
@@ -248,7 +273,10 @@ pub fn resolve(
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, Value>,
     sections: [&BTreeMap<String, Value>; 3],
+    text: bool,
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
+    // The ring's degrees enter the constructions' arithmetic (cones): checked first.
+    tubecert_format::RingInfo::new(ring)?;
     use tubecert_format::limits::{CONSTRUCTED_BASE, CONSTRUCTED_PER_ENTRY, MAX_SUGGESTIONS};
     let mut made =
         Made(CONSTRUCTED_BASE.saturating_add(CONSTRUCTED_PER_ENTRY.saturating_mul(written_entries(complexes, maps))));
@@ -263,6 +291,9 @@ pub fn resolve(
     for (name, v) in maps {
         if v.get("from").is_some() {
             match serde_json::from_value::<MapSpec>(v.clone()) {
+                Ok(m) if !m.degree.iter().all(|&x| grading_in_bounds(x)) => {
+                    errs.push(format!("map {name}: a degree entry is beyond ±{MAX_GRADING_ABS}"))
+                }
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -275,10 +306,7 @@ pub fn resolve(
     let mut waiting: BTreeMap<&String, usize> = BTreeMap::new();
     let mut ready = std::collections::VecDeque::new();
     for (name, v) in complexes {
-        let mut refs = referenced(v);
-        if let Some(m) = v.get("cone").and_then(Value::as_str).and_then(|f| done_maps.get(f)) {
-            refs.extend([m.from.as_str(), m.to.as_str()]);
-        }
+        let mut refs = referenced(v, &done_maps);
         refs.sort_unstable();
         refs.dedup();
         refs.retain(|r| complexes.contains_key(*r));
@@ -310,15 +338,26 @@ pub fn resolve(
     }
     let mut hints = MAX_SUGGESTIONS;
     for n in complexes.keys().filter(|n| !done.contains_key(*n) && !failed.contains(n)) {
-        let refs = referenced(&complexes[n]);
+        let refs = referenced(&complexes[n], &done_maps);
         errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
             Some(m) => {
+                // A suggestion never names the complex being defined.
+                let others = complexes.keys().filter(|k| *k != n);
                 hints = hints.saturating_sub(1);
-                let hint =
-                    if hints > 0 { tubecheck::report_terms::suggest(m, complexes.keys()) } else { String::new() };
+                let hint = if hints > 0 { tubecheck::report_terms::suggest(m, others) } else { String::new() };
                 format!("complex {n}: complex \"{m}\" is not declared{hint}")
             }
-            None => format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", ")),
+            None => {
+                let waiting: Vec<&str> = refs.into_iter().filter(|r| !done.contains_key(*r)).collect();
+                match waiting.as_slice() {
+                    [] => format!("complex {n}: its pieces could not be built (see the errors above)"),
+                    w if w.contains(&n.as_str()) => format!("complex {n}: is built from itself"),
+                    w => format!(
+                        "complex {n}: is built from {} (which could not be built, or is built from {n} in turn)",
+                        w.join(", ")
+                    ),
+                }
+            }
         });
     }
     // A tensor_maps entry finds the tensor complexes of its source and target here.
@@ -338,7 +377,7 @@ pub fn resolve(
                 Err(e) => errs.push(format!("map {name}: {e}")),
             }
         } else if let Some(arg) = v.get("tensor_maps") {
-            match build_tensor_map(ring, arg, &tensors, &done_maps, &mut made) {
+            match build_tensor_map(ring, arg, &tensors, &done_maps, text, &mut made) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -358,9 +397,10 @@ pub fn resolve(
 }
 
 /// The complexes a construction is made from, by name.
-fn referenced(v: &Value) -> Vec<&str> {
+fn referenced<'a>(v: &'a Value, maps: &'a BTreeMap<String, MapSpec>) -> Vec<&'a str> {
     let Some((op, arg)) = v.as_object().and_then(|o| o.iter().next()) else { return Vec::new() };
     match (op.as_str(), arg) {
+        ("cone", Value::String(f)) => maps.get(f).map_or(vec![], |m| vec![m.from.as_str(), m.to.as_str()]),
         ("tensor" | "direct_sum", Value::Array(a)) => a.iter().filter_map(Value::as_str).collect(),
         ("dual", Value::String(c)) => vec![c.as_str()],
         ("shift", Value::Array(a)) => a.first().and_then(Value::as_str).into_iter().collect(),
@@ -375,14 +415,16 @@ pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> 
         let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
         torus_knot_exponents(p, q)?
     } else if let Some(a) = arg.get("alexander") {
-        serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
+        bounded("alexander", a)?
     } else {
         return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
     };
     staircase(ring, &exps)
 }
 
-/// Builds one complex; `Ok(None)` when it depends on one not built yet.
+/// Builds one complex; `Ok(None)` when it depends on one not built yet. Its gradings must be
+/// within the format's bounds, so the inputs of every construction are, and the sums a
+/// construction makes (at most twice the bound) cannot overflow.
 #[allow(clippy::too_many_arguments)]
 fn build_complex(
     ring: &Ring,
@@ -393,6 +435,44 @@ fn build_complex(
     defs: &BTreeMap<String, Value>,
     bordered: &mut Built,
     made: &mut Made,
+) -> Result<Option<ComplexSpec>, String> {
+    let what = v.as_object().and_then(|o| o.keys().next()).map_or("it".to_string(), |op| format!("the {op}"));
+    let planned = planned_size(v, done, maps);
+    made.take(planned, &what)?;
+    let built = construct_complex(ring, name, v, done, maps, defs, bordered)?;
+    if let Some(c) = built.as_ref().filter(|_| planned == 0 && v.get("generators").is_none()) {
+        made.take(size(c), &what)?;
+    }
+    built.as_ref().map_or(Ok(()), check_bounds)?;
+    Ok(built)
+}
+
+fn check_bounds(c: &ComplexSpec) -> Result<(), String> {
+    for (g, gr) in c.generators.iter() {
+        if let Some(x) = gr.iter().find(|&&x| !grading_in_bounds(x)) {
+            return Err(format!("generator \"{g}\" has a grading entry {x}, beyond ±{MAX_GRADING_ABS}"));
+        }
+    }
+    Ok(())
+}
+
+/// Integers written in a construction, bounded before any arithmetic.
+fn bounded(what: &str, v: &Value) -> Result<Vec<i64>, String> {
+    let xs: Vec<i64> = serde_json::from_value(v.clone()).map_err(|e| format!("{what}: {e}"))?;
+    match xs.iter().find(|&&x| !grading_in_bounds(x)) {
+        Some(x) => Err(format!("{what}: {x} is beyond ±{MAX_GRADING_ABS}")),
+        None => Ok(xs),
+    }
+}
+
+fn construct_complex(
+    ring: &Ring,
+    name: &str,
+    v: &Value,
+    done: &Complexes,
+    maps: &BTreeMap<String, MapSpec>,
+    defs: &BTreeMap<String, Value>,
+    bordered: &mut Built,
 ) -> Result<Option<ComplexSpec>, String> {
     if v.get("generators").is_some() {
         return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
@@ -411,48 +491,29 @@ fn build_complex(
     };
     let get = |n: &str| done.get(n);
     Ok(match op.as_str() {
-        "staircase" => {
-            let s = build_staircase(ring, arg)?;
-            made.take(size(&s), "the staircase")?;
-            Some(s)
-        }
+        "staircase" => Some(build_staircase(ring, arg)?),
         "tensor" | "direct_sum" => {
             let n = names(2)?;
             let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
-            if op == "tensor" {
-                let (gc, gd) = (c.generators.len() as u64, d.generators.len() as u64);
-                let terms = (c.differential.len() as u64)
-                    .saturating_mul(gd)
-                    .saturating_add((d.differential.len() as u64).saturating_mul(gc));
-                made.take(gc.saturating_mul(gd).saturating_add(terms), "the tensor product")?;
-                Some(tensor(c, d)?)
-            } else {
-                made.take(size(c) + size(d), "the direct sum")?;
-                Some(direct_sum(&n[0], c, &n[1], d, None)?)
-            }
+            Some(if op == "tensor" { tensor(c, d)? } else { direct_sum(&n[0], c, &n[1], d, None)? })
         }
         "dual" => {
             let n = arg.as_str().ok_or("\"dual\" takes a complex name")?;
-            let Some(c) = get(n) else { return Ok(None) };
-            made.take(size(c), "the dual")?;
-            Some(dual(c))
+            get(n).map(dual)
         }
         "shift" => {
             let a = arg.as_array().filter(|a| a.len() == 2).ok_or("\"shift\" takes [complex, [shift…]]")?;
             let n = a[0].as_str().ok_or("shift: expected a complex name")?;
-            let s: Vec<i64> = serde_json::from_value(a[1].clone()).map_err(|e| format!("shift: {e}"))?;
+            let s = bounded("shift", &a[1])?;
             if s.len() != ring.gradings.len() {
                 return Err(format!("shift has {} entries, expected {}", s.len(), ring.gradings.len()));
             }
-            let Some(c) = get(n) else { return Ok(None) };
-            made.take(size(c), "the shift")?;
-            Some(shift(c, &s))
+            get(n).map(|c| shift(c, &s))
         }
         "cone" => {
             let f = arg.as_str().ok_or("\"cone\" takes a map name")?;
             let m = maps.get(f).ok_or(format!("cone: map \"{f}\" must be an explicit declared map"))?;
             let (Some(c), Some(d)) = (get(&m.from), get(&m.to)) else { return Ok(None) };
-            made.take(size(c) + size(d) + m.terms.len() as u64, "the cone")?;
             Some(direct_sum(&m.from, c, &m.to, d, Some((m, &ring.differential_degree)))?)
         }
         "quotient" => {
@@ -468,18 +529,11 @@ fn build_complex(
                 return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
             }
             let src = crate::bordered::inline_source(&source_ring, &a[0], defs, 0).map_err(|e| format!("quotient source: {e}"))?;
-            made.take(size(&src), "the quotient")?;
+            check_bounds(&src)?;
             Some(quotient(&source_ring, ring, &src)?)
         }
-        "cable" | "box_tensor" => {
-            let c = if op == "cable" {
-                crate::bordered::cable(name, arg, ring, defs, bordered)?
-            } else {
-                crate::bordered::box_tensor_complex(name, arg, bordered)?
-            };
-            made.take(size(&c), &format!("the {op}"))?;
-            Some(c)
-        }
+        "cable" => Some(crate::bordered::cable(name, arg, ring, defs, bordered)?),
+        "box_tensor" => Some(crate::bordered::box_tensor_complex(name, arg, bordered)?),
         other => {
             return Err(format!(
                 "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient, cable, box_tensor)"
@@ -546,6 +600,7 @@ fn build_tensor_map(
     arg: &Value,
     tensors: &BTreeMap<(&str, &str), &String>,
     maps: &BTreeMap<String, MapSpec>,
+    text: bool,
     made: &mut Made,
 ) -> Result<MapSpec, String> {
     let pair: [String; 2] =
@@ -555,10 +610,14 @@ fn build_tensor_map(
         maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?,
     );
     let find = |a: &str, b: &str| {
-        tensors
-            .get(&(a, b))
-            .map(|n| n.to_string())
-            .ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
+        tensors.get(&(a, b)).map(|n| n.to_string()).ok_or(match text {
+            true => {
+                format!("tensor_maps: declare the tensor product of {a} and {b} first: complex NAME = tensor {a} {b}")
+            }
+            false => format!(
+                "tensor_maps: declare the tensor product of {a} and {b} first: {{\"tensor\": [\"{a}\", \"{b}\"]}}"
+            ),
+        })
     };
     // Each pair of terms makes the products of their monomials.
     let monomials = |m: &MapSpec| m.terms.iter().map(|t| 1 + t[1].matches('+').count() as u64).sum::<u64>();

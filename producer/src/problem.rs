@@ -110,6 +110,9 @@ pub struct WrittenProblem {
     pub type_a_modules: UniqueMap<serde_json::Value>,
     #[serde(default)]
     pub type_d_morphisms: UniqueMap<serde_json::Value>,
+    /// Written in the text format: messages then speak its notation.
+    #[serde(skip)]
+    pub text: bool,
 }
 
 /// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
@@ -117,7 +120,8 @@ pub struct WrittenProblem {
 pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
     let text = std::str::from_utf8(bytes).map_err(|e| prefix(vec![format!(" not UTF-8 text: {e}")]))?;
-    let value = if is_json(text) {
+    let json = is_json(text);
+    let value = if json {
         // The common large case, a problem written out in full, is read typed in one pass,
         // with the repeated-key walk beside it on the other core. Anything else (constructions,
         // errors) goes on through the written form, which resolves constructions and gives the
@@ -134,8 +138,9 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     } else {
         crate::text_format::parse(text).map_err(|es| prefix(capped(es)))?
     };
-    let w: WrittenProblem =
+    let mut w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
+    w.text = !json;
     from_written(w).map_err(|es| {
         let lines = crate::text_format::SourceLines::of(bytes);
         capped(es).iter().map(|e| lines.locate(name, e)).collect()
@@ -164,12 +169,13 @@ fn json_error(e: &serde_json::Error) -> String {
 }
 
 /// A JSON object keeps only the last of repeated keys: refuse them, so that a generator declared
-/// twice is an error rather than silently dropped.
+/// twice is an error rather than silently dropped. `null` is refused too: the format has none,
+/// and reading it as an absent field would make two different files mean the same.
 pub fn refuse_repeated_keys(json: &str) -> Result<(), String> {
     serde_json::from_str::<NoRepeatedKeys>(json).map(|_| ()).map_err(|e| json_error(&e))
 }
 
-/// Walks a JSON document and fails on an object with a repeated key.
+/// Walks a JSON document and fails on an object with a repeated key or on a `null`.
 struct NoRepeatedKeys;
 
 impl<'de> Deserialize<'de> for NoRepeatedKeys {
@@ -209,8 +215,9 @@ impl<'de> Deserialize<'de> for NoRepeatedKeys {
             fn visit_str<E>(self, _: &str) -> Result<NoRepeatedKeys, E> {
                 Ok(NoRepeatedKeys)
             }
-            fn visit_unit<E>(self) -> Result<NoRepeatedKeys, E> {
-                Ok(NoRepeatedKeys)
+            fn visit_unit<E: serde::de::Error>(self) -> Result<NoRepeatedKeys, E> {
+                // The format has no null (see the JSON Schema): leave an optional field out.
+                Err(E::custom("null is not a value of the format (leave an optional field out)"))
             }
         }
         d.deserialize_any(V)
@@ -272,7 +279,7 @@ pub fn from_written(mut w: WrittenProblem) -> Result<Problem, Vec<String>> {
         )]);
     }
     let sections = [&w.type_d_structures.0, &w.type_a_modules.0, &w.type_d_morphisms.0];
-    let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections)?;
+    let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections, w.text)?;
     let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
     if let Ok(ring) = tubecert_format::RingInfo::new(&w.ring) {
         for c in &mut bordered_claims {
