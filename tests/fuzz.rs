@@ -1,5 +1,5 @@
 //! Fuzzing the checker's parser and verifier and the producer's reader: random byte-level and
-//! JSON-level damage to stored certificates and problems must give a result or a clear error,
+//! JSON-level damage to stored certificates and problems, and work bombs (`bombs.rs`), must give a result or a clear error,
 //! never a panic. Hostile names (statement syntax, invisible and control characters) must be
 //! refused naming their code point, and changes to τ's grading or the format version must be
 //! caught whenever the oracle's own wording disagrees. Small by default (CI); for a long run:
@@ -324,5 +324,25 @@ fn rewrite_nth_coefficient(v: &mut Value, k: usize, i: &mut usize) {
         Value::Array(items) => items.iter_mut().for_each(|x| rewrite_nth_coefficient(x, k, i)),
         Value::Object(m) => m.values_mut().for_each(|x| rewrite_nth_coefficient(x, k, i)),
         _ => {}
+    }
+}
+
+proptest! {
+    // Each case builds a file of up to a few MB: few cases by default.
+    #![proptest_config(ProptestConfig::with_cases(tubecert_tests::cases(8)))]
+
+    /// Work bombs (`bombs.rs`) at random scales: refused or answered, quickly; whatever is
+    /// accepted satisfies the oracle.
+    #[test]
+    fn work_bombs_are_refused_or_bounded(kind: usize, n in 1_000usize..40_000) {
+        let bytes = tubecert_tests::bombs::certificate_bomb(kind, n);
+        let start = std::time::Instant::now();
+        let result = tubecheck::check_bytes("bomb", &bytes);
+        prop_assert!(start.elapsed() < std::time::Duration::from_secs(10), "bomb {kind} at {n}: {:?}", start.elapsed());
+        if let Ok(report) = result {
+            if report.ok() {
+                prop_assert!(tubecert_tests::oracle::holds(&report.body));
+            }
+        }
     }
 }

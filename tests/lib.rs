@@ -818,3 +818,5 @@ pub mod wording {
         })
     }
 }
+
+pub mod bombs;

@@ -100,6 +100,18 @@ impl SparseMap {
         Ok(SparseMap { rows })
     }
 
+    /// Rows and terms: the work of copying the map.
+    pub fn size(&self) -> u64 {
+        self.rows.iter().fold(0u64, |n, r| n.saturating_add(1 + r.len() as u64))
+    }
+
+    /// The work of `self ∘ inner` (and the most terms it can have): one per row, plus for each
+    /// term of `inner` the length of the row of `self` it reaches.
+    pub fn work_after(&self, inner: &SparseMap) -> u64 {
+        let row = |r: &Vector| r.iter().fold(1u64, |n, &(y, _)| n.saturating_add(self.rows[y as usize].len() as u64));
+        inner.rows.iter().fold(0u64, |n, r| n.saturating_add(row(r)))
+    }
+
     /// For each target generator marked in `wanted`, the (source, monomial) terms that reach it.
     pub fn incoming_to(&self, wanted: &[bool]) -> Vec<Vector> {
         let mut inc = vec![Vec::new(); wanted.len()];

@@ -6,15 +6,20 @@
 use crate::algebra::SparseMap;
 use crate::report_terms::suggest;
 use std::collections::{BTreeMap, HashMap};
-use tubecert_format::limits::{grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
+use std::sync::atomic::{AtomicU64, AtomicUsize, Ordering::Relaxed};
+use std::sync::OnceLock;
+use tubecert_format::limits::{
+    grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS,
+};
 use tubecert_format::names::{check_map_name, check_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
 use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
 
-/// Collected error messages, capped at [`MAX_REPORTED_ERRORS`].
+/// Collected error messages, capped at [`MAX_REPORTED_ERRORS`], and how many unknown names
+/// may still get a "did you mean" (none by default: only a file's loading suggests).
 #[derive(Debug, Default)]
-pub struct Errors(pub Vec<String>);
+pub struct Errors(pub Vec<String>, pub usize);
 
 impl Errors {
     pub fn push(&mut self, msg: String) {
@@ -122,6 +127,47 @@ pub struct Context {
     pub complex_index: BTreeMap<String, usize>,
     pub maps: Vec<Map>,
     pub map_index: BTreeMap<String, usize>,
+    /// The file's work budget; unlimited until the caller sets one.
+    pub work: Work,
+    /// "Did you mean" suggestions left for this file.
+    pub hints: AtomicUsize,
+}
+
+/// The work budget of one file (`limits::work_limit`). Each check counts the units it is
+/// about to spend (terms touched, rows allocated) and is refused before starting beyond it;
+/// once refused, the file is unreadable (exit 2), never a failed claim.
+#[derive(Debug)]
+pub struct Work {
+    pub limit: u64,
+    used: AtomicU64,
+    refused: OnceLock<String>,
+}
+
+impl Work {
+    pub fn new(limit: u64) -> Work {
+        Work { limit, used: AtomicU64::new(0), refused: OnceLock::new() }
+    }
+    /// Counts `units` for `what`; an error naming the limit if the file's work would pass it.
+    pub fn spend(&self, units: u64, what: &str) -> Result<(), String> {
+        let before = self.used.fetch_update(Relaxed, Relaxed, |u| Some(u.saturating_add(units))).unwrap_or(0);
+        if before.saturating_add(units) <= self.limit {
+            return Ok(());
+        }
+        let msg = format!(
+            "work limit: {what} needs {units} units of work (terms touched, rows allocated), beyond the {} this file may use (limits::work_limit: {} per byte + {})",
+            self.limit,
+            tubecert_format::limits::WORK_PER_BYTE,
+            tubecert_format::limits::WORK_BASE
+        );
+        Err(self.refused.get_or_init(|| msg).clone())
+    }
+    /// The first refusal, if the budget ran out.
+    pub fn refused(&self) -> Option<&String> {
+        self.refused.get()
+    }
+    pub fn used(&self) -> u64 {
+        self.used.load(Relaxed)
+    }
 }
 
 /// A map computed from an expression or a witness, with its source, target and degree.
@@ -161,16 +207,14 @@ fn resolve(
     offset: usize,
     what: &str,
     single_monomial: bool,
+    hints: usize,
 ) -> (Vec<(u32, u32, Mono)>, Vec<String>, Vec<String>) {
     let (mut triples, mut errs, mut defects) = (Vec::with_capacity(terms.len()), Vec::new(), Vec::new());
     let lookup = |c: &Complex, n: &str, errs: &mut Vec<String>, pos: usize| {
         let found = c.index.get(n);
         if found.is_none() && errs.len() <= MAX_REPORTED_ERRORS {
-            errs.push(format!(
-                "{what}, term {pos}: generator \"{n}\" is not in complex {}{}",
-                c.name,
-                suggest(n, c.names.iter())
-            ));
+            let hint = if errs.len() < hints { suggest(n, c.names.iter()) } else { String::new() };
+            errs.push(format!("{what}, term {pos}: generator \"{n}\" is not in complex {}{hint}", c.name));
         }
         found
     };
@@ -241,11 +285,13 @@ pub fn read_terms(
         return (map, Vec::new());
     }
     // Name lookups dominate loading a large complex: two halves on the machine's two cores.
+    let hints = errs.1;
     let parts = in_two_halves(terms.len(), |r| {
-        resolve(ring, src, dst, degree, &terms[r.clone()], r.start, what, single_monomial)
+        resolve(ring, src, dst, degree, &terms[r.clone()], r.start, what, single_monomial, hints)
     });
     let mut defects = Vec::new();
     for (triples, part_errs, part_defects) in parts {
+        errs.1 = errs.1.saturating_sub(part_errs.len());
         part_errs.into_iter().for_each(|e| errs.push(e));
         defects.extend(part_defects);
         for (x, y, m) in triples {
@@ -334,11 +380,19 @@ pub fn load_lenient(
     if !bad.is_empty() {
         return Err(bad);
     }
-    let mut errs = Errors::default();
+    let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
     let complexes: Vec<Complex> = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
     let complex_index: BTreeMap<String, usize> =
         complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
-    let mut ctx = Context { ring, complexes, complex_index, maps: Vec::new(), map_index: BTreeMap::new() };
+    let mut ctx = Context {
+        ring,
+        complexes,
+        complex_index,
+        maps: Vec::new(),
+        map_index: BTreeMap::new(),
+        work: Work::new(u64::MAX),
+        hints: AtomicUsize::new(errs.1),
+    };
     for (name, spec) in maps.iter() {
         let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
         let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else {
@@ -354,7 +408,9 @@ pub fn load_lenient(
         }
         let what = format!("map {name}");
         let (c, d) = (&ctx.complexes[from], &ctx.complexes[to]);
+        errs.1 = ctx.hints.load(Relaxed);
         let (m, defects) = read_terms(&ctx.ring, c, d, &spec.degree, &spec.terms, &what, false, &mut errs);
+        ctx.hints.store(errs.1, Relaxed);
         ctx.map_index.insert(name.clone(), ctx.maps.len());
         ctx.maps.push(Map { from, to, degree: spec.degree.clone(), m, defects });
     }
@@ -362,9 +418,15 @@ pub fn load_lenient(
 }
 
 impl Context {
+    /// "Did you mean" for an unknown name, while this file has suggestions left.
+    pub fn hint<'a>(&self, name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
+        let left = self.hints.fetch_update(Relaxed, Relaxed, |h| h.checked_sub(1));
+        left.map_or(String::new(), |_| suggest(name, known))
+    }
+
     pub fn complex_named(&self, name: &str) -> Result<usize, String> {
         let found = self.complex_index.get(name).copied();
-        found.ok_or_else(|| format!("complex \"{name}\" is not declared{}", suggest(name, self.complex_index.keys())))
+        found.ok_or_else(|| format!("complex \"{name}\" is not declared{}", self.hint(name, self.complex_index.keys())))
     }
 
     /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
@@ -374,18 +436,21 @@ impl Context {
                 let &i = self
                     .map_index
                     .get(n)
-                    .ok_or_else(|| format!("map \"{n}\" is not declared{}", suggest(n, self.map_index.keys())))?;
+                    .ok_or_else(|| format!("map \"{n}\" is not declared{}", self.hint(n, self.map_index.keys())))?;
                 let m = &self.maps[i];
+                self.work.spend(m.m.size(), &format!("a copy of map {n}"))?;
                 Ok(Evaluated { from: m.from, to: m.to, degree: m.degree.clone(), m: m.m.clone() })
             }
             MapExpr::Id(c) => {
                 let c = self.complex_named(c)?;
                 let n = self.complexes[c].names.len();
+                self.work.spend(n as u64, "an identity map")?;
                 Ok(Evaluated { from: c, to: c, degree: vec![0; self.ring.gradings.len()], m: SparseMap::identity(n) })
             }
             MapExpr::Times(mono, inner) => {
                 let m = parse_mono(mono, &self.ring.variables)?;
                 let v = self.eval(inner)?;
+                self.work.spend(v.m.size(), "a multiple of a map")?;
                 Ok(Evaluated { degree: grading_sum(&v.degree, &self.ring.degree(m)), m: v.m.times(m)?, ..v })
             }
             MapExpr::Sum(es) => {
@@ -399,6 +464,7 @@ impl Context {
                             self.signature(&v)
                         ));
                     }
+                    self.work.spend(acc.m.size().saturating_add(v.m.size()), "a sum of maps")?;
                     acc.m = acc.m.plus(&v.m);
                 }
                 Ok(acc)
@@ -414,6 +480,7 @@ impl Context {
                             self.signature(&acc)
                         ));
                     }
+                    self.work.spend(outer.m.work_after(&acc.m), "a composition of maps")?;
                     acc = Evaluated {
                         from: acc.from,
                         to: outer.to,
@@ -479,6 +546,16 @@ impl Context {
             defects: cx.defects.clone(),
         };
         let complex_index = BTreeMap::from([(name, 0)]);
-        Ok(Context { ring, complexes: vec![complex], complex_index, maps: vec![], map_index: BTreeMap::new() })
+        // The quotient is no larger than the complex: its checks get the same budget again.
+        let (work, hints) = (Work::new(self.work.limit), AtomicUsize::new(0));
+        Ok(Context {
+            ring,
+            complexes: vec![complex],
+            complex_index,
+            maps: vec![],
+            map_index: BTreeMap::new(),
+            work,
+            hints,
+        })
     }
 }

@@ -4,28 +4,40 @@
 
 use crate::algebra::{normalize, Vector};
 use crate::load::Context;
+use tubecert_format::limits::{MAX_SUGGESTED_NAME, MAX_SUGGESTION_CANDIDATES};
 use tubecert_format::Mono;
 
-/// A close known name, for "did you mean" (skipped for very large name sets).
+/// A close known name, for "did you mean". Bounded work: only for names of at most
+/// [`MAX_SUGGESTED_NAME`] characters, among at most [`MAX_SUGGESTION_CANDIDATES`] known names
+/// (else no suggestion), comparing only names of a similar length; callers also bound how many
+/// unknown names get one (`limits::MAX_SUGGESTIONS` per file).
 pub fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
-    if known.clone().count() > 100_000 {
+    let a: Vec<char> = name.chars().collect();
+    if a.len() > MAX_SUGGESTED_NAME || known.clone().nth(MAX_SUGGESTION_CANDIDATES).is_some() {
         return String::new();
     }
-    let dist = |a: &str, b: &str| {
-        let b: Vec<char> = b.chars().collect();
-        let mut prev: Vec<usize> = (0..=b.len()).collect();
-        for (i, ca) in a.chars().enumerate() {
-            let mut cur = vec![i + 1];
+    let limit = 2.max(a.len() / 3);
+    let (mut prev, mut cur) = (Vec::new(), Vec::new());
+    let mut dist = |b: &str| {
+        let b: Vec<char> = b.chars().take(a.len() + limit + 1).collect();
+        if b.len().abs_diff(a.len()) > limit {
+            return usize::MAX;
+        }
+        prev.clear();
+        prev.extend(0..=b.len());
+        for (i, ca) in a.iter().enumerate() {
+            cur.clear();
+            cur.push(i + 1);
             for (j, cb) in b.iter().enumerate() {
-                cur.push((prev[j] + (ca != *cb) as usize).min(prev[j + 1] + 1).min(cur[j] + 1));
+                cur.push((prev[j] + (ca != cb) as usize).min(prev[j + 1] + 1).min(cur[j] + 1));
             }
-            prev = cur;
+            std::mem::swap(&mut prev, &mut cur);
         }
         prev[b.len()]
     };
-    let best = known.map(|k| (dist(name, k), k)).min();
+    let best = known.map(|k| (dist(k), k)).min();
     match best {
-        Some((d, k)) if d <= 2.max(name.len() / 3) => format!(" (did you mean \"{k}\"?)"),
+        Some((d, k)) if d <= limit => format!(" (did you mean \"{k}\"?)"),
         _ => String::new(),
     }
 }

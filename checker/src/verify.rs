@@ -26,6 +26,7 @@ pub fn check_complex(ctx: &Context, c: usize) -> Result<(), String> {
     if let Some(d) = cx.defects.first() {
         return Err(d.clone());
     }
+    ctx.work.spend(cx.d.work_after(&cx.d), &format!("∂∂ of complex {}", cx.name))?;
     let check = |generators: std::ops::Range<usize>| {
         let mut dd = Vec::new();
         for x in generators {
@@ -46,6 +47,8 @@ pub fn check_chain_map(ctx: &Context, f: usize) -> Result<(), String> {
         return Err(d.clone());
     }
     let (c, d) = (&ctx.complexes[map.from], &ctx.complexes[map.to]);
+    let work = d.d.work_after(&map.m).saturating_add(map.m.work_after(&c.d));
+    ctx.work.spend(work, &format!("∂f = f∂ for a map {} → {}", c.name, d.name))?;
     for (x, row) in map.m.rows.iter().enumerate() {
         let lhs = d.d.apply(row)?;
         let rhs = map.m.apply(&c.d.rows[x])?;
@@ -59,10 +62,13 @@ pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Resul
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
     let degree: Grading = phi.degree.iter().zip(&ctx.ring.differential_degree).map(|(a, b)| a - b).collect();
     let mut errs = Errors::default();
+    ctx.work.spend(c.names.len() as u64 + h.len() as u64, "reading a homotopy")?;
     let (h, defects) = crate::load::read_terms(&ctx.ring, c, d, &degree, h, "homotopy", false, &mut errs);
     if let Some(e) = errs.0.first().or(defects.first()) {
         return Err(e.clone());
     }
+    let work = d.d.work_after(&h).saturating_add(h.work_after(&c.d)).saturating_add(phi.m.size());
+    ctx.work.spend(work, "∂H + H∂")?;
     for (x, row) in phi.m.rows.iter().enumerate() {
         let mut rhs = d.d.apply(&h.rows[x])?;
         rhs.extend(h.apply(&c.d.rows[x])?);
@@ -76,6 +82,7 @@ pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Resul
 pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> Result<(), String> {
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
     let mut errs = Errors::default();
+    ctx.work.spend(c.names.len() as u64 + y.len() as u64, "reading a dual witness")?;
     // The triples as a map of any degree: read without a homogeneity requirement.
     let (ymap, _) = crate::load::read_terms(&ctx.ring, c, d, &phi.degree, y, "dual", true, &mut errs);
     if let Some(e) = errs.0.first() {
@@ -91,9 +98,17 @@ pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> R
         return Err("⟨y, φ⟩ = 0: the functional does not detect φ".into());
     }
     // δy = transpose of ψ ↦ ∂ψ + ψ∂, as triples (x, w, m).
+    ctx.work.spend(d.d.size(), "the arrows into a dual witness")?;
     let mut wanted = vec![false; d.names.len()];
     ymap.rows.iter().flatten().for_each(|&(w, _)| wanted[w as usize] = true);
     let into_w = d.d.incoming_to(&wanted);
+    let mut work = 0u64;
+    for (x, row) in ymap.rows.iter().enumerate() {
+        for &(w, _) in row {
+            work = work.saturating_add((into_w[w as usize].len() + c.d.rows[x].len()) as u64);
+        }
+    }
+    ctx.work.spend(work, "δy")?;
     let mut dy: Vec<(u32, u32, Mono)> = Vec::new();
     for (x, row) in ymap.rows.iter().enumerate() {
         for &(w, m) in row {
@@ -138,19 +153,25 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     let spec = tubecert_format::ComplexSpec { generators: w.generators.clone(), differential: vec![] };
     let mut errs = Errors::default();
     let zero = vec![0; ctx.ring.gradings.len()];
+    let read = [w.generators.len(), w.basis.len(), w.inverse.len(), old.names.len()];
+    ctx.work.spend(read.iter().map(|&n| n as u64).sum(), "reading a basis")?;
     let new = crate::load::read_complex(&ctx.ring, "(new basis)", &spec, &mut errs);
     let (b, bd) = crate::load::read_terms(&ctx.ring, &new, old, &zero, &w.basis, "basis", false, &mut errs);
     let (binv, id) = crate::load::read_terms(&ctx.ring, old, &new, &zero, &w.inverse, "inverse", false, &mut errs);
     if let Some(e) = errs.0.first().or(bd.first()).or(id.first()) {
         return Err(e.clone());
     }
+    let work = [binv.work_after(&b), b.work_after(&binv), old.d.work_after(&b), binv.size(), b.size()];
+    ctx.work.spend(work.iter().fold(0, |s, &w| s.saturating_add(w)), "B⁻¹B, BB⁻¹ and ∂B")?;
     if binv.after(&b)? != SparseMap::identity(new.names.len()) {
         return Err("B⁻¹∘B ≠ id: the inverse does not invert the basis change".into());
     }
     if b.after(&binv)? != SparseMap::identity(old.names.len()) {
         return Err("B∘B⁻¹ ≠ id: the inverse does not invert the basis change".into());
     }
-    let dnew = binv.after(&old.d.after(&b)?)?;
+    let db = old.d.after(&b)?;
+    ctx.work.spend(binv.work_after(&db), "B⁻¹∂B")?;
+    let dnew = binv.after(&db)?;
     let n = new.names.len();
     let (mut source, mut target) = (vec![false; n], vec![false; n]);
     for (a, row) in dnew.rows.iter().enumerate() {
@@ -411,20 +432,25 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
-/// Verifies a whole body of a certificate of format `version`: implicit object checks, then
-/// each claim.
-pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<ClaimResult>, Vec<String>> {
+/// Verifies a whole body of a certificate of format `version` within `work_limit` units of
+/// work (`limits::work_limit` of the file's size): implicit object checks, then each claim. A
+/// file whose checks need more is refused (`Err`), not failed.
+pub fn check_body(
+    body: &tubecert_format::Body,
+    version: u32,
+    work_limit: u64,
+) -> Result<Vec<ClaimResult>, Vec<String>> {
     use crate::bordered::{Failure, Objects};
     let out_of_bounds: Vec<String> = body.claims.iter().filter_map(|c| numbers_in_bounds(c).err()).collect();
     if !out_of_bounds.is_empty() {
         return Err(out_of_bounds);
     }
-    let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     for (i, claim) in body.claims.iter().enumerate() {
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
     let b = body.bordered.as_ref();
-    let objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
+    let mut objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
     if let Some(b) = b {
         let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
@@ -437,9 +463,20 @@ pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<Clai
             )]);
         }
     }
+    ctx.work = crate::load::Work::new(work_limit);
+    let refused = |ctx: &Context| ctx.work.refused().map(|e| vec![e.clone()]);
     let mut out = check_objects(&ctx);
-    out.extend(objects.iter().flat_map(|o| check_objects(&o.full)));
+    if let Some(o) = objects.as_mut() {
+        o.full.work = crate::load::Work::new(work_limit);
+        out.extend(check_objects(&o.full));
+        if let Some(e) = refused(&o.full) {
+            return Err(e);
+        }
+    }
     for claim in &body.claims {
+        if let Some(e) = refused(&ctx) {
+            return Err(e);
+        }
         let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
             None => check_claim(&ctx, claim, version),
             Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
@@ -454,7 +491,7 @@ pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<Clai
             outcome,
         });
     }
-    Ok(out)
+    refused(&ctx).map_or(Ok(out), Err)
 }
 
 /// The number of written items (generators, terms, families, claims) of a body: the work

@@ -41,7 +41,7 @@ fn with_statement(mut claim: Value) -> Value {
 /// Verdicts of the listed (non-implicit) claims.
 fn verdicts(claims: Vec<Value>) -> Vec<Result<(), String>> {
     let body: Body = serde_json::from_value(base(claims.into_iter().map(with_statement).collect())).expect("body");
-    check_body(&body, CERTIFICATE_VERSION)
+    check_body(&body, CERTIFICATE_VERSION, u64::MAX)
         .expect("loads")
         .into_iter()
         .filter(|r| !r.implicit)
@@ -62,18 +62,18 @@ fn one(claim: Value) -> Result<(), String> {
 #[test]
 fn objects_are_checked_implicitly() {
     let body: Body = serde_json::from_value(base(vec![])).unwrap();
-    assert!(check_body(&body, CERTIFICATE_VERSION).unwrap().iter().all(|r| r.outcome.is_ok()));
+    assert!(check_body(&body, CERTIFICATE_VERSION, u64::MAX).unwrap().iter().all(|r| r.outcome.is_ok()));
     let mut bad = base(vec![]);
     bad["complexes"]["K"]["generators"]["c"] = json!([-1, 0]);
     bad["complexes"]["K"]["differential"] = json!([["b", "U^2", "a"], ["c", "1", "b"]]);
     // With c at (-1, 0), ∂c = b would need b at (-2, 0): not homogeneous. With c at (-2, -2)
     // it is homogeneous, and ∂∂c = U^2·a ≠ 0.
     let body: Body = serde_json::from_value(bad.clone()).unwrap();
-    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION, u64::MAX).unwrap();
     assert!(r.iter().any(|c| c.kind == "complex" && c.outcome.as_ref().is_err_and(|e| e.contains("not homogeneous"))));
     bad["complexes"]["K"]["generators"]["c"] = json!([-2, -2]);
     let body: Body = serde_json::from_value(bad).unwrap();
-    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION, u64::MAX).unwrap();
     assert!(r.iter().any(|c| c.kind == "complex" && c.outcome.as_ref().is_err_and(|e| e.contains("∂∂(c)"))));
 }
 
@@ -84,7 +84,7 @@ fn chain_map_rejected_when_it_does_not_commute() {
     // of degree (-3,-2).
     bad["maps"]["F"] = json!({"from": "O", "to": "K", "degree": [-3, -2], "terms": [["o", "1", "b"]]});
     let body: Body = serde_json::from_value(bad).unwrap();
-    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION, u64::MAX).unwrap();
     let f = r.iter().find(|c| c.statement.starts_with("F ")).unwrap();
     assert!(f.outcome.as_ref().unwrap_err().contains("at generator o"));
 }
@@ -155,7 +155,7 @@ fn statement_must_match_the_fields() {
     );
     c["statement"] = json!("F and G are not homotopic at all");
     let body: Body = serde_json::from_value(base(vec![c])).unwrap();
-    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION, u64::MAX).unwrap();
     assert!(r.last().unwrap().outcome.as_ref().unwrap_err().contains("statement"));
 }
 

@@ -297,13 +297,22 @@ impl ser::SerializeStructVariant for Object<'_> {
 
 /// Wraps a body with the SHA-256 of its canonical form.
 pub fn seal(body: tubecert_format::Body) -> Result<tubecert_format::Certificate, String> {
-    let sha256 = tubecert_format::canonical::sha256_hex(&to_canonical(&body)?);
-    Ok(tubecert_format::Certificate {
+    seal_sized(body).map(|(c, _)| c)
+}
+
+/// [`seal`], and the size of the canonical body: a lower bound on the file's size, hence on
+/// the work the checker allows it (`limits::work_limit`).
+pub fn seal_sized(body: tubecert_format::Body) -> Result<(tubecert_format::Certificate, u64), String> {
+    let canonical = to_canonical(&body)?;
+    let sha256 = tubecert_format::canonical::sha256_hex(&canonical);
+    let size = canonical.len() as u64;
+    let certificate = tubecert_format::Certificate {
         format: tubecert_format::CERTIFICATE_FORMAT.into(),
         version: tubecert_format::CERTIFICATE_VERSION,
         sha256,
         body,
-    })
+    };
+    Ok((certificate, size))
 }
 
 /// A certificate file's bytes: its canonical form and a newline, so the same body always

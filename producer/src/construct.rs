@@ -139,13 +139,15 @@ pub fn tensor(c: &ComplexSpec, d: &ComplexSpec) -> Result<ComplexSpec, String> {
 
 /// f ⊗ g: x⊗y ↦ f(x)⊗g(y).
 pub fn tensor_maps(f: &MapSpec, g: &MapSpec, from: &str, to: &str, vars: &[String]) -> Result<MapSpec, String> {
+    let polys = |m: &MapSpec| m.terms.iter().map(|t| parse_poly(&t[1], vars)).collect::<Result<Vec<_>, _>>();
+    let (pf, pg) = (polys(f)?, polys(g)?);
     let mut acc: BTreeMap<(String, String), Vec<Mono>> = BTreeMap::new();
-    for [x, cf, x2] in &f.terms {
-        for [y, cg, y2] in &g.terms {
+    for ([x, _, x2], cf) in f.terms.iter().zip(&pf) {
+        for ([y, _, y2], cg) in g.terms.iter().zip(&pg) {
             let entry = acc.entry((tensor_name(x, y), tensor_name(x2, y2))).or_default();
-            for a in parse_poly(cf, vars)? {
-                for b in parse_poly(cg, vars)? {
-                    entry.push(a.checked_mul(b).ok_or("exponent overflow")?);
+            for a in cf {
+                for b in cg {
+                    entry.push(a.checked_mul(*b).ok_or("exponent overflow")?);
                 }
             }
         }
@@ -209,6 +211,61 @@ pub fn direct_sum(
     Ok(ComplexSpec { generators: distinct(generators)?, differential: diff })
 }
 
+/// How many generators and terms constructions may still make (`limits::CONSTRUCTED_BASE`):
+/// each construction counts its result's size before building it, so a few lines cannot ask
+/// for a tensor tower of 10^12 generators.
+struct Made(u64);
+
+impl Made {
+    fn take(&mut self, n: u64, what: &str) -> Result<(), String> {
+        self.0 = self.0.checked_sub(n).ok_or_else(|| {
+            format!(
+                "{what} would make {n} generators and terms, beyond what the constructions of this problem may make (limits::CONSTRUCTED_BASE {} + {} per generator or term written out)",
+                tubecert_format::limits::CONSTRUCTED_BASE,
+                tubecert_format::limits::CONSTRUCTED_PER_ENTRY
+            )
+        })?;
+        Ok(())
+    }
+}
+
+fn size(c: &ComplexSpec) -> u64 {
+    (c.generators.len() + c.differential.len()) as u64
+}
+
+/// Generators and terms written out in a problem's explicit complexes and maps.
+fn written_entries(complexes: &BTreeMap<String, Value>, maps: &BTreeMap<String, Value>) -> u64 {
+    let len = |v: &Value, k: &str| {
+        v.get(k).map_or(0, |x| x.as_array().map_or(0, |a| a.len()) + x.as_object().map_or(0, |o| o.len()))
+    };
+    let c: usize = complexes.values().map(|v| len(v, "generators") + len(v, "differential")).sum();
+    (c + maps.values().map(|v| len(v, "terms")).sum::<usize>()) as u64
+}
+
+/// The size of what a construction from complexes already built will make (0 for the others,
+/// which are counted once built: staircases, quotients and bordered constructions).
+fn planned_size(v: &Value, done: &Complexes, maps: &BTreeMap<String, MapSpec>) -> u64 {
+    let Some((op, arg)) = v.as_object().filter(|o| o.len() == 1).and_then(|o| o.iter().next()) else { return 0 };
+    let get = |x: Option<&Value>| x.and_then(Value::as_str).and_then(|n| done.get(n));
+    match op.as_str() {
+        "tensor" => get(arg.get(0)).zip(get(arg.get(1))).map_or(0, |(c, d)| {
+            let (gc, gd) = (c.generators.len() as u64, d.generators.len() as u64);
+            let terms = (c.differential.len() as u64)
+                .saturating_mul(gd)
+                .saturating_add((d.differential.len() as u64).saturating_mul(gc));
+            gc.saturating_mul(gd).saturating_add(terms)
+        }),
+        "direct_sum" => get(arg.get(0)).zip(get(arg.get(1))).map_or(0, |(c, d)| size(c) + size(d)),
+        "dual" => get(Some(arg)).map_or(0, size),
+        "shift" => get(arg.get(0)).map_or(0, size),
+        "cone" => arg.as_str().and_then(|f| maps.get(f)).map_or(0, |m| {
+            let (c, d) = (done.get(&m.from).map_or(0, size), done.get(&m.to).map_or(0, size));
+            c + d + m.terms.len() as u64
+        }),
+        _ => 0,
+    }
+}
+
 /// Resolves the complexes and maps of a problem whose entries may be constructions, in
 /// dependency order. Explicit entries are taken as they are.
 pub fn resolve(
@@ -220,6 +277,9 @@ pub fn resolve(
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
     // The ring's degrees enter the constructions' arithmetic (cones): checked first.
     tubecert_format::RingInfo::new(ring)?;
+    use tubecert_format::limits::{CONSTRUCTED_BASE, CONSTRUCTED_PER_ENTRY, MAX_SUGGESTIONS};
+    let mut made =
+        Made(CONSTRUCTED_BASE.saturating_add(CONSTRUCTED_PER_ENTRY.saturating_mul(written_entries(complexes, maps))));
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
@@ -241,45 +301,72 @@ pub fn resolve(
             }
         }
     }
-    let mut pending: Vec<&String> = complexes.keys().collect();
-    while !pending.is_empty() {
-        let before = pending.len();
-        let mut still = Vec::new();
-        for name in pending {
-            match build_complex(ring, name, &complexes[name], &done, &done_maps, complexes, &mut bordered) {
-                Ok(Some(c)) => {
-                    done.insert(name.clone(), c);
+    // Dependency order: each complex is tried once, when the complexes it names are built.
+    let mut dependents: BTreeMap<&str, Vec<&String>> = BTreeMap::new();
+    let mut waiting: BTreeMap<&String, usize> = BTreeMap::new();
+    let mut ready = std::collections::VecDeque::new();
+    for (name, v) in complexes {
+        let mut refs = referenced(v, &done_maps);
+        refs.sort_unstable();
+        refs.dedup();
+        refs.retain(|r| complexes.contains_key(*r));
+        refs.iter().for_each(|r| dependents.entry(r).or_default().push(name));
+        waiting.insert(name, refs.len());
+        if refs.is_empty() {
+            ready.push_back(name);
+        }
+    }
+    let mut failed = std::collections::BTreeSet::new();
+    while let Some(name) = ready.pop_front() {
+        match build_complex(ring, name, &complexes[name], &done, &done_maps, complexes, &mut bordered, &mut made) {
+            Ok(Some(c)) => {
+                done.insert(name.clone(), c);
+                for d in dependents.get(name.as_str()).into_iter().flatten() {
+                    let w = waiting.get_mut(d).expect("every complex waits");
+                    *w -= 1;
+                    if *w == 0 {
+                        ready.push_back(d);
+                    }
                 }
-                Ok(None) => still.push(name),
-                Err(e) => errs.push(format!("complex {name}: {e}")),
+            }
+            Ok(None) => {}
+            Err(e) => {
+                failed.insert(name);
+                errs.push(format!("complex {name}: {e}"));
             }
         }
-        if still.len() == before {
-            for n in still {
-                let refs = referenced(&complexes[n], &done_maps);
+    }
+    let mut hints = MAX_SUGGESTIONS;
+    for n in complexes.keys().filter(|n| !done.contains_key(*n) && !failed.contains(n)) {
+        let refs = referenced(&complexes[n], &done_maps);
+        errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
+            Some(m) => {
                 // A suggestion never names the complex being defined.
                 let others = complexes.keys().filter(|k| *k != n);
-                errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
-                    Some(m) => format!(
-                        "complex {n}: complex \"{m}\" is not declared{}",
-                        tubecheck::report_terms::suggest(m, others)
-                    ),
-                    None => {
-                        let waiting: Vec<&str> = refs.into_iter().filter(|r| !done.contains_key(*r)).collect();
-                        match waiting.as_slice() {
-                            [] => format!("complex {n}: its pieces could not be built (see the errors above)"),
-                            w if w.contains(&n.as_str()) => format!("complex {n}: is built from itself"),
-                            w => format!(
-                                "complex {n}: is built from {} (which could not be built, or is built from {n} in turn)",
-                                w.join(", ")
-                            ),
-                        }
-                    }
-                });
+                hints = hints.saturating_sub(1);
+                let hint = if hints > 0 { tubecheck::report_terms::suggest(m, others) } else { String::new() };
+                format!("complex {n}: complex \"{m}\" is not declared{hint}")
             }
-            break;
+            None => {
+                let waiting: Vec<&str> = refs.into_iter().filter(|r| !done.contains_key(*r)).collect();
+                match waiting.as_slice() {
+                    [] => format!("complex {n}: its pieces could not be built (see the errors above)"),
+                    w if w.contains(&n.as_str()) => format!("complex {n}: is built from itself"),
+                    w => format!(
+                        "complex {n}: is built from {} (which could not be built, or is built from {n} in turn)",
+                        w.join(", ")
+                    ),
+                }
+            }
+        });
+    }
+    // A tensor_maps entry finds the tensor complexes of its source and target here.
+    let mut tensors: BTreeMap<(&str, &str), &String> = BTreeMap::new();
+    for (n, v) in complexes {
+        if let Some([Value::String(a), Value::String(b)]) = v.get("tensor").and_then(Value::as_array).map(Vec::as_slice)
+        {
+            tensors.entry((a.as_str(), b.as_str())).or_insert(n);
         }
-        pending = still;
     }
     for (name, v) in maps {
         if let Some(arg) = v.get("box_tensor_map") {
@@ -290,7 +377,7 @@ pub fn resolve(
                 Err(e) => errs.push(format!("map {name}: {e}")),
             }
         } else if let Some(arg) = v.get("tensor_maps") {
-            match build_tensor_map(ring, arg, complexes, &done_maps, text) {
+            match build_tensor_map(ring, arg, &tensors, &done_maps, text, &mut made) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -338,6 +425,7 @@ pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> 
 /// Builds one complex; `Ok(None)` when it depends on one not built yet. Its gradings must be
 /// within the format's bounds, so the inputs of every construction are, and the sums a
 /// construction makes (at most twice the bound) cannot overflow.
+#[allow(clippy::too_many_arguments)]
 fn build_complex(
     ring: &Ring,
     name: &str,
@@ -346,8 +434,15 @@ fn build_complex(
     maps: &BTreeMap<String, MapSpec>,
     defs: &BTreeMap<String, Value>,
     bordered: &mut Built,
+    made: &mut Made,
 ) -> Result<Option<ComplexSpec>, String> {
+    let what = v.as_object().and_then(|o| o.keys().next()).map_or("it".to_string(), |op| format!("the {op}"));
+    let planned = planned_size(v, done, maps);
+    made.take(planned, &what)?;
     let built = construct_complex(ring, name, v, done, maps, defs, bordered)?;
+    if let Some(c) = built.as_ref().filter(|_| planned == 0 && v.get("generators").is_none()) {
+        made.take(size(c), &what)?;
+    }
     built.as_ref().map_or(Ok(()), check_bounds)?;
     Ok(built)
 }
@@ -503,9 +598,10 @@ pub fn quotient(source: &Ring, target: &Ring, c: &ComplexSpec) -> Result<Complex
 fn build_tensor_map(
     ring: &Ring,
     arg: &Value,
-    complexes: &BTreeMap<String, Value>,
+    tensors: &BTreeMap<(&str, &str), &String>,
     maps: &BTreeMap<String, MapSpec>,
     text: bool,
+    made: &mut Made,
 ) -> Result<MapSpec, String> {
     let pair: [String; 2] =
         serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
@@ -514,19 +610,18 @@ fn build_tensor_map(
         maps.get(&pair[1]).ok_or(format!("tensor_maps: map \"{}\" not declared explicitly", pair[1]))?,
     );
     let find = |a: &str, b: &str| {
-        complexes
-            .iter()
-            .find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b])))
-            .map(|(n, _)| n.clone())
-            .ok_or(match text {
-                true => format!(
-                    "tensor_maps: declare the tensor product of {a} and {b} first: complex NAME = tensor {a} {b}"
-                ),
-                false => format!(
-                    "tensor_maps: declare the tensor product of {a} and {b} first: {{\"tensor\": [\"{a}\", \"{b}\"]}}"
-                ),
-            })
+        tensors.get(&(a, b)).map(|n| n.to_string()).ok_or(match text {
+            true => {
+                format!("tensor_maps: declare the tensor product of {a} and {b} first: complex NAME = tensor {a} {b}")
+            }
+            false => format!(
+                "tensor_maps: declare the tensor product of {a} and {b} first: {{\"tensor\": [\"{a}\", \"{b}\"]}}"
+            ),
+        })
     };
+    // Each pair of terms makes the products of their monomials.
+    let monomials = |m: &MapSpec| m.terms.iter().map(|t| 1 + t[1].matches('+').count() as u64).sum::<u64>();
+    made.take(monomials(f).saturating_mul(monomials(g)), "the tensor product of maps")?;
     tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
 }
 

@@ -136,15 +136,24 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
             _ => serde_json::from_str(text).map_err(|e| prefix(vec![json_error(&e)]))?,
         }
     } else {
-        crate::text_format::parse(text).map_err(prefix)?
+        crate::text_format::parse(text).map_err(|es| prefix(capped(es)))?
     };
     let mut w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
     w.text = !json;
     from_written(w).map_err(|es| {
         let lines = crate::text_format::SourceLines::of(bytes);
-        es.iter().map(|e| lines.locate(name, e)).collect()
+        capped(es).iter().map(|e| lines.locate(name, e)).collect()
     })
+}
+
+/// The first errors only (locating each one reads the whole file's table of places).
+fn capped(mut es: Vec<String>) -> Vec<String> {
+    if es.len() > tubecert_format::limits::MAX_REPORTED_ERRORS {
+        es.truncate(tubecert_format::limits::MAX_REPORTED_ERRORS);
+        es.push("… further errors not shown".into());
+    }
+    es
 }
 
 /// A problem file in JSON rather than the text format.

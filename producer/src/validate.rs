@@ -2,15 +2,28 @@
 //! at once (up to a limit), plus the goals' references.
 
 use crate::problem::{Goal, Problem};
-use tubecert_format::limits::MAX_EXPONENT;
+use tubecert_format::limits::{work_limit, MAX_EXPONENT};
 use tubecert_format::poly::parse_mono;
 use tubecert_format::MapExpr;
-use tubecheck::load::{load_lenient, Context, Errors};
-use tubecheck::report_terms::suggest;
+use tubecheck::load::{load_lenient, Context, Errors, Work};
 use tubecheck::verify::{check_chain_map, check_complex};
 
+/// The size of a problem written out in full, in bytes (about): what its work limit is
+/// measured by, as a certificate's is by its file size, so that constructions count at the
+/// size they expand to (itself bounded by `limits::CONSTRUCTED_BASE`).
+pub fn written_size(p: &Problem) -> u64 {
+    let term = |t: &[String; 3]| 10 + t.iter().map(|s| s.len() as u64).sum::<u64>();
+    let complexes = p.complexes.iter().map(|(n, c)| {
+        let gens: u64 = c.generators.iter().map(|(g, gr)| 4 + g.len() as u64 + 3 * gr.len() as u64).sum();
+        n.len() as u64 + gens + c.differential.iter().map(term).sum::<u64>()
+    });
+    let maps = p.maps.iter().map(|(n, m)| n.len() as u64 + m.terms.iter().map(term).sum::<u64>());
+    complexes.chain(maps).sum()
+}
+
 pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
-    let (ctx, mut errs) = load_lenient(&p.ring, &p.complexes, &p.maps)?;
+    let (mut ctx, mut errs) = load_lenient(&p.ring, &p.complexes, &p.maps)?;
+    ctx.work = Work::new(work_limit(written_size(p)));
     // ∂∂ and chain-map checks are meaningful only when every term resolved.
     let complete = errs.0.is_empty();
     for (i, c) in ctx.complexes.iter().enumerate() {
@@ -60,12 +73,12 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
         let at = format!("goal {}", k + 1);
         let map = |n: &String, errs: &mut Errors| {
             if !ctx.map_index.contains_key(n) {
-                errs.push(format!("{at}: map \"{n}\" is not declared{}", suggest(n, ctx.map_index.keys())));
+                errs.push(format!("{at}: map \"{n}\" is not declared{}", ctx.hint(n, ctx.map_index.keys())));
             }
         };
         let complex = |n: &String, errs: &mut Errors| {
             if !ctx.complex_index.contains_key(n) {
-                errs.push(format!("{at}: complex \"{n}\" is not declared{}", suggest(n, ctx.complex_index.keys())));
+                errs.push(format!("{at}: complex \"{n}\" is not declared{}", ctx.hint(n, ctx.complex_index.keys())));
             }
         };
         let variable = |v: &String, errs: &mut Errors| {
@@ -138,5 +151,6 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
             }
         }
     }
+    ctx.work = Work::new(u64::MAX); // the budget bounds validation; the search is the prover's
     errs.into_result(ctx)
 }

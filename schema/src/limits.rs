@@ -34,3 +34,26 @@ pub fn read_file(path: &std::path::Path) -> Result<Vec<u8>, String> {
 
 /// How many validation errors are collected before giving up.
 pub const MAX_REPORTED_ERRORS: usize = 25;
+
+/// Work the checks of one file may do, per byte of the file. A unit is one term a check
+/// touches or one row it allocates; every check counts its units before it starts, so time is
+/// O(W log W) and memory O(W) for W ≤ [`work_limit`]. The stored certificates and the large
+/// ones CI and the benchmark make use at most 0.3 units per byte.
+pub const WORK_PER_BYTE: u64 = 2;
+/// Work any file may do, whatever its size (small files with dense complexes).
+pub const WORK_BASE: u64 = 1 << 24;
+/// The work limit of a file of `bytes` bytes.
+pub fn work_limit(bytes: u64) -> u64 {
+    WORK_BASE.saturating_add(WORK_PER_BYTE.saturating_mul(bytes))
+}
+/// Generators and terms that the producer's constructions (staircase, tensor, dual, shift,
+/// sum, cone, quotient, tensor of maps) may make in one problem: this many per generator or
+/// term written out in the problem, plus [`CONSTRUCTED_BASE`]; checked before each is built.
+pub const CONSTRUCTED_PER_ENTRY: u64 = 4;
+pub const CONSTRUCTED_BASE: u64 = 4_000_000;
+/// "Did you mean": for names of at most this many characters, among at most
+/// [`MAX_SUGGESTION_CANDIDATES`] known names, for the first [`MAX_SUGGESTIONS`] unknown names
+/// of a file.
+pub const MAX_SUGGESTED_NAME: usize = 32;
+pub const MAX_SUGGESTION_CANDIDATES: usize = 10_000;
+pub const MAX_SUGGESTIONS: usize = 10;
