@@ -309,7 +309,11 @@ fn maps_id_box_f() {
     assert_eq!(f, [["x⊗x0", "1", "x⊗x0"], ["x⊗x1", "1", "x⊗x1"], ["x⊗x2", "1", "x⊗x2"]].map(|t| t.map(String::from)));
     let mut p = problem(complexes, sections(json!([["x1", "rho3", "lambda1.x1.x0"]])));
     p["maps"] = json!({"F": {"box_tensor_map": ["M", "f"]}});
+    // Goals on the resulting map: x⊗x1 ↦ U·x⊗x0 is ∂H + H∂ with H(x⊗x1) = x⊗x1.
+    p["goals"] = json!([{"null_homotopic": {"map": "F"}}]);
     let body = body_of(&p);
+    let null = body.claims.iter().find(|c| c.kind() == "null_homotopic");
+    assert!(matches!(null, Some(Claim::NullHomotopic { witness, .. }) if !witness.homotopy.is_empty()));
     assert!(failed_kinds(body.clone()).is_empty());
     assert_eq!(body.maps["F"].terms, [["x⊗x1", "U", "x⊗x0"]].map(|t| t.map(String::from)));
     // Mutations: a term of the map; a term of f (id ⊠ f is then 0); an added term ρ1 ⊗ λ1,
