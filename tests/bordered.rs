@@ -347,3 +347,21 @@ fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
     let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
     assert!(e.contains("version-1"), "{e}");
 }
+
+#[test]
+fn work_beyond_the_budget_is_refused_before_it_is_done() {
+    // A stated length of 4·10^9 would mean about 10^19 words: the checker counts them first and
+    // refuses the file (exit 2) instead of trying.
+    let mut body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    for c in &mut body.claims {
+        if let Claim::TypeAModule { max_length, .. } = c {
+            *max_length = 4_000_000_000;
+        }
+    }
+    restate(&mut body);
+    let e = outcomes(body).unwrap_err();
+    assert!(e.contains("budget"), "{e}");
+}
