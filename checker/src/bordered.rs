@@ -433,6 +433,11 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
     Ok(())
 }
 
+/// A step of a δ-path: (coefficient, next node, whether the path may end after it).
+type Step = (Alg, u32, bool);
+/// A node on the walked path: (node, positions in the input word, its steps, the next to try).
+type Frame = (u32, u64, Vec<Step>, usize);
+
 /// Terms (module output, node, U-power) of Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths
 /// from `start` given by `steps` (node → (a, node′, whether the path may end after this
 /// step)); `end_at_start`: the empty path counts (the box tensor's m_1 ⊗ id). A path is
@@ -457,11 +462,11 @@ fn paths(
     for f in m.families.iter().filter(|f| f.from == x) {
         // Depth-first; a frame is (node, positions, its steps, the next step to try). The work
         // of entering a node (its steps, the cycle test along the path) is spent before it is done.
-        let mut path: Vec<(u32, u64, Vec<(Alg, u32, bool)>, usize)> = Vec::new();
+        let mut path: Vec<Frame> = Vec::new();
         let mut enter = |y: u32, mask: u64, can_end: bool, path: &mut Vec<_>| -> Result<(), Failure> {
             let next = steps(y);
             o.spend(1 + (f.pattern.len() + next.len() + path.len()) as u64, "box tensor")?;
-            if let Some(first) = path.iter().position(|p: &(u32, u64, _, _)| (p.0, p.1) == (y, mask)) {
+            if let Some(first) = path.iter().position(|p: &Frame| (p.0, p.1) == (y, mask)) {
                 let cycle: Vec<String> = path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
                 return Err(Failure::Refused(format!(
                     "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
