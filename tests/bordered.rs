@@ -309,7 +309,11 @@ fn maps_id_box_f() {
     assert_eq!(f, [["x⊗x0", "1", "x⊗x0"], ["x⊗x1", "1", "x⊗x1"], ["x⊗x2", "1", "x⊗x2"]].map(|t| t.map(String::from)));
     let mut p = problem(complexes, sections(json!([["x1", "rho3", "lambda1.x1.x0"]])));
     p["maps"] = json!({"F": {"box_tensor_map": ["M", "f"]}});
+    // Goals on the resulting map: x⊗x1 ↦ U·x⊗x0 is ∂H + H∂ with H(x⊗x1) = x⊗x1.
+    p["goals"] = json!([{"null_homotopic": {"map": "F"}}]);
     let body = body_of(&p);
+    let null = body.claims.iter().find(|c| c.kind() == "null_homotopic");
+    assert!(matches!(null, Some(Claim::NullHomotopic { witness, .. }) if !witness.homotopy.is_empty()));
     assert!(failed_kinds(body.clone()).is_empty());
     assert_eq!(body.maps["F"].terms, [["x⊗x1", "U", "x⊗x0"]].map(|t| t.map(String::from)));
     // Mutations: a term of the map; a term of f (id ⊠ f is then 0); an added term ρ1 ⊗ λ1,
@@ -342,4 +346,22 @@ fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
     cert["version"] = json!(1);
     let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
     assert!(e.contains("version-1"), "{e}");
+}
+
+#[test]
+fn work_beyond_the_budget_is_refused_before_it_is_done() {
+    // A stated length of 4·10^9 would mean about 10^19 words: the checker counts them first and
+    // refuses the file (exit 2) instead of trying.
+    let mut body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    for c in &mut body.claims {
+        if let Claim::TypeAModule { max_length, .. } = c {
+            *max_length = 4_000_000_000;
+        }
+    }
+    restate(&mut body);
+    let e = outcomes(body).unwrap_err();
+    assert!(e.contains("budget"), "{e}");
 }

@@ -8,7 +8,7 @@ use crate::algebra::normalize;
 use crate::load::{Complex, Context};
 use std::cell::Cell;
 use std::collections::{BTreeMap, BTreeSet};
-use tubecert_format::bordered::{full_ring, is_minus_ring, Alg, Bordered, DGenerator, TypeDSpec};
+use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeDSpec};
 use tubecert_format::limits::MAX_EXPONENT;
 use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
 
@@ -312,10 +312,6 @@ impl Objects {
         Ok(o)
     }
 
-    fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
-        self.budget.spend(units, what)
-    }
-
     fn structure(&self, n: &str) -> Result<&TypeD, Failure> {
         Ok(self.structures.get(n).ok_or_else(|| format!("type D structure \"{n}\" is not declared"))?)
     }
@@ -437,6 +433,11 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
     Ok(())
 }
 
+/// A step of a δ-path: (coefficient, next node, whether the path may end after it).
+type Step = (Alg, u32, bool);
+/// A node on the walked path: (node, positions in the input word, its steps, the next to try).
+type Frame = (u32, u64, Vec<Step>, usize);
+
 /// Terms (module output, node, U-power) of Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths
 /// from `start` given by `steps` (node → (a, node′, whether the path may end after this
 /// step)); `end_at_start`: the empty path counts (the box tensor's m_1 ⊗ id). A path is
@@ -459,35 +460,38 @@ fn paths(
         }
     }
     for f in m.families.iter().filter(|f| f.from == x) {
-        // Depth-first over (node, positions, may end here, path length).
-        let mut stack: Vec<(u32, u64, bool, usize, usize)> = vec![(start, f.start(), end_at_start, 0, 0)];
-        let mut on_path: Vec<(u32, u64)> = Vec::new();
-        while let Some((y, mask, can_end, len, child)) = stack.pop() {
-            on_path.truncate(len);
-            if child == 0 {
-                o.spend(1 + f.pattern.len() as u64, "box tensor")?;
-                if let Some(first) = on_path.iter().position(|p| *p == (y, mask)) {
-                    let cycle: Vec<String> = on_path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
-                    return Err(Failure::Refused(format!(
-                        "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
-                        cycle.join(" → "),
-                        names(start),
-                        m.names[x as usize]
-                    )));
-                }
-                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
-                    o.1.set(o.1.get().max(len));
-                    out.push((f.to, y, p));
-                }
-            }
-            on_path.push((y, mask));
+        // Depth-first; a frame is (node, positions, its steps, the next step to try). The work
+        // of entering a node (its steps, the cycle test along the path) is spent before it is done.
+        let mut path: Vec<Frame> = Vec::new();
+        let mut enter = |y: u32, mask: u64, can_end: bool, path: &mut Vec<_>| -> Result<(), Failure> {
             let next = steps(y);
-            if let Some(&(a, y2, end)) = next.get(child) {
-                stack.push((y, mask, can_end, len, child + 1));
-                let mask2 = if a == Alg::One { 0 } else { f.step(mask, a) };
-                if mask2 != 0 {
-                    stack.push((y2, mask2, end, len + 1, 0));
-                }
+            o.spend(1 + (f.pattern.len() + next.len() + path.len()) as u64, "box tensor")?;
+            if let Some(first) = path.iter().position(|p: &Frame| (p.0, p.1) == (y, mask)) {
+                let cycle: Vec<String> = path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
+                return Err(Failure::Refused(format!(
+                    "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
+                    cycle.join(" → "),
+                    names(start),
+                    m.names[x as usize]
+                )));
+            }
+            if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
+                o.1.set(o.1.get().max(path.len()));
+                out.push((f.to, y, p));
+            }
+            path.push((y, mask, next, 0));
+            Ok(())
+        };
+        enter(start, f.start(), end_at_start, &mut path)?;
+        while let Some((_, mask, next, child)) = path.last_mut() {
+            let Some(&(a, y2, end)) = next.get(*child) else {
+                path.pop();
+                continue;
+            };
+            *child += 1;
+            let mask2 = if a == Alg::One { 0 } else { f.step(*mask, a) };
+            if mask2 != 0 {
+                enter(y2, mask2, end, &mut path)?;
             }
         }
     }
@@ -759,7 +763,13 @@ pub fn check(
     bordered.then(|| {
         crate::verify::check_statement(ctx, claim, version)?;
         let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
-        let minus = || is_minus_ring(&spec_ring(ctx)).then_some(()).ok_or_else(|| Failure::False("box tensor products live in the minus ring F2[U] with (Maslov, Alexander), deg U = (−2, −1), deg ∂ = (−1, 0)".into()));
+        let r = &ctx.ring;
+        let is_minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
+        let minus = || {
+            (is_minus && r.gradings.len() == 2).then_some(()).ok_or_else(|| {
+                Failure::False("box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)".into())
+            })
+        };
         let mut facts = BTreeMap::new();
         match claim {
             Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
@@ -787,7 +797,7 @@ pub fn check(
             }
             Claim::Complement { structure, complex, framing, tau, .. } => {
                 let c = &o.full.complexes[o.full.complex_named(complex)?];
-                o.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
+                o.budget.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
                 let (want, found_tau) = complement(c, *framing)?;
                 let given = spec.type_d_structures.get(structure).ok_or_else(|| format!("type D structure \"{structure}\" is not declared"))?;
                 if found_tau != *tau {
@@ -807,15 +817,4 @@ pub fn check(
         }
         Ok(facts)
     })
-}
-
-fn spec_ring(ctx: &Context) -> tubecert_format::Ring {
-    tubecert_format::Ring {
-        variables: ctx.ring.variables.clone(),
-        gradings: ctx.ring.gradings.clone(),
-        variable_degrees: UniqueMap(
-            ctx.ring.variables.iter().cloned().zip(ctx.ring.var_degrees.iter().cloned()).collect(),
-        ),
-        differential_degree: ctx.ring.differential_degree.clone(),
-    }
 }
