@@ -237,7 +237,43 @@ fn readings(s: &str, ring: &Ring) -> Vec<Claim> {
             });
         }
     }
-    for h in spell(s, &[Lit("Ord_"), Hole, Lit("(H_*("), Hole, Lit(")) = "), Hole]) {
+    // Over two variables, Ord is read on the quotient by the variable the claim does not name.
+    let two = ring.variables.len() == 2;
+    let other = |v: &str| ring.variables.iter().find(|w| *w != v).filter(|_| two).cloned();
+    let quotient = [
+        Lit("Ord_"),
+        Hole,
+        Lit("(H_*("),
+        Hole,
+        Lit("/("),
+        Hole,
+        Lit("))) = "),
+        Hole,
+        Lit(" (read on the "),
+        Hole,
+        Lit(" = 0 quotient)"),
+    ];
+    for h in spell(s, &quotient) {
+        let named = other(h[0]).is_some_and(|o| o == h[2] && o == h[4]);
+        if let (true, true, true, Some(order)) = (named, is_var(h[0]), name_ok(h[1]), uint(h[3])) {
+            let (complex, variable) = (h[1].into(), h[0].into());
+            out.push(Claim::TorsionOrderOfComplex { complex, variable, order, statement: st(), witness: basis() });
+        }
+    }
+    if two && ring.gradings.len() == 2 {
+        let (g, v) = (&ring.gradings, &ring.variables[1]);
+        let middle = format!(" = ({} − {})/2, read on ", g[0], g[1]);
+        let end = format!("/({v}), the {v} = 0 quotient)");
+        let pattern =
+            [Lit("τ("), Hole, Lit(") = "), Hole, Lit(" (Alexander grading "), Hole, Lit(&middle), Hole, Lit(&end)];
+        for h in spell(s, &pattern) {
+            if let (true, true, Some(tau)) = (name_ok(h[0]) && h[0] == h[3], name_ok(h[2]), int(h[1])) {
+                let (complex, alexander) = (h[0].into(), h[2].into());
+                out.push(Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() });
+            }
+        }
+    }
+    for h in spell(s, &[Lit("Ord_"), Hole, Lit("(H_*("), Hole, Lit(")) = "), Hole]).into_iter().filter(|_| !two) {
         if let (true, true, Some(order)) = (is_var(h[0]), name_ok(h[1]), uint(h[2])) {
             let (complex, variable) = (h[1].into(), h[0].into());
             out.push(Claim::TorsionOrderOfComplex { complex, variable, order, statement: st(), witness: basis() });
@@ -304,6 +340,11 @@ fn fields(c: &Claim) -> Claim {
         }
         Claim::Tau { complex, alexander, tau, .. } => {
             Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() }
+        }
+        // Bordered claims have no witness: every field but the statement is read.
+        mut bordered => {
+            *bordered.statement_mut() = st();
+            bordered
         }
     }
 }
@@ -645,4 +686,17 @@ fn a_failure_message_cannot_print_a_verdict_of_its_own() {
     let (code, out) = run("tubecheck", &[], "w.cert.json", &serde_json::to_vec(&cert).unwrap());
     assert_eq!(code, 1, "{out}");
     assert!(out.contains("<U+000A>") && !out.lines().any(|l| l.trim_start().starts_with("✓ τ")), "{out}");
+}
+
+#[test]
+fn the_text_format_reads_the_ascii_tensor_and_claims_write_monomials_canonically() {
+    let text = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\n\
+        complex A\n  x (0, 0)\ncomplex B\n  y (0, 0)\ncomplex P\n  p (0, 0)\ncomplex T = tensor A B\n\
+        map f : P -> T degree (0, 0)\n  p -> x(x)y\nmap g : P -> T degree (0, 0)\n  p -> x⊗y\n\
+        goal homotopic f g times UU\n";
+    let p = tubecert::problem::parse_problem(text.as_bytes(), "t.problem.txt").unwrap();
+    assert_eq!(p.maps["f"].terms, p.maps["g"].terms, "x(x)y is read as x⊗y in the text format");
+    let ctx = tubecert::validate::validate(&p).unwrap();
+    let proved = tubecert::prove::prove(p, &ctx, text.as_bytes()).unwrap();
+    assert_eq!(proved.certificate.body.claims[0].statement(), "U^2·(f + g) ≃ 0 (null-homotopic)");
 }

@@ -3,7 +3,7 @@
 //! failed are listed as failed.
 
 use crate::FileReport;
-use tubecert_format::statement::{render_grading, ring_name, SCOPE};
+use tubecert_format::statement::{render_grading, ring_name, BORDERED_SCOPE, SCOPE};
 use tubecert_format::{Claim, MapExpr};
 
 /// The facts both formats show.
@@ -24,7 +24,7 @@ fn witness_size(c: &Claim) -> usize {
             witness.basis.len() + witness.inverse.len()
         }
         Claim::TorsionOrder { witness, .. } => witness.homotopy.len() + witness.dual.as_ref().map_or(0, |d| d.len()),
-        Claim::Complex { .. } | Claim::ChainMap { .. } => 0,
+        _ => 0,
     }
 }
 
@@ -64,6 +64,9 @@ pub fn markdown(r: &FileReport) -> String {
     o += &format!("## Certificate `{}`\n\n", r.file);
     o += &format!("SHA-256 (RFC 8785 canonical body): `{}`\n\n", r.sha256);
     o += &format!("> {SCOPE}\n\n");
+    if r.body.bordered.is_some() {
+        o += &format!("> {BORDERED_SCOPE}\n\n");
+    }
     o += &format!("**Ring** {} — {}.\n\n", s.ring, s.conventions.join(", "));
     o += "| complex | generators | differential terms |\n|---|---|---|\n";
     for (n, g, t) in &s.complexes {
@@ -152,6 +155,25 @@ fn tex_claim(c: &Claim, vars: &[String]) -> String {
             format!("$\\operatorname{{Ord}}_{{{variable}}}(H_*({})) = {order}$", tex_name(complex))
         }
         Claim::Tau { complex, tau, .. } => format!("$\\tau({}) = {tau}$", tex_name(complex)),
+        Claim::TypeDStructure { structure, .. } => {
+            format!("${}$ is a type $D$ structure over $\\mathcal{{A}}(T^2)$", tex_name(structure))
+        }
+        Claim::TypeAModule { module, max_length, .. } => format!(
+            "${}$ is a strictly unital type $A$ module over $\\mathcal{{A}}(T^2)$ (relations on words of length $\\le {max_length}$)",
+            tex_name(module)
+        ),
+        Claim::TypeDMorphism { morphism, .. } => format!("${}$ is a type $D$ morphism, $\\partial {} = 0$", tex_name(morphism), tex_name(morphism)),
+        Claim::BoxTensor { complex, module, structure, .. } => {
+            format!("${} = {} \\boxtimes {}$", tex_name(complex), tex_name(module), tex_name(structure))
+        }
+        Claim::BoxTensorMap { map, module, morphism, .. } => {
+            format!("${} = \\mathrm{{id}}_{{{}}} \\boxtimes {}$", tex_name(map), tex_name(module), tex_name(morphism))
+        }
+        Claim::Complement { structure, complex, framing, tau, .. } => format!(
+            "${}$ is $\\widehat{{CFD}}$ of the complement of the knot with complex ${}$, framing ${framing}$ (LOT Thm 11.26), $\\tau = {tau}$",
+            tex_name(structure),
+            tex_name(complex)
+        ),
     }
 }
 
@@ -167,6 +189,12 @@ pub fn latex(r: &FileReport) -> String {
     o += "\\section*{Machine-checked certificate}\n";
     o += &format!("File {}.\\\\\nSHA-256 of the RFC~8785 canonical body: {hash}.\n\n", breakable(&tt(&r.file)));
     o += &format!("\\emph{{{}}}\n\n", SCOPE);
+    if r.body.bordered.is_some() {
+        o += &format!(
+            "\\emph{{{}}}\n\n",
+            BORDERED_SCOPE.replace('⊠', "$\\boxtimes$").replace('≃', "$\\simeq$").replace("^-", "$^-$")
+        );
+    }
     let conv: Vec<String> =
         s.conventions.iter().map(|c| c.replace("deg ∂", "\\deg\\partial").replace("deg ", "\\deg ")).collect();
     o += &format!(

@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term, CERTIFICATE_VERSION};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -184,6 +184,33 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
+/// The Alexander grading τ is read in: over `F2[U]` the named grading, which U must lower by 1;
+/// over `F2[U,V]` (on the V = 0 quotient) A = (g_1 − g_2)/2, which U must lower by 1, V raise by
+/// 1 and ∂ preserve, named by `alexander` (not one of the ring's gradings). Anything else has
+/// no τ, and the error says why.
+pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> i64, String> {
+    let two = r.num_vars() == 2;
+    let a = if r.num_vars() == 1 { r.grading_index(alexander)? } else { 0 };
+    let alex = move |g: &[i64]| if two { (g[0] - g[1]).div_euclid(2) } else { g[a] };
+    let usual = match r.num_vars() {
+        1 => r.var_degrees[0][a] == -1,
+        2 => {
+            r.gradings.len() == 2
+                && !r.gradings.iter().any(|g| g == alexander)
+                && alex(&r.var_degrees[0]) == -1
+                && alex(&r.var_degrees[1]) == 1
+                && r.differential_degree[0] == r.differential_degree[1]
+        }
+        _ => false,
+    };
+    match (r.num_vars(), usual) {
+        (_, true) => Ok(alex),
+        (0, _) => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
+        (1, _) => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
+        _ => Err(format!("τ over F2[U,V] is read on the V = 0 quotient in A = (g_1 − g_2)/2, named \"{alexander}\": it needs two gradings, U lowering A by 1, V raising it by 1, ∂ preserving it, and a name that is not one of the ring's gradings")),
+    }
+}
+
 /// The names a claim holds are in the alphabet, and the monomials of its map expressions are
 /// written canonically, so that its statement prints its fields and nothing else (exit 2).
 pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
@@ -206,18 +233,30 @@ pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
         Claim::Homology { complex, witness, .. } => (vec![complex], Some(witness)),
         Claim::TorsionOrderOfComplex { complex, variable, witness, .. } => (vec![complex, variable], Some(witness)),
         Claim::Tau { complex, alexander, witness, .. } => (vec![complex, alexander], Some(witness)),
+        Claim::TypeDStructure { structure, .. } => (vec![structure], None),
+        Claim::TypeAModule { module, .. } => (vec![module], None),
+        Claim::TypeDMorphism { morphism, .. } => (vec![morphism], None),
+        Claim::BoxTensor { complex, module, structure, .. } => (vec![complex, module, structure], None),
+        Claim::BoxTensorMap { map, module, morphism, .. } => (vec![map, module, morphism], None),
+        Claim::Complement { complex, structure, .. } => (vec![complex, structure], None),
     };
     let generators = basis.into_iter().flat_map(|w| w.generators.keys());
     names.into_iter().chain(generators).try_for_each(|n| check_name(n))
 }
 
-/// Verifies one claim of a certificate of format `version`; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
-    let vars = &ctx.ring.variables;
+/// The claim's statement is the checker's own wording of its fields.
+pub fn check_statement(ctx: &Context, claim: &Claim, version: u32) -> Result<(), String> {
     let expected = render(claim, &ctx.ring, version);
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
+    Ok(())
+}
+
+/// Verifies one claim of a certificate of format `version`; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
+    let vars = &ctx.ring.variables;
+    check_statement(ctx, claim, version)?;
     let mut facts = BTreeMap::new();
     match claim {
         Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
@@ -257,10 +296,15 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             facts.insert("torsion".into(), json!(dec.torsion));
         }
         Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
-            if vars.first() != Some(variable) {
+            let c = ctx.complex_named(complex)?;
+            // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
+            let other = vars.iter().find(|v| *v != variable).filter(|_| vars.len() == 2);
+            let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            if hctx.ring.variables.first() != Some(variable) {
                 return Err(format!("variable {variable} is not the ring's variable"));
             }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let dec = check_homology(hctx, hc, witness)?;
             let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
             if found != *order {
                 return Err(format!("the basis shows torsion order {found}, not {order}"));
@@ -268,21 +312,29 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             facts.insert("order".into(), json!(order));
         }
         Claim::Tau { complex, alexander, tau, witness, .. } => {
-            let a = ctx.ring.grading_index(alexander)?;
-            if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
-                return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
-            }
+            let c = ctx.complex_named(complex)?;
+            let alex = alexander_of(&ctx.ring, alexander)?;
+            let two = vars.len() == 2;
             // Version 1 did not name the grading: read it only where the words cannot mislead.
-            let choices = ctx.ring.var_degrees[0].iter().filter(|&&d| d == -1).count();
-            if version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+            let choices = ctx.ring.var_degrees.first().map_or(0, |d| d.iter().filter(|&&d| d == -1).count());
+            if !two && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
                 return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
             }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let quotient = if two { Some(ctx.specialized(c, &vars[1], 0)?) } else { None };
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            let dec = check_homology(hctx, hc, witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
             };
-            if -g[a] != *tau {
-                return Err(format!("the free generator has Alexander grading {}, so τ = {}, not {tau}", g[a], -g[a]));
+            if two && (g[0] - g[1]) % 2 != 0 {
+                return Err("the free generator has gr_U − gr_V odd: no Alexander grading".into());
+            }
+            if -alex(g) != *tau {
+                return Err(format!(
+                    "the free generator has Alexander grading {}, so τ = {}, not {tau}",
+                    alex(g),
+                    -alex(g)
+                ));
             }
             facts.insert("tau".into(), json!(tau));
         }
@@ -308,6 +360,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
                 facts.insert("reading".into(), json!(surface_reading(variable, *order)));
             }
         }
+        _ => return Err("a bordered claim is checked by crate::bordered".into()),
     }
     Ok(facts)
 }
@@ -338,19 +391,56 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
 /// Verifies a whole body of a certificate of format `version`: implicit object checks, then
 /// each claim.
 pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<ClaimResult>, Vec<String>> {
+    use crate::bordered::{Failure, Objects};
     let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     for (i, claim) in body.claims.iter().enumerate() {
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
+    let b = body.bordered.as_ref();
+    let objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
+    if let Some(b) = b {
+        let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
+        names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
+        names.sort();
+        names.iter().try_for_each(|n| check_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
+        if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
+            return Err(vec![format!(
+                "the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)",
+                w[0]
+            )]);
+        }
+    }
     let mut out = check_objects(&ctx);
+    out.extend(objects.iter().flat_map(|o| check_objects(&o.full)));
     for claim in &body.claims {
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
+            None => check_claim(&ctx, claim, version),
+            Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
+            Some(Err(Failure::False(e))) => Err(e),
+            Some(Ok(facts)) => Ok(facts),
+        };
         out.push(ClaimResult {
             kind: claim.kind().into(),
             // What the fields say: a statement that differs is not shown as if it were checked.
             statement: render(claim, &ctx.ring, version),
             implicit: false,
-            outcome: check_claim(&ctx, claim, version),
+            outcome,
         });
     }
     Ok(out)
+}
+
+/// The number of written items (generators, terms, families, claims) of a body: the work
+/// budget of the bordered checks is proportional to it.
+fn written_items(body: &tubecert_format::Body) -> u64 {
+    let cx = |c: &tubecert_format::ComplexSpec| c.generators.len() + c.differential.len();
+    let mut n = body.claims.len() + body.complexes.values().map(cx).sum::<usize>();
+    n += body.maps.values().map(|m| m.terms.len()).sum::<usize>();
+    if let Some(b) = &body.bordered {
+        n += b.full_complexes.values().map(cx).sum::<usize>();
+        n += b.type_d_structures.values().map(|d| d.generators.len() + d.differential.len()).sum::<usize>();
+        n += b.type_a_modules.values().map(|m| m.generators.len() + m.operations.len()).sum::<usize>();
+        n += b.type_d_morphisms.values().map(|f| f.terms.len()).sum::<usize>();
+    }
+    n as u64 + 1
 }

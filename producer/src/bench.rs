@@ -229,6 +229,8 @@ pub fn synthetic_problem(
             order: Some(PLANTED_ORDER),
             max_order: 16,
         }],
+        bordered: None,
+        bordered_claims: Vec::new(),
     })
 }
 

@@ -3,6 +3,7 @@
 //! Each produces an explicit [`ComplexSpec`] / [`MapSpec`]; certificates only ever contain the
 //! explicit result, so the checker needs none of this.
 
+use crate::bordered::Built;
 use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
@@ -213,10 +214,16 @@ pub fn resolve(
     ring: &Ring,
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, Value>,
-) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
+    sections: [&BTreeMap<String, Value>; 3],
+    text: bool,
+) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
+    // Bordered objects first: box tensor products and cables are made from them.
+    let mut bordered = Built::default();
+    let [structures, modules, morphisms] = sections;
+    crate::bordered::resolve_sections(ring, structures, modules, morphisms, complexes, &mut bordered, &mut errs);
     // Explicit maps first: cones need them.
     for (name, v) in maps {
         if v.get("from").is_some() {
@@ -233,7 +240,7 @@ pub fn resolve(
         let before = pending.len();
         let mut still = Vec::new();
         for name in pending {
-            match build_complex(ring, &complexes[name], &done, &done_maps) {
+            match build_complex(ring, name, &complexes[name], &done, &done_maps, complexes, &mut bordered) {
                 Ok(Some(c)) => {
                     done.insert(name.clone(), c);
                 }
@@ -243,14 +250,24 @@ pub fn resolve(
         }
         if still.len() == before {
             for n in still {
-                let refs = referenced(&complexes[n]);
+                let refs = referenced(&complexes[n], &done_maps);
+                // A suggestion never names the complex being defined.
+                let others = complexes.keys().filter(|k| *k != n);
                 errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
                     Some(m) => format!(
                         "complex {n}: complex \"{m}\" is not declared{}",
-                        tubecheck::report_terms::suggest(m, complexes.keys())
+                        tubecheck::report_terms::suggest(m, others)
                     ),
                     None => {
-                        format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", "))
+                        let waiting: Vec<&str> = refs.into_iter().filter(|r| !done.contains_key(*r)).collect();
+                        match waiting.as_slice() {
+                            [] => format!("complex {n}: its pieces could not be built (see the errors above)"),
+                            w if w.contains(&n.as_str()) => format!("complex {n}: is built from itself"),
+                            w => format!(
+                                "complex {n}: is built from {} (which could not be built, or is built from {n} in turn)",
+                                w.join(", ")
+                            ),
+                        }
                     }
                 });
             }
@@ -259,8 +276,15 @@ pub fn resolve(
         pending = still;
     }
     for (name, v) in maps {
-        if let Some(arg) = v.get("tensor_maps") {
-            match build_tensor_map(ring, arg, complexes, &done_maps) {
+        if let Some(arg) = v.get("box_tensor_map") {
+            match crate::bordered::box_tensor_map_entry(name, arg, complexes, &done, &mut bordered) {
+                Ok(m) => {
+                    done_maps.insert(name.clone(), m);
+                }
+                Err(e) => errs.push(format!("map {name}: {e}")),
+            }
+        } else if let Some(arg) = v.get("tensor_maps") {
+            match build_tensor_map(ring, arg, complexes, &done_maps, text) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -268,21 +292,22 @@ pub fn resolve(
             }
         } else if v.get("from").is_none() {
             errs.push(format!(
-                "map {name}: expected an explicit map {{from, to, degree, terms}} or {{\"tensor_maps\": [f, g]}}"
+                "map {name}: expected an explicit map {{from, to, degree, terms}}, {{\"tensor_maps\": [f, g]}} or {{\"box_tensor_map\": [M, f]}}"
             ));
         }
     }
     if errs.is_empty() {
-        Ok((done, done_maps))
+        Ok((done, done_maps, bordered))
     } else {
         Err(errs)
     }
 }
 
 /// The complexes a construction is made from, by name.
-fn referenced(v: &Value) -> Vec<&str> {
+fn referenced<'a>(v: &'a Value, maps: &'a BTreeMap<String, MapSpec>) -> Vec<&'a str> {
     let Some((op, arg)) = v.as_object().and_then(|o| o.iter().next()) else { return Vec::new() };
     match (op.as_str(), arg) {
+        ("cone", Value::String(f)) => maps.get(f).map_or(vec![], |m| vec![m.from.as_str(), m.to.as_str()]),
         ("tensor" | "direct_sum", Value::Array(a)) => a.iter().filter_map(Value::as_str).collect(),
         ("dual", Value::String(c)) => vec![c.as_str()],
         ("shift", Value::Array(a)) => a.first().and_then(Value::as_str).into_iter().collect(),
@@ -290,12 +315,29 @@ fn referenced(v: &Value) -> Vec<&str> {
     }
 }
 
+/// `{"torus_knot": [p, q]}` or `{"alexander": [a_0, …, a_2n]}` over `ring`.
+pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> {
+    let exps: Vec<i64> = if let Some(pq) = arg.get("torus_knot") {
+        let pq: Vec<u32> = serde_json::from_value(pq.clone()).map_err(|e| format!("torus_knot: {e}"))?;
+        let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
+        torus_knot_exponents(p, q)?
+    } else if let Some(a) = arg.get("alexander") {
+        serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
+    } else {
+        return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
+    };
+    staircase(ring, &exps)
+}
+
 /// Builds one complex; `Ok(None)` when it depends on one not built yet.
 fn build_complex(
     ring: &Ring,
+    name: &str,
     v: &Value,
     done: &Complexes,
     maps: &BTreeMap<String, MapSpec>,
+    defs: &BTreeMap<String, Value>,
+    bordered: &mut Built,
 ) -> Result<Option<ComplexSpec>, String> {
     if v.get("generators").is_some() {
         return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
@@ -314,18 +356,7 @@ fn build_complex(
     };
     let get = |n: &str| done.get(n);
     Ok(match op.as_str() {
-        "staircase" => {
-            let exps: Vec<i64> = if let Some(pq) = arg.get("torus_knot") {
-                let pq: Vec<u32> = serde_json::from_value(pq.clone()).map_err(|e| format!("torus_knot: {e}"))?;
-                let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
-                torus_knot_exponents(p, q)?
-            } else if let Some(a) = arg.get("alexander") {
-                serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
-            } else {
-                return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
-            };
-            Some(staircase(ring, &exps)?)
-        }
+        "staircase" => Some(build_staircase(ring, arg)?),
         "tensor" | "direct_sum" => {
             let n = names(2)?;
             let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
@@ -357,17 +388,19 @@ fn build_complex(
                 .map(|v| v.as_str().map(String::from).ok_or("quotient: variables are names"))
                 .collect::<Result<_, _>>()?;
             let source_ring = quotient_source(ring, &zeroed)?;
-            // The source is written over the larger ring, so it is given inline (a definition
-            // or a construction), not as a name of this problem's complexes.
+            // The source lives over the larger ring: it is given inline, and names in it stand
+            // for their definitions, rebuilt and validated over that ring.
             if a[0].is_string() {
                 return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
             }
-            let Some(src) = build_complex(&source_ring, &a[0], done, maps)? else { return Ok(None) };
+            let src = crate::bordered::inline_source(&source_ring, &a[0], defs, 0).map_err(|e| format!("quotient source: {e}"))?;
             Some(quotient(&source_ring, ring, &src)?)
         }
+        "cable" => Some(crate::bordered::cable(name, arg, ring, defs, bordered)?),
+        "box_tensor" => Some(crate::bordered::box_tensor_complex(name, arg, bordered)?),
         other => {
             return Err(format!(
-                "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient)"
+                "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient, cable, box_tensor)"
             ))
         }
     })
@@ -431,6 +464,7 @@ fn build_tensor_map(
     arg: &Value,
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, MapSpec>,
+    text: bool,
 ) -> Result<MapSpec, String> {
     let pair: [String; 2] =
         serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
@@ -443,7 +477,14 @@ fn build_tensor_map(
             .iter()
             .find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b])))
             .map(|(n, _)| n.clone())
-            .ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
+            .ok_or(match text {
+                true => format!(
+                    "tensor_maps: declare the tensor product of {a} and {b} first: complex NAME = tensor {a} {b}"
+                ),
+                false => format!(
+                    "tensor_maps: declare the tensor product of {a} and {b} first: {{\"tensor\": [\"{a}\", \"{b}\"]}}"
+                ),
+            })
     };
     tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
 }
