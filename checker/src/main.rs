@@ -57,6 +57,16 @@ fn is_problem_file(bytes: &[u8]) -> bool {
 fn main() -> ExitCode {
     std::panic::set_hook(Box::new(|_| {})); // a panic is reported as the file's refusal below
     let args = Args::parse();
+    // A prefix (as tables print) would match more than one file in principle: refuse it.
+    if let Some(h) =
+        args.expect.iter().find(|h| h.trim().len() != 64 || !h.trim().chars().all(|c| c.is_ascii_hexdigit()))
+    {
+        eprintln!(
+            "tubecheck: --expect {h}: a SHA-256 hash has all 64 hex digits ({} given); copy the whole hash tubecheck prints, not a prefix",
+            h.trim().len()
+        );
+        return ExitCode::from(2);
+    }
     let mut files = Vec::new();
     for p in &args.paths {
         if let Err(e) = collect(p, true, &mut files) {

@@ -126,6 +126,14 @@ fn a_problem_file_named_by_mistake_is_explained() {
 }
 
 #[test]
+fn expect_needs_the_whole_hash() {
+    let cert = format!("{}/tower.cert.json", certificates());
+    let (code, _, err) = tubecheck(&[&cert, "--expect", "3f1c"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("all 64 hex digits (4 given)"), "{err}");
+}
+
+#[test]
 fn a_folder_with_nothing_to_check_exits_2() {
     let dir = std::env::temp_dir().join(format!("tubecheck-cli-empty-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();

@@ -328,7 +328,7 @@ fn run() -> ExitCode {
                 })
                 .and_then(|v| match to.as_str() {
                     "text" => tubecert::text_format::render(&v).map_err(|e| vec![format!("{name}: {e}")]),
-                    _ => Ok(serde_json::to_string_pretty(&v).expect("values serialize") + "\n"),
+                    _ => Ok(tubecert::problem::json_for_reading(&v)),
                 });
             match converted {
                 Ok(text) => write_output(&text, output),

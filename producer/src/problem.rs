@@ -288,3 +288,42 @@ pub fn from_written(mut w: WrittenProblem) -> Result<Problem, Vec<String>> {
         bordered_claims,
     })
 }
+
+/// JSON for reading: objects and arrays of arrays one entry per line, and an array of plain
+/// values (a term `[x, coefficient, y]`, a grading) on one line.
+pub fn json_for_reading(v: &serde_json::Value) -> String {
+    use serde_json::Value;
+    fn write(v: &Value, indent: usize, out: &mut String) {
+        let pad = "  ".repeat(indent + 1);
+        let flat = |v: &Value| serde_json::to_string(v).expect("values serialize");
+        match v {
+            Value::Array(a) if a.iter().all(|x| !x.is_array() && !x.is_object()) => {
+                out.push_str(&format!("[{}]", a.iter().map(flat).collect::<Vec<_>>().join(", ")))
+            }
+            Value::Array(a) => {
+                out.push_str("[\n");
+                for (i, x) in a.iter().enumerate() {
+                    out.push_str(&pad);
+                    write(x, indent + 1, out);
+                    out.push_str(if i + 1 < a.len() { ",\n" } else { "\n" });
+                }
+                out.push_str(&"  ".repeat(indent));
+                out.push(']');
+            }
+            Value::Object(o) if !o.is_empty() => {
+                out.push_str("{\n");
+                for (i, (k, x)) in o.iter().enumerate() {
+                    out.push_str(&format!("{pad}{}: ", flat(&Value::String(k.clone()))));
+                    write(x, indent + 1, out);
+                    out.push_str(if i + 1 < o.len() { ",\n" } else { "\n" });
+                }
+                out.push_str(&"  ".repeat(indent));
+                out.push('}');
+            }
+            other => out.push_str(&flat(other)),
+        }
+    }
+    let mut out = String::new();
+    write(v, 0, &mut out);
+    out + "\n"
+}

@@ -411,7 +411,11 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     let solve = start.elapsed().saturating_sub(reduce + transport);
     let (mut complexes, mut maps) = (problem.complexes, problem.maps);
     if options.emit_reduction {
-        lines.extend(emit_reductions(&mut b, &mut complexes, &mut maps)?);
+        let emitted = emit_reductions(&mut b, &mut complexes, &mut maps)?;
+        if emitted.is_empty() {
+            lines.push("--emit-reduction: nothing to reduce (no complex had a unit arrow to cancel, or no goal needed a reduced model); no reduction claim added".into());
+        }
+        lines.extend(emitted);
     }
     let Builder { claims, solver, .. } = b;
     drop(solver); // the reductions are not needed any more: free them before the self-check

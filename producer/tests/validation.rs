@@ -187,3 +187,39 @@ fn construction_errors_name_real_complexes_and_speak_the_users_format() {
     assert!(err.contains("complex NAME = tensor P P"), "{err}");
     assert!(!err.contains('{'), "JSON told to a text user: {err}");
 }
+
+#[test]
+fn emit_reduction_says_when_there_was_nothing_to_reduce() {
+    let p = write(
+        "small.txt",
+        &format!("{MINUS}complex A\n  a (0, 0)\nmap F : A -> A degree (0, 0)\n  a -> a\ngoal homotopic F F\n"),
+    );
+    let (code, out, err) = tubecert(&["prove", &p, "-o", &format!("{p}.cert.json"), "--emit-reduction"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("--emit-reduction: nothing to reduce"), "{out}");
+}
+
+#[test]
+fn the_test_script_installs_python_packages_into_a_virtual_environment() {
+    let script = include_str!("../../scripts/test.sh");
+    assert!(script.contains("python3 -m venv"), "{script}");
+    assert!(!script.lines().any(|l| l.starts_with("python3 -m pip")), "a system-wide install: {script}");
+    let ci = include_str!("../../.ci/run");
+    assert!(ci.contains("python3-venv"));
+}
+
+#[test]
+fn convert_to_json_writes_one_term_per_line() {
+    let root = concat!(env!("CARGO_MANIFEST_DIR"), "/../examples/pair.problem.txt");
+    let (code, out, err) = tubecert(&["convert", root, "--to", "json"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.lines().any(|l| l.trim() == "[\"b\", \"U^3\", \"a\"]"), "{out}");
+    assert!(out.lines().any(|l| l.trim() == "\"b\": [-5, -3],"), "{out}");
+    // Same problem as before, read back.
+    let back = write("pair-back.problem.json", &out);
+    let (code, _, err) = tubecert(&["check-input", &back]);
+    assert_eq!(code, 0, "{err}");
+    let value: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let text = std::fs::read_to_string(root).unwrap();
+    assert_eq!(value, tubecert::text_format::parse(&text).unwrap());
+}
