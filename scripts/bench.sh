@@ -15,3 +15,5 @@ target/release/tubecert bench --generators 20000 --source-generators 20000 --no-
 # Hom questions between reduced complexes over F2[U,V] (T(13,14)^⊗3 and T(11,12)^⊗3).
 target/release/tubecert bench --case reduced-identity --no-header
 target/release/tubecert bench --case reduced-uv --no-header
+# Denser inflation: about 9.4 arrows per generator.
+target/release/tubecert bench --generators 100000 --density 9.4 --no-header

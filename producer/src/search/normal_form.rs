@@ -11,7 +11,7 @@ use super::monomials::total_degree;
 use std::cmp::Reverse;
 use std::collections::BinaryHeap;
 use tubecert_format::Mono;
-use tubecheck::algebra::{normalize, push_scaled, Vector};
+use tubecheck::algebra::Vector;
 use tubecheck::load::Complex;
 
 /// Which arrows may be cancelled.
@@ -65,13 +65,74 @@ fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
     row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
 }
 
-/// `target += Σ_f f·src` for the monomials f of `factor`.
+/// `target += Σ_f f·src` for the monomials f of `factor`, by merging: both are sorted without
+/// repeats and multiplying by f keeps the order, so this gives exactly what sorting would.
 fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
     for &f in factor {
-        push_scaled(target, f, src)?;
+        let mut merged = Vec::with_capacity(target.len() + src.len());
+        let mut t = target.iter().copied().peekable();
+        for &(g, n) in src {
+            let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
+            while let Some(&x) = t.peek() {
+                if x >= term {
+                    break;
+                }
+                merged.push(x);
+                t.next();
+            }
+            if t.peek() == Some(&term) {
+                t.next(); // 1 + 1 = 0
+            } else {
+                merged.push(term);
+            }
+        }
+        merged.extend(t);
+        *target = merged;
     }
-    normalize(target);
     Ok(())
+}
+
+/// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and
+/// `f(t, false)` for each in `old` but not in `new` (both sorted by generator).
+fn each_change(old: &Vector, new: &Vector, mut f: impl FnMut(u32, bool)) {
+    let gens = |v: &Vector| {
+        let mut g: Vec<u32> = v.iter().map(|t| t.0).collect();
+        g.dedup();
+        g
+    };
+    let (old, new) = (gens(old), gens(new));
+    let (mut i, mut j) = (0, 0);
+    while i < old.len() || j < new.len() {
+        match (old.get(i), new.get(j)) {
+            (Some(a), Some(b)) if a == b => (i, j) = (i + 1, j + 1),
+            (Some(&a), Some(&b)) if a < b => (f(a, false), i += 1).1,
+            (Some(&a), None) => (f(a, false), i += 1).1,
+            (_, Some(&b)) => (f(b, true), j += 1).1,
+            (None, None) => break,
+        }
+    }
+}
+
+/// Candidate pivots, smallest key first: the arrows present at the start, sorted once (a scan,
+/// where a heap of all of them would cost a cache miss per level), merged with a heap of the
+/// arrows pushed later. The order of pops is the order of one heap holding everything.
+struct Candidates<K: Ord + Copy> {
+    initial: Vec<K>,
+    next: usize,
+    later: BinaryHeap<Reverse<K>>,
+}
+
+impl<K: Ord + Copy> Candidates<K> {
+    fn pop(&mut self) -> Option<K> {
+        match (self.initial.get(self.next), self.later.peek()) {
+            (Some(&i), Some(&Reverse(l))) if l < i => self.later.pop().map(|r| r.0),
+            (Some(&i), _) => {
+                self.next += 1;
+                Some(i)
+            }
+            (None, _) => self.later.pop().map(|r| r.0),
+        }
+    }
 }
 
 pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
@@ -88,20 +149,25 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let mut inverse_rows: Vec<Vector> = (0..n as u32).map(unit).collect();
     let mut done = vec![false; n];
     let mut pairs = Vec::new();
-    let mut heap = BinaryHeap::new();
-    let push_arrows = |heap: &mut BinaryHeap<_>, a: u32, row: &Vector, inc: &[Sources]| {
+    // Key (degree of m, fill-in cost, a, b, m) packed as (degree·2^42 + cost, a·2^32 + b, m): the
+    // same order in 24 bytes (degrees stay below 2^22; a cost past 2^42 is capped).
+    let arrows = |a: u32, row: &Vector, inc: &[Sources], into: &mut dyn FnMut((u64, u64, Mono))| {
         for (i, &(b, m)) in row.iter().enumerate() {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
             if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
                 let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
-                heap.push(Reverse((total_degree(m), cost, a, b, m)));
+                into(((total_degree(m) << 42) | cost.min((1 << 42) - 1), ((a as u64) << 32) | b as u64, m));
             }
         }
     };
+    let mut initial = Vec::new();
     for (a, row) in out.iter().enumerate() {
-        push_arrows(&mut heap, a as u32, row, &inc);
+        arrows(a as u32, row, &inc, &mut |k| initial.push(k));
     }
-    while let Some(Reverse((_, _, a, b, m))) = heap.pop() {
+    initial.sort_unstable();
+    let mut heap = Candidates { initial, next: 0, later: BinaryHeap::new() };
+    while let Some((_, ab, m)) = heap.pop() {
+        let (a, b) = ((ab >> 32) as u32, ab as u32);
         let (au, bu) = (a as usize, b as usize);
         if done[au] || done[bu] || coefficient(&out[au], b) != [m] {
             continue;
@@ -114,37 +180,42 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         {
             continue;
         }
-        let row_a = out[au].clone();
+        // Taken out while the other rows change (a is none of them), put back below.
+        let row_a = std::mem::take(&mut out[au]);
+        let basis_a = std::mem::take(&mut basis[au]);
+        let mut inverse_a = std::mem::take(&mut inverse_rows[au]);
         for a2 in others {
             let a2u = a2 as usize;
             let factor: Vec<Mono> =
                 coefficient(&out[a2u], b).iter().map(|c| c.checked_div(m).expect("checked")).collect();
-            for &(t, _) in &out[a2u] {
-                inc[t as usize].remove(&a2);
-            }
+            let before = out[a2u].clone();
             add_multiple(&mut out[a2u], &factor, &row_a)?;
-            for &(t, _) in &out[a2u] {
-                inc[t as usize].insert(a2);
-            }
-            push_arrows(&mut heap, a2, &out[a2u], &inc);
-            let ba = basis[au].clone();
-            add_multiple(&mut basis[a2u], &factor, &ba)?;
-            let ia2 = inverse_rows[a2u].clone();
-            add_multiple(&mut inverse_rows[au], &factor, &ia2)?;
+            // Only the generators that enter or leave the row change their sources.
+            each_change(&before, &out[a2u], |t, entered| match entered {
+                true => inc[t as usize].insert(a2),
+                false => inc[t as usize].remove(&a2),
+            });
+            arrows(a2, &out[a2u], &inc, &mut |k| heap.later.push(Reverse(k)));
+            add_multiple(&mut basis[a2u], &factor, &basis_a)?;
+            add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
         }
+        basis[au] = basis_a;
+        inverse_rows[au] = inverse_a;
         // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
         for x in std::mem::take(&mut inc[au]).0 {
             out[x as usize].retain(|t| t.0 != a);
         }
         // b ← b + Σ (c''/m)·b'' absorbs the rest of ∂a.
+        let mut basis_b = std::mem::take(&mut basis[bu]);
+        let inverse_b = std::mem::take(&mut inverse_rows[bu]);
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
             let f = [c2.checked_div(m).expect("checked")];
-            let bb2 = basis[b2 as usize].clone();
-            add_multiple(&mut basis[bu], &f, &bb2)?;
-            let ib = inverse_rows[bu].clone();
-            add_multiple(&mut inverse_rows[b2 as usize], &f, &ib)?;
+            add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+            add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
             inc[b2 as usize].remove(&a);
         }
+        basis[bu] = basis_b;
+        inverse_rows[bu] = inverse_b;
         out[au] = vec![(b, m)];
         // ∂b = 0 in the new basis.
         for (t, _) in std::mem::take(&mut out[bu]) {
