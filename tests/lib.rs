@@ -2,6 +2,8 @@
 //! independent evaluator of the two defining identities (written without the checker's code),
 //! used to decide whether a mutated witness is semantically neutral.
 
+pub mod bordered_oracle;
+
 use serde_json::Value;
 use std::collections::BTreeMap;
 use tubecert::prove::Proved;
