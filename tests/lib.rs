@@ -485,6 +485,10 @@ pub mod oracle {
 
     /// Does every implicit check and every claim of the body hold?
     pub fn holds(body: &Body) -> bool {
+        // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
+        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
+            return false;
+        }
         let vars = &body.ring.variables;
         let var_deg: Vec<Vec<i64>> = vars.iter().map(|v| body.ring.variable_degrees[v].clone()).collect();
         let w = World { body, var_deg, delta: body.ring.differential_degree.clone() };
@@ -543,6 +547,15 @@ pub mod oracle {
                     vars.first() == Some(variable)
                         && w.homology(complex, witness)
                             .is_some_and(|(_, t)| t.iter().map(|x| x.0).max().unwrap_or(0) == *order)
+                }
+                // The bordered kinds are decided by their own oracle, over the body as JSON.
+                c if crate::bordered_oracle::cert::KINDS.contains(&c.kind()) => {
+                    let body = serde_json::to_value(body).unwrap();
+                    let claim = serde_json::to_value(c).unwrap();
+                    crate::bordered_oracle::cert::read_bordered(&body)
+                        .and_then(|b| b.ok_or("no bordered member".into()))
+                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim))
+                        .is_ok()
                 }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
             }
