@@ -1,0 +1,430 @@
+//! The bordered claims decided twice — by the checker and by the independent oracle of
+//! `tests/bordered_oracle.rs` (which reads the certificate as plain JSON) — on certificates the
+//! producer writes and on mutations of them: the two must agree on every verdict. Plus the
+//! cross-check of the pairing with the core pattern against the V = 0 quotient, by homology
+//! computed by the oracle, never through a box tensor product.
+
+use serde_json::{json, Value};
+use std::collections::BTreeMap;
+use tubecert_tests::bordered_oracle::{self as bo, cert};
+use tubecert_tests::{minus_ring, oracle, prove_value, Rng};
+
+fn certificate(problem: &Value) -> Value {
+    let proved = prove_value(problem);
+    serde_json::from_slice(&tubecert::canonical_writer::file_bytes(&proved.certificate).unwrap()).unwrap()
+}
+
+/// The checker's verdict on a certificate given as JSON.
+fn checker_accepts(c: &Value) -> bool {
+    tubecheck::check_bytes("mutant", &serde_json::to_vec(c).unwrap()).is_ok_and(|r| r.ok())
+}
+
+/// The oracle's verdict: the bordered arms over JSON, and the oracle of `tests/lib.rs` for the
+/// ordinary objects (complexes, maps) and the statements.
+fn oracle_accepts(body: &Value) -> Result<(), String> {
+    cert::check_body(body)?;
+    let typed: tubecert_format::Body = serde_json::from_value(body.clone()).map_err(|e| e.to_string())?;
+    if !oracle::holds(&typed) {
+        return Err("the oracle of tests/lib.rs refuses".into());
+    }
+    Ok(())
+}
+
+/// A mutated body sealed again: statements re-rendered (they are derived), hash recomputed.
+/// None when the body no longer has the typed shape (then the checker refuses it at loading).
+fn reseal(cert: &Value, body: Value) -> Option<Value> {
+    let mut typed: tubecert_format::Body = serde_json::from_value(body).ok()?;
+    let vars = typed.ring.variables.clone();
+    let rn = tubecert_format::statement::ring_name(&vars);
+    for c in typed.claims.iter_mut() {
+        let text = tubecert_format::statement::render(c, &rn, vars.first().map_or("", |v| v));
+        *c.statement_mut() = text;
+    }
+    let sha = tubecert_format::canonical::canonical_sha256(&typed).ok()?;
+    let mut out = cert.clone();
+    out["body"] = serde_json::to_value(&typed).unwrap();
+    out["sha256"] = json!(sha);
+    Some(out)
+}
+
+const TORUS: [(&str, i64); 3] = [("T23", 1), ("T34", 3), ("T25", 2)];
+
+fn source(name: &str) -> Value {
+    match name {
+        "T23" => json!({"staircase": {"torus_knot": [2, 3]}}),
+        "T34" => json!({"staircase": {"torus_knot": [3, 4]}}),
+        "T25" => json!({"staircase": {"torus_knot": [2, 5]}}),
+        "O" => json!({"staircase": {"alexander": [0]}}),
+        _ => unreachable!(),
+    }
+}
+
+/// Companions with their τ (OS 2003: τ(T(p,q)) = (p−1)(q−1)/2, additive, odd under mirror):
+/// staircases, duals (mirrors), tensor products (connected sums), and sources with ξ_0 = η_0
+/// (the unknot, K # mirror K).
+fn companions() -> Vec<(String, Value, i64)> {
+    let mut out = vec![("unknot".to_string(), source("O"), 0)];
+    for (k, tau) in TORUS {
+        out.push((k.to_string(), source(k), tau));
+        out.push((format!("dual {k}"), json!({"dual": source(k)}), -tau));
+    }
+    out.push(("T23 # T23".into(), json!({"tensor": [source("T23"), source("T23")]}), 2));
+    out.push(("T23 # mirror T23".into(), json!({"tensor": [source("T23"), {"dual": source("T23")}]}), 0));
+    out.push(("T34 # mirror T23".into(), json!({"tensor": [source("T34"), {"dual": source("T23")}]}), 2));
+    out
+}
+
+/// One problem: the complement of SOURCE at framing t, the core, their box tensor product, the
+/// same through `cable`, and the V = 0 quotient of SOURCE.
+fn pairing_problem(src: &Value, t: i64) -> Value {
+    json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
+        "type_d_structures": {"N": {"complement": {"companion": src, "framing": t}}},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
+        "complexes": {
+            "X": {"box_tensor": ["M", "N"]},
+            "K": {"cable": {"companion": src, "p": 1, "q": t + 1}},
+            "Q": {"quotient": [src, "V"]}
+        },
+        "goals": []})
+}
+
+fn framings(tau: i64) -> Vec<i64> {
+    vec![2 * tau - 3, 2 * tau - 1, 2 * tau, 2 * tau + 1, 2 * tau + 4]
+}
+
+/// The homology over F2[U] with (Maslov, Alexander) gradings of a complex of the body, by the
+/// oracle's own cancellation.
+fn homology_of(body: &Value, name: &str) -> bo::Homology {
+    let c = &body["complexes"][name];
+    let gr: BTreeMap<String, (i64, i64)> = c["generators"]
+        .as_object()
+        .unwrap()
+        .iter()
+        .map(|(g, v)| (g.clone(), (v[0].as_i64().unwrap(), v[1].as_i64().unwrap())))
+        .collect();
+    let mut d: bo::UComplex = gr.keys().map(|g| (g.clone(), Default::default())).collect();
+    for t in c["differential"].as_array().unwrap() {
+        for (i, _) in cert::coefficient(t[1].as_str().unwrap(), &["U"]).unwrap() {
+            bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), (i, t[2].as_str().unwrap().to_string()));
+        }
+    }
+    bo::homology(&gr, &d).unwrap()
+}
+
+/// The homology of C/(V) for the full complex C of the body, computed by the oracle.
+fn quotient_homology(body: &Value, full: &str) -> bo::Homology {
+    let c = &body["bordered"]["full_complexes"][full];
+    let gr: BTreeMap<String, (i64, i64)> = c["generators"]
+        .as_object()
+        .unwrap()
+        .iter()
+        .map(|(g, v)| {
+            let (u, w) = (v[0].as_i64().unwrap(), v[1].as_i64().unwrap());
+            (g.clone(), (u, (u - w) / 2))
+        })
+        .collect();
+    let mut d: bo::UComplex = gr.keys().map(|g| (g.clone(), Default::default())).collect();
+    for t in c["differential"].as_array().unwrap() {
+        for (i, j) in cert::coefficient(t[1].as_str().unwrap(), &["U", "V"]).unwrap() {
+            if j == 0 {
+                bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), (i, t[2].as_str().unwrap().to_string()));
+            }
+        }
+    }
+    bo::homology(&gr, &d).unwrap()
+}
+
+#[test]
+fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
+    for (what, src, tau) in companions() {
+        for t in framings(tau) {
+            let c = certificate(&pairing_problem(&src, t));
+            assert!(checker_accepts(&c), "{what}, t = {t}: the checker refuses the producer's certificate");
+            oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+            let body = &c["body"];
+            let kinds: Vec<&str> = body["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+            for k in ["complement", "type_d_structure", "type_a_module", "box_tensor"] {
+                assert!(kinds.contains(&k), "{what}, t = {t}: no {k} claim");
+            }
+            // τ as the complement claim states it (OS 2003, memory: torus knots, sums, mirrors).
+            let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap();
+            assert_eq!(comp["tau"], json!(tau), "{what}");
+            // Pairing theorem for knots (LOT Thm 11.21) with the core: CFK^-(K) itself; compared
+            // with the quotient, through homology only (no box tensor code involved).
+            let hx = homology_of(body, "X");
+            assert_eq!(hx, homology_of(body, "K"), "{what}, t = {t}: cable 1 (t+1) against the box tensor product");
+            assert_eq!(hx, homology_of(body, "Q"), "{what}, t = {t}: against quotient V of SOURCE");
+            let full = comp["complex"].as_str().unwrap();
+            assert_eq!(hx, quotient_homology(body, full), "{what}, t = {t}: against C/(V) of the certificate's C");
+            // HFK^- = F2[U] ⊕ torsion with the tower at (−2τ, −τ) (conventions sheet).
+            assert_eq!(hx.0, vec![(-2 * tau, -tau)], "{what}, t = {t}");
+        }
+    }
+}
+
+/// Picks one element of a JSON array (by index), if any.
+fn pick(rng: &mut Rng, n: usize) -> Option<usize> {
+    (n > 0).then(|| rng.below(n as u64) as usize)
+}
+
+const ALGS: [&str; 7] = ["1", "rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
+
+/// Mutates one term list [from, element, to] of a structure or morphism.
+fn mutate_terms(rng: &mut Rng, terms: &mut Vec<Value>, from: &[String], to: &[String]) -> &'static str {
+    let n = terms.len();
+    match rng.below(4) {
+        0 if n > 0 => {
+            terms.remove(rng.below(n as u64) as usize);
+            "remove a term"
+        }
+        1 if n > 0 => {
+            let i = rng.below(n as u64) as usize;
+            terms[i][2] = json!(to[rng.below(to.len() as u64) as usize]);
+            "retarget a term"
+        }
+        2 if n > 0 => {
+            let i = rng.below(n as u64) as usize;
+            terms[i][1] = json!(ALGS[rng.below(7) as usize]);
+            "change a coefficient"
+        }
+        _ => {
+            let t = json!([
+                from[rng.below(from.len() as u64) as usize],
+                ALGS[rng.below(7) as usize],
+                to[rng.below(to.len() as u64) as usize]
+            ]);
+            terms.push(t);
+            "add a term"
+        }
+    }
+}
+
+fn keys(v: &Value) -> Vec<String> {
+    v.as_object().map(|o| o.keys().cloned().collect()).unwrap_or_default()
+}
+
+const REEBS: [&str; 6] = ["rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
+
+/// One random mutation of a bordered object or claim.
+fn mutate(rng: &mut Rng, body: &mut Value) -> &'static str {
+    let b = &mut body["bordered"];
+    match rng.below(8) {
+        0..=2 => {
+            let names = keys(&b["type_d_structures"]);
+            let Some(i) = pick(rng, names.len()) else { return "none" };
+            let s = &mut b["type_d_structures"][&names[i]];
+            let gens = keys(&s["generators"]);
+            if rng.below(6) == 0 {
+                let g = &gens[rng.below(gens.len() as u64) as usize];
+                if let Some(gr) = s["generators"][g].get_mut("grading") {
+                    gr[1] = json!(gr[1].as_i64().unwrap() + 1);
+                    return "change a grading of a structure generator";
+                }
+                return "none";
+            }
+            mutate_terms(rng, s["differential"].as_array_mut().unwrap(), &gens, &gens)
+        }
+        3 | 4 => {
+            let names = keys(&b["type_a_modules"]);
+            let Some(i) = pick(rng, names.len()) else { return "none" };
+            let ops = b["type_a_modules"][&names[i]]["operations"].as_array_mut().unwrap();
+            let Some(k) = pick(rng, ops.len()) else { return "none" };
+            match rng.below(5) {
+                0 => {
+                    ops.remove(k);
+                    "remove an operation"
+                }
+                1 => {
+                    let p = &mut ops[k]["power"];
+                    let j = rng.below(2) as usize;
+                    p[j] = json!(p[j].as_i64().unwrap() + 1);
+                    "change a power"
+                }
+                2 => {
+                    let field = ["prefix", "repeat", "suffix"][rng.below(3) as usize];
+                    let w = ops[k][field].as_array_mut().unwrap();
+                    match pick(rng, w.len()) {
+                        Some(j) => w[j] = json!(REEBS[rng.below(6) as usize]),
+                        None => w.push(json!(REEBS[rng.below(6) as usize])),
+                    }
+                    "change an input of an operation"
+                }
+                3 => {
+                    let mut e = ops[k].clone();
+                    e["suffix"] = json!(["rho23", "rho2"]);
+                    e["prefix"] = json!(["rho3"]);
+                    e["repeat"] = json!([]);
+                    e["power"] = json!([0, rng.below(4)]);
+                    ops.push(e);
+                    "add an operation"
+                }
+                _ => {
+                    let w = ops[k]["repeat"].as_array_mut().unwrap();
+                    w.push(json!("rho23"));
+                    "lengthen a repeated part"
+                }
+            }
+        }
+        5 => {
+            let names = keys(&b["type_d_morphisms"]);
+            let Some(i) = pick(rng, names.len()) else { return "none" };
+            let f = &b["type_d_morphisms"][&names[i]];
+            let (from, to) = (f["from"].as_str().unwrap().to_string(), f["to"].as_str().unwrap().to_string());
+            let (fg, tg) = (keys(&b["type_d_structures"][&from]["generators"]), keys(&b["type_d_structures"][&to]["generators"]));
+            let terms = b["type_d_morphisms"][&names[i]]["terms"].as_array_mut().unwrap();
+            mutate_terms(rng, terms, &fg, &tg)
+        }
+        6 => {
+            let claims = body["claims"].as_array_mut().unwrap();
+            let idx: Vec<usize> = (0..claims.len()).filter(|&i| claims[i]["kind"] == "complement").collect();
+            let Some(i) = pick(rng, idx.len()) else { return "none" };
+            let c = &mut claims[idx[i]];
+            let (field, by) = [("framing", 1), ("framing", -1), ("tau", 1), ("tau", -1)][rng.below(4) as usize];
+            c[field] = json!(c[field].as_i64().unwrap() + by);
+            "change a framing or τ"
+        }
+        _ => {
+            // A term of a box tensor product or of a map id ⊠ f.
+            let claims = body["claims"].as_array().unwrap().clone();
+            let bt: Vec<&Value> = claims.iter().filter(|c| c["kind"] == "box_tensor" || c["kind"] == "box_tensor_map").collect();
+            let Some(i) = pick(rng, bt.len()) else { return "none" };
+            let terms = if bt[i]["kind"] == "box_tensor" {
+                &mut body["complexes"][bt[i]["complex"].as_str().unwrap()]["differential"]
+            } else {
+                &mut body["maps"][bt[i]["map"].as_str().unwrap()]["terms"]
+            };
+            let terms = terms.as_array_mut().unwrap();
+            let Some(k) = pick(rng, terms.len()) else { return "none" };
+            if rng.below(2) == 0 {
+                terms.remove(k);
+                "remove a term of a box tensor product"
+            } else {
+                terms[k][1] = json!(format!("U^{}", 1 + rng.below(3)));
+                "change a term of a box tensor product"
+            }
+        }
+    }
+}
+
+/// Mutates every certificate `per` times and compares verdicts; returns the disagreements.
+fn campaign(certs: &[(String, Value)], per: usize, seed: u64) -> Vec<String> {
+    let mut bad = Vec::new();
+    let mut rng = Rng(seed);
+    let (mut tried, mut rejected) = (0, 0);
+    for (what, c) in certs {
+        for _ in 0..per {
+            let mut body = c["body"].clone();
+            let how = mutate(&mut rng, &mut body);
+            if body == c["body"] {
+                continue;
+            }
+            tried += 1;
+            let sealed = reseal(c, body.clone());
+            let checker = sealed.as_ref().is_some_and(checker_accepts);
+            let ours = match &sealed {
+                Some(s) => oracle_accepts(&s["body"]),
+                None => Err("no longer the typed shape".into()),
+            };
+            if !checker {
+                rejected += 1;
+            }
+            if checker != ours.is_ok() {
+                bad.push(format!("{what}: after \"{how}\" the checker says {checker}, the oracle {ours:?}"));
+            }
+        }
+    }
+    eprintln!("bordered mutations: {tried} tried, {rejected} rejected, {} disagreements", bad.len());
+    bad
+}
+
+#[test]
+fn checker_and_oracle_agree_on_mutated_pairings() {
+    let mut certs = Vec::new();
+    for (what, src, tau) in companions() {
+        for t in [2 * tau - 2, 2 * tau, 2 * tau + 2] {
+            certs.push((format!("{what}, t = {t}"), certificate(&pairing_problem(&src, t))));
+        }
+    }
+    let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0x5EED_B0D);
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+/// A structure written out in the problem (the oracle's own complement of T(3,4) at framing t,
+/// staircase names as the producer's), a renamed copy, and morphisms between them: the renaming
+/// (ι coefficients), δ¹ itself, and their sum.
+fn morphism_problem(t: i64) -> Value {
+    let mut c = bo::UVComplex::default();
+    // T(3,4): a = (3, 2, 0, −2, −3) (OS 2005); staircase as on the conventions sheet.
+    let a = [3i64, 2, 0, -2, -3];
+    let mut gu = 0;
+    for i in 0..5 {
+        if i > 0 {
+            gu += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
+        }
+        c.gr.insert(format!("x{i}"), (gu, gu - 2 * a[i]));
+    }
+    for i in [1usize, 3] {
+        let e = c.d.entry(format!("x{i}")).or_default();
+        e.insert(((a[i - 1] - a[i]) as u32, 0, format!("x{}", i - 1)));
+        e.insert((0, (a[i] - a[i + 1]) as u32, format!("x{}", i + 1)));
+    }
+    let n = bo::complement(&c, t, false).unwrap();
+    let write = |n: &bo::DStructure, suffix: &str| -> Value {
+        let gens: serde_json::Map<String, Value> = n
+            .idem
+            .iter()
+            .map(|(g, i)| {
+                let mut o = json!({"idempotent": i});
+                if let Some((m, a)) = n.gr.get(g) {
+                    o["grading"] = json!([m, a]);
+                }
+                (format!("{g}{suffix}"), o)
+            })
+            .collect();
+        let terms: Vec<Value> = n
+            .delta
+            .iter()
+            .flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([format!("{x}{suffix}"), alg_name(*al), format!("{y}{suffix}")])))
+            .collect();
+        json!({"generators": gens, "differential": terms})
+    };
+    let rename: Vec<Value> = n.idem.keys().map(|g| json!([g, "1", format!("{g}'")])).collect();
+    let delta: Vec<Value> =
+        n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), y]))).collect();
+    let delta2: Vec<Value> =
+        n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), format!("{y}'")]))).collect();
+    let sum: Vec<Value> = rename.iter().chain(delta2.iter()).cloned().collect();
+    json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
+        "type_d_structures": {"N": write(&n, ""), "N2": write(&n, "'")},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
+        "type_d_morphisms": {"f": {"from": "N", "to": "N2", "terms": rename},
+                             "g": {"from": "N", "to": "N", "terms": delta},
+                             "h": {"from": "N", "to": "N2", "terms": sum}},
+        "complexes": {"X": {"box_tensor": ["M", "N"]}, "X2": {"box_tensor": ["M", "N2"]}},
+        "maps": {"F": {"box_tensor_map": ["M", "f"]}, "G": {"box_tensor_map": ["M", "g"]},
+                 "H": {"box_tensor_map": ["M", "h"]}},
+        "goals": []})
+}
+
+fn alg_name(a: bo::torus::Alg) -> String {
+    if a.is_idempotent() {
+        "1".into()
+    } else {
+        a.name().replace("ρ_", "rho")
+    }
+}
+
+#[test]
+fn morphisms_and_their_maps_agree_and_mutations_too() {
+    let mut certs = Vec::new();
+    for t in [3, 6, 9] {
+        let c = certificate(&morphism_problem(t));
+        assert!(checker_accepts(&c), "t = {t}");
+        oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("t = {t}: {e}"));
+        let kinds: Vec<&str> = c["body"]["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+        assert!(kinds.contains(&"type_d_morphism") && kinds.contains(&"box_tensor_map"), "{kinds:?}");
+        certs.push((format!("morphisms, t = {t}"), c));
+    }
+    let bad = campaign(&certs, tubecert_tests::cases(60) as usize, 0xF00D);
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
