@@ -6,7 +6,7 @@
 
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
-use tubecert_tests::bordered_oracle::{self as bo, cert};
+use tubecert_tests::bordered_oracle::{self as bo, cert, mutation};
 use tubecert_tests::{minus_ring, oracle, prove_value, Rng};
 
 fn certificate(problem: &Value) -> Value {
@@ -142,7 +142,8 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
             assert!(checker_accepts(&c), "{what}, t = {t}: the checker refuses the producer's certificate");
             oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
             let body = &c["body"];
-            let kinds: Vec<&str> = body["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+            let kinds: Vec<&str> =
+                body["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
             for k in ["complement", "type_d_structure", "type_a_module", "box_tensor"] {
                 assert!(kinds.contains(&k), "{what}, t = {t}: no {k} claim");
             }
@@ -162,150 +163,6 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
     }
 }
 
-/// Picks one element of a JSON array (by index), if any.
-fn pick(rng: &mut Rng, n: usize) -> Option<usize> {
-    (n > 0).then(|| rng.below(n as u64) as usize)
-}
-
-const ALGS: [&str; 7] = ["1", "rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
-
-/// Mutates one term list [from, element, to] of a structure or morphism.
-fn mutate_terms(rng: &mut Rng, terms: &mut Vec<Value>, from: &[String], to: &[String]) -> &'static str {
-    let n = terms.len();
-    match rng.below(4) {
-        0 if n > 0 => {
-            terms.remove(rng.below(n as u64) as usize);
-            "remove a term"
-        }
-        1 if n > 0 => {
-            let i = rng.below(n as u64) as usize;
-            terms[i][2] = json!(to[rng.below(to.len() as u64) as usize]);
-            "retarget a term"
-        }
-        2 if n > 0 => {
-            let i = rng.below(n as u64) as usize;
-            terms[i][1] = json!(ALGS[rng.below(7) as usize]);
-            "change a coefficient"
-        }
-        _ => {
-            let t = json!([
-                from[rng.below(from.len() as u64) as usize],
-                ALGS[rng.below(7) as usize],
-                to[rng.below(to.len() as u64) as usize]
-            ]);
-            terms.push(t);
-            "add a term"
-        }
-    }
-}
-
-fn keys(v: &Value) -> Vec<String> {
-    v.as_object().map(|o| o.keys().cloned().collect()).unwrap_or_default()
-}
-
-const REEBS: [&str; 6] = ["rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
-
-/// One random mutation of a bordered object or claim.
-fn mutate(rng: &mut Rng, body: &mut Value) -> &'static str {
-    let b = &mut body["bordered"];
-    match rng.below(8) {
-        0..=2 => {
-            let names = keys(&b["type_d_structures"]);
-            let Some(i) = pick(rng, names.len()) else { return "none" };
-            let s = &mut b["type_d_structures"][&names[i]];
-            let gens = keys(&s["generators"]);
-            if rng.below(6) == 0 {
-                let g = &gens[rng.below(gens.len() as u64) as usize];
-                if let Some(gr) = s["generators"][g].get_mut("grading") {
-                    gr[1] = json!(gr[1].as_i64().unwrap() + 1);
-                    return "change a grading of a structure generator";
-                }
-                return "none";
-            }
-            mutate_terms(rng, s["differential"].as_array_mut().unwrap(), &gens, &gens)
-        }
-        3 | 4 => {
-            let names = keys(&b["type_a_modules"]);
-            let Some(i) = pick(rng, names.len()) else { return "none" };
-            let ops = b["type_a_modules"][&names[i]]["operations"].as_array_mut().unwrap();
-            let Some(k) = pick(rng, ops.len()) else { return "none" };
-            match rng.below(5) {
-                0 => {
-                    ops.remove(k);
-                    "remove an operation"
-                }
-                1 => {
-                    let p = &mut ops[k]["power"];
-                    let j = rng.below(2) as usize;
-                    p[j] = json!(p[j].as_i64().unwrap() + 1);
-                    "change a power"
-                }
-                2 => {
-                    let field = ["prefix", "repeat", "suffix"][rng.below(3) as usize];
-                    let w = ops[k][field].as_array_mut().unwrap();
-                    match pick(rng, w.len()) {
-                        Some(j) => w[j] = json!(REEBS[rng.below(6) as usize]),
-                        None => w.push(json!(REEBS[rng.below(6) as usize])),
-                    }
-                    "change an input of an operation"
-                }
-                3 => {
-                    let mut e = ops[k].clone();
-                    e["suffix"] = json!(["rho23", "rho2"]);
-                    e["prefix"] = json!(["rho3"]);
-                    e["repeat"] = json!([]);
-                    e["power"] = json!([0, rng.below(4)]);
-                    ops.push(e);
-                    "add an operation"
-                }
-                _ => {
-                    let w = ops[k]["repeat"].as_array_mut().unwrap();
-                    w.push(json!("rho23"));
-                    "lengthen a repeated part"
-                }
-            }
-        }
-        5 => {
-            let names = keys(&b["type_d_morphisms"]);
-            let Some(i) = pick(rng, names.len()) else { return "none" };
-            let f = &b["type_d_morphisms"][&names[i]];
-            let (from, to) = (f["from"].as_str().unwrap().to_string(), f["to"].as_str().unwrap().to_string());
-            let (fg, tg) = (keys(&b["type_d_structures"][&from]["generators"]), keys(&b["type_d_structures"][&to]["generators"]));
-            let terms = b["type_d_morphisms"][&names[i]]["terms"].as_array_mut().unwrap();
-            mutate_terms(rng, terms, &fg, &tg)
-        }
-        6 => {
-            let claims = body["claims"].as_array_mut().unwrap();
-            let idx: Vec<usize> = (0..claims.len()).filter(|&i| claims[i]["kind"] == "complement").collect();
-            let Some(i) = pick(rng, idx.len()) else { return "none" };
-            let c = &mut claims[idx[i]];
-            let (field, by) = [("framing", 1), ("framing", -1), ("tau", 1), ("tau", -1)][rng.below(4) as usize];
-            c[field] = json!(c[field].as_i64().unwrap() + by);
-            "change a framing or τ"
-        }
-        _ => {
-            // A term of a box tensor product or of a map id ⊠ f.
-            let claims = body["claims"].as_array().unwrap().clone();
-            let bt: Vec<&Value> = claims.iter().filter(|c| c["kind"] == "box_tensor" || c["kind"] == "box_tensor_map").collect();
-            let Some(i) = pick(rng, bt.len()) else { return "none" };
-            let terms = if bt[i]["kind"] == "box_tensor" {
-                &mut body["complexes"][bt[i]["complex"].as_str().unwrap()]["differential"]
-            } else {
-                &mut body["maps"][bt[i]["map"].as_str().unwrap()]["terms"]
-            };
-            let terms = terms.as_array_mut().unwrap();
-            let Some(k) = pick(rng, terms.len()) else { return "none" };
-            if rng.below(2) == 0 {
-                terms.remove(k);
-                "remove a term of a box tensor product"
-            } else {
-                terms[k][1] = json!(format!("U^{}", 1 + rng.below(3)));
-                "change a term of a box tensor product"
-            }
-        }
-    }
-}
-
 /// Mutates every certificate `per` times and compares verdicts; returns the disagreements.
 fn campaign(certs: &[(String, Value)], per: usize, seed: u64) -> Vec<String> {
     let mut bad = Vec::new();
@@ -314,7 +171,7 @@ fn campaign(certs: &[(String, Value)], per: usize, seed: u64) -> Vec<String> {
     for (what, c) in certs {
         for _ in 0..per {
             let mut body = c["body"].clone();
-            let how = mutate(&mut rng, &mut body);
+            let how = mutation::mutate(&mut rng, &mut body);
             if body == c["body"] {
                 continue;
             }
@@ -384,15 +241,20 @@ fn morphism_problem(t: i64) -> Value {
         let terms: Vec<Value> = n
             .delta
             .iter()
-            .flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([format!("{x}{suffix}"), alg_name(*al), format!("{y}{suffix}")])))
+            .flat_map(|(x, e)| {
+                e.iter().map(move |(al, y)| json!([format!("{x}{suffix}"), alg_name(*al), format!("{y}{suffix}")]))
+            })
             .collect();
         json!({"generators": gens, "differential": terms})
     };
     let rename: Vec<Value> = n.idem.keys().map(|g| json!([g, "1", format!("{g}'")])).collect();
     let delta: Vec<Value> =
         n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), y]))).collect();
-    let delta2: Vec<Value> =
-        n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), format!("{y}'")]))).collect();
+    let delta2: Vec<Value> = n
+        .delta
+        .iter()
+        .flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), format!("{y}'")])))
+        .collect();
     let sum: Vec<Value> = rename.iter().chain(delta2.iter()).cloned().collect();
     json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
         "type_d_structures": {"N": write(&n, ""), "N2": write(&n, "'")},
@@ -421,7 +283,8 @@ fn morphisms_and_their_maps_agree_and_mutations_too() {
         let c = certificate(&morphism_problem(t));
         assert!(checker_accepts(&c), "t = {t}");
         oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("t = {t}: {e}"));
-        let kinds: Vec<&str> = c["body"]["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+        let kinds: Vec<&str> =
+            c["body"]["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
         assert!(kinds.contains(&"type_d_morphism") && kinds.contains(&"box_tensor_map"), "{kinds:?}");
         certs.push((format!("morphisms, t = {t}"), c));
     }

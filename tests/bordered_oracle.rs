@@ -354,11 +354,7 @@ impl Module for CoreModule {
     fn op(&self, x: &str, a: &[Alg]) -> UElem {
         let mut e = UElem::new();
         let n = a.len();
-        if x == self.0
-            && n >= 2
-            && a[0] == Alg::R3
-            && a[n - 1] == Alg::R2
-            && a[1..n - 1].iter().all(|&b| b == Alg::R23)
+        if x == self.0 && n >= 2 && a[0] == Alg::R3 && a[n - 1] == Alg::R2 && a[1..n - 1].iter().all(|&b| b == Alg::R23)
         {
             e.insert(((n - 1) as u32, x.to_string()));
         }
@@ -453,12 +449,7 @@ pub fn check_morphism(f: &DMorphism, n: &DStructure, n2: &DStructure) -> Result<
 
 /// id_M ⊠ f: x ⊗ y ↦ Σ m(x, a_1..a_i, b, c_1..c_j) ⊗ z over δ-sequences of N from y, one term
 /// of f, and δ-sequences of N′ (an idempotent term b enters only as m_2(x, ι) = x).
-pub fn box_tensor_map(
-    module: &dyn Module,
-    n: &DStructure,
-    f: &DMorphism,
-    n2: &DStructure,
-) -> Result<UComplex, String> {
+pub fn box_tensor_map(module: &dyn Module, n: &DStructure, f: &DMorphism, n2: &DStructure) -> Result<UComplex, String> {
     let mut out = UComplex::new();
     for x in module.gens() {
         let ix = module.idem(&x);
@@ -558,7 +549,9 @@ pub fn simplified(c: &UVComplex, diagonal_allowed: bool) -> Result<Simplified, S
             *seen.entry(y).or_default() += 1;
         }
         if let Some((g, _)) = seen.iter().find(|(_, &k)| k > 1) {
-            return Err(format!("generator {g} lies on more than one {what} arrow: the basis is not {what}ly simplified"));
+            return Err(format!(
+                "generator {g} lies on more than one {what} arrow: the basis is not {what}ly simplified"
+            ));
         }
         let free: Vec<&String> = c.gr.keys().filter(|g| !seen.contains_key(g.as_str())).collect();
         match free.as_slice() {
@@ -672,11 +665,11 @@ pub fn homology(gr: &BTreeMap<String, (i64, i64)>, d: &UComplex) -> Result<Homol
     if !is_complex(d) {
         return Err("∂∂ ≠ 0".into());
     }
-    let mut d: BTreeMap<String, UElem> = gr.keys().map(|g| (g.clone(), d.get(g).cloned().unwrap_or_default())).collect();
+    let mut d: BTreeMap<String, UElem> =
+        gr.keys().map(|g| (g.clone(), d.get(g).cloned().unwrap_or_default())).collect();
     let mut tors = Vec::new();
     loop {
-        let Some((k, x, y)) =
-            d.iter().flat_map(|(x, e)| e.iter().map(move |(k, y)| (*k, x.clone(), y.clone()))).min()
+        let Some((k, x, y)) = d.iter().flat_map(|(x, e)| e.iter().map(move |(k, y)| (*k, x.clone(), y.clone()))).min()
         else {
             break;
         };
@@ -1045,7 +1038,8 @@ pub mod cert {
                     .collect()
             };
             let (a, b) = pair(member(e, "power", what)?, what)?;
-            let (a, b) = (u32::try_from(a).map_err(|_| "negative power")?, u32::try_from(b).map_err(|_| "negative power")?);
+            let (a, b) =
+                (u32::try_from(a).map_err(|_| "negative power")?, u32::try_from(b).map_err(|_| "negative power")?);
             m.families.push(Family {
                 from: text(member(e, "from", what)?, what)?.into(),
                 prefix: word("prefix")?,
@@ -1061,7 +1055,11 @@ pub mod cert {
     }
 
     /// (from, to, f).
-    pub fn read_morphism(v: &Value, structures: &BTreeMap<String, DStructure>, what: &str) -> R<(String, String, DMorphism)> {
+    pub fn read_morphism(
+        v: &Value,
+        structures: &BTreeMap<String, DStructure>,
+        what: &str,
+    ) -> R<(String, String, DMorphism)> {
         only(v, &["from", "terms", "to"], what)?;
         let (from, to) = (text(member(v, "from", what)?, what)?, text(member(v, "to", what)?, what)?);
         let n = structures.get(from).ok_or(format!("{what}: no structure {from}"))?;
@@ -1077,7 +1075,11 @@ pub mod cert {
     }
 
     /// A complex: gradings and ∂ (terms summed mod 2), over the given variables.
-    pub fn read_complex(v: &Value, vars: &[&str], what: &str) -> R<(BTreeMap<String, Vec<i64>>, Vec<(String, (u32, u32), String)>)> {
+    pub fn read_complex(
+        v: &Value,
+        vars: &[&str],
+        what: &str,
+    ) -> R<(BTreeMap<String, Vec<i64>>, Vec<(String, (u32, u32), String)>)> {
         only(v, &["differential", "generators"], what)?;
         let mut gr = BTreeMap::new();
         for (g, gv) in obj(member(v, "generators", what)?, what)? {
@@ -1166,8 +1168,10 @@ pub mod cert {
         {
             return Err("bordered objects need the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)".into());
         }
-        let mut names: BTreeSet<String> = obj(member(body, "complexes", "body")?, "complexes")?.keys().cloned().collect();
-        let mut fresh = |k: &String| if names.insert(k.clone()) { Ok(()) } else { Err(format!("the name {k} is used twice")) };
+        let mut names: BTreeSet<String> =
+            obj(member(body, "complexes", "body")?, "complexes")?.keys().cloned().collect();
+        let mut fresh =
+            |k: &String| if names.insert(k.clone()) { Ok(()) } else { Err(format!("the name {k} is used twice")) };
         let mut out = Bordered {
             full: BTreeMap::new(),
             full_single: BTreeMap::new(),
@@ -1250,7 +1254,11 @@ pub mod cert {
         for g in ours.keys().chain(theirs.keys()) {
             let (a, b) = (ours.get(g).unwrap_or(&empty), theirs.get(g).unwrap_or(&empty));
             if a != b {
-                return Err(format!("{what} at {g}: the certificate has {} but the oracle computes {}", show_uelem(b), show_uelem(a)));
+                return Err(format!(
+                    "{what} at {g}: the certificate has {} but the oracle computes {}",
+                    show_uelem(b),
+                    show_uelem(a)
+                ));
             }
         }
         Ok(())
@@ -1354,6 +1362,164 @@ pub mod cert {
             }
         }
         Ok(())
+    }
+}
+
+/// Random semantic mutations of the bordered part of a certificate body (as JSON): a δ¹ term
+/// removed, added, retargeted or with another coefficient, a structure generator's grading, an
+/// operation removed, added, with another power or input, a morphism term, a claimed framing
+/// or τ, a term of a box tensor product or of id ⊠ f. Shared by the agreement tests and the
+/// mutation campaign.
+pub mod mutation {
+    use crate::Rng;
+    use serde_json::{json, Value};
+
+    /// Picks one element of a JSON array (by index), if any.
+    fn pick(rng: &mut Rng, n: usize) -> Option<usize> {
+        (n > 0).then(|| rng.below(n as u64) as usize)
+    }
+
+    const ALGS: [&str; 7] = ["1", "rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
+
+    /// Mutates one term list [from, element, to] of a structure or morphism.
+    fn mutate_terms(rng: &mut Rng, terms: &mut Vec<Value>, from: &[String], to: &[String]) -> &'static str {
+        let n = terms.len();
+        match rng.below(4) {
+            0 if n > 0 => {
+                terms.remove(rng.below(n as u64) as usize);
+                "remove a term"
+            }
+            1 if n > 0 => {
+                let i = rng.below(n as u64) as usize;
+                terms[i][2] = json!(to[rng.below(to.len() as u64) as usize]);
+                "retarget a term"
+            }
+            2 if n > 0 => {
+                let i = rng.below(n as u64) as usize;
+                terms[i][1] = json!(ALGS[rng.below(7) as usize]);
+                "change a coefficient"
+            }
+            _ => {
+                let t = json!([
+                    from[rng.below(from.len() as u64) as usize],
+                    ALGS[rng.below(7) as usize],
+                    to[rng.below(to.len() as u64) as usize]
+                ]);
+                terms.push(t);
+                "add a term"
+            }
+        }
+    }
+
+    fn keys(v: &Value) -> Vec<String> {
+        v.as_object().map(|o| o.keys().cloned().collect()).unwrap_or_default()
+    }
+
+    const REEBS: [&str; 6] = ["rho1", "rho2", "rho3", "rho12", "rho23", "rho123"];
+
+    /// One random mutation of a bordered object or claim.
+    pub fn mutate(rng: &mut Rng, body: &mut Value) -> &'static str {
+        let b = &mut body["bordered"];
+        match rng.below(8) {
+            0..=2 => {
+                let names = keys(&b["type_d_structures"]);
+                let Some(i) = pick(rng, names.len()) else { return "none" };
+                let s = &mut b["type_d_structures"][&names[i]];
+                let gens = keys(&s["generators"]);
+                if rng.below(6) == 0 {
+                    let g = &gens[rng.below(gens.len() as u64) as usize];
+                    if let Some(gr) = s["generators"][g].get_mut("grading") {
+                        gr[1] = json!(gr[1].as_i64().unwrap() + 1);
+                        return "change a grading of a structure generator";
+                    }
+                    return "none";
+                }
+                mutate_terms(rng, s["differential"].as_array_mut().unwrap(), &gens, &gens)
+            }
+            3 | 4 => {
+                let names = keys(&b["type_a_modules"]);
+                let Some(i) = pick(rng, names.len()) else { return "none" };
+                let ops = b["type_a_modules"][&names[i]]["operations"].as_array_mut().unwrap();
+                let Some(k) = pick(rng, ops.len()) else { return "none" };
+                match rng.below(5) {
+                    0 => {
+                        ops.remove(k);
+                        "remove an operation"
+                    }
+                    1 => {
+                        let p = &mut ops[k]["power"];
+                        let j = rng.below(2) as usize;
+                        p[j] = json!(p[j].as_i64().unwrap() + 1);
+                        "change a power"
+                    }
+                    2 => {
+                        let field = ["prefix", "repeat", "suffix"][rng.below(3) as usize];
+                        let w = ops[k][field].as_array_mut().unwrap();
+                        match pick(rng, w.len()) {
+                            Some(j) => w[j] = json!(REEBS[rng.below(6) as usize]),
+                            None => w.push(json!(REEBS[rng.below(6) as usize])),
+                        }
+                        "change an input of an operation"
+                    }
+                    3 => {
+                        let mut e = ops[k].clone();
+                        e["suffix"] = json!(["rho23", "rho2"]);
+                        e["prefix"] = json!(["rho3"]);
+                        e["repeat"] = json!([]);
+                        e["power"] = json!([0, rng.below(4)]);
+                        ops.push(e);
+                        "add an operation"
+                    }
+                    _ => {
+                        let w = ops[k]["repeat"].as_array_mut().unwrap();
+                        w.push(json!("rho23"));
+                        "lengthen a repeated part"
+                    }
+                }
+            }
+            5 => {
+                let names = keys(&b["type_d_morphisms"]);
+                let Some(i) = pick(rng, names.len()) else { return "none" };
+                let f = &b["type_d_morphisms"][&names[i]];
+                let (from, to) = (f["from"].as_str().unwrap().to_string(), f["to"].as_str().unwrap().to_string());
+                let (fg, tg) = (
+                    keys(&b["type_d_structures"][&from]["generators"]),
+                    keys(&b["type_d_structures"][&to]["generators"]),
+                );
+                let terms = b["type_d_morphisms"][&names[i]]["terms"].as_array_mut().unwrap();
+                mutate_terms(rng, terms, &fg, &tg)
+            }
+            6 => {
+                let claims = body["claims"].as_array_mut().unwrap();
+                let idx: Vec<usize> = (0..claims.len()).filter(|&i| claims[i]["kind"] == "complement").collect();
+                let Some(i) = pick(rng, idx.len()) else { return "none" };
+                let c = &mut claims[idx[i]];
+                let (field, by) = [("framing", 1), ("framing", -1), ("tau", 1), ("tau", -1)][rng.below(4) as usize];
+                c[field] = json!(c[field].as_i64().unwrap() + by);
+                "change a framing or τ"
+            }
+            _ => {
+                // A term of a box tensor product or of a map id ⊠ f.
+                let claims = body["claims"].as_array().unwrap().clone();
+                let bt: Vec<&Value> =
+                    claims.iter().filter(|c| c["kind"] == "box_tensor" || c["kind"] == "box_tensor_map").collect();
+                let Some(i) = pick(rng, bt.len()) else { return "none" };
+                let terms = if bt[i]["kind"] == "box_tensor" {
+                    &mut body["complexes"][bt[i]["complex"].as_str().unwrap()]["differential"]
+                } else {
+                    &mut body["maps"][bt[i]["map"].as_str().unwrap()]["terms"]
+                };
+                let terms = terms.as_array_mut().unwrap();
+                let Some(k) = pick(rng, terms.len()) else { return "none" };
+                if rng.below(2) == 0 {
+                    terms.remove(k);
+                    "remove a term of a box tensor product"
+                } else {
+                    terms[k][1] = json!(format!("U^{}", 1 + rng.below(3)));
+                    "change a term of a box tensor product"
+                }
+            }
+        }
     }
 }
 
@@ -1473,9 +1639,10 @@ mod tests {
                 let n = complement(&c, t, true).unwrap();
                 n.check_relation().unwrap();
                 let x = box_tensor(&core, &n).unwrap();
-                let expected: UComplex = quotient_v(&c).into_iter().map(|(g, e)| {
-                    (pair_name("x", &g), e.into_iter().map(|(k, y)| (k, pair_name("x", &y))).collect())
-                }).collect();
+                let expected: UComplex = quotient_v(&c)
+                    .into_iter()
+                    .map(|(g, e)| (pair_name("x", &g), e.into_iter().map(|(k, y)| (k, pair_name("x", &y))).collect()))
+                    .collect();
                 assert_eq!(x, expected, "core ⊠ CFD(X_K, {t}) = C/(V) for {a:?}");
                 let gr = minus_gradings(&c);
                 let h = homology(&gr, &quotient_v(&c)).unwrap();
@@ -1570,7 +1737,8 @@ mod tests {
         for t in [1, 6, 9] {
             let n = complement(&c, t, true).unwrap();
             // The identity (ι terms) is a morphism and id ⊠ id is the identity.
-            let id: DMorphism = n.idem.iter().map(|(g, &i)| (g.clone(), [([I0, I1][i as usize], g.clone())].into())).collect();
+            let id: DMorphism =
+                n.idem.iter().map(|(g, &i)| (g.clone(), [([I0, I1][i as usize], g.clone())].into())).collect();
             check_morphism(&id, &n, &n).unwrap();
             let map = box_tensor_map(&core, &n, &id, &n).unwrap();
             for (g, e) in &map {
