@@ -159,33 +159,46 @@ impl DStructure {
         Ok(())
     }
 
-    /// Every δ-sequence y →a_1 … →a_k z from y along which `alive` holds for each prefix,
-    /// with its parity (sequences reached by several paths cancel mod 2). Errors when a path
-    /// grows past `cap` (the structure is unbounded where the caller needs it bounded).
-    pub fn sequences(
+    /// Every state (a_1 … a_k, z) reachable from the starting states by δ-steps along which
+    /// `alive` holds for each prefix, with the parity of the number of paths reaching it
+    /// (states of parity 0 are kept: they still lead on). Layer by layer, so paths sharing a
+    /// state are merged and the work stays polynomial. Errors when a state of word length above
+    /// `cap` is reachable: by the caller's choice of `cap` (pigeonhole on (generator, position
+    /// in an operation's word)), an alive cycle is then reachable and the sum is infinite.
+    pub fn reach(
         &self,
-        y: &str,
+        starts: BTreeMap<(Vec<Alg>, String), bool>,
         alive: &dyn Fn(&[Alg]) -> bool,
         cap: usize,
-    ) -> Result<BTreeSet<(Vec<Alg>, String)>, String> {
-        let mut out = BTreeSet::new();
-        let mut stack: Vec<(Vec<Alg>, String)> = vec![(vec![], y.to_string())];
-        // Paths are enumerated one by one (not merged), so parities come out right.
-        while let Some((seq, z)) = stack.pop() {
-            if seq.len() > cap {
-                return Err(format!("a δ-sequence from {y} longer than {cap} stays alive: unbounded"));
-            }
-            toggle(&mut out, (seq.clone(), z.clone()));
-            for (a, w) in self.d(&z) {
-                let mut s = seq.clone();
-                s.push(a);
-                if alive(&s) {
-                    stack.push((s, w));
+    ) -> Result<BTreeMap<(Vec<Alg>, String), bool>, String> {
+        let mut all = BTreeMap::new();
+        let mut layer = starts;
+        while !layer.is_empty() {
+            let mut next: BTreeMap<(Vec<Alg>, String), bool> = BTreeMap::new();
+            for ((w, z), p) in &layer {
+                if w.len() > cap {
+                    return Err(format!("an alive δ-sequence reaches {z} after {} steps: a cycle continues an operation's input forever, the sum is infinite", w.len()));
+                }
+                for (a, z2) in self.d(z) {
+                    let mut w2 = w.clone();
+                    w2.push(a);
+                    if alive(&w2) {
+                        *next.entry((w2, z2)).or_insert(false) ^= *p;
+                    }
                 }
             }
+            for (k, p) in layer {
+                *all.entry(k).or_insert(false) ^= p;
+            }
+            layer = next;
         }
-        Ok(out)
+        Ok(all)
     }
+}
+
+/// A start state for [`DStructure::reach`].
+fn start(y: &str) -> BTreeMap<(Vec<Alg>, String), bool> {
+    BTreeMap::from([((vec![], y.to_string()), true)])
 }
 
 fn show_aelem(e: &AElem) -> String {
@@ -209,6 +222,10 @@ pub trait Module {
     /// Can some non-zero operation m(x, a_1, …, a_k, …) start with these inputs? Used to prune
     /// δ-sequences in a box tensor product; `true` is always safe (only slower).
     fn prefix_alive(&self, x: &str, a: &[Alg]) -> bool;
+    /// A bound on the positions of an operation's word (for families: |prefix| + |repeat| +
+    /// |suffix| + 1): more steps than generators × this on an alive path repeat a pair
+    /// (generator, position), which is an alive cycle.
+    fn template(&self) -> usize;
 }
 
 /// m_{k+1}(x, a_1..a_k) including idempotent inputs (strict unitality: m_2(x, ι) = x when the
@@ -338,6 +355,9 @@ impl Module for TableModule {
     fn prefix_alive(&self, x: &str, a: &[Alg]) -> bool {
         self.ops.keys().any(|(y, b)| y == x && b.starts_with(a) && !self.ops[&(y.clone(), b.clone())].is_empty())
     }
+    fn template(&self) -> usize {
+        self.ops.keys().map(|(_, b)| b.len() + 1).max().unwrap_or(1)
+    }
 }
 
 /// The core of the solid torus (memory): one generator in ι_0 with
@@ -373,6 +393,9 @@ impl Module for CoreModule {
                 }
             }
     }
+    fn template(&self) -> usize {
+        4
+    }
 }
 
 /// A complex over F2[U]: ∂ as generator → element.
@@ -382,12 +405,10 @@ pub fn pair_name(x: &str, y: &str) -> String {
     format!("{x}⊗{y}")
 }
 
-/// The longest δ-sequence the oracle follows before declaring a pairing unbounded.
-pub const CAP: usize = 4096;
-
 /// M ⊠ N: generators x ⊗ y with I(x) = I(y), ∂(x ⊗ y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)), with
 /// the δ-sequences pruned where no operation of M can start with them.
 pub fn box_tensor(module: &dyn Module, n: &DStructure) -> Result<UComplex, String> {
+    let cap = n.idem.len() * module.template() + 1;
     let mut out = UComplex::new();
     for x in module.gens() {
         let ix = module.idem(&x);
@@ -395,11 +416,12 @@ pub fn box_tensor(module: &dyn Module, n: &DStructure) -> Result<UComplex, Strin
             if ix != Some(*iy) {
                 continue;
             }
-            let seqs = n.sequences(y, &|s| prefix_alive(module, &x, s), CAP)?;
             let mut e = UElem::new();
-            for (a, z) in seqs {
-                for (k, w) in m(module, &x, &a) {
-                    toggle(&mut e, (k, pair_name(&w, &z)));
+            for ((a, z), p) in n.reach(start(y), &|s| prefix_alive(module, &x, s), cap)? {
+                if p {
+                    for (k, w) in m(module, &x, &a) {
+                        toggle(&mut e, (k, pair_name(&w, &z)));
+                    }
                 }
             }
             out.insert(pair_name(&x, y), e);
@@ -450,6 +472,7 @@ pub fn check_morphism(f: &DMorphism, n: &DStructure, n2: &DStructure) -> Result<
 /// id_M ⊠ f: x ⊗ y ↦ Σ m(x, a_1..a_i, b, c_1..c_j) ⊗ z over δ-sequences of N from y, one term
 /// of f, and δ-sequences of N′ (an idempotent term b enters only as m_2(x, ι) = x).
 pub fn box_tensor_map(module: &dyn Module, n: &DStructure, f: &DMorphism, n2: &DStructure) -> Result<UComplex, String> {
+    let cap = (n.idem.len() + n2.idem.len()) * module.template() + 2;
     let mut out = UComplex::new();
     for x in module.gens() {
         let ix = module.idem(&x);
@@ -457,25 +480,23 @@ pub fn box_tensor_map(module: &dyn Module, n: &DStructure, f: &DMorphism, n2: &D
             if ix != Some(*iy) {
                 continue;
             }
-            let mut e = UElem::new();
-            for (a, y1) in n.sequences(y, &|s| prefix_alive(module, &x, s), CAP)? {
+            let alive = |s: &[Alg]| prefix_alive(module, &x, s);
+            // δ-steps in N, then exactly one f-step, then δ-steps in N′.
+            let mut after_f: BTreeMap<(Vec<Alg>, String), bool> = BTreeMap::new();
+            for ((a, y1), p) in n.reach(start(y), &alive, cap)? {
                 for (b, y2) in f.get(&y1).into_iter().flatten() {
                     let mut ab = a.clone();
                     ab.push(*b);
-                    if !prefix_alive(module, &x, &ab) {
-                        continue;
+                    if alive(&ab) {
+                        *after_f.entry((ab, y2.clone())).or_insert(false) ^= p;
                     }
-                    let alive = |s: &[Alg]| {
-                        let mut t = ab.clone();
-                        t.extend_from_slice(s);
-                        prefix_alive(module, &x, &t)
-                    };
-                    for (c, z) in n2.sequences(y2, &alive, CAP)? {
-                        let mut seq = ab.clone();
-                        seq.extend(c);
-                        for (k, w) in m(module, &x, &seq) {
-                            toggle(&mut e, (k, pair_name(&w, &z)));
-                        }
+                }
+            }
+            let mut e = UElem::new();
+            for ((w, z), p) in n2.reach(after_f, &alive, cap)? {
+                if p {
+                    for (k, v) in m(module, &x, &w) {
+                        toggle(&mut e, (k, pair_name(&v, &z)));
                     }
                 }
             }
@@ -878,6 +899,9 @@ impl Module for FamilyModule {
     }
     fn prefix_alive(&self, x: &str, s: &[Alg]) -> bool {
         self.families.iter().any(|f| f.from == x && f.has_prefix(s))
+    }
+    fn template(&self) -> usize {
+        self.families.iter().map(|f| f.prefix.len() + f.repeat.len() + f.suffix.len() + 1).max().unwrap_or(1)
     }
 }
 
@@ -1864,6 +1888,20 @@ mod tests {
             b["bordered"]["type_d_morphisms"]["f"]["terms"][0][2] = serde_json::json!("x2");
             assert!(cert::check_body(&b).is_err());
         }
+    }
+
+    #[test]
+    fn an_alive_cycle_is_refused_and_a_dead_one_is_not() {
+        let core = core_family("x");
+        let c = staircase(&[1, 0, -1]);
+        // t = 2τ + 3 with ξ_0 ≠ η_0: bounded. Then a ρ_23 loop on λ_1 keeps ρ_3 ρ_23 ρ_23 … alive.
+        let mut n = complement(&c, 5, true).unwrap();
+        assert!(box_tensor(&core, &n).is_ok());
+        n.add("lambda1.x1.x0", R23, "lambda1.x1.x0");
+        assert!(box_tensor(&core, &n).unwrap_err().contains("infinite"));
+        // The unknot at t = 3 has the cycle ξ →ρ_123 γ_1 → … →ρ_2 ξ, dead for the core.
+        let n = complement(&staircase(&[0]), 3, true).unwrap();
+        assert_eq!(box_tensor(&core, &n).unwrap().len(), 1);
     }
 }
 
