@@ -5,10 +5,12 @@
 //! - [`algebra`]: vectors and sparse maps over F2[v_1..v_n];
 //! - [`load`]: from the data model to indexed objects, with precise errors;
 //! - [`verify`]: one check per claim kind;
+//! - [`bordered`]: the bordered claims (type D structures, type A modules, box tensor products);
 //! - [`report_text`] / [`report_json`]: presentation of verified results (not trusted code).
 #![forbid(unsafe_code)]
 
 pub mod algebra;
+pub mod bordered;
 pub mod load;
 pub mod report_appendix;
 pub mod report_cli;
@@ -49,11 +51,14 @@ pub fn parse_certificate(bytes: &[u8]) -> Result<Certificate, String> {
         return Err(format!("file is {} bytes, above the limit {MAX_FILE_BYTES}", bytes.len()));
     }
     let cert: Certificate = serde_json::from_slice(bytes).map_err(|e| format!("not a certificate: {e}"))?;
-    if cert.format != CERTIFICATE_FORMAT || cert.version != CERTIFICATE_VERSION {
+    if cert.format != CERTIFICATE_FORMAT || !(1..=CERTIFICATE_VERSION).contains(&cert.version) {
         return Err(format!(
-            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version {CERTIFICATE_VERSION}",
+            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version 1 to {CERTIFICATE_VERSION}",
             cert.format, cert.version
         ));
+    }
+    if cert.version == 1 && cert.body.bordered.is_some() {
+        return Err("a version-1 certificate has no bordered section (bordered objects came with version 2)".into());
     }
     Ok(cert)
 }

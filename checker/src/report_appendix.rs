@@ -24,7 +24,7 @@ fn witness_size(c: &Claim) -> usize {
             witness.basis.len() + witness.inverse.len()
         }
         Claim::TorsionOrder { witness, .. } => witness.homotopy.len() + witness.dual.as_ref().map_or(0, |d| d.len()),
-        Claim::Complex { .. } | Claim::ChainMap { .. } => 0,
+        _ => 0,
     }
 }
 
@@ -152,6 +152,25 @@ fn tex_claim(c: &Claim, vars: &[String]) -> String {
             format!("$\\operatorname{{Ord}}_{{{variable}}}(H_*({})) = {order}$", tex_name(complex))
         }
         Claim::Tau { complex, tau, .. } => format!("$\\tau({}) = {tau}$", tex_name(complex)),
+        Claim::TypeDStructure { structure, .. } => {
+            format!("${}$ is a type $D$ structure over $\\mathcal{{A}}(T^2)$", tex_name(structure))
+        }
+        Claim::TypeAModule { module, max_length, .. } => format!(
+            "${}$ is a strictly unital type $A$ module over $\\mathcal{{A}}(T^2)$ (relations on words of length $\\le {max_length}$)",
+            tex_name(module)
+        ),
+        Claim::TypeDMorphism { morphism, .. } => format!("${}$ is a type $D$ morphism, $\\partial {} = 0$", tex_name(morphism), tex_name(morphism)),
+        Claim::BoxTensor { complex, module, structure, .. } => {
+            format!("${} = {} \\boxtimes {}$", tex_name(complex), tex_name(module), tex_name(structure))
+        }
+        Claim::BoxTensorMap { map, module, morphism, .. } => {
+            format!("${} = \\mathrm{{id}}_{{{}}} \\boxtimes {}$", tex_name(map), tex_name(module), tex_name(morphism))
+        }
+        Claim::Complement { structure, complex, framing, tau, .. } => format!(
+            "${}$ is $\\widehat{{CFD}}$ of the complement of the knot with complex ${}$, framing ${framing}$ (LOT Thm 11.26), $\\tau = {tau}$",
+            tex_name(structure),
+            tex_name(complex)
+        ),
     }
 }
 

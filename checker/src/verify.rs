@@ -183,13 +183,20 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
-/// Verifies one claim; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+/// The claim's statement is the checker's own wording of its fields.
+pub fn check_statement(ctx: &Context, claim: &Claim) -> Result<(), String> {
     let vars = &ctx.ring.variables;
     let expected = render(claim, &ring_name(vars), vars.first().map_or("", |v| v));
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
+    Ok(())
+}
+
+/// Verifies one claim; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+    let vars = &ctx.ring.variables;
+    check_statement(ctx, claim)?;
     let mut facts = BTreeMap::new();
     match claim {
         Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
@@ -275,6 +282,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
                 facts.insert("reading".into(), json!(surface_reading(variable, *order)));
             }
         }
+        _ => return Err("a bordered claim is checked by crate::bordered".into()),
     }
     Ok(facts)
 }
@@ -305,15 +313,43 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
 
 /// Verifies a whole body: implicit object checks, then each claim.
 pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<String>> {
+    use crate::bordered::{Failure, Objects};
     let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    let b = body.bordered.as_ref();
+    let objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
+    if let Some(b) = b {
+        let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
+        names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
+        names.sort();
+        if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
+            return Err(vec![format!("the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)", w[0])]);
+        }
+    }
     let mut out = check_objects(&ctx);
+    out.extend(objects.iter().flat_map(|o| check_objects(&o.full)));
     for claim in &body.claims {
-        out.push(ClaimResult {
-            kind: claim.kind().into(),
-            statement: claim.statement().to_string(),
-            implicit: false,
-            outcome: check_claim(&ctx, claim),
-        });
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim) {
+            None => check_claim(&ctx, claim),
+            Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
+            Some(Err(Failure::False(e))) => Err(e),
+            Some(Ok(facts)) => Ok(facts),
+        };
+        out.push(ClaimResult { kind: claim.kind().into(), statement: claim.statement().to_string(), implicit: false, outcome });
     }
     Ok(out)
+}
+
+/// The number of written items (generators, terms, families, claims) of a body: the work
+/// budget of the bordered checks is proportional to it.
+fn written_items(body: &tubecert_format::Body) -> u64 {
+    let cx = |c: &tubecert_format::ComplexSpec| c.generators.len() + c.differential.len();
+    let mut n = body.claims.len() + body.complexes.values().map(cx).sum::<usize>();
+    n += body.maps.values().map(|m| m.terms.len()).sum::<usize>();
+    if let Some(b) = &body.bordered {
+        n += b.full_complexes.values().map(cx).sum::<usize>();
+        n += b.type_d_structures.values().map(|d| d.generators.len() + d.differential.len()).sum::<usize>();
+        n += b.type_a_modules.values().map(|m| m.generators.len() + m.operations.len()).sum::<usize>();
+        n += b.type_d_morphisms.values().map(|f| f.terms.len()).sum::<usize>();
+    }
+    n as u64 + 1
 }

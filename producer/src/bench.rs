@@ -181,6 +181,8 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
             order: Some(PLANTED_ORDER),
             max_order: 16,
         }],
+        bordered: None,
+        bordered_claims: Vec::new(),
     })
 }
 

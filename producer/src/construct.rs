@@ -3,6 +3,7 @@
 //! Each produces an explicit [`ComplexSpec`] / [`MapSpec`]; certificates only ever contain the
 //! explicit result, so the checker needs none of this.
 
+use crate::bordered::Built;
 use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
@@ -213,10 +214,15 @@ pub fn resolve(
     ring: &Ring,
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, Value>,
-) -> Result<(Complexes, BTreeMap<String, MapSpec>), Vec<String>> {
+    sections: [&BTreeMap<String, Value>; 3],
+) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
+    // Bordered objects first: box tensor products and cables are made from them.
+    let mut bordered = Built::default();
+    let [structures, modules, morphisms] = sections;
+    crate::bordered::resolve_sections(ring, structures, modules, morphisms, complexes, &mut bordered, &mut errs);
     // Explicit maps first: cones need them.
     for (name, v) in maps {
         if v.get("from").is_some() {
@@ -233,7 +239,7 @@ pub fn resolve(
         let before = pending.len();
         let mut still = Vec::new();
         for name in pending {
-            match build_complex(ring, &complexes[name], &done, &done_maps) {
+            match build_complex(ring, name, &complexes[name], &done, &done_maps, complexes, &mut bordered) {
                 Ok(Some(c)) => {
                     done.insert(name.clone(), c);
                 }
@@ -259,7 +265,14 @@ pub fn resolve(
         pending = still;
     }
     for (name, v) in maps {
-        if let Some(arg) = v.get("tensor_maps") {
+        if let Some(arg) = v.get("box_tensor_map") {
+            match crate::bordered::box_tensor_map_entry(name, arg, complexes, &done, &mut bordered) {
+                Ok(m) => {
+                    done_maps.insert(name.clone(), m);
+                }
+                Err(e) => errs.push(format!("map {name}: {e}")),
+            }
+        } else if let Some(arg) = v.get("tensor_maps") {
             match build_tensor_map(ring, arg, complexes, &done_maps) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
@@ -268,12 +281,12 @@ pub fn resolve(
             }
         } else if v.get("from").is_none() {
             errs.push(format!(
-                "map {name}: expected an explicit map {{from, to, degree, terms}} or {{\"tensor_maps\": [f, g]}}"
+                "map {name}: expected an explicit map {{from, to, degree, terms}}, {{\"tensor_maps\": [f, g]}} or {{\"box_tensor_map\": [M, f]}}"
             ));
         }
     }
     if errs.is_empty() {
-        Ok((done, done_maps))
+        Ok((done, done_maps, bordered))
     } else {
         Err(errs)
     }
@@ -290,12 +303,29 @@ fn referenced(v: &Value) -> Vec<&str> {
     }
 }
 
+/// `{"torus_knot": [p, q]}` or `{"alexander": [a_0, …, a_2n]}` over `ring`.
+pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> {
+    let exps: Vec<i64> = if let Some(pq) = arg.get("torus_knot") {
+        let pq: Vec<u32> = serde_json::from_value(pq.clone()).map_err(|e| format!("torus_knot: {e}"))?;
+        let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
+        torus_knot_exponents(p, q)?
+    } else if let Some(a) = arg.get("alexander") {
+        serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
+    } else {
+        return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
+    };
+    staircase(ring, &exps)
+}
+
 /// Builds one complex; `Ok(None)` when it depends on one not built yet.
 fn build_complex(
     ring: &Ring,
+    name: &str,
     v: &Value,
     done: &Complexes,
     maps: &BTreeMap<String, MapSpec>,
+    defs: &BTreeMap<String, Value>,
+    bordered: &mut Built,
 ) -> Result<Option<ComplexSpec>, String> {
     if v.get("generators").is_some() {
         return serde_json::from_value(v.clone()).map(Some).map_err(|e| e.to_string());
@@ -314,18 +344,7 @@ fn build_complex(
     };
     let get = |n: &str| done.get(n);
     Ok(match op.as_str() {
-        "staircase" => {
-            let exps: Vec<i64> = if let Some(pq) = arg.get("torus_knot") {
-                let pq: Vec<u32> = serde_json::from_value(pq.clone()).map_err(|e| format!("torus_knot: {e}"))?;
-                let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
-                torus_knot_exponents(p, q)?
-            } else if let Some(a) = arg.get("alexander") {
-                serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
-            } else {
-                return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
-            };
-            Some(staircase(ring, &exps)?)
-        }
+        "staircase" => Some(build_staircase(ring, arg)?),
         "tensor" | "direct_sum" => {
             let n = names(2)?;
             let (Some(c), Some(d)) = (get(&n[0]), get(&n[1])) else { return Ok(None) };
@@ -357,17 +376,19 @@ fn build_complex(
                 .map(|v| v.as_str().map(String::from).ok_or("quotient: variables are names"))
                 .collect::<Result<_, _>>()?;
             let source_ring = quotient_source(ring, &zeroed)?;
-            // The source is written over the larger ring, so it is given inline (a definition
-            // or a construction), not as a name of this problem's complexes.
+            // The source lives over the larger ring: it is given inline, and names in it stand
+            // for their definitions, rebuilt and validated over that ring.
             if a[0].is_string() {
                 return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
             }
-            let Some(src) = build_complex(&source_ring, &a[0], done, maps)? else { return Ok(None) };
+            let src = crate::bordered::inline_source(&source_ring, &a[0], defs, 0).map_err(|e| format!("quotient source: {e}"))?;
             Some(quotient(&source_ring, ring, &src)?)
         }
+        "cable" => Some(crate::bordered::cable(name, arg, ring, defs, bordered)?),
+        "box_tensor" => Some(crate::bordered::box_tensor_complex(name, arg, bordered)?),
         other => {
             return Err(format!(
-                "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient)"
+                "unknown construction \"{other}\" (staircase, tensor, dual, shift, direct_sum, cone, quotient, cable, box_tensor)"
             ))
         }
     })

@@ -44,6 +44,8 @@ fn problem(ring: Ring, complexes: Vec<(&str, ComplexSpec)>, maps: Vec<(&str, Map
         complexes: UniqueMap(complexes.into_iter().map(|(n, c)| (n.to_string(), c)).collect()),
         maps: UniqueMap(maps.into_iter().map(|(n, m)| (n.to_string(), m)).collect()),
         goals,
+        bordered: None,
+        bordered_claims: Vec::new(),
     }
 }
 

@@ -5,6 +5,7 @@
 //! (linear algebra) → [`prove`] (claims, certificate). [`demo`] writes the demo scenario.
 
 pub mod bench;
+pub mod bordered;
 pub mod canonical_writer;
 pub mod construct;
 pub mod demo;

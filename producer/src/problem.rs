@@ -17,6 +17,12 @@ pub struct Problem {
     pub maps: UniqueMap<MapSpec>,
     #[serde(default)]
     pub goals: Vec<Goal>,
+    /// Bordered objects built from the problem (written as their own sections, never typed here).
+    #[serde(skip)]
+    pub bordered: Option<tubecert_format::bordered::Bordered>,
+    /// The claims that come with the bordered objects (relations, complements, box tensors).
+    #[serde(skip)]
+    pub bordered_claims: Vec<tubecert_format::Claim>,
 }
 
 fn default_bound() -> u32 {
@@ -98,6 +104,12 @@ pub struct WrittenProblem {
     pub maps: UniqueMap<serde_json::Value>,
     #[serde(default)]
     pub goals: Vec<Goal>,
+    #[serde(default)]
+    pub type_d_structures: UniqueMap<serde_json::Value>,
+    #[serde(default)]
+    pub type_a_modules: UniqueMap<serde_json::Value>,
+    #[serde(default)]
+    pub type_d_morphisms: UniqueMap<serde_json::Value>,
 }
 
 /// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
@@ -214,7 +226,13 @@ pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
             w.format, w.version
         )]);
     }
-    let (complexes, maps) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps)?;
+    let sections = [&w.type_d_structures.0, &w.type_a_modules.0, &w.type_d_morphisms.0];
+    let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections)?;
+    let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
+    let ring_name = tubecert_format::statement::ring_name(&w.ring.variables);
+    for c in &mut bordered_claims {
+        *c.statement_mut() = tubecert_format::statement::render(c, &ring_name, w.ring.variables.first().map_or("", |v| v));
+    }
     Ok(Problem {
         format: w.format,
         version: w.version,
@@ -222,5 +240,7 @@ pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
         complexes: UniqueMap(complexes),
         maps: UniqueMap(maps),
         goals: w.goals,
+        bordered,
+        bordered_claims,
     })
 }

@@ -352,6 +352,9 @@ pub fn prove(problem: Problem, ctx: &Context, problem_bytes: &[u8]) -> Result<Pr
 pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options: Options) -> Result<Proved, String> {
     let mut b = Builder { ctx, solver: Solver::new(ctx, options.threads > 1), claims: Vec::new() };
     let mut lines = Vec::new();
+    for claim in problem.bordered_claims.iter().cloned() {
+        lines.push(format!("✓ {}", b.add(claim)));
+    }
     let mut all = true;
     let start = Instant::now();
     for (i, goal) in problem.goals.iter().enumerate() {
@@ -372,6 +375,7 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     let Builder { claims, solver, .. } = b;
     drop(solver); // the reductions are not needed any more: free them before the self-check
     let body = Body {
+        bordered: problem.bordered,
         ring: problem.ring,
         complexes,
         maps,

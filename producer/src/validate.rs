@@ -37,6 +37,22 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
             }
         }
     }
+    if let Some(b) = &p.bordered {
+        // The bordered claims are decided by construction; a written object that breaks its
+        // relations is an input error, said here rather than by the final self-check.
+        match tubecheck::bordered::Objects::load(b, 1 << 30) {
+            Err(es) => es.into_iter().for_each(|e| errs.push(e)),
+            Ok(o) => {
+                for claim in &p.bordered_claims {
+                    if let Some(Err(tubecheck::bordered::Failure::False(e) | tubecheck::bordered::Failure::Refused(e))) =
+                        tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim)
+                    {
+                        errs.push(format!("{}: {e}", claim.statement()));
+                    }
+                }
+            }
+        }
+    }
     for (k, goal) in p.goals.iter().enumerate() {
         let at = format!("goal {}", k + 1);
         let map = |n: &String, errs: &mut Errors| {

@@ -77,7 +77,13 @@ pub fn body_sha256(body: &crate::Body) -> Result<String, String> {
 
 /// The canonical form of a body, complexes and maps straight from serde (see [`body_sha256`]).
 fn write_body(body: &crate::Body, w: &mut impl Write) -> Result<(), Box<dyn std::error::Error>> {
-    w.write_all(b"{\"claims\":")?;
+    w.write_all(b"{")?;
+    if let Some(b) = &body.bordered {
+        w.write_all(b"\"bordered\":")?;
+        w.write_all(&value(b)?)?;
+        w.write_all(b",")?;
+    }
+    w.write_all(b"\"claims\":")?;
     w.write_all(&value(&body.claims)?)?;
     w.write_all(b",\"complexes\":")?;
     serde_json::to_writer(&mut *w, &body.complexes)?;

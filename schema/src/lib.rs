@@ -6,9 +6,11 @@
 //! - [`ring`]: the checked ring, degrees of monomials, the finiteness condition;
 //! - [`canonical`]: RFC 8785 canonical JSON and the body's SHA-256;
 //! - [`statement`]: the one wording of each claim;
-//! - [`limits`]: size limits on input.
+//! - [`limits`]: size limits on input;
+//! - [`bordered`]: the torus algebra, type D structures, type A modules, type D morphisms.
 #![forbid(unsafe_code)]
 
+pub mod bordered;
 pub mod canonical;
 pub mod limits;
 pub mod model;

@@ -289,6 +289,44 @@ pub enum Claim {
         statement: String,
         witness: BasisWitness,
     },
+    /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0 and the idempotents match.
+    TypeDStructure {
+        statement: String,
+        structure: String,
+    },
+    /// The A∞ relations on every input word of length ≤ `max_length`.
+    TypeAModule {
+        max_length: u32,
+        module: String,
+        statement: String,
+    },
+    /// A type D morphism f with ∂f = 0.
+    TypeDMorphism {
+        morphism: String,
+        statement: String,
+    },
+    /// A complex of the body equals M ⊠ N.
+    BoxTensor {
+        complex: String,
+        module: String,
+        statement: String,
+        structure: String,
+    },
+    /// A map of the body equals id_M ⊠ f.
+    BoxTensorMap {
+        map: String,
+        module: String,
+        morphism: String,
+        statement: String,
+    },
+    /// A type D structure is the one LOT Thm 11.26 gives for a full complex and a framing.
+    Complement {
+        complex: String,
+        framing: i64,
+        statement: String,
+        structure: String,
+        tau: i64,
+    },
 }
 
 /// The `statement` field of any claim (one match for both borrows).
@@ -303,7 +341,13 @@ macro_rules! statement_of {
             | Claim::Homology { statement, .. }
             | Claim::TorsionOrder { statement, .. }
             | Claim::TorsionOrderOfComplex { statement, .. }
-            | Claim::Tau { statement, .. } => statement,
+            | Claim::Tau { statement, .. }
+            | Claim::TypeDStructure { statement, .. }
+            | Claim::TypeAModule { statement, .. }
+            | Claim::TypeDMorphism { statement, .. }
+            | Claim::BoxTensor { statement, .. }
+            | Claim::BoxTensorMap { statement, .. }
+            | Claim::Complement { statement, .. } => statement,
         }
     };
 }
@@ -320,6 +364,12 @@ impl Claim {
             Claim::TorsionOrder { .. } => "torsion_order",
             Claim::TorsionOrderOfComplex { .. } => "torsion_order_of_complex",
             Claim::Tau { .. } => "tau",
+            Claim::TypeDStructure { .. } => "type_d_structure",
+            Claim::TypeAModule { .. } => "type_a_module",
+            Claim::TypeDMorphism { .. } => "type_d_morphism",
+            Claim::BoxTensor { .. } => "box_tensor",
+            Claim::BoxTensorMap { .. } => "box_tensor_map",
+            Claim::Complement { .. } => "complement",
         }
     }
 
@@ -344,6 +394,9 @@ pub struct Provenance {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
+    /// Version 2 only: complexes over F2[U,V] and the bordered objects.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bordered: Option<crate::bordered::Bordered>,
     pub ring: Ring,
     pub complexes: UniqueMap<ComplexSpec>,
     pub maps: UniqueMap<MapSpec>,
@@ -352,7 +405,8 @@ pub struct Body {
 }
 
 pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
-pub const CERTIFICATE_VERSION: u32 = 1;
+/// The version written; version 1 (no `bordered` member) stays readable.
+pub const CERTIFICATE_VERSION: u32 = 2;
 
 /// A certificate file: `{"format", "version", "sha256", "body"}`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]

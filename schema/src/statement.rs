@@ -54,6 +54,20 @@ pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
             format!("Ord_{variable}(H_*({complex})) = {order}")
         }
         Claim::Tau { complex, tau, .. } => format!("τ({complex}) = {tau}"),
+        Claim::TypeDStructure { structure, .. } => {
+            format!("{structure} is a type D structure over A(T²) ((μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, idempotents match)")
+        }
+        Claim::TypeAModule { module, max_length, .. } => format!(
+            "{module} is a strictly unital type A module over A(T²) with coefficients in F2[U] (A∞ relations on every input word of length ≤ {max_length})"
+        ),
+        Claim::TypeDMorphism { morphism, .. } => format!("{morphism} is a type D morphism with ∂{morphism} = 0"),
+        Claim::BoxTensor { complex, module, structure, .. } => {
+            format!("{complex} = {module} ⊠ {structure} (box tensor product, gradings added)")
+        }
+        Claim::BoxTensorMap { map, module, morphism, .. } => format!("{map} = id_{module} ⊠ {morphism}"),
+        Claim::Complement { structure, complex, framing, tau, .. } => format!(
+            "{structure} = CFD of the complement of the knot with complex {complex}, framing {framing} (LOT Thm 11.26), τ = {tau}"
+        ),
     }
 }
 
@@ -81,3 +95,7 @@ pub fn ring_name(variables: &[String]) -> String {
 /// What a certificate does and does not prove; printed by every report.
 pub const SCOPE: &str = "Scope: a certificate proves algebraic identities about the complexes and maps it contains. \
 It does not prove that they are the knot Floer complexes or the surface-induced maps of particular knots and surfaces.";
+
+/// What a certificate with bordered claims does and does not prove; printed when it has one.
+pub const BORDERED_SCOPE: &str = "Bordered claims: a box_tensor claim proves X = M ⊠ N exactly, a complement claim that N is the type D structure LOT Thm 11.26 assigns to the complex C and the framing (with C's basis simultaneously simplified), and the type_d_structure / type_a_module claims the structure relations. \
+That M is the type A module of a given pattern, that C is the complex of a given knot, and the pairing theorem CFK^-(P(K)) ≃ CFA^-(P) ⊠ CFD(X_K) (LOT Thm 11.21) are the paper's to argue and cite.";

@@ -1,0 +1,700 @@
+//! Checks of the bordered claims (torus algebra A(T²), LOT §11.1, and LOT ch. 2 for type D
+//! structures, type A modules, morphisms and box tensor products; LOT Thm 11.26 for knot
+//! complements). Plain arithmetic: relations are summed term by term, box tensor products are
+//! recomputed by walking δ-paths and compared exactly. Work is counted before it is done and
+//! bounded by a budget proportional to the size of the certificate.
+
+use crate::algebra::normalize;
+use crate::load::{Complex, Context};
+use std::cell::Cell;
+use std::collections::{BTreeMap, BTreeSet};
+use tubecert_format::bordered::{full_ring, is_minus_ring, Alg, Bordered, DGenerator, TypeDSpec};
+use tubecert_format::limits::MAX_EXPONENT;
+use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
+
+/// Why a bordered claim does not verify: it is false (exit 1), or the checker refuses to
+/// decide it (an infinite sum, or more work than the budget: exit 2).
+#[derive(Debug)]
+pub enum Failure {
+    False(String),
+    Refused(String),
+}
+
+impl From<String> for Failure {
+    fn from(s: String) -> Failure {
+        Failure::False(s)
+    }
+}
+
+/// Work units allowed per written item (generator, term, family) of the certificate.
+pub const WORK_PER_ITEM: u64 = 1 << 14;
+
+/// A type D structure (or the generator set of one), indexed.
+pub struct TypeD {
+    pub names: Vec<String>,
+    pub index: BTreeMap<String, u32>,
+    pub idem: Vec<u8>,
+    pub grading: Vec<Option<Grading>>,
+    /// δ¹(y) as (coefficient, target), sorted.
+    pub delta: Vec<Vec<(Alg, u32)>>,
+    /// Terms whose idempotents do not match.
+    pub defects: Vec<String>,
+}
+
+/// One family m(from, prefix, repeat^n, suffix) ∋ U^(a·n+b)·to; `pattern` = prefix ++ repeat ++ suffix.
+pub struct Family {
+    pub from: u32,
+    pub pattern: Vec<Alg>,
+    pub prefix: usize,
+    pub repeat: usize,
+    pub power: [u32; 2],
+    pub to: u32,
+}
+
+pub struct TypeA {
+    pub names: Vec<String>,
+    pub idem: Vec<u8>,
+    pub grading: Vec<Grading>,
+    pub families: Vec<Family>,
+    pub defects: Vec<String>,
+}
+
+pub struct Morphism {
+    pub from: String,
+    pub to: String,
+    pub terms: Vec<Vec<(Alg, u32)>>,
+    pub defects: Vec<String>,
+}
+
+/// The loaded bordered section.
+pub struct Objects {
+    pub full: Context,
+    pub structures: BTreeMap<String, TypeD>,
+    pub modules: BTreeMap<String, TypeA>,
+    pub morphisms: BTreeMap<String, Morphism>,
+    pub budget: Budget,
+}
+
+/// Work units left: every check counts its work before doing it and refuses beyond. `longest`:
+/// the longest input word that gave a term of a box tensor product (reported).
+pub struct Budget(pub Cell<u64>, pub Cell<usize>);
+
+impl Budget {
+    pub fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
+        let left = self.0.get().checked_sub(units).ok_or_else(|| {
+            Failure::Refused(format!("{what}: more work than the budget ({WORK_PER_ITEM} units per written item) allows"))
+        })?;
+        self.0.set(left);
+        Ok(())
+    }
+}
+
+fn idem_ok(i: u8, what: &str) -> Result<u8, String> {
+    (i <= 1).then_some(i).ok_or_else(|| format!("{what}: idempotent {i} is not 0 or 1"))
+}
+
+fn grading_ok(g: &Grading, what: &str) -> Result<(), String> {
+    let fine = g.len() == 2 && g.iter().all(|x| x.abs() <= tubecert_format::limits::MAX_GRADING_ABS);
+    fine.then_some(()).ok_or_else(|| format!("{what}: a grading is [Maslov, Alexander] within ±2^31"))
+}
+
+/// Whether a ⊗ (generator of idempotent j) may follow a generator of idempotent i.
+fn step_ok(a: Alg, i: u8, j: u8) -> bool {
+    a.idempotents().unwrap_or((i, i)) == (i, j)
+}
+
+/// Generators of a type D structure and its δ¹ (or any terms between two generator sets).
+pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
+    let mut d = TypeD {
+        names: spec.generators.keys().cloned().collect(),
+        index: spec.generators.keys().enumerate().map(|(i, n)| (n.clone(), i as u32)).collect(),
+        idem: Vec::new(),
+        grading: Vec::new(),
+        delta: Vec::new(),
+        defects: Vec::new(),
+    };
+    for (g, DGenerator { grading, idempotent }) in spec.generators.iter() {
+        let what = format!("type D structure {name}, generator \"{g}\"");
+        d.idem.push(idem_ok(*idempotent, &what)?);
+        if let Some(gr) = grading {
+            grading_ok(gr, &what)?;
+        }
+        d.grading.push(grading.clone());
+    }
+    let (delta, defects) = read_arrows(&format!("type D structure {name}, δ¹"), &d, &d, &spec.differential)?;
+    (d.delta, d.defects) = (delta, defects);
+    Ok(d)
+}
+
+/// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
+/// mismatches defects (the claim fails).
+pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Result<(Vec<Vec<(Alg, u32)>>, Vec<String>), String> {
+    let mut rows = vec![Vec::new(); src.names.len()];
+    let mut defects = Vec::new();
+    for (k, [y, a, z]) in terms.iter().enumerate() {
+        let at = |e: String| format!("{what}, term {} [{y}, {a}, {z}]: {e}", k + 1);
+        let find = |d: &TypeD, n: &str| d.index.get(n).copied().ok_or_else(|| at(format!("generator \"{n}\" is not declared")));
+        let (i, j, a) = (find(src, y)?, find(dst, z)?, Alg::parse(a).map_err(at)?);
+        if !step_ok(a, src.idem[i as usize], dst.idem[j as usize]) {
+            defects.push(at("the idempotents do not match".into()));
+        }
+        rows[i as usize].push((a, j));
+    }
+    for (i, r) in rows.iter_mut().enumerate() {
+        let n = r.len();
+        r.sort_unstable();
+        r.dedup();
+        if r.len() != n {
+            return Err(format!("{what}: generator \"{}\" has a repeated term (list each term once)", src.names[i]));
+        }
+    }
+    Ok((rows, defects))
+}
+
+pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> Result<TypeA, String> {
+    let index: BTreeMap<&String, u32> = spec.generators.keys().enumerate().map(|(i, n)| (n, i as u32)).collect();
+    let mut m = TypeA { names: spec.generators.keys().cloned().collect(), idem: vec![], grading: vec![], families: vec![], defects: vec![] };
+    for (g, gen) in spec.generators.iter() {
+        let what = format!("type A module {name}, generator \"{g}\"");
+        m.idem.push(idem_ok(gen.idempotent, &what)?);
+        grading_ok(&gen.grading, &what)?;
+        m.grading.push(gen.grading.clone());
+    }
+    for (k, f) in spec.operations.iter().enumerate() {
+        let at = |e: &str| format!("type A module {name}, operation {}: {e}", k + 1);
+        let find = |n: &String| index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
+        let mut pattern = Vec::new();
+        for a in f.prefix.iter().chain(&f.repeat).chain(&f.suffix) {
+            match Alg::parse(a).map_err(|e| at(&e))? {
+                Alg::One => return Err(at("inputs are Reeb elements (strict unitality covers the idempotents)")),
+                r => pattern.push(r),
+            }
+        }
+        if pattern.len() > 60 || (f.repeat.is_empty() && f.power[0] != 0) || f.power.iter().any(|&p| p > MAX_EXPONENT) {
+            return Err(at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block"));
+        }
+        let fam = Family { from: find(&f.from)?, pattern, prefix: f.prefix.len(), repeat: f.repeat.len(), power: f.power, to: find(&f.to)? };
+        // Idempotents along the word for n = 0, 1, 2 cover every junction.
+        for n in 0..if fam.repeat > 0 { 3 } else { 1 } {
+            let (mut i, w) = (m.idem[fam.from as usize], fam.word(n));
+            for a in &w {
+                let (l, r) = a.idempotents().expect("Reeb");
+                if l != i {
+                    m.defects.push(at(&format!("{} does not start in ι{i}", a.name())));
+                }
+                i = r;
+            }
+            if i != m.idem[fam.to as usize] {
+                m.defects.push(at(&format!("the output {} is not in ι{i}", f.to)));
+            }
+        }
+        m.families.push(fam);
+    }
+    let mut sorted: Vec<_> = spec.operations.iter().collect();
+    sorted.sort();
+    if sorted.windows(2).any(|w| w[0] == w[1]) {
+        return Err(format!("type A module {name}: an operation is listed twice"));
+    }
+    Ok(m)
+}
+
+impl Family {
+    fn word(&self, n: usize) -> Vec<Alg> {
+        let (p, r) = (&self.pattern[..self.prefix], &self.pattern[self.prefix..self.prefix + self.repeat]);
+        let mut w = p.to_vec();
+        (0..n).for_each(|_| w.extend_from_slice(r));
+        w.extend_from_slice(&self.pattern[self.prefix + self.repeat..]);
+        w
+    }
+
+    /// The positions of the pattern reachable after reading `mask`'s words, closed under the
+    /// junction: after the prefix and after each repeated block one may repeat or go on.
+    fn close(&self, mask: u64) -> u64 {
+        let (j1, j2) = (self.prefix, self.prefix + self.repeat);
+        if mask & (1 << j1 | 1 << j2) != 0 {
+            mask | 1 << j1 | 1 << j2
+        } else {
+            mask
+        }
+    }
+
+    fn start(&self) -> u64 {
+        self.close(1)
+    }
+
+    /// The positions after reading `a` (0: the word read is no prefix of the family).
+    fn step(&self, mask: u64, a: Alg) -> u64 {
+        let next = (0..self.pattern.len()).filter(|&k| mask >> k & 1 == 1 && self.pattern[k] == a).fold(0, |m, k| m | 1 << (k + 1));
+        self.close(next)
+    }
+
+    /// U-power of the output when a word of length `len` is complete at `mask`.
+    fn output(&self, mask: u64, len: usize) -> Option<u32> {
+        if mask >> self.pattern.len() & 1 == 0 {
+            return None;
+        }
+        let n = if self.repeat == 0 { 0 } else { (len + self.repeat - self.pattern.len()) / self.repeat };
+        Some(self.power[0] * n as u32 + self.power[1])
+    }
+
+    /// m contribution on exactly the word s.
+    fn on(&self, s: &[Alg]) -> Option<u32> {
+        let mask = s.iter().fold(self.start(), |m, &a| self.step(m, a));
+        self.output(mask, s.len())
+    }
+}
+
+impl TypeA {
+    /// m(x, s) as (output, U-power) terms, summed mod 2.
+    fn m(&self, x: u32, s: &[Alg]) -> Vec<(u32, u32)> {
+        let mut out: Vec<(u32, u32)> =
+            self.families.iter().filter(|f| f.from == x).filter_map(|f| f.on(s).map(|p| (f.to, p))).collect();
+        normalize(&mut out);
+        out
+    }
+}
+
+impl Objects {
+    pub fn load(b: &Bordered, items: u64) -> Result<Objects, Vec<String>> {
+        if b.full_ring != full_ring() {
+            return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
+        }
+        let full = crate::load::load(&b.full_ring, &b.full_complexes, &UniqueMap::default())?;
+        let structures: Result<BTreeMap<String, TypeD>, String> = b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s)?))).collect();
+        let modules: Result<BTreeMap<String, TypeA>, String> = b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s)?))).collect();
+        let (structures, modules) = (structures.map_err(|e| vec![e])?, modules.map_err(|e| vec![e])?);
+        let mut o = Objects { full, structures, modules, morphisms: BTreeMap::new(), budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)) };
+        for (n, f) in b.type_d_morphisms.iter() {
+            let side = |s: &String| o.structures.get(s).ok_or_else(|| vec![format!("type D morphism {n}: type D structure \"{s}\" is not declared")]);
+            let (src, dst) = (side(&f.from)?, side(&f.to)?);
+            let (terms, defects) = read_arrows(&format!("type D morphism {n}"), src, dst, &f.terms).map_err(|e| vec![e])?;
+            o.morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
+        }
+        Ok(o)
+    }
+
+    fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
+        self.budget.spend(units, what)
+    }
+
+    fn structure(&self, n: &str) -> Result<&TypeD, Failure> {
+        Ok(self.structures.get(n).ok_or_else(|| format!("type D structure \"{n}\" is not declared"))?)
+    }
+    fn module(&self, n: &str) -> Result<&TypeA, Failure> {
+        Ok(self.modules.get(n).ok_or_else(|| format!("type A module \"{n}\" is not declared"))?)
+    }
+    fn morphism(&self, n: &str) -> Result<&Morphism, Failure> {
+        Ok(self.morphisms.get(n).ok_or_else(|| format!("type D morphism \"{n}\" is not declared"))?)
+    }
+}
+
+/// Σ over pairs y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″.
+fn composite(first: &[(Alg, u32)], second: &[Vec<(Alg, u32)>], out: &mut Vec<(Alg, u32)>) {
+    for &(a, y1) in first {
+        out.extend(second[y1 as usize].iter().filter_map(|&(b, y2)| a.times(b).map(|c| (c, y2))));
+    }
+}
+
+fn show(v: &[(Alg, u32)], names: &[String]) -> String {
+    v.iter().map(|(a, y)| format!("{}⊗{}", a.name(), names[*y as usize])).collect::<Vec<_>>().join(" + ")
+}
+
+/// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0.
+pub fn check_structure(d: &TypeD) -> Result<(), String> {
+    if let Some(e) = d.defects.first() {
+        return Err(e.clone());
+    }
+    for (y, row) in d.delta.iter().enumerate() {
+        let mut acc = Vec::new();
+        composite(row, &d.delta, &mut acc);
+        normalize(&mut acc);
+        if !acc.is_empty() {
+            return Err(format!("(μ ⊗ id)(id ⊗ δ¹)δ¹({}) = {} ≠ 0", d.names[y], show(&acc, &d.names)));
+        }
+    }
+    Ok(())
+}
+
+/// (μ ⊗ id)(id ⊗ δ¹_N′)f + (μ ⊗ id)(id ⊗ f)δ¹_N = 0.
+fn check_morphism(o: &Objects, f: &Morphism) -> Result<(), Failure> {
+    let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
+    if let Some(e) = f.defects.first() {
+        return Err(e.clone().into());
+    }
+    for y in 0..n.names.len() {
+        let mut acc = Vec::new();
+        composite(&f.terms[y], &n2.delta, &mut acc);
+        composite(&n.delta[y], &f.terms, &mut acc);
+        normalize(&mut acc);
+        if !acc.is_empty() {
+            return Err(format!("∂f({}) = {} ≠ 0", n.names[y], show(&acc, &n2.names)).into());
+        }
+    }
+    Ok(())
+}
+
+/// The A∞ relations on every word of length ≤ L on which a term can be non-zero.
+pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> {
+    if let Some(e) = m.defects.first() {
+        return Err(e.clone().into());
+    }
+    let l = max_len as usize;
+    // Words of each family up to length l: n from 0 while the word fits.
+    let words = |f: &Family| -> Vec<Vec<Alg>> {
+        let ns = if f.repeat == 0 { 0..1 } else { 0..(l + 1).saturating_sub(f.pattern.len() - f.repeat) / f.repeat + 1 };
+        ns.map(|n| f.word(n)).filter(|w| w.len() <= l).collect()
+    };
+    let count: u64 = m.families.iter().map(|f| words(f).len() as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
+    o.spend(count.saturating_mul(l as u64 + 1), "A∞ relations")?;
+    let mut candidates: BTreeSet<(u32, Vec<Alg>)> = BTreeSet::new();
+    for f in &m.families {
+        for w in words(f) {
+            for g in m.families.iter().filter(|g| g.from == f.to) {
+                for w2 in words(g).into_iter().filter(|w2| w.len() + w2.len() <= l) {
+                    candidates.insert((f.from, [w.clone(), w2].concat()));
+                }
+            }
+            for j in (0..w.len()).filter(|_| w.len() < l) {
+                // Split w[j] = a·b into two Reeb elements.
+                let Alg::Reeb(lo, hi) = w[j] else { continue };
+                for cut in lo..hi {
+                    let mut s = w[..j].to_vec();
+                    s.extend([Alg::Reeb(lo, cut), Alg::Reeb(cut + 1, hi)]);
+                    s.extend_from_slice(&w[j + 1..]);
+                    candidates.insert((f.from, s));
+                }
+            }
+        }
+    }
+    o.spend(candidates.iter().map(|c| (c.1.len() as u64 + 1).pow(2) * m.families.len() as u64).sum(), "A∞ relations")?;
+    for (x, s) in candidates {
+        let mut acc: Vec<(u32, u32)> = Vec::new();
+        for i in 0..=s.len() {
+            for (y, e) in m.m(x, &s[..i]) {
+                acc.extend(m.m(y, &s[i..]).into_iter().map(|(z, e2)| (z, e + e2)));
+            }
+        }
+        for j in 0..s.len().saturating_sub(1) {
+            if let Some(ab) = s[j].times(s[j + 1]) {
+                let merged = [&s[..j], &[ab], &s[j + 2..]].concat();
+                acc.extend(m.m(x, &merged));
+            }
+        }
+        normalize(&mut acc);
+        if let Some(&(z, e)) = acc.first() {
+            let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
+            return Err(format!(
+                "the A∞ relation fails on ({}, {}): the term U^{e}·{} survives",
+                m.names[x as usize],
+                word.join(", "),
+                m.names[z as usize]
+            )
+            .into());
+        }
+    }
+    Ok(())
+}
+
+/// Terms (module output, node, U-power) of Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths
+/// from `start` given by `steps` (node → (a, node′, whether the path may end after this
+/// step)); `end_at_start`: the empty path counts (the box tensor's m_1 ⊗ id). A path is
+/// followed only while its word is a prefix of a family's word; a cycle of (node, position)
+/// would make the sum infinite and is refused.
+fn paths(
+    o: &Budget,
+    m: &TypeA,
+    x: u32,
+    start: u32,
+    end_at_start: bool,
+    steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>,
+    names: &dyn Fn(u32) -> String,
+) -> Result<Vec<(u32, u32, u32)>, Failure> {
+    let mut out = Vec::new();
+    // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
+    for (_, y, end) in steps(start).into_iter().filter(|s| s.0 == Alg::One) {
+        if end {
+            out.push((x, y, 0));
+        }
+    }
+    for f in m.families.iter().filter(|f| f.from == x) {
+        // Depth-first over (node, positions, may end here, path length).
+        let mut stack: Vec<(u32, u64, bool, usize, usize)> = vec![(start, f.start(), end_at_start, 0, 0)];
+        let mut on_path: Vec<(u32, u64)> = Vec::new();
+        while let Some((y, mask, can_end, len, child)) = stack.pop() {
+            on_path.truncate(len);
+            if child == 0 {
+                o.spend(1 + f.pattern.len() as u64, "box tensor")?;
+                if on_path.contains(&(y, mask)) {
+                    let cycle: Vec<String> = on_path.iter().map(|p| names(p.0)).collect();
+                    return Err(Failure::Refused(format!(
+                        "an infinite sum: the cycle through {} can be followed forever while its word stays a prefix of an operation's input",
+                        cycle.join(" → ")
+                    )));
+                }
+                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
+                    o.1.set(o.1.get().max(len));
+                    out.push((f.to, y, p));
+                }
+            }
+            on_path.push((y, mask));
+            let next = steps(y);
+            if let Some(&(a, y2, end)) = next.get(child) {
+                stack.push((y, mask, can_end, len, child + 1));
+                let mask2 = if a == Alg::One { 0 } else { f.step(mask, a) };
+                if mask2 != 0 {
+                    stack.push((y2, mask2, end, len + 1, 0));
+                }
+            }
+        }
+    }
+    Ok(out)
+}
+
+/// A generator x⊗y of a box tensor product: x, y, its name and grading.
+pub type Generator = (u32, u32, String, Grading);
+
+/// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings gr(x) + gr(y).
+pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
+    let mut out = Vec::new();
+    for (x, xn) in m.names.iter().enumerate() {
+        for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
+            let gy = n.grading[y].as_ref().ok_or_else(|| format!("generator {yn} has no grading, so {xn}⊗{yn} has none"))?;
+            out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), crate::load::grading_sum(&m.grading[x], gy)));
+        }
+    }
+    Ok(out)
+}
+
+/// A complex or map of the certificate against the recomputed generators and terms.
+fn compare(what: &str, from: &Complex, to: &Complex, gens: &[Generator], rows: &[Vec<(String, u32)>], actual: &[crate::algebra::Vector]) -> Result<(), Failure> {
+    let names: Vec<&String> = gens.iter().map(|g| &g.2).collect();
+    if from.names.len() != gens.len() || names.iter().any(|n| from.index.get(n).is_none()) {
+        return Err(format!("{what}: {} does not have exactly the generators x⊗y of the box tensor product", from.name).into());
+    }
+    for (k, (_, _, name, gr)) in gens.iter().enumerate() {
+        let i = from.index.get(name).expect("checked") as usize;
+        if from.gradings[i] != gr[..] {
+            return Err(format!("{what}: {name} has grading {:?}, the box tensor product gives {gr:?}", &from.gradings[i]).into());
+        }
+        let mut want = Vec::new();
+        for (t, p) in &rows[k] {
+            let j = to.index.get(t).ok_or_else(|| format!("{what}: {t} is not a generator of {}", to.name))?;
+            want.push((j, Mono::power(0, *p)));
+        }
+        normalize(&mut want);
+        if want != actual[i] {
+            let show = |v: &[(u32, Mono)]| v.iter().map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize])).collect::<Vec<_>>().join(" + ");
+            return Err(format!("{what}: on {name} the certificate has {}, the box tensor product gives {}", show(&actual[i]), show(&want)).into());
+        }
+    }
+    Ok(())
+}
+
+/// Terms of id_M ⊠ (paths) from each generator x⊗y: (target name, U-power).
+fn rows(o: &Budget, m: &TypeA, gens: &[Generator], empty_path: bool, steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>, node: &dyn Fn(u32) -> String) -> Result<Vec<Vec<(String, u32)>>, Failure> {
+    let mut out = Vec::new();
+    for (x, y, _, _) in gens {
+        let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps, node)?
+            .into_iter()
+            .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], node(y2)), p))
+            .collect();
+        terms.sort();
+        // Sums mod 2: a term reached by an even number of paths cancels.
+        let runs = terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1).map(|r| r[0].clone());
+        out.push(runs.collect());
+    }
+    Ok(out)
+}
+
+/// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)).
+pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
+    if let Some(e) = m.defects.first().or(n.defects.first()) {
+        return Err(e.clone().into());
+    }
+    let gens = generators(m, n)?;
+    let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
+    let node = |y: u32| n.names[y as usize].clone();
+    let rows = rows(o, m, &gens, true, &steps, &node)?;
+    Ok((gens, rows))
+}
+
+/// id_M ⊠ f: M ⊠ N → M ⊠ N′, over paths of δ¹-steps in N, one f-step, δ¹-steps in N′.
+pub fn tensor_map(o: &Budget, m: &TypeA, f: &Morphism, n: &TypeD, n2: &TypeD) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
+    if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
+        return Err(e.clone().into());
+    }
+    let gens = generators(m, n)?;
+    // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
+    let k = n.names.len() as u32;
+    let steps = |y: u32| -> Vec<(Alg, u32, bool)> {
+        if y < k {
+            let d = n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, false));
+            d.chain(f.terms[y as usize].iter().map(|&(a, y2)| (a, y2 + k, true))).collect()
+        } else {
+            n2.delta[(y - k) as usize].iter().map(|&(a, y2)| (a, y2 + k, true)).collect()
+        }
+    };
+    let node = |y: u32| if y < k { n.names[y as usize].clone() } else { n2.names[(y - k) as usize].clone() };
+    let rows = rows(o, m, &gens, false, &steps, &node)?;
+    Ok((gens, rows))
+}
+
+/// The type D structure of LOT Thm 11.26 for a complex C over F2[U,V] in a simultaneously
+/// simplified basis and framing t, and τ = A(ξ_0).
+pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
+    let refuse = |why: String| {
+        format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
+    };
+    let n = c.names.len();
+    let (mut horizontal, mut vertical) = (vec![0; n], vec![0; n]);
+    let mut arrows = Vec::new();
+    for (a, row) in c.d.rows.iter().enumerate() {
+        for &(b, m) in row {
+            let [u, v] = m.0;
+            let (kind, count) = match (u, v) {
+                (u, 0) if u > 0 => ("lambda", &mut horizontal),
+                (0, v) if v > 0 => ("kappa", &mut vertical),
+                _ => return Err(refuse(format!("∂{} has the term {}·{}, not a pure power U^ℓ or V^ℓ with ℓ ≥ 1", c.names[a], m.render(&["U".into(), "V".into()]), c.names[b as usize]))),
+            };
+            count[a] += 1;
+            count[b as usize] += 1;
+            arrows.push((kind, a, b as usize, u.max(v)));
+        }
+    }
+    let lone = |count: &[u32], what: &str| -> Result<usize, String> {
+        if let Some(x) = (0..n).find(|&x| count[x] > 1) {
+            return Err(refuse(format!("{} has {} {what} arrows", c.names[x], count[x])));
+        }
+        match (0..n).filter(|&x| count[x] == 0).collect::<Vec<_>>()[..] {
+            [x] => Ok(x),
+            ref xs => Err(refuse(format!("{} generators have no {what} arrow, not one", xs.len()))),
+        }
+    };
+    let (eta0, xi0) = (lone(&horizontal, "horizontal")?, lone(&vertical, "vertical")?);
+    let alexander = |x: usize| {
+        let g = &c.gradings[x];
+        ((g[0] - g[1]) % 2 == 0).then_some((g[0] - g[1]) / 2).ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
+    };
+    let tau = alexander(xi0)?;
+    if alexander(eta0)? != -tau {
+        return Err(format!("complex {}: A(ξ_0 = {}) = {tau} but A(η_0 = {}) = {}, not −{tau}: not the complex of a knot in S^3", c.name, c.names[xi0], c.names[eta0], alexander(eta0)?));
+    }
+    let mut gens: Vec<(String, DGenerator)> = Vec::new();
+    for x in 0..n {
+        gens.push((c.names[x].clone(), DGenerator { grading: Some(vec![c.gradings[x][0], alexander(x)?]), idempotent: 0 }));
+    }
+    let mut terms: Vec<Term> = Vec::new();
+    let mut term = |a: &str, r: &str, b: &str| terms.push([a.to_string(), r.to_string(), b.to_string()]);
+    // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`).
+    let chain = |gens: &mut Vec<(String, DGenerator)>, names: Vec<String>, down: bool, term: &mut dyn FnMut(&str, &str, &str)| {
+        for w in names.windows(2) {
+            if down { term(&w[1], "rho23", &w[0]) } else { term(&w[0], "rho23", &w[1]) }
+        }
+        gens.extend(names.into_iter().map(|g| (g, DGenerator { grading: None, idempotent: 1 })));
+    };
+    for &(kind, a, b, l) in &arrows {
+        let (an, bn) = (&c.names[a], &c.names[b]);
+        let names: Vec<String> = (1..=l).map(|k| format!("{kind}{k}.{an}.{bn}")).collect();
+        if kind == "kappa" {
+            term(an, "rho1", &names[0]);
+            term(bn, "rho123", &names[l as usize - 1]);
+        } else {
+            term(an, "rho3", &names[0]);
+            term(&names[l as usize - 1], "rho2", bn);
+        }
+        chain(&mut gens, names, kind == "kappa", &mut term);
+    }
+    let (xn, en) = (&c.names[xi0], &c.names[eta0]);
+    let m = (t - 2 * tau).unsigned_abs();
+    if m > MAX_EXPONENT as u64 {
+        return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
+    }
+    let names: Vec<String> = (1..=m).map(|k| format!("gamma{k}")).collect();
+    match t.cmp(&(2 * tau)) {
+        std::cmp::Ordering::Less => {
+            term(xn, "rho1", &names[0]);
+            term(en, "rho3", &names[m as usize - 1]);
+        }
+        std::cmp::Ordering::Equal => term(xn, "rho12", en),
+        std::cmp::Ordering::Greater => {
+            term(xn, "rho123", &names[0]);
+            term(&names[m as usize - 1], "rho2", en);
+        }
+    }
+    chain(&mut gens, names, t < 2 * tau, &mut term);
+    let count = gens.len();
+    let generators = UniqueMap(gens.into_iter().collect());
+    if generators.len() != count {
+        return Err(format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…); rename it", c.name));
+    }
+    terms.sort();
+    Ok((TypeDSpec { differential: terms, generators }, tau))
+}
+
+/// Checks one bordered claim; `None` for the other kinds.
+pub fn check(ctx: &Context, o: Option<&Objects>, spec: Option<&Bordered>, claim: &Claim) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
+    let bordered = matches!(
+        claim,
+        Claim::TypeDStructure { .. } | Claim::TypeAModule { .. } | Claim::TypeDMorphism { .. } | Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } | Claim::Complement { .. }
+    );
+    bordered.then(|| {
+        crate::verify::check_statement(ctx, claim)?;
+        let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
+        let minus = || is_minus_ring(&spec_ring(ctx)).then_some(()).ok_or_else(|| Failure::False("box tensor products live in the minus ring F2[U] with (Maslov, Alexander), deg U = (−2, −1), deg ∂ = (−1, 0)".into()));
+        let mut facts = BTreeMap::new();
+        match claim {
+            Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
+            Claim::TypeAModule { module, max_length, .. } => check_module(&o.budget, o.module(module)?, *max_length)?,
+            Claim::TypeDMorphism { morphism, .. } => check_morphism(o, o.morphism(morphism)?)?,
+            Claim::BoxTensor { complex, module, structure, .. } => {
+                minus()?;
+                let c = &ctx.complexes[ctx.complex_named(complex)?];
+                let (gens, rows) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?)?;
+                compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
+                facts.insert("generators".into(), serde_json::json!(gens.len()));
+            }
+            Claim::BoxTensorMap { map, module, morphism, .. } => {
+                minus()?;
+                let (m, f) = (o.module(module)?, o.morphism(morphism)?);
+                let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
+                let &i = ctx.map_index.get(map).ok_or_else(|| format!("map \"{map}\" is not declared"))?;
+                let fm = &ctx.maps[i];
+                let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
+                let what = format!("{map} = id_{module} ⊠ {morphism}");
+                let gens2 = generators(m, n2)?;
+                compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
+                let (gens, rows) = tensor_map(&o.budget, m, f, n, n2)?;
+                compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
+            }
+            Claim::Complement { structure, complex, framing, tau, .. } => {
+                let c = &o.full.complexes[o.full.complex_named(complex)?];
+                o.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
+                let (want, found_tau) = complement(c, *framing)?;
+                let given = spec.type_d_structures.get(structure).ok_or_else(|| format!("type D structure \"{structure}\" is not declared"))?;
+                if found_tau != *tau {
+                    return Err(format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}").into());
+                }
+                let mut d = given.differential.clone();
+                d.sort();
+                if given.generators != want.generators {
+                    return Err(format!("{structure}: its generators (names, idempotents, gradings) differ from those LOT Thm 11.26 gives").into());
+                }
+                if let Some(t) = d.iter().find(|t| want.differential.binary_search(t).is_err()).or(want.differential.iter().find(|t| d.binary_search(t).is_err())) {
+                    return Err(format!("{structure}: δ¹ differs from LOT Thm 11.26 at the term [{}, {}, {}]", t[0], t[1], t[2]).into());
+                }
+                facts.insert("tau".into(), serde_json::json!(tau));
+            }
+            _ => unreachable!("bordered kinds only"),
+        }
+        Ok(facts)
+    })
+}
+
+fn spec_ring(ctx: &Context) -> tubecert_format::Ring {
+    tubecert_format::Ring {
+        variables: ctx.ring.variables.clone(),
+        gradings: ctx.ring.gradings.clone(),
+        variable_degrees: UniqueMap(ctx.ring.variables.iter().cloned().zip(ctx.ring.var_degrees.iter().cloned()).collect()),
+        differential_degree: ctx.ring.differential_degree.clone(),
+    }
+}
