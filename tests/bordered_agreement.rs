@@ -59,18 +59,46 @@ fn source(name: &str) -> Value {
     }
 }
 
-/// Companions with their τ (OS 2003: τ(T(p,q)) = (p−1)(q−1)/2, additive, odd under mirror):
-/// staircases, duals (mirrors), tensor products (connected sums), and sources with ξ_0 = η_0
-/// (the unknot, K # mirror K).
+/// An explicit complex over F2[U,V] with an isolated generator `x` at (0, 0) (so ξ_0 = η_0) and
+/// a square a → U·b + V·c, b → V·d, c → U·d with a at (m, m): the shape of the figure-eight's
+/// complex for m = 0 (memory), simultaneously simplified as written.
+fn box_and_point(m: i64, stair: Option<&[i64]>) -> Value {
+    let mut gens = json!({"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]});
+    let mut d = vec![json!(["a", "U", "b"]), json!(["a", "V", "c"]), json!(["b", "V", "d"]), json!(["c", "U", "d"])];
+    match stair {
+        None => gens["x"] = json!([0, 0]),
+        // A staircase in place of the point (conventions sheet), names s0, s1, ….
+        Some(a) => {
+            let mut gu = 0;
+            for i in 0..a.len() {
+                if i > 0 {
+                    gu += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
+                }
+                gens[format!("s{i}")] = json!([gu, gu - 2 * a[i]]);
+            }
+            for i in (1..a.len()).step_by(2) {
+                d.push(json!([format!("s{i}"), format!("U^{}", a[i - 1] - a[i]), format!("s{}", i - 1)]));
+                d.push(json!([format!("s{i}"), format!("V^{}", a[i] - a[i + 1]), format!("s{}", i + 1)]));
+            }
+        }
+    }
+    json!({"generators": gens, "differential": d})
+}
+
+/// Companions with their τ (OS 2003: τ(T(p,q)) = (p−1)(q−1)/2, odd under mirror): staircases,
+/// duals (mirrors), the unknot, a square beside a point (the figure-eight's shape, τ = 0,
+/// ξ_0 = η_0), and the T(2,5) staircase beside a square at (−2, −2) — the complex of
+/// T(2,3) # T(2,3) up to homotopy (memory), τ = 2 — together with its dual.
 fn companions() -> Vec<(String, Value, i64)> {
     let mut out = vec![("unknot".to_string(), source("O"), 0)];
     for (k, tau) in TORUS {
         out.push((k.to_string(), source(k), tau));
         out.push((format!("dual {k}"), json!({"dual": source(k)}), -tau));
     }
-    out.push(("T23 # T23".into(), json!({"tensor": [source("T23"), source("T23")]}), 2));
-    out.push(("T23 # mirror T23".into(), json!({"tensor": [source("T23"), {"dual": source("T23")}]}), 0));
-    out.push(("T34 # mirror T23".into(), json!({"tensor": [source("T34"), {"dual": source("T23")}]}), 2));
+    out.push(("square and point".into(), box_and_point(0, None), 0));
+    let sum = box_and_point(-2, Some(&[2, 1, 0, -1, -2]));
+    out.push(("T(2,5) staircase and square".into(), sum.clone(), 2));
+    out.push(("dual of T(2,5) staircase and square".into(), json!({"dual": sum}), -2));
     out
 }
 
@@ -220,7 +248,8 @@ fn checker_and_oracle_agree_on_mutated_pairings() {
 
 /// A structure written out in the problem (the oracle's own complement of T(3,4) at framing t,
 /// staircase names as the producer's), a renamed copy, and morphisms between them: the renaming
-/// (ι coefficients), δ¹ itself, and their sum.
+/// (ι coefficients), and δ¹ itself into N and into the copy (a sum of the two kinds would not
+/// be homogeneous).
 fn morphism_problem(t: i64) -> Value {
     let mut c = bo::UVComplex::default();
     // T(3,4): a = (3, 2, 0, −2, −3) (OS 2005); staircase as on the conventions sheet.
@@ -267,16 +296,15 @@ fn morphism_problem(t: i64) -> Value {
         .iter()
         .flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), format!("{y}'")])))
         .collect();
-    let sum: Vec<Value> = rename.iter().chain(delta2.iter()).cloned().collect();
     json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
         "type_d_structures": {"N": write(&n, ""), "N2": write(&n, "'")},
         "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
         "type_d_morphisms": {"f": {"from": "N", "to": "N2", "terms": rename},
                              "g": {"from": "N", "to": "N", "terms": delta},
-                             "h": {"from": "N", "to": "N2", "terms": sum}},
+                             "k": {"from": "N", "to": "N2", "terms": delta2}},
         "complexes": {"X": {"box_tensor": ["M", "N"]}, "X2": {"box_tensor": ["M", "N2"]}},
         "maps": {"F": {"box_tensor_map": ["M", "f"]}, "G": {"box_tensor_map": ["M", "g"]},
-                 "H": {"box_tensor_map": ["M", "h"]}},
+                 "H": {"box_tensor_map": ["M", "k"]}},
         "goals": []})
 }
 
@@ -302,4 +330,38 @@ fn morphisms_and_their_maps_agree_and_mutations_too() {
     }
     let bad = campaign(&certs, tubecert_tests::cases(60) as usize, 0xF00D);
     assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+/// Tensor products of sources (connected sums; τ additive, OS 2003): in the product basis they
+/// are not simplified, and the producer must either find a simultaneously simplified basis —
+/// then the certificate passes both deciders and pairs back to the quotient — or refuse
+/// saying which theorem needs it.
+#[test]
+fn tensor_product_companions_are_paired_or_refused_by_name() {
+    let t23 = source("T23");
+    for (what, src, tau) in [
+        ("T23 # T23", json!({"tensor": [t23, t23]}), 2),
+        ("T23 # mirror T23", json!({"tensor": [t23, {"dual": t23}]}), 0),
+        ("T34 # mirror T23", json!({"tensor": [source("T34"), {"dual": t23}]}), 2),
+    ] {
+        for t in [2 * tau - 1, 2 * tau, 2 * tau + 2] {
+            let problem = pairing_problem(&src, t);
+            let bytes = serde_json::to_vec(&problem).unwrap();
+            let checked = tubecert::problem::parse_problem(&bytes, "test")
+                .map_err(|e| format!("{e:?}"))
+                .and_then(|p| tubecert::validate::validate(&p).map(|_| ()).map_err(|e| format!("{e:?}")));
+            match checked {
+                Err(e) => {
+                    let msg = format!("{e:?}");
+                    assert!(msg.contains("simultaneously") && msg.contains("11.26"), "{what}: {msg}");
+                }
+                Ok(_) => {
+                    let c = certificate(&problem);
+                    assert!(checker_accepts(&c), "{what}, t = {t}");
+                    oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+                    assert_eq!(homology_of(&c["body"], "X"), homology_of(&c["body"], "Q"), "{what}, t = {t}");
+                }
+            }
+        }
+    }
 }
