@@ -298,14 +298,24 @@ fn morphism_problem(t: i64) -> Value {
         .collect();
     json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
         "type_d_structures": {"N": write(&n, ""), "N2": write(&n, "'")},
-        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}, "M2": two_cores()},
         "type_d_morphisms": {"f": {"from": "N", "to": "N2", "terms": rename},
                              "g": {"from": "N", "to": "N", "terms": delta},
                              "k": {"from": "N", "to": "N2", "terms": delta2}},
-        "complexes": {"X": {"box_tensor": ["M", "N"]}, "X2": {"box_tensor": ["M", "N2"]}},
+        "complexes": {"X": {"box_tensor": ["M", "N"]}, "X2": {"box_tensor": ["M", "N2"]},
+                      "Y": {"box_tensor": ["M2", "N"]}, "Y2": {"box_tensor": ["M2", "N2"]}},
         "maps": {"F": {"box_tensor_map": ["M", "f"]}, "G": {"box_tensor_map": ["M", "g"]},
-                 "H": {"box_tensor_map": ["M", "k"]}},
+                 "H": {"box_tensor_map": ["M", "k"]}, "FY": {"box_tensor_map": ["M2", "f"]}},
         "goals": []})
+}
+
+/// Two copies of the core with m_1(x) = x′ (a module with a differential, two generators):
+/// the A∞ relations hold since m(x′, w) = U^ℓ·x′ = m_1(m(x, w)) for every core word w.
+fn two_cores() -> Value {
+    let core = |x: &str| json!({"from": x, "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": x});
+    json!({"generators": {"x": {"grading": [0, 0], "idempotent": 0}, "x'": {"grading": [-1, 0], "idempotent": 0}},
+           "operations": [core("x"), core("x'"),
+                          {"from": "x", "power": [0, 0], "prefix": [], "repeat": [], "suffix": [], "to": "x'"}]})
 }
 
 fn alg_name(a: bo::torus::Alg) -> String {
@@ -364,4 +374,51 @@ fn tensor_product_companions_are_paired_or_refused_by_name() {
             }
         }
     }
+}
+
+/// The τ and Alexander-grading rules of `complement` probed on a grid: the unknot's generator
+/// moved to (g_U, g_V), the structure's and the box tensor product's gradings and the claimed τ
+/// set to every nearby value; the two deciders must agree on each (LOT Thm 11.26 speaks of
+/// knots, where A(ξ_0) = τ = −A(η_0) is an integer).
+#[test]
+fn complement_grading_rules_agree_on_a_grid() {
+    let c = certificate(&pairing_problem(&source("O"), 0));
+    let body = &c["body"];
+    let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap().clone();
+    let (full, n) = (comp["complex"].as_str().unwrap().to_string(), comp["structure"].as_str().unwrap().to_string());
+    let x0 = mutation::keys(&body["bordered"]["full_complexes"][&full]["generators"])[0].clone();
+    let (mut tried, mut accepted, mut bad) = (0, 0, Vec::new());
+    for gu in -2i64..=2 {
+        for gv in -2i64..=2 {
+            for a in -1i64..=1 {
+                for tau in -1i64..=1 {
+                    let mut b = body.clone();
+                    b["bordered"]["full_complexes"][&full]["generators"][&x0] = json!([gu, gv]);
+                    b["bordered"]["type_d_structures"][&n]["generators"][&x0]["grading"] = json!([gu, a]);
+                    for (cx, g) in [("X", format!("x⊗{x0}"))] {
+                        if b["complexes"][cx]["generators"].get(&g).is_some() {
+                            b["complexes"][cx]["generators"][&g] = json!([gu, a]);
+                        }
+                    }
+                    let claims = b["claims"].as_array_mut().unwrap();
+                    for cl in claims.iter_mut() {
+                        if cl["kind"] == "complement" && cl["structure"] == json!(n) {
+                            cl["tau"] = json!(tau);
+                        }
+                    }
+                    let Some(sealed) = reseal(&c, b) else { continue };
+                    tried += 1;
+                    let checker = checker_accepts(&sealed);
+                    let ours = oracle_accepts(&sealed["body"]);
+                    accepted += checker as u32;
+                    if checker != ours.is_ok() {
+                        bad.push(format!("C at ({gu}, {gv}), grading A = {a}, τ = {tau}: checker {checker}, oracle {ours:?}"));
+                    }
+                }
+            }
+        }
+    }
+    eprintln!("grading grid: {tried} tried, {accepted} accepted");
+    assert!(accepted >= 1, "the unmoved certificate is among the grid");
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
 }

@@ -1435,7 +1435,7 @@ pub mod mutation {
         }
     }
 
-    fn keys(v: &Value) -> Vec<String> {
+    pub fn keys(v: &Value) -> Vec<String> {
         v.as_object().map(|o| o.keys().cloned().collect()).unwrap_or_default()
     }
 
