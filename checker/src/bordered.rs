@@ -82,7 +82,9 @@ pub struct Budget(pub Cell<u64>, pub Cell<usize>);
 impl Budget {
     pub fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
         let left = self.0.get().checked_sub(units).ok_or_else(|| {
-            Failure::Refused(format!("{what}: more work than the budget ({WORK_PER_ITEM} units per written item) allows"))
+            Failure::Refused(format!(
+                "{what}: more work than the budget ({WORK_PER_ITEM} units per written item) allows"
+            ))
         })?;
         self.0.set(left);
         Ok(())
@@ -128,12 +130,19 @@ pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
 
 /// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
 /// mismatches defects (the claim fails).
-pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Result<(Vec<Vec<(Alg, u32)>>, Vec<String>), String> {
+pub fn read_arrows(
+    what: &str,
+    src: &TypeD,
+    dst: &TypeD,
+    terms: &[Term],
+) -> Result<(Vec<Vec<(Alg, u32)>>, Vec<String>), String> {
     let mut rows = vec![Vec::new(); src.names.len()];
     let mut defects = Vec::new();
     for (k, [y, a, z]) in terms.iter().enumerate() {
         let at = |e: String| format!("{what}, term {} [{y}, {a}, {z}]: {e}", k + 1);
-        let find = |d: &TypeD, n: &str| d.index.get(n).copied().ok_or_else(|| at(format!("generator \"{n}\" is not declared")));
+        let find = |d: &TypeD, n: &str| {
+            d.index.get(n).copied().ok_or_else(|| at(format!("generator \"{n}\" is not declared")))
+        };
         let (i, j, a) = (find(src, y)?, find(dst, z)?, Alg::parse(a).map_err(at)?);
         if !step_ok(a, src.idem[i as usize], dst.idem[j as usize]) {
             defects.push(at("the idempotents do not match".into()));
@@ -153,7 +162,13 @@ pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Resu
 
 pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> Result<TypeA, String> {
     let index: BTreeMap<&String, u32> = spec.generators.keys().enumerate().map(|(i, n)| (n, i as u32)).collect();
-    let mut m = TypeA { names: spec.generators.keys().cloned().collect(), idem: vec![], grading: vec![], families: vec![], defects: vec![] };
+    let mut m = TypeA {
+        names: spec.generators.keys().cloned().collect(),
+        idem: vec![],
+        grading: vec![],
+        families: vec![],
+        defects: vec![],
+    };
     for (g, gen) in spec.generators.iter() {
         let what = format!("type A module {name}, generator \"{g}\"");
         m.idem.push(idem_ok(gen.idempotent, &what)?);
@@ -173,7 +188,14 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> R
         if pattern.len() > 60 || (f.repeat.is_empty() && f.power[0] != 0) || f.power.iter().any(|&p| p > MAX_EXPONENT) {
             return Err(at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block"));
         }
-        let fam = Family { from: find(&f.from)?, pattern, prefix: f.prefix.len(), repeat: f.repeat.len(), power: f.power, to: find(&f.to)? };
+        let fam = Family {
+            from: find(&f.from)?,
+            pattern,
+            prefix: f.prefix.len(),
+            repeat: f.repeat.len(),
+            power: f.power,
+            to: find(&f.to)?,
+        };
         // Idempotents along the word for n = 0, 1, 2 cover every junction.
         for n in 0..if fam.repeat > 0 { 3 } else { 1 } {
             let (mut i, w) = (m.idem[fam.from as usize], fam.word(n));
@@ -224,7 +246,9 @@ impl Family {
 
     /// The positions after reading `a` (0: the word read is no prefix of the family).
     fn step(&self, mask: u64, a: Alg) -> u64 {
-        let next = (0..self.pattern.len()).filter(|&k| mask >> k & 1 == 1 && self.pattern[k] == a).fold(0, |m, k| m | 1 << (k + 1));
+        let next = (0..self.pattern.len())
+            .filter(|&k| mask >> k & 1 == 1 && self.pattern[k] == a)
+            .fold(0, |m, k| m | 1 << (k + 1));
         self.close(next)
     }
 
@@ -260,14 +284,27 @@ impl Objects {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
         }
         let full = crate::load::load(&b.full_ring, &b.full_complexes, &UniqueMap::default())?;
-        let structures: Result<BTreeMap<String, TypeD>, String> = b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s)?))).collect();
-        let modules: Result<BTreeMap<String, TypeA>, String> = b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s)?))).collect();
+        let structures: Result<BTreeMap<String, TypeD>, String> =
+            b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s)?))).collect();
+        let modules: Result<BTreeMap<String, TypeA>, String> =
+            b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s)?))).collect();
         let (structures, modules) = (structures.map_err(|e| vec![e])?, modules.map_err(|e| vec![e])?);
-        let mut o = Objects { full, structures, modules, morphisms: BTreeMap::new(), budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)) };
+        let mut o = Objects {
+            full,
+            structures,
+            modules,
+            morphisms: BTreeMap::new(),
+            budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)),
+        };
         for (n, f) in b.type_d_morphisms.iter() {
-            let side = |s: &String| o.structures.get(s).ok_or_else(|| vec![format!("type D morphism {n}: type D structure \"{s}\" is not declared")]);
+            let side = |s: &String| {
+                o.structures
+                    .get(s)
+                    .ok_or_else(|| vec![format!("type D morphism {n}: type D structure \"{s}\" is not declared")])
+            };
             let (src, dst) = (side(&f.from)?, side(&f.to)?);
-            let (terms, defects) = read_arrows(&format!("type D morphism {n}"), src, dst, &f.terms).map_err(|e| vec![e])?;
+            let (terms, defects) =
+                read_arrows(&format!("type D morphism {n}"), src, dst, &f.terms).map_err(|e| vec![e])?;
             o.morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
         }
         Ok(o)
@@ -341,10 +378,12 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
     let l = max_len as usize;
     // Words of each family up to length l: n from 0 while the word fits.
     let words = |f: &Family| -> Vec<Vec<Alg>> {
-        let ns = if f.repeat == 0 { 0..1 } else { 0..(l + 1).saturating_sub(f.pattern.len() - f.repeat) / f.repeat + 1 };
+        let ns =
+            if f.repeat == 0 { 0..1 } else { 0..(l + 1).saturating_sub(f.pattern.len() - f.repeat) / f.repeat + 1 };
         ns.map(|n| f.word(n)).filter(|w| w.len() <= l).collect()
     };
-    let count: u64 = m.families.iter().map(|f| words(f).len() as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
+    let count: u64 =
+        m.families.iter().map(|f| words(f).len() as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
     o.spend(count.saturating_mul(l as u64 + 1), "A∞ relations")?;
     let mut candidates: BTreeSet<(u32, Vec<Alg>)> = BTreeSet::new();
     for f in &m.families {
@@ -424,11 +463,13 @@ fn paths(
             on_path.truncate(len);
             if child == 0 {
                 o.spend(1 + f.pattern.len() as u64, "box tensor")?;
-                if on_path.contains(&(y, mask)) {
-                    let cycle: Vec<String> = on_path.iter().map(|p| names(p.0)).collect();
+                if let Some(first) = on_path.iter().position(|p| *p == (y, mask)) {
+                    let cycle: Vec<String> = on_path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
                     return Err(Failure::Refused(format!(
-                        "an infinite sum: the cycle through {} can be followed forever while its word stays a prefix of an operation's input",
-                        cycle.join(" → ")
+                        "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
+                        cycle.join(" → "),
+                        names(start),
+                        m.names[x as usize]
                     )));
                 }
                 if let (true, Some(p)) = (can_end, f.output(mask, len)) {
@@ -458,7 +499,8 @@ pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
-            let gy = n.grading[y].as_ref().ok_or_else(|| format!("generator {yn} has no grading, so {xn}⊗{yn} has none"))?;
+            let gy =
+                n.grading[y].as_ref().ok_or_else(|| format!("generator {yn} has no grading, so {xn}⊗{yn} has none"))?;
             out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), crate::load::grading_sum(&m.grading[x], gy)));
         }
     }
@@ -466,15 +508,30 @@ pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
 }
 
 /// A complex or map of the certificate against the recomputed generators and terms.
-fn compare(what: &str, from: &Complex, to: &Complex, gens: &[Generator], rows: &[Vec<(String, u32)>], actual: &[crate::algebra::Vector]) -> Result<(), Failure> {
+fn compare(
+    what: &str,
+    from: &Complex,
+    to: &Complex,
+    gens: &[Generator],
+    rows: &[Vec<(String, u32)>],
+    actual: &[crate::algebra::Vector],
+) -> Result<(), Failure> {
     let names: Vec<&String> = gens.iter().map(|g| &g.2).collect();
     if from.names.len() != gens.len() || names.iter().any(|n| from.index.get(n).is_none()) {
-        return Err(format!("{what}: {} does not have exactly the generators x⊗y of the box tensor product", from.name).into());
+        return Err(format!(
+            "{what}: {} does not have exactly the generators x⊗y of the box tensor product",
+            from.name
+        )
+        .into());
     }
     for (k, (_, _, name, gr)) in gens.iter().enumerate() {
         let i = from.index.get(name).expect("checked") as usize;
         if from.gradings[i] != gr[..] {
-            return Err(format!("{what}: {name} has grading {:?}, the box tensor product gives {gr:?}", &from.gradings[i]).into());
+            return Err(format!(
+                "{what}: {name} has grading {:?}, the box tensor product gives {gr:?}",
+                &from.gradings[i]
+            )
+            .into());
         }
         let mut want = Vec::new();
         for (t, p) in &rows[k] {
@@ -483,15 +540,32 @@ fn compare(what: &str, from: &Complex, to: &Complex, gens: &[Generator], rows: &
         }
         normalize(&mut want);
         if want != actual[i] {
-            let show = |v: &[(u32, Mono)]| v.iter().map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize])).collect::<Vec<_>>().join(" + ");
-            return Err(format!("{what}: on {name} the certificate has {}, the box tensor product gives {}", show(&actual[i]), show(&want)).into());
+            let show = |v: &[(u32, Mono)]| {
+                v.iter()
+                    .map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize]))
+                    .collect::<Vec<_>>()
+                    .join(" + ")
+            };
+            return Err(format!(
+                "{what}: on {name} the certificate has {}, the box tensor product gives {}",
+                show(&actual[i]),
+                show(&want)
+            )
+            .into());
         }
     }
     Ok(())
 }
 
 /// Terms of id_M ⊠ (paths) from each generator x⊗y: (target name, U-power).
-fn rows(o: &Budget, m: &TypeA, gens: &[Generator], empty_path: bool, steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>, node: &dyn Fn(u32) -> String) -> Result<Vec<Vec<(String, u32)>>, Failure> {
+fn rows(
+    o: &Budget,
+    m: &TypeA,
+    gens: &[Generator],
+    empty_path: bool,
+    steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>,
+    node: &dyn Fn(u32) -> String,
+) -> Result<Vec<Vec<(String, u32)>>, Failure> {
     let mut out = Vec::new();
     for (x, y, _, _) in gens {
         let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps, node)?
@@ -519,7 +593,13 @@ pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD) -> Result<(Vec<Generator
 }
 
 /// id_M ⊠ f: M ⊠ N → M ⊠ N′, over paths of δ¹-steps in N, one f-step, δ¹-steps in N′.
-pub fn tensor_map(o: &Budget, m: &TypeA, f: &Morphism, n: &TypeD, n2: &TypeD) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
+pub fn tensor_map(
+    o: &Budget,
+    m: &TypeA,
+    f: &Morphism,
+    n: &TypeD,
+    n2: &TypeD,
+) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }
@@ -554,7 +634,14 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
             let (kind, count) = match (u, v) {
                 (u, 0) if u > 0 => ("lambda", &mut horizontal),
                 (0, v) if v > 0 => ("kappa", &mut vertical),
-                _ => return Err(refuse(format!("∂{} has the term {}·{}, not a pure power U^ℓ or V^ℓ with ℓ ≥ 1", c.names[a], m.render(&["U".into(), "V".into()]), c.names[b as usize]))),
+                _ => {
+                    return Err(refuse(format!(
+                        "∂{} has the term {}·{}, not a pure power U^ℓ or V^ℓ with ℓ ≥ 1",
+                        c.names[a],
+                        m.render(&["U".into(), "V".into()]),
+                        c.names[b as usize]
+                    )))
+                }
             };
             count[a] += 1;
             count[b as usize] += 1;
@@ -573,22 +660,40 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
     let (eta0, xi0) = (lone(&horizontal, "horizontal")?, lone(&vertical, "vertical")?);
     let alexander = |x: usize| {
         let g = &c.gradings[x];
-        ((g[0] - g[1]) % 2 == 0).then_some((g[0] - g[1]) / 2).ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
+        ((g[0] - g[1]) % 2 == 0)
+            .then_some((g[0] - g[1]) / 2)
+            .ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
     };
     let tau = alexander(xi0)?;
     if alexander(eta0)? != -tau {
-        return Err(format!("complex {}: A(ξ_0 = {}) = {tau} but A(η_0 = {}) = {}, not −{tau}: not the complex of a knot in S^3", c.name, c.names[xi0], c.names[eta0], alexander(eta0)?));
+        return Err(format!(
+            "complex {}: A(ξ_0 = {}) = {tau} but A(η_0 = {}) = {}, not −{tau}: not the complex of a knot in S^3",
+            c.name,
+            c.names[xi0],
+            c.names[eta0],
+            alexander(eta0)?
+        ));
     }
     let mut gens: Vec<(String, DGenerator)> = Vec::new();
     for x in 0..n {
-        gens.push((c.names[x].clone(), DGenerator { grading: Some(vec![c.gradings[x][0], alexander(x)?]), idempotent: 0 }));
+        gens.push((
+            c.names[x].clone(),
+            DGenerator { grading: Some(vec![c.gradings[x][0], alexander(x)?]), idempotent: 0 },
+        ));
     }
     let mut terms: Vec<Term> = Vec::new();
     let mut term = |a: &str, r: &str, b: &str| terms.push([a.to_string(), r.to_string(), b.to_string()]);
     // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`).
-    let chain = |gens: &mut Vec<(String, DGenerator)>, names: Vec<String>, down: bool, term: &mut dyn FnMut(&str, &str, &str)| {
+    let chain = |gens: &mut Vec<(String, DGenerator)>,
+                 names: Vec<String>,
+                 down: bool,
+                 term: &mut dyn FnMut(&str, &str, &str)| {
         for w in names.windows(2) {
-            if down { term(&w[1], "rho23", &w[0]) } else { term(&w[0], "rho23", &w[1]) }
+            if down {
+                term(&w[1], "rho23", &w[0])
+            } else {
+                term(&w[0], "rho23", &w[1])
+            }
         }
         gens.extend(names.into_iter().map(|g| (g, DGenerator { grading: None, idempotent: 1 })));
     };
@@ -632,10 +737,20 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
 }
 
 /// Checks one bordered claim; `None` for the other kinds.
-pub fn check(ctx: &Context, o: Option<&Objects>, spec: Option<&Bordered>, claim: &Claim) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
+pub fn check(
+    ctx: &Context,
+    o: Option<&Objects>,
+    spec: Option<&Bordered>,
+    claim: &Claim,
+) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
     let bordered = matches!(
         claim,
-        Claim::TypeDStructure { .. } | Claim::TypeAModule { .. } | Claim::TypeDMorphism { .. } | Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } | Claim::Complement { .. }
+        Claim::TypeDStructure { .. }
+            | Claim::TypeAModule { .. }
+            | Claim::TypeDMorphism { .. }
+            | Claim::BoxTensor { .. }
+            | Claim::BoxTensorMap { .. }
+            | Claim::Complement { .. }
     );
     bordered.then(|| {
         crate::verify::check_statement(ctx, claim)?;
@@ -694,7 +809,9 @@ fn spec_ring(ctx: &Context) -> tubecert_format::Ring {
     tubecert_format::Ring {
         variables: ctx.ring.variables.clone(),
         gradings: ctx.ring.gradings.clone(),
-        variable_degrees: UniqueMap(ctx.ring.variables.iter().cloned().zip(ctx.ring.var_degrees.iter().cloned()).collect()),
+        variable_degrees: UniqueMap(
+            ctx.ring.variables.iter().cloned().zip(ctx.ring.var_degrees.iter().cloned()).collect(),
+        ),
         differential_degree: ctx.ring.differential_degree.clone(),
     }
 }

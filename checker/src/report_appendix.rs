@@ -3,7 +3,7 @@
 //! failed are listed as failed.
 
 use crate::FileReport;
-use tubecert_format::statement::{render_grading, ring_name, SCOPE};
+use tubecert_format::statement::{render_grading, ring_name, BORDERED_SCOPE, SCOPE};
 use tubecert_format::{Claim, MapExpr};
 
 /// The facts both formats show.
@@ -64,6 +64,9 @@ pub fn markdown(r: &FileReport) -> String {
     o += &format!("## Certificate `{}`\n\n", r.file);
     o += &format!("SHA-256 (RFC 8785 canonical body): `{}`\n\n", r.sha256);
     o += &format!("> {SCOPE}\n\n");
+    if r.body.bordered.is_some() {
+        o += &format!("> {BORDERED_SCOPE}\n\n");
+    }
     o += &format!("**Ring** {} — {}.\n\n", s.ring, s.conventions.join(", "));
     o += "| complex | generators | differential terms |\n|---|---|---|\n";
     for (n, g, t) in &s.complexes {
@@ -186,6 +189,12 @@ pub fn latex(r: &FileReport) -> String {
     o += "\\section*{Machine-checked certificate}\n";
     o += &format!("File {}.\\\\\nSHA-256 of the RFC~8785 canonical body: {hash}.\n\n", breakable(&tt(&r.file)));
     o += &format!("\\emph{{{}}}\n\n", SCOPE);
+    if r.body.bordered.is_some() {
+        o += &format!(
+            "\\emph{{{}}}\n\n",
+            BORDERED_SCOPE.replace('⊠', "$\\boxtimes$").replace('≃', "$\\simeq$").replace("^-", "$^-$")
+        );
+    }
     let conv: Vec<String> =
         s.conventions.iter().map(|c| c.replace("deg ∂", "\\deg\\partial").replace("deg ", "\\deg ")).collect();
     o += &format!(

@@ -3,7 +3,7 @@
 
 use crate::{report_appendix, report_json, report_text, FileReport};
 use std::io::{ErrorKind, Write};
-use tubecert_format::statement::SCOPE;
+use tubecert_format::statement::{BORDERED_SCOPE, SCOPE};
 
 /// Writes `text` to standard output. A reader that went away early (`| head -1`) is not an
 /// error: the exit code still carries the verdict, so printing just stops. Any other write
@@ -73,6 +73,9 @@ pub fn print(
                 (true, false) => "; expected hash NOT found",
             };
             crate::say!("{SCOPE}");
+            if outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.body.bordered.is_some())) {
+                crate::say!("{BORDERED_SCOPE}");
+            }
             crate::say!(
                 "Total: {} file(s), {verified} claim(s) verified, {failed_claims} failed; {failed_files} file(s) failed, {unreadable} unreadable{expect}",
                 outcomes.len()

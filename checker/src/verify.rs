@@ -322,7 +322,10 @@ pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
         names.sort();
         if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
-            return Err(vec![format!("the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)", w[0])]);
+            return Err(vec![format!(
+                "the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)",
+                w[0]
+            )]);
         }
     }
     let mut out = check_objects(&ctx);
@@ -334,7 +337,12 @@ pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<
             Some(Err(Failure::False(e))) => Err(e),
             Some(Ok(facts)) => Ok(facts),
         };
-        out.push(ClaimResult { kind: claim.kind().into(), statement: claim.statement().to_string(), implicit: false, outcome });
+        out.push(ClaimResult {
+            kind: claim.kind().into(),
+            statement: claim.statement().to_string(),
+            implicit: false,
+            outcome,
+        });
     }
     Ok(out)
 }

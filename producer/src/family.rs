@@ -17,6 +17,24 @@ pub fn parse_param(text: &str) -> Result<(String, i64, i64), String> {
     Ok((name.to_string(), lo, hi))
 }
 
+/// `I/N` with 1 ≤ I ≤ N: the shard that runs the members at positions I, I + N, I + 2N, … of the
+/// parameter order (1-based), so a job array or a CI matrix can split a family with nothing of
+/// ours doing the distributing.
+pub fn parse_shard(text: &str) -> Result<(u64, u64), String> {
+    let err = |why: &str| format!("--shard \"{text}\": {why}; expected I/N with 1 ≤ I ≤ N, e.g. 2/8");
+    let (i, n) = text.split_once('/').ok_or_else(|| err("no '/'"))?;
+    let number =
+        |s: &str, what: &str| s.trim().parse::<u64>().map_err(|_| err(&format!("{what} is not a whole number")));
+    let (i, n) = (number(i, "I")?, number(n, "N")?);
+    if n == 0 {
+        return Err(err("N must be at least 1"));
+    }
+    if i == 0 || i > n {
+        return Err(err(&format!("I must be between 1 and {n}")));
+    }
+    Ok((i, n))
+}
+
 /// Evaluates an integer expression in one variable.
 pub fn eval(expr: &str, name: &str, value: i64) -> Result<i64, String> {
     struct P<'a> {
@@ -141,14 +159,17 @@ pub fn instantiate(template: &Value, name: &str, value: i64) -> Result<Value, St
 
 /// Proves every member of a family; writes `STEM-NAMEv.problem.json` (the explicit instance)
 /// and its certificate into `out`; returns the table as Markdown lines and whether every goal
-/// held as stated.
+/// held as stated. With `shard = Some((i, n))` only the members at positions i, i + n, … (1-based,
+/// in parameter order) are proved; each writes exactly what a whole run writes for it.
 pub fn run(
     template_path: &std::path::Path,
     param: &str,
+    shard: Option<(u64, u64)>,
     out: &std::path::Path,
     options: crate::prove::Options,
 ) -> Result<(Vec<String>, bool), Vec<String>> {
     let (name, lo, hi) = parse_param(param).map_err(|e| vec![e])?;
+    let (shard_i, shard_n) = shard.unwrap_or((1, 1));
     let file = template_path.display().to_string();
     let bytes = tubecert_format::limits::read_file(template_path).map_err(|e| vec![format!("{file}: {e}")])?;
     let text = String::from_utf8_lossy(&bytes);
@@ -159,7 +180,10 @@ pub fn run(
     std::fs::create_dir_all(out).map_err(|e| vec![format!("{}: {e}", out.display())])?;
     let mut rows = Vec::new();
     let mut all = true;
-    for v in lo..=hi {
+    for (position, v) in (1u64..).zip(lo..=hi) {
+        if (position - 1) % shard_n != shard_i - 1 {
+            continue;
+        }
         let at = |e: String| format!("{file} with {name} = {v}: {e}");
         let written = instantiate(&template, &name, v).map_err(|e| vec![at(e)])?;
         let written = serde_json::from_value(written).map_err(|e| vec![at(e.to_string())])?;
@@ -200,5 +224,11 @@ mod tests {
         assert_eq!(instantiate(&t, "p", 3).unwrap(), serde_json::json!({"x3": [-5, "U^3", 5]}));
         assert_eq!(parse_param("p=1..8"), Ok(("p".into(), 1, 8)));
         assert!(parse_param("p=3..1").is_err());
+        assert_eq!(parse_shard("2/8"), Ok((2, 8)));
+        assert_eq!(parse_shard("1/1"), Ok((1, 1)));
+        for bad in ["0/3", "4/3", "1/0", "3", "a/3", "1/-2", "-1/3", ""] {
+            let e = parse_shard(bad).unwrap_err();
+            assert!(e.contains(&format!("\"{bad}\"")) && e.contains("1 ≤ I ≤ N"), "{bad}: {e}");
+        }
     }
 }

@@ -62,13 +62,16 @@ enum Command {
     },
     /// Prove every member of a family of problems given by a template.
     #[command(
-        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates"
+        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\n--shard I/N runs only the members at positions I, I+N, I+2N, … of the parameter order and\nwrites the same files a whole run writes for them: run shards 1/N … N/N anywhere (a job array,\na CI matrix), gather the folders, then tubecheck the result.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates\n  tubecert family examples/stair-tower.template.json --param p=1..6 --shard 2/3 --out part2"
     )]
     Family {
         template: PathBuf,
         /// NAME=LO..HI, e.g. p=1..8
         #[arg(long)]
         param: String,
+        /// I/N: prove only the members at positions I, I+N, I+2N, … (1 ≤ I ≤ N).
+        #[arg(long, value_name = "I/N")]
+        shard: Option<String>,
         #[arg(long, default_value = ".")]
         out: PathBuf,
     },
@@ -227,8 +230,17 @@ fn main() -> ExitCode {
                 }
             }
         }
-        Command::Family { template, param, out } => match tubecert::family::run(&template, &param, &out, options) {
+        Command::Family { template, param, shard, out } => match shard
+            .as_deref()
+            .map(tubecert::family::parse_shard)
+            .transpose()
+            .map_err(|e| vec![e])
+            .and_then(|shard| tubecert::family::run(&template, &param, shard, &out, options))
+        {
             Ok((rows, all)) => {
+                if rows.is_empty() {
+                    say!("this shard has no members (there are fewer members than shards)");
+                }
                 for r in rows {
                     say!("{r}");
                 }

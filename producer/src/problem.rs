@@ -231,7 +231,8 @@ pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
     let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
     let ring_name = tubecert_format::statement::ring_name(&w.ring.variables);
     for c in &mut bordered_claims {
-        *c.statement_mut() = tubecert_format::statement::render(c, &ring_name, w.ring.variables.first().map_or("", |v| v));
+        *c.statement_mut() =
+            tubecert_format::statement::render(c, &ring_name, w.ring.variables.first().map_or("", |v| v));
     }
     Ok(Problem {
         format: w.format,

@@ -327,7 +327,15 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
             }
             _ => return Err(line.err(c(1), "quotient VARIABLE… of CONSTRUCTION", w(1))),
         },
-        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
+        // `cable P Q of SOURCE`: the source is over F2[U,V], written inline like a quotient's.
+        "cable" => match (toks.get(3).map(|t| t.1.as_str()), toks.len() > 4) {
+            (Some("of"), true) => {
+                let int = |k: usize| w(k).parse::<i64>().map_err(|_| line.err(c(k), "an integer", w(k)));
+                json!({"cable": {"companion": construction(line, &toks[4..])?, "p": int(1)?, "q": int(2)?}})
+            }
+            _ => return Err(line.err(c(1), "cable P Q of CONSTRUCTION", w(1))),
+        },
+        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase … | cable 1 Q of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
     })
 }
 
@@ -385,6 +393,11 @@ fn construction_text(c: &Value) -> Result<String, String> {
                 .map_err(|_| "a quotient of a complex written out in full has no text form; keep it in JSON")?;
             let vars: Vec<&str> = a[1..].iter().filter_map(|x| x.as_str()).collect();
             format!("{} of {source}", vars.join(" "))
+        }
+        ("cable", a) => {
+            let source = construction_text(&a["companion"])
+                .map_err(|_| "a cable of a complex written out in full has no text form; keep it in JSON")?;
+            format!("{} {} of {source}", a["p"], a["q"])
         }
         (_, Value::String(s)) => s.clone(),
         (_, Value::Array(a)) => a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "),
@@ -608,6 +621,19 @@ mod tests {
         let e = from_command_line("F2[U]", &["T = staircase torus_knot 2 x".into()], &[]).unwrap_err();
         assert_eq!(e[0], "--complex \"T = staircase torus_knot 2 x\", column 28: expected an integer, found \"x\"");
         assert!(from_command_line("Z[U]", &[], &[]).unwrap_err()[0].contains("F2, F2[U] or F2[U,V]"));
+    }
+
+    #[test]
+    fn cables_round_trip_and_build() {
+        let text = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ncomplex K = cable 1 5 of staircase torus_knot 2 3\ngoal tau K\n";
+        let v = parse(text).unwrap();
+        assert_eq!(
+            v["complexes"]["K"],
+            json!({"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 5}})
+        );
+        assert!(render(&v).unwrap().contains("complex K = cable 1 5 of staircase torus_knot 2 3"));
+        assert!(parse("ring F2[U]\ncomplex K = cable 1 5 staircase torus_knot 2 3\n").unwrap_err()[0]
+            .contains("cable P Q of"));
     }
 
     #[test]

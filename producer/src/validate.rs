@@ -44,8 +44,9 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
             Err(es) => es.into_iter().for_each(|e| errs.push(e)),
             Ok(o) => {
                 for claim in &p.bordered_claims {
-                    if let Some(Err(tubecheck::bordered::Failure::False(e) | tubecheck::bordered::Failure::Refused(e))) =
-                        tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim)
+                    if let Some(Err(
+                        tubecheck::bordered::Failure::False(e) | tubecheck::bordered::Failure::Refused(e),
+                    )) = tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim)
                     {
                         errs.push(format!("{}: {e}", claim.statement()));
                     }

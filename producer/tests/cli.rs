@@ -283,3 +283,73 @@ fn build_writes_explicit_complexes_that_prove() {
     let (_, _, err) = tubecert(&["build", "--complex", "A = dual B", "--complex", "B = dual A"]);
     assert!(err.contains("complex A: waits for B"), "{err}");
 }
+
+/// Every file of a folder, by name.
+fn folder(d: &std::path::Path) -> std::collections::BTreeMap<String, Vec<u8>> {
+    std::fs::read_dir(d)
+        .unwrap()
+        .map(|f| f.unwrap().path())
+        .map(|p| (p.file_name().unwrap().to_string_lossy().into(), std::fs::read(&p).unwrap()))
+        .collect()
+}
+
+#[test]
+fn family_shards_write_exactly_what_a_whole_run_writes() {
+    let template = format!("{}/../examples/stair-tower.template.json", env!("CARGO_MANIFEST_DIR"));
+    let run = |out: &std::path::Path, shard: Option<&str>| {
+        let out = out.to_string_lossy().to_string();
+        let mut args = vec!["family", &template, "--param", "p=1..5", "--out", &out];
+        if let Some(s) = shard {
+            args.extend(["--shard", s]);
+        }
+        let (code, text, err) = tubecert(&args);
+        assert_eq!(code, 0, "{text}{err}");
+        text
+    };
+    let whole = dir().join("family-whole");
+    run(&whole, None);
+    let whole = folder(&whole);
+    assert_eq!(whole.len(), 10, "a problem and a certificate per member");
+    for n in [1, 2, 3, 7] {
+        let mut gathered = std::collections::BTreeMap::new();
+        for i in 1..=n {
+            let part = dir().join(format!("family-{i}-of-{n}"));
+            let text = run(&part, Some(&format!("{i}/{n}")));
+            let files = folder(&part);
+            // Shard i runs the members at positions i, i + n, …: p = i, i + n, … here (p starts at 1).
+            let mut expected: Vec<i64> = (1..=5).filter(|p| (p - 1) % n == i - 1).collect();
+            let mut got: Vec<i64> = files
+                .keys()
+                .filter_map(|f| f.strip_prefix("stair-tower-p")?.strip_suffix(".cert.json")?.parse().ok())
+                .collect();
+            got.sort();
+            expected.sort();
+            assert_eq!(got, expected, "shard {i}/{n}");
+            if expected.is_empty() {
+                assert!(text.contains("no members"), "{text}");
+            }
+            for (name, bytes) in files {
+                assert!(gathered.insert(name, bytes).is_none(), "two shards of {n} wrote the same file");
+            }
+        }
+        assert!(gathered == whole, "the union of {n} shards differs from the whole run");
+    }
+    for (name, bytes) in &whole {
+        if name.ends_with(".cert.json") {
+            assert!(tubecheck::check_bytes(name, bytes).unwrap().ok(), "{name}");
+        }
+    }
+}
+
+#[test]
+fn a_bad_shard_is_refused_with_exit_2() {
+    let template = format!("{}/../examples/stair-tower.template.json", env!("CARGO_MANIFEST_DIR"));
+    let out = dir().join("family-bad-shard");
+    for bad in ["0/4", "5/4", "2/0", "2", "two/4"] {
+        let (code, _, err) =
+            tubecert(&["family", &template, "--param", "p=1..3", "--shard", bad, "--out", &out.to_string_lossy()]);
+        assert_eq!(code, 2, "{bad}");
+        assert!(err.contains(&format!("--shard \"{bad}\"")) && err.contains("1 ≤ I ≤ N"), "{err}");
+        assert!(!out.exists(), "nothing is written for a bad shard");
+    }
+}

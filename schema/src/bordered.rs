@@ -199,7 +199,17 @@ mod tests {
                         }
                         let left = a.times(b).and_then(|ab| ab.times(c));
                         let right = b.times(c).and_then(|bc| a.times(bc));
-                        assert_eq!(left, right, "({}·{})·{} vs {}·({}·{})", a.name(), b.name(), c.name(), a.name(), b.name(), c.name());
+                        assert_eq!(
+                            left,
+                            right,
+                            "({}·{})·{} vs {}·({}·{})",
+                            a.name(),
+                            b.name(),
+                            c.name(),
+                            a.name(),
+                            b.name(),
+                            c.name()
+                        );
                         // A non-zero product goes from the left idempotent of a to the right one of b.
                         if let Some(ab) = a.times(b) {
                             assert_eq!(ends(ab, i), (a0, b1));

@@ -95,7 +95,12 @@ pub fn cable_pattern(p: i64) -> Result<TypeASpec, String> {
 /// `shift` / `direct_sum` of inline sources; a bare name stands for that complex's definition in
 /// the problem, rebuilt over `ring` (a complex written out in full over another ring cannot be).
 /// The result is validated over `ring` (∂∂ = 0, homogeneous) with errors naming it.
-pub fn inline_source(ring: &Ring, v: &Value, defs: &BTreeMap<String, Value>, depth: usize) -> Result<ComplexSpec, String> {
+pub fn inline_source(
+    ring: &Ring,
+    v: &Value,
+    defs: &BTreeMap<String, Value>,
+    depth: usize,
+) -> Result<ComplexSpec, String> {
     use crate::construct as c;
     if depth > 32 {
         return Err("sources nested deeper than 32 (or a definition refers to itself)".into());
@@ -113,7 +118,11 @@ pub fn inline_source(ring: &Ring, v: &Value, defs: &BTreeMap<String, Value>, dep
     let spec = if v.get("generators").is_some() {
         serde_json::from_value(v.clone()).map_err(|e| e.to_string())?
     } else {
-        let (op, arg) = v.as_object().filter(|o| o.len() == 1).and_then(|o| o.iter().next()).ok_or("expected a complex: {generators, differential} or a one-key construction")?;
+        let (op, arg) = v
+            .as_object()
+            .filter(|o| o.len() == 1)
+            .and_then(|o| o.iter().next())
+            .ok_or("expected a complex: {generators, differential} or a one-key construction")?;
         let pair = || arg.as_array().filter(|a| a.len() == 2).ok_or(format!("\"{op}\" takes two sources"));
         match op.as_str() {
             "staircase" => c::build_staircase(ring, arg)?,
@@ -144,8 +153,9 @@ pub fn inline_source(ring: &Ring, v: &Value, defs: &BTreeMap<String, Value>, dep
 
 /// ∂∂ = 0 and homogeneity of a complex over `ring`, by the checker's code.
 fn validate_over(ring: &Ring, spec: &ComplexSpec) -> Result<(), String> {
-    let ctx = tubecheck::load::load(ring, &UniqueMap([("source".to_string(), spec.clone())].into()), &UniqueMap::default())
-        .map_err(|e| e.join("; "))?;
+    let ctx =
+        tubecheck::load::load(ring, &UniqueMap([("source".to_string(), spec.clone())].into()), &UniqueMap::default())
+            .map_err(|e| e.join("; "))?;
     if let Some(d) = ctx.complexes[0].defects.first() {
         return Err(d.clone());
     }
@@ -154,8 +164,9 @@ fn validate_over(ring: &Ring, spec: &ComplexSpec) -> Result<(), String> {
 
 /// The type D structure of the complement with framing t (LOT Thm 11.26), and τ.
 pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, i64), String> {
-    let ctx = tubecheck::load::load(&full_ring(), &UniqueMap([(name.to_string(), c.clone())].into()), &UniqueMap::default())
-        .map_err(|e| e.join("; "))?;
+    let ctx =
+        tubecheck::load::load(&full_ring(), &UniqueMap([(name.to_string(), c.clone())].into()), &UniqueMap::default())
+            .map_err(|e| e.join("; "))?;
     checked::complement(&ctx.complexes[0], t)
 }
 
@@ -195,7 +206,8 @@ pub fn box_tensor_map(
     from: (&str, &ComplexSpec),
     to: (&str, &ComplexSpec),
 ) -> Result<(MapSpec, usize), String> {
-    let (ma, nd, nd2) = (checked::read_module("M", m)?, checked::read_structure(&f.from, n)?, checked::read_structure(&f.to, n2)?);
+    let (ma, nd, nd2) =
+        (checked::read_module("M", m)?, checked::read_structure(&f.from, n)?, checked::read_structure(&f.to, n2)?);
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
@@ -244,9 +256,14 @@ pub fn resolve_sections(
     }
     for (name, v) in modules {
         let r = match v.get("cable_pattern") {
-            Some(arg) => arg.get("p").and_then(Value::as_i64).ok_or("cable_pattern takes {\"p\": 1}".to_string()).and_then(cable_pattern),
-            None => serde_json::from_value::<TypeASpec>(v.clone())
-                .map_err(|e| format!("expected {{generators, operations}} or {{\"cable_pattern\": {{\"p\": 1}}}}: {e}")),
+            Some(arg) => arg
+                .get("p")
+                .and_then(Value::as_i64)
+                .ok_or("cable_pattern takes {\"p\": 1}".to_string())
+                .and_then(cable_pattern),
+            None => serde_json::from_value::<TypeASpec>(v.clone()).map_err(|e| {
+                format!("expected {{generators, operations}} or {{\"cable_pattern\": {{\"p\": 1}}}}: {e}")
+            }),
         };
         match r {
             Ok(m) => {
@@ -274,19 +291,33 @@ fn complement_entry(name: &str, arg: &Value, defs: &BTreeMap<String, Value>, out
 
 /// Builds the complement of an inline source with framing t under `name`, the source under
 /// `cname`; returns τ.
-fn add_complement(name: &str, cname: &str, src: &Value, t: i64, defs: &BTreeMap<String, Value>, out: &mut Built) -> Result<i64, String> {
+fn add_complement(
+    name: &str,
+    cname: &str,
+    src: &Value,
+    t: i64,
+    defs: &BTreeMap<String, Value>,
+    out: &mut Built,
+) -> Result<i64, String> {
     let c = inline_source(&full_ring(), src, defs, 0).map_err(|e| format!("source: {e}"))?;
     let cname = cname.to_string();
     let (d, tau) = complement_of(&cname, &c, t)?;
     out.full.insert(cname.clone(), c);
     out.structures.insert(name.to_string(), d);
-    out.claims.push(Claim::Complement { complex: cname, framing: t, statement: String::new(), structure: name.into(), tau });
+    out.claims.push(Claim::Complement {
+        complex: cname,
+        framing: t,
+        statement: String::new(),
+        structure: name.into(),
+        tau,
+    });
     Ok(tau)
 }
 
 /// `{"box_tensor": [M, N]}`.
 pub fn box_tensor_complex(name: &str, arg: &Value, out: &mut Built) -> Result<ComplexSpec, String> {
-    let [m, n]: [String; 2] = serde_json::from_value(arg.clone()).map_err(|_| "box_tensor takes [MODULE, STRUCTURE]")?;
+    let [m, n]: [String; 2] =
+        serde_json::from_value(arg.clone()).map_err(|_| "box_tensor takes [MODULE, STRUCTURE]")?;
     let module = out.modules.get(&m).ok_or(format!("type A module \"{m}\" is not declared"))?;
     let structure = out.structures.get(&n).ok_or(format!("type D structure \"{n}\" is not declared"))?;
     let (c, longest) = box_tensor(module, structure)?;
@@ -303,7 +334,13 @@ fn note_longest(out: &mut Built, m: &str, len: usize) {
 /// `{"cable": {"companion": SOURCE, "p": 1, "q": Q}}`: the core pattern ⊠ the complement of
 /// SOURCE with framing t = q − 1 (the (p, 1) pattern with framing t gives the (p, pt + 1) cable,
 /// memory), stored as `K.pattern`, `K.complement`, `K.companion`.
-pub fn cable(name: &str, arg: &Value, ring: &Ring, defs: &BTreeMap<String, Value>, out: &mut Built) -> Result<ComplexSpec, String> {
+pub fn cable(
+    name: &str,
+    arg: &Value,
+    ring: &Ring,
+    defs: &BTreeMap<String, Value>,
+    out: &mut Built,
+) -> Result<ComplexSpec, String> {
     if !is_minus_ring(ring) {
         return Err("cable: the problem's ring must be the minus ring F2[U] with (maslov, alexander), deg U = (−2, −1), deg ∂ = (−1, 0)".into());
     }
@@ -330,14 +367,16 @@ pub fn box_tensor_map_entry(
     built: &BTreeMap<String, ComplexSpec>,
     out: &mut Built,
 ) -> Result<MapSpec, String> {
-    let [m, f]: [String; 2] = serde_json::from_value(arg.clone()).map_err(|_| "box_tensor_map takes [MODULE, MORPHISM]")?;
+    let [m, f]: [String; 2] =
+        serde_json::from_value(arg.clone()).map_err(|_| "box_tensor_map takes [MODULE, MORPHISM]")?;
     let module = out.modules.get(&m).ok_or(format!("type A module \"{m}\" is not declared"))?;
     let mor = out.morphisms.get(&f).ok_or(format!("type D morphism \"{f}\" is not declared"))?;
     let get = |s: &str| out.structures.get(s).ok_or(format!("type D structure \"{s}\" is not declared"));
     let (n, n2) = (get(&mor.from)?, get(&mor.to)?);
     let find = |s: &str| -> Result<(&str, &ComplexSpec), String> {
         let want = serde_json::json!({"box_tensor": [m, s]});
-        let (k, _) = defs.iter().find(|(_, v)| **v == want).ok_or(format!("box_tensor_map: declare a complex {want} first"))?;
+        let (k, _) =
+            defs.iter().find(|(_, v)| **v == want).ok_or(format!("box_tensor_map: declare a complex {want} first"))?;
         Ok((k.as_str(), built.get(k).ok_or(format!("complex {k} was not built"))?))
     };
     let (map, longest) = box_tensor_map(module, mor, n, n2, find(&mor.from)?, find(&mor.to)?)?;

@@ -1,0 +1,342 @@
+//! Bordered claims through the whole pipeline: knot complements (LOT Thm 11.26), the core
+//! pattern, box tensor products of complexes and maps, and what the checker rejects.
+
+use serde_json::{json, Value};
+use tubecert_format::{Body, Claim};
+use tubecert_tests::{minus_ring, prove_value, seal};
+
+fn problem(complexes: Value, extra: Value) -> Value {
+    let mut p = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(), "complexes": complexes});
+    for (k, v) in extra.as_object().unwrap() {
+        p[k] = v.clone();
+    }
+    p
+}
+
+fn body_of(p: &Value) -> Body {
+    prove_value(p).certificate.body
+}
+
+/// The checker's outcome per claim of a body (after sealing), or the refusal (exit 2).
+fn outcomes(body: Body) -> Result<Vec<(String, Result<(), String>)>, String> {
+    let r = tubecheck::check_bytes("test", &seal(body))?;
+    Ok(r.claims.into_iter().map(|c| (c.kind, c.outcome.map(|_| ()))).collect())
+}
+
+fn failed_kinds(body: Body) -> Vec<String> {
+    outcomes(body).unwrap().into_iter().filter(|c| c.1.is_err()).map(|c| c.0).collect()
+}
+
+/// Companions over F2[U,V]: staircases (Ozsváth–Szabó 2005) and their duals (mirrors).
+fn companions() -> Vec<(String, Value)> {
+    let mut out = Vec::new();
+    for pq in [[2, 3], [2, 5], [3, 4], [3, 5], [2, 7], [4, 5]] {
+        let s = json!({"staircase": {"torus_knot": pq}});
+        out.push((format!("T{pq:?}"), s.clone()));
+        out.push((format!("mirror T{pq:?}"), json!({"dual": s})));
+    }
+    out.push(("unknot".into(), json!({"staircase": {"alexander": [0]}})));
+    out.push(("staircase 4 3 0 -3 -4".into(), json!({"staircase": {"alexander": [4, 3, 0, -3, -4]}})));
+    out.push(("shifted dual".into(), json!({"dual": {"staircase": {"alexander": [4, 3, 0, -3, -4]}}})));
+    out
+}
+
+/// τ of each companion, for the framings around 2τ.
+fn tau(source: &Value) -> i64 {
+    let b = body_of(&problem(json!({"Q": {"quotient": [source, "V"]}}), json!({"goals": [{"tau": {"complex": "Q"}}]})));
+    match &b.claims[0] {
+        Claim::Tau { tau, .. } => *tau,
+        c => panic!("{c:?}"),
+    }
+}
+
+#[test]
+fn the_core_pattern_gives_back_the_companions_minus_complex() {
+    // LOT Thm 11.21 with the core of the solid torus: CFA^-(core) ⊠ CFD(X_K) ≃ CFK^-(K), so
+    // cable 1 Q of C is C/(V), generator by generator, with the same (Maslov, Alexander) gradings
+    // and the same homology, for every framing.
+    for (name, src) in companions() {
+        let t2 = 2 * tau(&src);
+        for q in [t2 - 4, t2, t2 + 1, t2 + 2, t2 + 5, 1, -3] {
+            let p = problem(
+                json!({"K": {"cable": {"companion": src, "p": 1, "q": q}}, "Q": {"quotient": [src, "V"]}}),
+                json!({"goals": [{"homology": {"complex": "K"}}, {"homology": {"complex": "Q"}}]}),
+            );
+            let proved = prove_value(&p);
+            let body = &proved.certificate.body;
+            let (k, qc) = (&body.complexes["K"], &body.complexes["Q"]);
+            let renamed: Vec<(String, Vec<i64>)> =
+                k.generators.iter().map(|(g, gr)| (g.strip_prefix("x⊗").unwrap().to_string(), gr.clone())).collect();
+            let plain: Vec<(String, Vec<i64>)> = qc.generators.iter().map(|(g, gr)| (g.clone(), gr.clone())).collect();
+            assert_eq!(renamed, plain, "{name}, q = {q}: generators and gradings");
+            let mut kd: Vec<[String; 3]> = k
+                .differential
+                .iter()
+                .map(|[a, c, b]| [a["x⊗".len()..].to_string(), c.clone(), b["x⊗".len()..].to_string()])
+                .collect();
+            let mut qd = qc.differential.clone();
+            kd.sort();
+            qd.sort();
+            assert_eq!(kd, qd, "{name}, q = {q}: differential");
+            let homology: Vec<_> = body.claims.iter().filter(|c| c.kind() == "homology").collect();
+            match (homology[0], homology[1]) {
+                (Claim::Homology { free: f1, torsion: t1, .. }, Claim::Homology { free: f2, torsion: t2, .. }) => {
+                    assert_eq!((f1, t1), (f2, t2), "{name}, q = {q}: homology")
+                }
+                _ => unreachable!(),
+            }
+            assert!(outcomes(body.clone()).unwrap().iter().all(|c| c.1.is_ok()), "{name}, q = {q}");
+        }
+    }
+}
+
+#[test]
+fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_framing() {
+    // LOT Thm 11.26 (memory): t < 2τ: ξ0 →ρ1 γ1, γ_{k+1} →ρ23 γ_k, η0 →ρ3 γ_m with m = 2τ − t;
+    // t = 2τ: ξ0 →ρ12 η0; t > 2τ: ξ0 →ρ123 γ1 →ρ23 … →ρ2 η0 with m = t − 2τ.
+    for (name, src) in companions() {
+        let t2 = 2 * tau(&src);
+        for t in [t2 - 3, t2 - 1, t2, t2 + 1, t2 + 4] {
+            let p = problem(
+                json!({}),
+                json!({"type_d_structures": {"N": {"complement": {"companion": src, "framing": t}}}}),
+            );
+            let body = body_of(&p);
+            assert!(failed_kinds(body.clone()).is_empty(), "{name}, t = {t}");
+            let n = &body.bordered.as_ref().unwrap().type_d_structures["N"];
+            let gammas = n.generators.keys().filter(|g| g.starts_with("gamma")).count() as i64;
+            assert_eq!(gammas, (t - t2).abs(), "{name}, t = {t}");
+            let rho12 = n.differential.iter().filter(|d| d[1] == "rho12").count();
+            assert_eq!(rho12, usize::from(t == t2), "{name}, t = {t}");
+            // ι_0 generators are C's basis, ι_1 ones one per power of U or V in ∂ plus the chain.
+            let iota0 = n.generators.values().filter(|g| g.idempotent == 0).count();
+            let c = &body.bordered.as_ref().unwrap().full_complexes["N.companion"];
+            assert_eq!(iota0, c.generators.len());
+        }
+    }
+}
+
+#[test]
+fn the_trefoil_complement_has_the_recalled_shape() {
+    // T(2,3): ∂x1 = U·x0 + V·x2, τ = 1, ξ0 = x0, η0 = x2 (Ozsváth–Szabó 2005; LOT Thm 11.26,
+    // memory). Framing 0 < 2τ: m = 2.
+    let p = problem(
+        json!({}),
+        json!({"type_d_structures": {"N": {"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": 0}}}}),
+    );
+    let body = body_of(&p);
+    let n = &body.bordered.as_ref().unwrap().type_d_structures["N"];
+    let mut d: Vec<String> = n.differential.iter().map(|t| t.join(" ")).collect();
+    d.sort();
+    assert_eq!(
+        d,
+        [
+            "gamma2 rho23 gamma1",
+            "lambda1.x1.x0 rho2 x0",
+            "x0 rho1 gamma1",
+            "x1 rho1 kappa1.x1.x2",
+            "x1 rho3 lambda1.x1.x0",
+            "x2 rho123 kappa1.x1.x2",
+            "x2 rho3 gamma2",
+        ]
+    );
+    assert!(matches!(body.claims.iter().find(|c| c.kind() == "complement"), Some(Claim::Complement { tau: 1, .. })));
+}
+
+#[test]
+fn mutations_of_delta_m_and_the_box_tensor_are_rejected() {
+    let src = json!({"staircase": {"torus_knot": [3, 4]}});
+    let body = body_of(&problem(json!({"K": {"cable": {"companion": src, "p": 1, "q": 2}}}), json!({})));
+    assert!(failed_kinds(body.clone()).is_empty());
+    let n_terms = body.bordered.as_ref().unwrap().type_d_structures["K.complement"].differential.len();
+    for i in 0..n_terms {
+        // Drop a term of δ¹: the complement claim fails (and maybe the D relation).
+        let mut b = body.clone();
+        b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap().differential.remove(i);
+        assert!(failed_kinds(b).contains(&"complement".to_string()), "δ¹ term {i} dropped");
+        // Change its coefficient to another Reeb element.
+        for other in ["rho1", "rho2", "rho3", "rho12", "rho23", "rho123"] {
+            let mut b = body.clone();
+            let d = &mut b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap().differential;
+            if d[i][1] == other {
+                continue;
+            }
+            d[i][1] = other.into();
+            let failed = failed_kinds(b);
+            assert!(failed.contains(&"complement".to_string()), "δ¹ term {i} → {other}: {failed:?}");
+        }
+    }
+    // The D relation itself: ρ1 then ρ2 composes to ρ12 ≠ 0.
+    let mut b = body.clone();
+    let n = b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap();
+    n.differential.push(["lambda1.x1.x0".into(), "rho2".into(), "x2".into()]);
+    n.differential.push(["x0".into(), "rho1".into(), "lambda1.x1.x0".into()]);
+    assert!(failed_kinds(b).contains(&"type_d_structure".to_string()));
+    // The module's operation: a wrong power of U breaks the A∞ relations and the box tensor.
+    for power in [[0, 1], [1, 0], [2, 1], [1, 2]] {
+        let mut b = body.clone();
+        b.bordered.as_mut().unwrap().type_a_modules.0.get_mut("K.pattern").unwrap().operations[0].power = power;
+        let failed = failed_kinds(b);
+        assert!(failed.contains(&"type_a_module".to_string()) || power == [1, 1], "{power:?}: {failed:?}");
+        assert!(failed.contains(&"box_tensor".to_string()), "{power:?}: {failed:?}");
+    }
+    // A term of the box tensor complex removed, or its power changed.
+    for i in 0..body.complexes["K"].differential.len() {
+        let mut b = body.clone();
+        b.complexes.0.get_mut("K").unwrap().differential.remove(i);
+        assert!(failed_kinds(b).contains(&"box_tensor".to_string()));
+        let mut b = body.clone();
+        b.complexes.0.get_mut("K").unwrap().differential[i][1] += "*U";
+        assert!(failed_kinds(b).contains(&"box_tensor".to_string()));
+    }
+    // A grading of the box tensor product changed.
+    let mut b = body.clone();
+    let g = b.complexes.0.get_mut("K").unwrap().generators.0.values_mut().next().unwrap();
+    g[1] += 1;
+    assert!(failed_kinds(b).contains(&"box_tensor".to_string()));
+    // τ or the framing changed (with its statement).
+    for (dt, df) in [(1, 0), (0, 1)] {
+        let mut b = body.clone();
+        for c in &mut b.claims {
+            if let Claim::Complement { tau, framing, .. } = c {
+                *tau += dt;
+                *framing += df;
+            }
+        }
+        restate(&mut b);
+        assert!(failed_kinds(b).contains(&"complement".to_string()));
+    }
+}
+
+/// Re-renders every statement (a mutation of a claim's fields that keeps it self-consistent).
+fn restate(b: &mut Body) {
+    let rn = tubecert_format::statement::ring_name(&b.ring.variables);
+    for c in &mut b.claims {
+        *c.statement_mut() = tubecert_format::statement::render(c, &rn, "U");
+    }
+}
+
+#[test]
+fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_harmless() {
+    // y0 →ρ3 y1 with a ρ23 loop at y1: ρ3 ρ23 ρ23 … is a prefix of the core's inputs forever.
+    let n = json!({"generators": {"y0": {"grading": [0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
+        "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]]});
+    let p = problem(
+        json!({"K": {"box_tensor": ["M", "N"]}}),
+        json!({"type_d_structures": {"N": n}, "type_a_modules": {"M": {"cable_pattern": {"p": 1}}}}),
+    );
+    let bytes = serde_json::to_vec(&p).unwrap();
+    let err = tubecert::problem::parse_problem(&bytes, "loop").unwrap_err().join("\n");
+    assert!(err.contains("infinite sum") && err.contains("y1 → y1 ("), "{err}");
+    // The unknot (ξ0 = η0, τ = 0): a ρ12 loop at t = 0, a cycle ξ0 →ρ123 γ1 → … →ρ2 ξ0 for t > 0.
+    // Every input of the core starts with ρ3, so the walk never enters them: the box tensor
+    // product is the unknot's complex, one generator.
+    for q in [1, 2, 4] {
+        let body = body_of(&problem(
+            json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
+            json!({}),
+        ));
+        assert!(failed_kinds(body.clone()).is_empty());
+        assert_eq!(body.complexes["K"].generators.len(), 1);
+    }
+}
+
+#[test]
+fn refusals_say_what_is_missing() {
+    let run = |p: Value| {
+        let bytes = serde_json::to_vec(&p).unwrap();
+        tubecert::problem::parse_problem(&bytes, "p").unwrap_err().join("\n")
+    };
+    let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
+    assert!(e.contains("only p = 1"), "{e}");
+    // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified: x1⊗x1 has two
+    // horizontal arrows.
+    let e = run(problem(json!({"K": {"cable": {"companion": {"tensor": [t23, t23]}, "p": 1, "q": 1}}}), json!({})));
+    assert!(e.contains("simultaneously horizontally and vertically simplified") && e.contains("A.11"), "{e}");
+    // A diagonal arrow (a mixed monomial).
+    let diag = json!({"generators": {"a": [0, 0], "b": [-1, -1], "c": [-2, -2]}, "differential": [["b", "U*V", "a"]]});
+    let e = run(problem(json!({"K": {"cable": {"companion": diag, "p": 1, "q": 1}}}), json!({})));
+    assert!(e.contains("not a pure power"), "{e}");
+    // ∂∂ ≠ 0 in an inline source is refused even though V = 0 would hide the bad terms.
+    let bad = json!({"generators": {"a": [0, 0], "b": [-1, 1], "c": [-2, 2]},
+        "differential": [["a", "V", "b"], ["b", "V", "c"]]});
+    let e = run(problem(json!({"Q": {"quotient": [bad, "V"]}}), json!({})));
+    assert!(e.contains("∂∂"), "{e}");
+}
+
+#[test]
+fn a_quotient_of_a_tensor_of_named_staircases_is_the_tensor_of_their_quotients() {
+    // Quotienting and tensoring commute; the named source is rebuilt over F2[U,V] once, so its
+    // gradings are converted once.
+    let hat = json!({"variables": [], "gradings": ["maslov", "alexander"], "variable_degrees": {}, "differential_degree": [-1, 0]});
+    let p = json!({"format": "tubecert-problem", "version": 1, "ring": hat, "complexes": {
+        "A": {"staircase": {"torus_knot": [2, 3]}},
+        "Q": {"quotient": [{"tensor": ["A", "A"]}, "U", "V"]},
+        "T": {"tensor": ["A", "A"]}}});
+    let b = body_of(&p);
+    assert_eq!(b.complexes["Q"], b.complexes["T"]);
+    let minus = problem(
+        json!({"A": {"staircase": {"torus_knot": [3, 4]}}, "Q": {"quotient": [{"tensor": ["A", {"dual": "A"}]}, "V"]}, "D": {"dual": "A"}, "T": {"tensor": ["A", "D"]}}),
+        json!({}),
+    );
+    let b = body_of(&minus);
+    assert_eq!(b.complexes["Q"], b.complexes["T"]);
+}
+
+#[test]
+fn maps_id_box_f() {
+    // f = id_N gives the identity of M ⊠ N; f(x1) = ρ3 ⊗ λ1 (a cycle: ρ3·ρ2 = 0 and nothing
+    // maps into x1) gives x⊗x1 ↦ U·x⊗x0 through m_3(x, ρ3, ρ2) = U·x.
+    let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    let sections = |terms: Value| {
+        json!({"type_d_structures": {"N": {"complement": {"companion": t23, "framing": 1}}},
+               "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
+               "type_d_morphisms": {"f": {"from": "N", "to": "N", "terms": terms}}})
+    };
+    let complexes = json!({"K": {"box_tensor": ["M", "N"]}});
+    let ids: Vec<Value> =
+        ["x0", "x1", "x2", "kappa1.x1.x2", "lambda1.x1.x0", "gamma1"].iter().map(|g| json!([g, "1", g])).collect();
+    let mut p = problem(complexes.clone(), sections(json!(ids)));
+    p["maps"] = json!({"F": {"box_tensor_map": ["M", "f"]}});
+    let body = body_of(&p);
+    assert!(failed_kinds(body.clone()).is_empty());
+    let mut f = body.maps["F"].terms.clone();
+    f.sort();
+    assert_eq!(f, [["x⊗x0", "1", "x⊗x0"], ["x⊗x1", "1", "x⊗x1"], ["x⊗x2", "1", "x⊗x2"]].map(|t| t.map(String::from)));
+    let mut p = problem(complexes, sections(json!([["x1", "rho3", "lambda1.x1.x0"]])));
+    p["maps"] = json!({"F": {"box_tensor_map": ["M", "f"]}});
+    let body = body_of(&p);
+    assert!(failed_kinds(body.clone()).is_empty());
+    assert_eq!(body.maps["F"].terms, [["x⊗x1", "U", "x⊗x0"]].map(|t| t.map(String::from)));
+    // Mutations: a term of the map; a term of f (id ⊠ f is then 0); an added term ρ1 ⊗ λ1,
+    // after which ∂f(x1) ∋ ρ1ρ2 ⊗ x0 = ρ12 ⊗ x0.
+    let mut b = body.clone();
+    b.maps.0.get_mut("F").unwrap().terms[0][2] = "x⊗x2".into();
+    assert!(failed_kinds(b).contains(&"box_tensor_map".to_string()));
+    let mut b = body.clone();
+    b.bordered.as_mut().unwrap().type_d_morphisms.0.get_mut("f").unwrap().terms[0][1] = "rho1".into();
+    let failed = failed_kinds(b);
+    assert!(failed.contains(&"box_tensor_map".to_string()), "{failed:?}");
+    let mut b = body.clone();
+    b.bordered.as_mut().unwrap().type_d_morphisms.0.get_mut("f").unwrap().terms.push([
+        "x1".into(),
+        "rho1".into(),
+        "lambda1.x1.x0".into(),
+    ]);
+    let failed = failed_kinds(b);
+    assert!(failed.contains(&"type_d_morphism".to_string()), "{failed:?}");
+}
+
+#[test]
+fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+    assert_eq!(cert["version"], 2);
+    cert["version"] = json!(1);
+    let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
+    assert!(e.contains("version-1"), "{e}");
+}
