@@ -193,7 +193,11 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
             assert_eq!(hx, homology_of(body, "K"), "{what}, t = {t}: cable 1 (t+1) against the box tensor product");
             assert_eq!(hx, homology_of(body, "Q"), "{what}, t = {t}: against quotient V of SOURCE");
             let full = comp["complex"].as_str().unwrap();
-            assert_eq!(hx, quotient_homology(body, full, false), "{what}, t = {t}: against C/(V) of the certificate's C");
+            assert_eq!(
+                hx,
+                quotient_homology(body, full, false),
+                "{what}, t = {t}: against C/(V) of the certificate's C"
+            );
             // The vertical arrows of the certificate's C (which make the κ chains) are checked
             // against the source by symmetry: C/(U) must look like C/(V).
             assert_eq!(hx, quotient_homology(body, full, true), "{what}, t = {t}: C/(U) of the certificate's C");
@@ -412,7 +416,9 @@ fn complement_grading_rules_agree_on_a_grid() {
                     let ours = oracle_accepts(&sealed["body"]);
                     accepted += checker as u32;
                     if checker != ours.is_ok() {
-                        bad.push(format!("C at ({gu}, {gv}), grading A = {a}, τ = {tau}: checker {checker}, oracle {ours:?}"));
+                        bad.push(format!(
+                            "C at ({gu}, {gv}), grading A = {a}, τ = {tau}: checker {checker}, oracle {ours:?}"
+                        ));
                     }
                 }
             }
