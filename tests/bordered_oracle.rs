@@ -45,7 +45,7 @@ pub mod torus {
 
         /// The product of two basis elements: a basis element or zero. The non-zero products of
         /// Reeb elements are exactly ρ_1ρ_2 = ρ_12, ρ_2ρ_3 = ρ_23, ρ_1ρ_23 = ρ_12ρ_3 = ρ_123 (memory).
-        pub fn mul(self, b: Alg) -> Option<Alg> {
+        pub fn times(self, b: Alg) -> Option<Alg> {
             if self.ends().1 != b.ends().0 {
                 return None;
             }
@@ -147,7 +147,7 @@ impl DStructure {
             let mut sum = AElem::new();
             for (a, y) in self.d(x) {
                 for (b, z) in self.d(&y) {
-                    if let Some(ab) = a.mul(b) {
+                    if let Some(ab) = a.times(b) {
                         toggle(&mut sum, (ab, z));
                     }
                 }
@@ -301,7 +301,7 @@ pub fn ainf_relation(module: &dyn Module, x: &str, a: &[Alg]) -> UElem {
         }
     }
     for j in 0..a.len().saturating_sub(1) {
-        if let Some(p) = a[j].mul(a[j + 1]) {
+        if let Some(p) = a[j].times(a[j + 1]) {
             let mut b = a[..j].to_vec();
             b.push(p);
             b.extend_from_slice(&a[j + 2..]);
@@ -450,14 +450,14 @@ pub fn check_morphism(f: &DMorphism, n: &DStructure, n2: &DStructure) -> Result<
         let mut sum = AElem::new();
         for (a, y) in f.get(x).unwrap_or(&empty) {
             for (b, z) in n2.delta.get(y).unwrap_or(&empty) {
-                if let Some(ab) = a.mul(*b) {
+                if let Some(ab) = a.times(*b) {
                     toggle(&mut sum, (ab, z.clone()));
                 }
             }
         }
         for (a, y) in n.delta.get(x).unwrap_or(&empty) {
             for (b, z) in f.get(y).unwrap_or(&empty) {
-                if let Some(ab) = a.mul(*b) {
+                if let Some(ab) = a.times(*b) {
                     toggle(&mut sum, (ab, z.clone()));
                 }
             }
@@ -689,11 +689,8 @@ pub fn homology(gr: &BTreeMap<String, (i64, i64)>, d: &UComplex) -> Result<Homol
     let mut d: BTreeMap<String, UElem> =
         gr.keys().map(|g| (g.clone(), d.get(g).cloned().unwrap_or_default())).collect();
     let mut tors = Vec::new();
-    loop {
-        let Some((k, x, y)) = d.iter().flat_map(|(x, e)| e.iter().map(move |(k, y)| (*k, x.clone(), y.clone()))).min()
-        else {
-            break;
-        };
+    while let Some((k, x, y)) = d.iter().flat_map(|(x, e)| e.iter().map(move |(k, y)| (*k, x.clone(), y.clone()))).min()
+    {
         // y* = ∂x / U^k replaces y in the basis: every other generator's coefficient of y is
         // rewritten. Writing old y = y* + Σ_{w≠y} U^{a_w − k} w, each term U^j·y elsewhere becomes
         // U^j·y* + Σ U^{j+a_w−k}·w; and the terms U^j·y* are then cleared with z + U^{j−k}x.
@@ -857,7 +854,7 @@ impl FamilyModule {
                 for (j, c) in w1.iter().enumerate() {
                     for p in torus::REEB {
                         for q in torus::REEB {
-                            if p.mul(q) == Some(*c) {
+                            if p.times(q) == Some(*c) {
                                 let mut w = w1[..j].to_vec();
                                 w.extend([p, q]);
                                 w.extend_from_slice(&w1[j + 1..]);
@@ -929,6 +926,12 @@ pub mod cert {
     use serde_json::Value;
 
     type R<T> = Result<T, String>;
+    /// Generator → its grading row.
+    type Gradings = BTreeMap<String, Vec<i64>>;
+    /// A term U^i V^j of ∂: (from, (i, j), to).
+    type Arrow = (String, (u32, u32), String);
+    /// A minus complex: (Maslov, Alexander) gradings and ∂.
+    type Minus = (BTreeMap<String, (i64, i64)>, UComplex);
 
     fn member<'a>(v: &'a Value, key: &str, what: &str) -> R<&'a Value> {
         v.get(key).ok_or(format!("{what}: no member {key}"))
@@ -1099,11 +1102,7 @@ pub mod cert {
     }
 
     /// A complex: gradings and ∂ (terms summed mod 2), over the given variables.
-    pub fn read_complex(
-        v: &Value,
-        vars: &[&str],
-        what: &str,
-    ) -> R<(BTreeMap<String, Vec<i64>>, Vec<(String, (u32, u32), String)>)> {
+    pub fn read_complex(v: &Value, vars: &[&str], what: &str) -> R<(Gradings, Vec<Arrow>)> {
         only(v, &["differential", "generators"], what)?;
         let mut gr = BTreeMap::new();
         for (g, gv) in obj(member(v, "generators", what)?, what)? {
@@ -1123,13 +1122,7 @@ pub mod cert {
     }
 
     /// ∂∂ = 0 and ∂ homogeneous of degree delta (variables of the given degrees).
-    fn check_complex(
-        gr: &BTreeMap<String, Vec<i64>>,
-        d: &[(String, (u32, u32), String)],
-        deg: &[Vec<i64>],
-        delta: &[i64],
-        what: &str,
-    ) -> R<()> {
+    fn check_complex(gr: &Gradings, d: &[Arrow], deg: &[Vec<i64>], delta: &[i64], what: &str) -> R<()> {
         for (x, (i, j), y) in d {
             let ok = (0..delta.len()).all(|k| {
                 let shift = *i as i64 * deg[0][k] + *j as i64 * deg.get(1).map_or(0, |v| v[k]);
@@ -1240,7 +1233,7 @@ pub mod cert {
     }
 
     /// A minus complex of the body: gradings (M, A) and ∂ summed mod 2.
-    fn minus_complex(body: &Value, name: &str) -> R<(BTreeMap<String, (i64, i64)>, UComplex)> {
+    fn minus_complex(body: &Value, name: &str) -> R<Minus> {
         let c = body.get("complexes").and_then(|c| c.get(name)).ok_or(format!("no complex {name}"))?;
         let (gr, d) = read_complex(c, &["U"], name)?;
         let gr: R<BTreeMap<String, (i64, i64)>> = gr
@@ -1560,8 +1553,8 @@ mod tests {
         for a in ALL {
             for b in ALL {
                 for c in ALL {
-                    let l = a.mul(b).and_then(|ab| ab.mul(c));
-                    let r = b.mul(c).and_then(|bc| a.mul(bc));
+                    let l = a.times(b).and_then(|ab| ab.times(c));
+                    let r = b.times(c).and_then(|bc| a.times(bc));
                     assert_eq!(l, r, "({a:?}{b:?}){c:?} vs {a:?}({b:?}{c:?})");
                 }
             }
@@ -1569,10 +1562,10 @@ mod tests {
         for a in ALL {
             let (l, r) = a.ends();
             let (il, ir) = ([I0, I1][l as usize], [I0, I1][r as usize]);
-            assert_eq!(il.mul(a), Some(a));
-            assert_eq!(a.mul(ir), Some(a));
-            assert_eq!([I0, I1][1 - l as usize].mul(a), None);
-            assert_eq!(a.mul([I0, I1][1 - r as usize]), None);
+            assert_eq!(il.times(a), Some(a));
+            assert_eq!(a.times(ir), Some(a));
+            assert_eq!([I0, I1][1 - l as usize].times(a), None);
+            assert_eq!(a.times([I0, I1][1 - r as usize]), None);
         }
         // Chord model: ρ_[i,j] ρ_[j+1,k] = ρ_[i,k]; left idempotent of a chord starting at i is
         // (i − 1) mod 2, right idempotent of one ending at j is j mod 2.
@@ -1582,10 +1575,10 @@ mod tests {
             for b in REEB {
                 let (k, l) = b.interval().unwrap();
                 let concat = REEB.into_iter().find(|c| c.interval() == Some((i, l)));
-                assert_eq!(a.mul(b), if j + 1 == k { concat } else { None }, "{a:?}·{b:?}");
+                assert_eq!(a.times(b), if j + 1 == k { concat } else { None }, "{a:?}·{b:?}");
             }
         }
-        let nonzero = REEB.iter().flat_map(|&a| REEB.map(move |b| (a, b))).filter(|(a, b)| a.mul(*b).is_some());
+        let nonzero = REEB.iter().flat_map(|&a| REEB.map(move |b| (a, b))).filter(|(a, b)| a.times(*b).is_some());
         assert_eq!(nonzero.count(), 4, "exactly ρ_1ρ_2, ρ_2ρ_3, ρ_1ρ_23, ρ_12ρ_3");
         for (s, a) in [("rho12", R12), ("rho3", R3), ("rho123", R123), ("rho1", R1)] {
             assert_eq!(parse_reeb(s), Some(a));
