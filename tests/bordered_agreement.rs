@@ -96,6 +96,7 @@ fn companions() -> Vec<(String, Value, i64)> {
         out.push((format!("dual {k}"), json!({"dual": source(k)}), -tau));
     }
     out.push(("square and point".into(), box_and_point(0, None), 0));
+    out.push(("staircase 8 0 −8".into(), json!({"staircase": {"alexander": [8, 0, -8]}}), 8));
     let sum = box_and_point(-2, Some(&[2, 1, 0, -1, -2]));
     out.push(("T(2,5) staircase and square".into(), sum.clone(), 2));
     out.push(("dual of T(2,5) staircase and square".into(), json!({"dual": sum}), -2));
@@ -184,6 +185,7 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
             for k in ["complement", "type_d_structure", "type_a_module", "box_tensor"] {
                 assert!(kinds.contains(&k), "{what}, t = {t}: no {k} claim");
             }
+            cert::truncation_covers_pairings(body).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
             // τ as the complement claim states it (OS 2003, memory: torus knots, sums, mirrors).
             let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap();
             assert_eq!(comp["tau"], json!(tau), "{what}");

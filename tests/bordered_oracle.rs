@@ -1364,6 +1364,63 @@ pub mod cert {
         }
     }
 
+    /// The requirement on truncated relation checks: every module paired in a
+    /// `box_tensor` or `box_tensor_map` claim has a `type_a_module` claim whose max_length
+    /// covers 2k, where k is the longest input word an operation of the pairing actually uses —
+    /// ∂∂ = 0 on M ⊠ N follows from the A∞ relations on concatenations of two such words.
+    /// (Not part of the certificate layout; the producer's choice 2·(k + 1) meets it.)
+    pub fn truncation_covers_pairings(body: &Value) -> R<()> {
+        let b = read_bordered(body)?.ok_or("no bordered member")?;
+        let claims = arr(member(body, "claims", "body")?, "claims")?;
+        let stated = |m: &str| -> Option<usize> {
+            claims
+                .iter()
+                .filter(|c| c["kind"] == "type_a_module" && c["module"] == m)
+                .filter_map(|c| c["max_length"].as_u64())
+                .max()
+                .map(|l| l as usize)
+        };
+        for c in claims {
+            let (m, structures): (&str, Vec<&DStructure>) = match c["kind"].as_str() {
+                Some("box_tensor") => {
+                    (text(&c["module"], "claim")?, vec![&b.structures[text(&c["structure"], "claim")?]])
+                }
+                Some("box_tensor_map") => {
+                    let (from, to, _) = &b.morphisms[text(&c["morphism"], "claim")?];
+                    (text(&c["module"], "claim")?, vec![&b.structures[from], &b.structures[to]])
+                }
+                _ => continue,
+            };
+            let module = &b.modules[m];
+            let mut k = 0;
+            for n in structures {
+                let cap = n.idem.len() * module.template() + 1;
+                for x in module.gens() {
+                    for (y, _) in n.idem.iter().filter(|(_, &i)| Some(i) == module.idem(&x)) {
+                        for ((w, _), _) in n.reach(start(y), &|s| prefix_alive(module, &x, s), cap)? {
+                            if !m_of(module, &x, &w).is_empty() {
+                                k = k.max(w.len());
+                            }
+                        }
+                    }
+                }
+            }
+            match stated(m) {
+                Some(l) if l >= 2 * k => {}
+                l => {
+                    return Err(format!(
+                        "module {m} is used with words of length {k} but its relations are checked up to {l:?}"
+                    ))
+                }
+            }
+        }
+        Ok(())
+    }
+
+    fn m_of(module: &FamilyModule, x: &str, w: &[Alg]) -> UElem {
+        super::m(module, x, w)
+    }
+
     pub const KINDS: [&str; 6] =
         ["type_d_structure", "type_a_module", "type_d_morphism", "box_tensor", "box_tensor_map", "complement"];
 
@@ -1860,6 +1917,11 @@ mod tests {
         for t in [2, 6, 9] {
             let body = hand_body(t);
             cert::check_body(&body).unwrap();
+            // T(3,4)'s longest horizontal arrow (U^2) uses m(x, ρ_3, ρ_23, ρ_2): relations up to 6.
+            cert::truncation_covers_pairings(&body).unwrap();
+            let mut b = body.clone();
+            b["claims"][1]["max_length"] = serde_json::json!(5);
+            assert!(cert::check_body(&b).is_ok() && cert::truncation_covers_pairings(&b).is_err());
             // A δ¹ term removed: the D relation may survive, the complement claim must not.
             let mut b = body.clone();
             b["bordered"]["type_d_structures"]["N"]["differential"].as_array_mut().unwrap().pop();
