@@ -17,8 +17,11 @@ fn body_of(p: &Value) -> Body {
     prove_value(p).certificate.body
 }
 
+/// (claim kind, outcome) for each claim.
+type Outcomes = Vec<(String, Result<(), String>)>;
+
 /// The checker's outcome per claim of a body (after sealing), or the refusal (exit 2).
-fn outcomes(body: Body) -> Result<Vec<(String, Result<(), String>)>, String> {
+fn outcomes(body: Body) -> Result<Outcomes, String> {
     let r = tubecheck::check_bytes("test", &seal(body))?;
     Ok(r.claims.into_iter().map(|c| (c.kind, c.outcome.map(|_| ()))).collect())
 }

@@ -29,6 +29,11 @@ impl From<String> for Failure {
 /// Work units allowed per written item (generator, term, family) of the certificate.
 pub const WORK_PER_ITEM: u64 = 1 << 14;
 
+/// For each source generator, its terms (coefficient, target).
+pub type Arrows = Vec<Vec<(Alg, u32)>>;
+/// For each generator of a box tensor product, its terms (target name, U-power).
+pub type Rows = Vec<Vec<(String, u32)>>;
+
 /// A type D structure (or the generator set of one), indexed.
 pub struct TypeD {
     pub names: Vec<String>,
@@ -130,12 +135,7 @@ pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
 
 /// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
 /// mismatches defects (the claim fails).
-pub fn read_arrows(
-    what: &str,
-    src: &TypeD,
-    dst: &TypeD,
-    terms: &[Term],
-) -> Result<(Vec<Vec<(Alg, u32)>>, Vec<String>), String> {
+pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Result<(Arrows, Vec<String>), String> {
     let mut rows = vec![Vec::new(); src.names.len()];
     let mut defects = Vec::new();
     for (k, [y, a, z]) in terms.iter().enumerate() {
@@ -257,7 +257,7 @@ impl Family {
         if mask >> self.pattern.len() & 1 == 0 {
             return None;
         }
-        let n = if self.repeat == 0 { 0 } else { (len + self.repeat - self.pattern.len()) / self.repeat };
+        let n = (len + self.repeat - self.pattern.len()).checked_div(self.repeat).unwrap_or(0);
         Some(self.power[0] * n as u32 + self.power[1])
     }
 
@@ -376,14 +376,15 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
         return Err(e.clone().into());
     }
     let l = max_len as usize;
-    // Words of each family up to length l: n from 0 while the word fits.
-    let words = |f: &Family| -> Vec<Vec<Alg>> {
-        let ns =
-            if f.repeat == 0 { 0..1 } else { 0..(l + 1).saturating_sub(f.pattern.len() - f.repeat) / f.repeat + 1 };
-        ns.map(|n| f.word(n)).filter(|w| w.len() <= l).collect()
+    // Words of each family up to length l: n = 0, 1, … while the word fits (counted before
+    // any is written, so a huge stated length is refused, not attempted).
+    let fitting = |f: &Family| -> usize {
+        let fixed = f.pattern.len() - f.repeat;
+        l.checked_sub(fixed).map_or(0, |room| room.checked_div(f.repeat).map_or(1, |k| k + 1))
     };
+    let words = |f: &Family| -> Vec<Vec<Alg>> { (0..fitting(f)).map(|n| f.word(n)).collect() };
     let count: u64 =
-        m.families.iter().map(|f| words(f).len() as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
+        m.families.iter().map(|f| fitting(f) as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
     o.spend(count.saturating_mul(l as u64 + 1), "A∞ relations")?;
     let mut candidates: BTreeSet<(u32, Vec<Alg>)> = BTreeSet::new();
     for f in &m.families {
@@ -581,7 +582,7 @@ fn rows(
 }
 
 /// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)).
-pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
+pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD) -> Result<(Vec<Generator>, Rows), Failure> {
     if let Some(e) = m.defects.first().or(n.defects.first()) {
         return Err(e.clone().into());
     }
@@ -599,7 +600,7 @@ pub fn tensor_map(
     f: &Morphism,
     n: &TypeD,
     n2: &TypeD,
-) -> Result<(Vec<Generator>, Vec<Vec<(String, u32)>>), Failure> {
+) -> Result<(Vec<Generator>, Rows), Failure> {
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }

@@ -237,7 +237,8 @@ pub fn resolve_sections(
     out: &mut Built,
     errs: &mut Vec<String>,
 ) {
-    if !(structures.is_empty() && modules.is_empty() && morphisms.is_empty()) && !is_minus_ring(ring) {
+    let any = !(structures.is_empty() && modules.is_empty() && morphisms.is_empty());
+    if any && !is_minus_ring(ring) {
         errs.push("bordered objects need the minus ring F2[U] with gradings (maslov, alexander), deg U = (−2, −1), deg ∂ = (−1, 0)".into());
         return;
     }
