@@ -12,3 +12,6 @@ for n in ${sizes[@]}; do
 done
 # Maps between two large complexes (search in the Hom complex of the reduced models).
 target/release/tubecert bench --generators 20000 --source-generators 20000 --no-header
+# Hom questions between reduced complexes over F2[U,V] (T(13,14)^⊗3 and T(11,12)^⊗3).
+target/release/tubecert bench --case reduced-identity --no-header
+target/release/tubecert bench --case reduced-uv --no-header

@@ -213,9 +213,9 @@ fn mutations_of_delta_m_and_the_box_tensor_are_rejected() {
 
 /// Re-renders every statement (a mutation of a claim's fields that keeps it self-consistent).
 fn restate(b: &mut Body) {
-    let rn = tubecert_format::statement::ring_name(&b.ring.variables);
+    let ring = tubecert_format::RingInfo::new(&b.ring).unwrap();
     for c in &mut b.claims {
-        *c.statement_mut() = tubecert_format::statement::render(c, &rn, "U");
+        *c.statement_mut() = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
     }
 }
 

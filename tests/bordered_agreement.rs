@@ -34,10 +34,9 @@ fn oracle_accepts(body: &Value) -> Result<(), String> {
 /// None when the body no longer has the typed shape (then the checker refuses it at loading).
 fn reseal(cert: &Value, body: Value) -> Option<Value> {
     let mut typed: tubecert_format::Body = serde_json::from_value(body).ok()?;
-    let vars = typed.ring.variables.clone();
-    let rn = tubecert_format::statement::ring_name(&vars);
+    let ring = tubecert_format::RingInfo::new(&typed.ring).ok()?;
     for c in typed.claims.iter_mut() {
-        let text = tubecert_format::statement::render(c, &rn, vars.first().map_or("", |v| v));
+        let text = tubecert_format::statement::render(c, &ring, 2);
         *c.statement_mut() = text;
     }
     let sha = tubecert_format::canonical::canonical_sha256(&typed).ok()?;

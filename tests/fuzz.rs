@@ -1,6 +1,8 @@
 //! Fuzzing the checker's parser and verifier and the producer's reader: random byte-level and
 //! JSON-level damage to stored certificates and problems must give a result or a clear error,
-//! never a panic. Small by default (CI); for a long run:
+//! never a panic. Hostile names (statement syntax, invisible and control characters) must be
+//! refused naming their code point, and changes to τ's grading or the format version must be
+//! caught whenever the oracle's own wording disagrees. Small by default (CI); for a long run:
 //!
 //!     PROPTEST_CASES=200000 cargo test --release -p tubecert-tests --test fuzz
 
@@ -19,10 +21,15 @@ fn stored(suffix: &str) -> Vec<Vec<u8>> {
     files.iter().map(|p| std::fs::read(p).unwrap()).collect()
 }
 
+/// Names that imitate statements or hide characters: statement syntax, a line break with a
+/// fake verdict, a zero-width joiner, another format character, a control character.
+const HOSTILE_NAMES: [&str; 6] = ["U^3·F", "F\n✓ τ(K) = 9", "F\u{200d}", "\u{2060}K", "a\u{7}", " "];
+
 /// Values that have broken parsers before: huge and negative numbers, floats, deep nesting,
-/// odd strings, wrong types.
+/// odd strings, wrong types, hostile names.
 fn nasty(k: u64) -> Value {
-    match k % 12 {
+    match k % 14 {
+        12 | 13 => json!(HOSTILE_NAMES[(k / 14 % 6) as usize]),
         0 => json!(u64::MAX),
         1 => json!(i64::MIN),
         2 => json!(1.5e300),
@@ -55,6 +62,24 @@ fn replace_nth(v: &mut Value, n: &mut u64, new: &Value) -> bool {
         Value::Array(items) => items.iter_mut().any(|i| replace_nth(i, n, new)),
         Value::Object(m) => m.values_mut().any(|i| replace_nth(i, n, new)),
         _ => false,
+    }
+}
+
+/// Renames `old` to `new`: every key and string equal to it, or only keys.
+fn rename(v: &mut Value, old: &str, new: &str, everywhere: bool) {
+    match v {
+        Value::String(s) if everywhere && s == old => *s = new.into(),
+        Value::Array(xs) => xs.iter_mut().for_each(|x| rename(x, old, new, everywhere)),
+        Value::Object(m) => {
+            *m = std::mem::take(m)
+                .into_iter()
+                .map(|(k, mut x)| {
+                    rename(&mut x, old, new, everywhere);
+                    (if k == old { new.to_string() } else { k }, x)
+                })
+                .collect()
+        }
+        _ => {}
     }
 }
 
@@ -101,9 +126,57 @@ proptest! {
             // Whatever was accepted must also satisfy the independent oracle.
             if report.ok() {
                 let body: tubecert_format::Body = serde_json::from_value(v["body"].clone()).unwrap();
-                prop_assert!(tubecert_tests::oracle::holds(&body));
+                let version = v["version"].as_u64().unwrap() as u32;
+                prop_assert!(tubecert_tests::oracle::holds_in(&body, version));
             }
         }
+    }
+
+    /// A complex, map, generator or grading renamed to a hostile name (everywhere or only where
+    /// declared), rehashed: refused as malformed, naming the code point.
+    #[test]
+    fn hostile_names_are_refused_with_their_code_point(which: usize, at: usize, kind: usize, everywhere: bool) {
+        let files = stored(".cert.json");
+        let mut v: Value = serde_json::from_slice(&files[which % files.len()]).unwrap();
+        let body = &v["body"];
+        let mut names: Vec<String> = ["complexes", "maps"].iter().flat_map(|k| body[k].as_object().unwrap().keys().cloned()).collect();
+        for c in body["complexes"].as_object().unwrap().values() {
+            names.extend(c["generators"].as_object().unwrap().keys().cloned());
+        }
+        names.extend(body["ring"]["gradings"].as_array().unwrap().iter().map(|g| g.as_str().unwrap().to_string()));
+        let old = names[at % names.len()].clone();
+        let hostile = HOSTILE_NAMES[kind % HOSTILE_NAMES.len()];
+        let new = format!("{old}{hostile}");
+        let before = v.clone();
+        rename(&mut v["body"], &old, &new, everywhere);
+        prop_assume!(v != before, "a grading is named in a list, not a key");
+        if let Ok(body) = serde_json::from_value::<tubecert_format::Body>(v["body"].clone()) {
+            v["sha256"] = json!(tubecert_format::canonical::canonical_sha256(&body).unwrap());
+            let err = tubecheck::check_bytes("fuzz", &serde_json::to_vec(&v).unwrap()).err();
+            prop_assert!(err.as_ref().is_some_and(|e| e.contains("U+")), "{new:?}: {err:?}");
+        }
+    }
+
+    /// τ's grading changed, its statement restated or not, the version relabelled or not:
+    /// whatever is accepted must hold for the oracle, in that version's wording.
+    #[test]
+    fn tau_grading_and_version_changes_are_caught(which: usize, grading: usize, restate: bool, version_one: bool) {
+        let files = stored(".cert.json");
+        let taus: Vec<&Vec<u8>> = files.iter().filter(|f| String::from_utf8_lossy(f).contains("\"kind\":\"tau\"")).collect();
+        let mut cert: tubecert_format::Certificate = serde_json::from_slice(taus[which % taus.len()]).unwrap();
+        cert.version = if version_one { 1 } else { cert.version };
+        let ring = tubecert_format::RingInfo::new(&cert.body.ring).unwrap();
+        for c in cert.body.claims.iter_mut() {
+            if let tubecert_format::Claim::Tau { alexander, .. } = c {
+                *alexander = ring.gradings[grading % ring.gradings.len()].clone();
+            }
+            if restate {
+                *c.statement_mut() = tubecert_format::statement::render(c, &ring, cert.version);
+            }
+        }
+        cert.sha256 = tubecert_format::canonical::canonical_sha256(&cert.body).unwrap();
+        let accepted = tubecheck::check_bytes("fuzz", &serde_json::to_vec(&cert).unwrap()).is_ok_and(|r| r.ok());
+        prop_assert_eq!(accepted, tubecert_tests::oracle::holds_in(&cert.body, cert.version));
     }
 
     #[test]

@@ -483,10 +483,18 @@ pub mod oracle {
         }
     }
 
-    /// Does every implicit check and every claim of the body hold?
+    /// Does every implicit check and every claim of the body hold (format version 2)?
     pub fn holds(body: &Body) -> bool {
+        holds_in(body, 2)
+    }
+
+    /// Does every implicit check and every claim of a body of format `version` hold?
+    pub fn holds_in(body: &Body, version: u32) -> bool {
         // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
         if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
+            return false;
+        }
+        if !crate::wording::names_legal(body) {
             return false;
         }
         let vars = &body.ring.variables;
@@ -517,9 +525,8 @@ pub mod oracle {
                 return false;
             }
         }
-        let rn = tubecert_format::statement::ring_name(vars);
         body.claims.iter().all(|claim| {
-            if claim.statement() != tubecert_format::statement::render(claim, &rn, vars.first().map_or("", |v| v)) {
+            if crate::wording::statement(claim, &body.ring, version).as_deref() != Some(claim.statement()) {
                 return false;
             }
             match claim {
@@ -540,6 +547,11 @@ pub mod oracle {
                 Claim::Tau { complex, alexander, tau, witness, .. } => {
                     let a = body.ring.gradings.iter().position(|g| g == alexander);
                     let ok_ring = w.var_deg.len() == 1 && a.is_some_and(|a| w.var_deg[0][a] == -1);
+                    // A version-1 statement names no grading: only "alexander", the one choice.
+                    let unnamed_ok = body.ring.gradings.len() == 1
+                        || (alexander == "alexander"
+                            && w.var_deg.first().is_some_and(|d| d.iter().filter(|&&x| x == -1).count() == 1));
+                    let ok_ring = ok_ring && (version >= 2 || unnamed_ok);
                     ok_ring
                         && w.homology(complex, witness).is_some_and(|(f, _)| f.len() == 1 && -f[0][a.unwrap()] == *tau)
                 }
@@ -559,6 +571,122 @@ pub mod oracle {
                 }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
             }
+        })
+    }
+}
+
+/// Statements and names as the oracle reads them, written here without the format crate's
+/// renderer or alphabet check: what each claim kind must say, in format version 1 or 2.
+pub mod wording {
+    use tubecert_format::{Body, Claim, MapExpr, Ring};
+
+    /// ASCII letters and digits, `_`, `.`, `'` and `⊗`; 1 to 200 bytes.
+    pub fn name_ok(n: &str) -> bool {
+        (1..=200).contains(&n.len()) && n.chars().all(|c| c.is_ascii_alphanumeric() || "_.'⊗".contains(c))
+    }
+
+    /// Every declared name in the alphabet; map names not `id_…`; variables letters.
+    pub fn names_legal(body: &Body) -> bool {
+        let r = &body.ring;
+        r.variables.iter().all(|v| !v.is_empty() && v.chars().all(|c| c.is_ascii_alphabetic()))
+            && r.gradings.iter().all(|g| name_ok(g))
+            && body.complexes.iter().all(|(c, s)| name_ok(c) && s.generators.keys().all(|g| name_ok(g)))
+            && body.maps.keys().all(|m| name_ok(m) && !m.starts_with("id_"))
+    }
+
+    /// A monomial in the written form `U^2*V` (variables in ring order, exponents ≥ 2 written
+    /// without leading zeros, `1` for the unit), or None.
+    pub fn canonical_monomial(m: &str, vars: &[String]) -> Option<String> {
+        if m == "1" {
+            return Some(m.into());
+        }
+        let mut last = None;
+        for f in m.split('*') {
+            let (v, e) = f.split_once('^').map_or((f, None), |(v, e)| (v, Some(e)));
+            let i = vars.iter().position(|x| x == v)?;
+            if last.is_some_and(|l| l >= i) {
+                return None;
+            }
+            last = Some(i);
+            if let Some(e) = e {
+                let k: u64 = e.parse().ok()?;
+                if k < 2 || k.to_string() != e {
+                    return None;
+                }
+            }
+        }
+        Some(m.into())
+    }
+
+    fn expr(e: &MapExpr, vars: &[String], version: u32) -> Option<String> {
+        let composite = |e: &MapExpr| matches!(e, MapExpr::Compose(_) | MapExpr::Times(..));
+        let bracket = |e: &MapExpr| -> Option<String> {
+            let s = expr(e, vars, version)?;
+            Some(if version >= 2 && composite(e) { format!("({s})") } else { s })
+        };
+        Some(match e {
+            MapExpr::Named(n) => n.clone(),
+            MapExpr::Id(c) => "id_".to_string() + c,
+            MapExpr::Sum(es) => {
+                let parts: Option<Vec<String>> = es.iter().map(|x| expr(x, vars, version)).collect();
+                "(".to_string() + &parts?.join(" + ") + ")"
+            }
+            MapExpr::Compose(es) => {
+                let parts: Option<Vec<String>> = es.iter().map(bracket).collect();
+                parts?.join("∘")
+            }
+            MapExpr::Times(m, x) => {
+                let inner = if matches!(**x, MapExpr::Compose(_)) { bracket(x)? } else { expr(x, vars, version)? };
+                canonical_monomial(m, vars)? + "·" + &inner
+            }
+        })
+    }
+
+    fn tuple(g: &[i64]) -> String {
+        let parts: Vec<String> = g.iter().map(|x| x.to_string()).collect();
+        "(".to_string() + &parts.join(", ") + ")"
+    }
+
+    /// The statement a claim must carry, or None when a field holds something no statement
+    /// may print (an illegal name, a monomial not in its written form).
+    pub fn statement(claim: &Claim, ring: &Ring, version: u32) -> Option<String> {
+        let vars = &ring.variables;
+        let rn = if vars.is_empty() { "F2".to_string() } else { format!("F2[{}]", vars.join(",")) };
+        let named = |ns: &[&String]| ns.iter().all(|n| name_ok(n));
+        Some(match claim {
+            Claim::Complex { complex, .. } if named(&[complex]) => {
+                format!("{complex} is a chain complex over {rn} (∂∘∂ = 0, ∂ homogeneous)")
+            }
+            Claim::ChainMap { map, .. } if named(&[map]) => format!("{map} is a homogeneous chain map"),
+            Claim::NullHomotopic { map, .. } => expr(map, vars, version)? + " ≃ 0 (null-homotopic)",
+            Claim::NotNullHomotopic { map, .. } => expr(map, vars, version)? + " is not null-homotopic",
+            Claim::HomotopyEquivalence { maps: [f, g], .. } if named(&[f, g]) => {
+                format!("{f} and {g} are mutually inverse homotopy equivalences")
+            }
+            Claim::Homology { complex, free, torsion, .. } if named(&[complex]) => {
+                let mut parts: Vec<String> = free.iter().map(|g| format!("{rn}⟨{}⟩", tuple(g))).collect();
+                let v = vars.first().map_or("", |v| v.as_str());
+                for (k, g) in torsion {
+                    let p = if *k == 1 { v.to_string() } else { format!("{v}^{k}") };
+                    parts.push(format!("{rn}/({p})⟨{}⟩", tuple(g)));
+                }
+                let h = if parts.is_empty() { "0".to_string() } else { parts.join(" ⊕ ") };
+                format!("H_*({complex}) ≅ {h}")
+            }
+            Claim::TorsionOrder { maps: [f, g], variable, order, .. } if named(&[f, g, variable]) => {
+                format!("ord_{variable}({f} − {g}) = {order}")
+            }
+            Claim::TorsionOrderOfComplex { complex, variable, order, .. } if named(&[complex, variable]) => {
+                format!("Ord_{variable}(H_*({complex})) = {order}")
+            }
+            Claim::Tau { complex, alexander, tau, .. } if named(&[complex, alexander]) => {
+                if version >= 2 && ring.gradings.len() > 1 {
+                    format!("τ({complex}) = {tau} (Alexander grading {alexander})")
+                } else {
+                    format!("τ({complex}) = {tau}")
+                }
+            }
+            _ => return None,
         })
     }
 }

@@ -2,7 +2,10 @@
 //!
 //! Each mutation changes one semantic detail (a witness term removed, added, retargeted or with
 //! another exponent; two generators swapped in a term list; a grading changed; a claimed order
-//! or rank changed together with its statement; a map or differential term changed), the hash
+//! or rank changed together with its statement; a map or differential term changed; a name
+//! made hostile — statement syntax, line breaks, invisible, format, whitespace or control
+//! characters — everywhere, statements restated; τ's grading changed or left out of its
+//! statement, or the certificate relabelled as version 1 in version 1's wording), the hash
 //! is recomputed, and the checker's verdict is compared with the independent oracle of
 //! `tests/lib.rs`. An accepted mutation is *neutral* only when the oracle confirms that every
 //! claim still holds; any other acceptance is *unexplained* and fails the run.
@@ -82,24 +85,103 @@ fn gens(body: &Body, c: &str) -> Vec<String> {
     body.complexes.get(c).map(|x| x.generators.keys().cloned().collect()).unwrap_or_default()
 }
 
-fn restate(body: &mut Body, i: usize) {
-    let vars = body.ring.variables.clone();
-    let text = {
-        let c = &body.claims[i];
-        tubecert_format::statement::render(
-            c,
-            &tubecert_format::statement::ring_name(&vars),
-            vars.first().map_or("", |v| v),
-        )
-    };
-    *body.claims[i].statement_mut() = text;
+/// Rewrites claim i's statement in the checker's wording for format `version` (when the ring
+/// still reads).
+fn restate(body: &mut Body, i: usize, version: u32) {
+    if let Ok(ring) = tubecert_format::RingInfo::new(&body.ring) {
+        let text = tubecert_format::statement::render(&body.claims[i], &ring, version);
+        *body.claims[i].statement_mut() = text;
+    }
 }
 
-/// Applies one random semantic mutation.
-fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
+/// Pieces a hostile name is made with: statement syntax, line breaks, invisible and format
+/// characters (U+200D and other Cf), whitespace, control characters, a letter of another script.
+const HOSTILE: [&str; 14] = [
+    "U^3·F",
+    " + G",
+    "(",
+    "∘",
+    " = 7",
+    "≃",
+    "−",
+    "\n✓ τ(K) = 9",
+    "\u{200d}",
+    "\u{2060}",
+    "\u{202e}",
+    "\u{a0}",
+    "\u{7}",
+    "С",
+];
+
+/// Renames one name everywhere in the body (keys and strings) to a hostile one, restating.
+fn rename_hostile(rng: &mut Rng, body: &mut Body, version: u32) -> &'static str {
+    let mut names: Vec<String> = body.complexes.keys().chain(body.maps.keys()).cloned().collect();
+    names.extend(body.complexes.values().flat_map(|c| c.generators.keys().cloned()));
+    names.extend(body.ring.gradings.iter().cloned());
+    let old = pick(rng, &names).cloned().unwrap();
+    if old == "1" || body.ring.variables.contains(&old) {
+        return "leave a name that is also a coefficient";
+    }
+    let piece = pick(rng, &HOSTILE).unwrap();
+    let new = if rng.below(2) == 0 { format!("{old}{piece}") } else { format!("{piece}{old}") };
+    fn walk(v: &mut serde_json::Value, old: &str, new: &str) {
+        match v {
+            serde_json::Value::String(s) if s == old => *s = new.to_string(),
+            serde_json::Value::Array(xs) => xs.iter_mut().for_each(|x| walk(x, old, new)),
+            serde_json::Value::Object(m) => {
+                *m = std::mem::take(m)
+                    .into_iter()
+                    .map(|(k, mut x)| {
+                        walk(&mut x, old, new);
+                        (if k == old { new.to_string() } else { k }, x)
+                    })
+                    .collect()
+            }
+            _ => {}
+        }
+    }
+    let mut v = serde_json::to_value(&*body).unwrap();
+    walk(&mut v, &old, &new);
+    match serde_json::from_value::<Body>(v) {
+        Ok(b) => *body = b,
+        Err(_) => return "leave a name the model cannot hold",
+    }
+    (0..body.claims.len()).for_each(|i| restate(body, i, version));
+    "rename to a name with statement syntax or an invisible character"
+}
+
+/// Changes what a τ claim says about its grading: another grading, or the version-1 wording.
+fn mutate_tau_grading(rng: &mut Rng, body: &mut Body, version: &mut u32) -> &'static str {
+    let Some(i) = body.claims.iter().position(|c| matches!(c, Claim::Tau { .. })) else {
+        return "leave a certificate without τ";
+    };
+    let gradings = body.ring.gradings.clone();
+    match rng.below(3) {
+        0 => {
+            if let Claim::Tau { alexander, .. } = &mut body.claims[i] {
+                *alexander = pick(rng, &gradings).cloned().unwrap();
+            }
+            "change τ's grading, statement kept"
+        }
+        1 => {
+            restate(body, i, 1);
+            "drop τ's grading from its statement"
+        }
+        _ => {
+            *version = 1;
+            (0..body.claims.len()).for_each(|j| restate(body, j, 1));
+            "relabel as version 1 in version 1's wording"
+        }
+    }
+}
+
+/// Applies one random semantic mutation (some also change the format version).
+fn mutate(rng: &mut Rng, body: &mut Body, version: &mut u32) -> &'static str {
     let two = body.ring.variables.len() == 2;
     let complexes: Vec<String> = body.complexes.keys().cloned().collect();
-    match rng.below(10) {
+    match rng.below(12) {
+        10 => rename_hostile(rng, body, *version),
+        11 => mutate_tau_grading(rng, body, version),
         0 => {
             // A grading of one generator.
             let c = pick(rng, &complexes).cloned().unwrap();
@@ -129,7 +211,7 @@ fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
                 Ok(b) => {
                     *body = b;
                     for i in 0..body.claims.len() {
-                        restate(body, i);
+                        restate(body, i, *version);
                     }
                     what
                 }
@@ -159,7 +241,7 @@ fn mutate(rng: &mut Rng, body: &mut Body) -> &'static str {
                 }
                 _ => "leave a claim unchanged",
             };
-            restate(body, i);
+            restate(body, i, *version);
             what
         }
         _ => {
@@ -232,22 +314,21 @@ fn main() {
     println!("certificate\ttried\trejected\tneutral\tstricter\tunexplained");
     for f in &files {
         let cert: Certificate = serde_json::from_slice(&std::fs::read(f).unwrap()).unwrap();
-        assert!(oracle::holds(&cert.body), "the oracle accepts the unmutated {}", f.display());
+        assert!(oracle::holds_in(&cert.body, cert.version), "the oracle accepts the unmutated {}", f.display());
         let mut rng = Rng(seed ^ 0x51ED_2701 ^ (f.to_string_lossy().len() as u64) << 7);
         let mut c = Counts::default();
         for _ in 0..per {
             // Only mutations that change the body count.
-            let (mut body, mut what) = (cert.body.clone(), "");
-            while body == cert.body {
-                what = mutate(&mut rng, &mut body);
+            let (mut body, mut what, mut version) = (cert.body.clone(), "", cert.version);
+            while body == cert.body && version == cert.version {
+                what = mutate(&mut rng, &mut body, &mut version);
             }
             c.tried += 1;
             let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
-            let bytes =
-                serde_json::to_vec(&Certificate { sha256, ..Certificate { body: body.clone(), ..cert.clone() } })
-                    .unwrap();
+            let mutant = Certificate { sha256, version, body: body.clone(), ..cert.clone() };
+            let bytes = serde_json::to_vec(&mutant).unwrap();
             let accepted = tubecheck::check_bytes("mutant", &bytes).is_ok_and(|r| r.ok());
-            let holds = oracle::holds(&body);
+            let holds = oracle::holds_in(&body, version);
             match (accepted, holds) {
                 (false, false) => c.rejected += 1,
                 (true, true) => c.neutral += 1,

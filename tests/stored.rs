@@ -70,7 +70,7 @@ fn the_same_problem_gives_identical_bytes_across_processes_and_thread_counts() {
     let exe = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../target/release/tubecert");
     assert!(exe.exists(), "build the release binaries first (the README's test command does)");
     let problem = std::env::temp_dir().join(format!("tubecert-det-{}.problem.json", std::process::id()));
-    let synthetic = tubecert::bench::synthetic_problem(3000, Some(2000), 7).unwrap();
+    let synthetic = tubecert::bench::synthetic_problem(3000, Some(2000), None, 7).unwrap();
     std::fs::write(&problem, tubecert::demo::problem_bytes(&synthetic)).unwrap();
     let out = |run: u32, threads: &str| {
         let path = std::env::temp_dir().join(format!("tubecert-det-{}-{run}.json", std::process::id()));

@@ -122,6 +122,7 @@ pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
     };
     for (g, DGenerator { grading, idempotent }) in spec.generators.iter() {
         let what = format!("type D structure {name}, generator \"{g}\"");
+        tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
         d.idem.push(idem_ok(*idempotent, &what)?);
         if let Some(gr) = grading {
             grading_ok(gr, &what)?;
@@ -171,6 +172,7 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> R
     };
     for (g, gen) in spec.generators.iter() {
         let what = format!("type A module {name}, generator \"{g}\"");
+        tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
         m.idem.push(idem_ok(gen.idempotent, &what)?);
         grading_ok(&gen.grading, &what)?;
         m.grading.push(gen.grading.clone());
@@ -743,6 +745,7 @@ pub fn check(
     o: Option<&Objects>,
     spec: Option<&Bordered>,
     claim: &Claim,
+    version: u32,
 ) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
     let bordered = matches!(
         claim,
@@ -754,7 +757,7 @@ pub fn check(
             | Claim::Complement { .. }
     );
     bordered.then(|| {
-        crate::verify::check_statement(ctx, claim)?;
+        crate::verify::check_statement(ctx, claim, version)?;
         let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
         let minus = || is_minus_ring(&spec_ring(ctx)).then_some(()).ok_or_else(|| Failure::False("box tensor products live in the minus ring F2[U] with (Maslov, Alexander), deg U = (−2, −1), deg ∂ = (−1, 0)".into()));
         let mut facts = BTreeMap::new();

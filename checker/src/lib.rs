@@ -69,7 +69,7 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
     // The hash and the arithmetic are independent: compute them on the machine's two cores.
     let (sha256, claims) = std::thread::scope(|s| {
         let hash = s.spawn(|| body_sha256(&cert.body));
-        let claims = verify::check_body(&cert.body).map_err(|errs| errs.join("\n  "));
+        let claims = verify::check_body(&cert.body, cert.version).map_err(|errs| errs.join("\n  "));
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });
     let (sha256, claims) = (sha256?, claims?);

@@ -7,6 +7,7 @@ use crate::algebra::SparseMap;
 use crate::report_terms::suggest;
 use std::collections::{BTreeMap, HashMap};
 use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
+use tubecert_format::names::{check_map_name, check_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
 use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
@@ -281,6 +282,9 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
     };
     let mut well_graded = true;
     for (g, gr) in gens.iter() {
+        if let Err(e) = check_name(g) {
+            errs.push(format!("complex {name}, generator {e}"));
+        }
         if gr.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
             well_graded = false;
             errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
@@ -323,6 +327,13 @@ pub fn load_lenient(
     maps: &UniqueMap<MapSpec>,
 ) -> Result<(Context, Errors), Vec<String>> {
     let ring = RingInfo::new(ring)?;
+    // Names first: later messages print them.
+    let complex_names = complexes.keys().map(|n| check_name(n).map_err(|e| format!("complex {e}")));
+    let map_names = maps.keys().map(|n| check_map_name(n).map_err(|e| format!("map {e}")));
+    let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
+    if !bad.is_empty() {
+        return Err(bad);
+    }
     let mut errs = Errors::default();
     let complexes: Vec<Complex> = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
     let complex_index: BTreeMap<String, usize> =

@@ -10,7 +10,8 @@ use tubecert_format::{Claim, MapExpr, Term};
 /// functional ψ ↦ c(ψ(x)), with c = Σ (m·w)* a functional on the target ("y = x ⊗ c").
 pub fn factored_dual(phi: &MapExpr, y: &[Term]) -> Option<String> {
     let x = &y.first()?[0];
-    if y.iter().any(|t| &t[0] != x) {
+    // Monomials are printed as written: only in their plain form (no spaces or line breaks).
+    if y.iter().any(|t| &t[0] != x || t[1].chars().any(|c| c.is_whitespace() || c.is_control())) {
         return None;
     }
     let c: Vec<String> =
@@ -31,6 +32,12 @@ fn dual_of(c: &Claim) -> Option<(MapExpr, &[Term])> {
         }
         _ => None,
     }
+}
+
+/// A failure message with control characters (which it may quote from the file, e.g. a
+/// witness term naming no generator) shown as `<U+XXXX>`, so it cannot print lines of its own.
+fn shown(e: &str) -> String {
+    e.chars().map(|c| if c.is_control() { format!("<U+{:04X}>", c as u32) } else { c.to_string() }).collect()
 }
 
 pub fn render(r: &FileReport) -> String {
@@ -66,7 +73,7 @@ pub fn render(r: &FileReport) -> String {
                 }
             }
             Err(e) => {
-                let _ = writeln!(s, "  ✗ [{}] {}\n      {}", c.kind, c.statement, e);
+                let _ = writeln!(s, "  ✗ [{}] {}\n      {}", c.kind, c.statement, shown(e));
             }
         }
     }
@@ -90,5 +97,7 @@ mod tests {
         );
         assert!(factored_dual(&phi, &[t("x", "1", "a"), t("z", "1", "a")]).is_none());
         assert!(factored_dual(&phi, &[]).is_none());
+        assert!(factored_dual(&phi, &[t("x", "U \n U", "a")]).is_none());
+        assert_eq!(shown("generator \"a\n✓ b\""), "generator \"a<U+000A>✓ b\"");
     }
 }

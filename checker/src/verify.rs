@@ -6,9 +6,10 @@ use crate::load::{grading_sum, in_two_halves, Context, Errors, Evaluated};
 use crate::report_terms::{compare, render_vector};
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
+use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, render_expr, ring_name, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term};
+use tubecert_format::statement::{render, render_expr, surface_reading};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -183,20 +184,52 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
+/// The names a claim holds are in the alphabet, and the monomials of its map expressions are
+/// written canonically, so that its statement prints its fields and nothing else (exit 2).
+pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
+    fn expr(e: &MapExpr, vars: &[String]) -> Result<(), String> {
+        match e {
+            MapExpr::Named(n) | MapExpr::Id(n) => check_name(n),
+            MapExpr::Sum(es) | MapExpr::Compose(es) => es.iter().try_for_each(|e| expr(e, vars)),
+            MapExpr::Times(m, e) => match parse_mono(m, vars)?.render(vars) {
+                canonical if canonical == *m => expr(e, vars),
+                canonical => Err(format!("monomial {m:?} must be written \"{canonical}\"")),
+            },
+        }
+    }
+    let (names, basis): (Vec<&String>, _) = match claim {
+        Claim::Complex { complex, .. } => (vec![complex], None),
+        Claim::ChainMap { map, .. } => (vec![map], None),
+        Claim::NullHomotopic { map, .. } | Claim::NotNullHomotopic { map, .. } => return expr(map, vars),
+        Claim::HomotopyEquivalence { maps, .. } => (maps.iter().collect(), None),
+        Claim::TorsionOrder { maps: [f, g], variable, .. } => (vec![f, g, variable], None),
+        Claim::Homology { complex, witness, .. } => (vec![complex], Some(witness)),
+        Claim::TorsionOrderOfComplex { complex, variable, witness, .. } => (vec![complex, variable], Some(witness)),
+        Claim::Tau { complex, alexander, witness, .. } => (vec![complex, alexander], Some(witness)),
+        Claim::TypeDStructure { structure, .. } => (vec![structure], None),
+        Claim::TypeAModule { module, .. } => (vec![module], None),
+        Claim::TypeDMorphism { morphism, .. } => (vec![morphism], None),
+        Claim::BoxTensor { complex, module, structure, .. } => (vec![complex, module, structure], None),
+        Claim::BoxTensorMap { map, module, morphism, .. } => (vec![map, module, morphism], None),
+        Claim::Complement { complex, structure, .. } => (vec![complex, structure], None),
+    };
+    let generators = basis.into_iter().flat_map(|w| w.generators.keys());
+    names.into_iter().chain(generators).try_for_each(|n| check_name(n))
+}
+
 /// The claim's statement is the checker's own wording of its fields.
-pub fn check_statement(ctx: &Context, claim: &Claim) -> Result<(), String> {
-    let vars = &ctx.ring.variables;
-    let expected = render(claim, &ring_name(vars), vars.first().map_or("", |v| v));
+pub fn check_statement(ctx: &Context, claim: &Claim, version: u32) -> Result<(), String> {
+    let expected = render(claim, &ctx.ring, version);
     if claim.statement() != expected {
         return Err(format!("the statement does not say what the claim's fields say; expected \"{expected}\""));
     }
     Ok(())
 }
 
-/// Verifies one claim; returns the facts it established.
-pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Value>, String> {
+/// Verifies one claim of a certificate of format `version`; returns the facts it established.
+pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMap<String, Value>, String> {
     let vars = &ctx.ring.variables;
-    check_statement(ctx, claim)?;
+    check_statement(ctx, claim, version)?;
     let mut facts = BTreeMap::new();
     match claim {
         Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
@@ -251,6 +284,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
             if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
                 return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
             }
+            // Version 1 did not name the grading: read it only where the words cannot mislead.
+            let choices = ctx.ring.var_degrees[0].iter().filter(|&&d| d == -1).count();
+            if version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+                return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
+            }
             let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
@@ -289,10 +327,9 @@ pub fn check_claim(ctx: &Context, claim: &Claim) -> Result<BTreeMap<String, Valu
 
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
-    let rn = ring_name(&ctx.ring.variables);
     let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
         kind: claim.kind().into(),
-        statement: render(&claim, &rn, "") + &suffix,
+        statement: render(&claim, &ctx.ring, CERTIFICATE_VERSION) + &suffix,
         implicit: true,
         outcome: outcome.map(|_| BTreeMap::new()),
     };
@@ -311,16 +348,21 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
-/// Verifies a whole body: implicit object checks, then each claim.
-pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<String>> {
+/// Verifies a whole body of a certificate of format `version`: implicit object checks, then
+/// each claim.
+pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<ClaimResult>, Vec<String>> {
     use crate::bordered::{Failure, Objects};
     let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    for (i, claim) in body.claims.iter().enumerate() {
+        check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
+    }
     let b = body.bordered.as_ref();
     let objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
     if let Some(b) = b {
         let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
         names.sort();
+        names.iter().try_for_each(|n| check_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
         if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
             return Err(vec![format!(
                 "the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)",
@@ -331,15 +373,16 @@ pub fn check_body(body: &tubecert_format::Body) -> Result<Vec<ClaimResult>, Vec<
     let mut out = check_objects(&ctx);
     out.extend(objects.iter().flat_map(|o| check_objects(&o.full)));
     for claim in &body.claims {
-        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim) {
-            None => check_claim(&ctx, claim),
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
+            None => check_claim(&ctx, claim, version),
             Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
             Some(Err(Failure::False(e))) => Err(e),
             Some(Ok(facts)) => Ok(facts),
         };
         out.push(ClaimResult {
             kind: claim.kind().into(),
-            statement: claim.statement().to_string(),
+            // What the fields say: a statement that differs is not shown as if it were checked.
+            statement: render(claim, &ctx.ring, version),
             implicit: false,
             outcome,
         });

@@ -3,8 +3,8 @@
 //! so a generates F2[U]/(U^2). F(o) = z, G(o) = z + a: ord_U(F − G) = 2.
 
 use serde_json::{json, Value};
-use tubecert_format::statement::{render, ring_name};
-use tubecert_format::{Body, Certificate, Claim};
+use tubecert_format::statement::render;
+use tubecert_format::{Body, Certificate, Claim, RingInfo, CERTIFICATE_VERSION};
 use tubecheck::verify::check_body;
 
 fn base(claims: Vec<Value>) -> Value {
@@ -33,20 +33,26 @@ fn base(claims: Vec<Value>) -> Value {
 fn with_statement(mut claim: Value) -> Value {
     claim["statement"] = json!("");
     let c: Claim = serde_json::from_value(claim.clone()).expect("claim parses");
-    claim["statement"] = json!(render(&c, &ring_name(&["U".to_string()]), "U"));
+    let ring = RingInfo::new(&serde_json::from_value(base(vec![])["ring"].clone()).unwrap()).unwrap();
+    claim["statement"] = json!(render(&c, &ring, CERTIFICATE_VERSION));
     claim
 }
 
 /// Verdicts of the listed (non-implicit) claims.
 fn verdicts(claims: Vec<Value>) -> Vec<Result<(), String>> {
     let body: Body = serde_json::from_value(base(claims.into_iter().map(with_statement).collect())).expect("body");
-    check_body(&body).expect("loads").into_iter().filter(|r| !r.implicit).map(|r| r.outcome.map(|_| ())).collect()
+    check_body(&body, CERTIFICATE_VERSION)
+        .expect("loads")
+        .into_iter()
+        .filter(|r| !r.implicit)
+        .map(|r| r.outcome.map(|_| ()))
+        .collect()
 }
 
 /// A certificate around a body, with the canonical hash (what the producer writes).
 fn seal(body: Body) -> Certificate {
     let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
-    Certificate { format: "tubecert-certificate".into(), version: 1, sha256, body }
+    Certificate { format: "tubecert-certificate".into(), version: CERTIFICATE_VERSION, sha256, body }
 }
 
 fn one(claim: Value) -> Result<(), String> {
@@ -56,18 +62,18 @@ fn one(claim: Value) -> Result<(), String> {
 #[test]
 fn objects_are_checked_implicitly() {
     let body: Body = serde_json::from_value(base(vec![])).unwrap();
-    assert!(check_body(&body).unwrap().iter().all(|r| r.outcome.is_ok()));
+    assert!(check_body(&body, CERTIFICATE_VERSION).unwrap().iter().all(|r| r.outcome.is_ok()));
     let mut bad = base(vec![]);
     bad["complexes"]["K"]["generators"]["c"] = json!([-1, 0]);
     bad["complexes"]["K"]["differential"] = json!([["b", "U^2", "a"], ["c", "1", "b"]]);
     // With c at (-1, 0), ∂c = b would need b at (-2, 0): not homogeneous. With c at (-2, -2)
     // it is homogeneous, and ∂∂c = U^2·a ≠ 0.
     let body: Body = serde_json::from_value(bad.clone()).unwrap();
-    let r = check_body(&body).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
     assert!(r.iter().any(|c| c.kind == "complex" && c.outcome.as_ref().is_err_and(|e| e.contains("not homogeneous"))));
     bad["complexes"]["K"]["generators"]["c"] = json!([-2, -2]);
     let body: Body = serde_json::from_value(bad).unwrap();
-    let r = check_body(&body).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
     assert!(r.iter().any(|c| c.kind == "complex" && c.outcome.as_ref().is_err_and(|e| e.contains("∂∂(c)"))));
 }
 
@@ -78,7 +84,7 @@ fn chain_map_rejected_when_it_does_not_commute() {
     // of degree (-3,-2).
     bad["maps"]["F"] = json!({"from": "O", "to": "K", "degree": [-3, -2], "terms": [["o", "1", "b"]]});
     let body: Body = serde_json::from_value(bad).unwrap();
-    let r = check_body(&body).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
     let f = r.iter().find(|c| c.statement.starts_with("F ")).unwrap();
     assert!(f.outcome.as_ref().unwrap_err().contains("at generator o"));
 }
@@ -149,7 +155,7 @@ fn statement_must_match_the_fields() {
     );
     c["statement"] = json!("F and G are not homotopic at all");
     let body: Body = serde_json::from_value(base(vec![c])).unwrap();
-    let r = check_body(&body).unwrap();
+    let r = check_body(&body, CERTIFICATE_VERSION).unwrap();
     assert!(r.last().unwrap().outcome.as_ref().unwrap_err().contains("statement"));
 }
 

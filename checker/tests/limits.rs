@@ -46,7 +46,7 @@ fn exponent_overflow_in_products_is_an_error() {
 fn nesting_depth_and_size_of_expressions() {
     let mut e = json!("F");
     for _ in 0..(MAX_EXPR_DEPTH + 2) {
-        e = json!({"sum": [e]});
+        e = json!({"sum": [e, "F"]});
     }
     let v = body(
         json!({"a": [0, 0]}),

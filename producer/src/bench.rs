@@ -3,14 +3,43 @@
 //! ∂b = U^k·a, the staircase of T(3,4), and a few other towers) is inflated to N generators by
 //! random cancelling pairs and rounds of random homogeneous changes of basis; two maps from a
 //! one-generator complex send o to z and to z + a, so ord_U(F − G) = k whatever the inflation.
+//! `--density D` runs rounds of basis change until ∂ has about D arrows per generator.
+//!
+//! The reduced cases time Hom questions between complexes that reduction cannot shrink: over
+//! `F2[U,V]`, C = T(p, q)^⊗3 built from staircases, and φ = id_C or U·V·id_C, never
+//! null-homotopic (after inverting U a knot complex has homology of rank one on which φ acts by
+//! a unit; Ozsváth–Szabó 2004, "Holomorphic disks and knot invariants"), so the answer is known.
 
 use crate::problem::{Goal, Problem, PROBLEM_FORMAT};
 use std::time::{Duration, Instant};
 use tubecert_format::{ComplexSpec, MapSpec, Mono, UniqueMap};
 use tubecheck::algebra::{SparseMap, Vector};
 
-/// Rounds of random basis change: each roughly doubles the arrows per generator.
+/// Rounds of random basis change by default (about 4.4 arrows per generator at 10^5).
 const ROUNDS: usize = 5;
+
+/// Which synthetic problem the bench times.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum Case {
+    /// ord_U(F − G) on an inflated complex (and, with a source size, between two).
+    Inflated,
+    /// id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic.
+    ReducedIdentity,
+    /// U·V·id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic.
+    ReducedUv,
+}
+
+/// What `tubecert bench` runs.
+pub struct Options {
+    pub case: Case,
+    pub generators: usize,
+    pub source_generators: Option<usize>,
+    /// Arrows per generator of the inflated complexes (default: five rounds of basis change).
+    pub density: Option<f64>,
+    pub seed: u64,
+    /// The torus knot of the reduced cases (default T(13,14), or T(11,12) for U·V·id).
+    pub torus: Option<(u32, u32)>,
+}
 
 /// The planted order of the bench's map pair.
 pub const PLANTED_ORDER: u32 = 3;
@@ -49,9 +78,11 @@ impl Model {
     }
 
     /// Inflates to about `n` generators: cancelling pairs p → q at random gradings, then rounds
-    /// of random homogeneous basis changes P = I + N with N² = 0 (so P = P⁻¹). Returns
-    /// (B, B⁻¹) = (P₁⋯P_r, P_r⋯P₁): the new basis in the old generators, and back.
-    fn inflate(&mut self, n: usize, rng: &mut Rng) -> Result<(SparseMap, SparseMap), String> {
+    /// of random homogeneous basis changes P = I + N with N² = 0 (so P = P⁻¹), five, or until
+    /// ∂ has about `density` arrows per generator (the last round touches only the fraction of
+    /// generators that lands there). Returns (B, B⁻¹) = (P₁⋯P_r, P_r⋯P₁): the new basis in the
+    /// old generators, and back.
+    fn inflate(&mut self, n: usize, density: Option<f64>, rng: &mut Rng) -> Result<(SparseMap, SparseMap), String> {
         while self.gr.len() + 1 < n {
             let s = rng.below(2) as i64;
             let al = rng.below(41) as i64 - 20;
@@ -68,11 +99,20 @@ impl Model {
             by_grading.entry((g[0], g[1])).or_default().push(i as u32);
         }
         let (mut forward, mut backward) = (SparseMap::identity(size), SparseMap::identity(size));
-        for _round in 0..ROUNDS {
+        let arrows = |d: &SparseMap| d.rows.iter().map(Vec::len).sum::<usize>() as f64;
+        let mut growth: f64 = 1.5; // arrows after a round over before, re-measured each round
+        for round in 0.. {
+            let now = arrows(&self.d);
+            let fraction = match density {
+                None if round == ROUNDS => break,
+                None => 1.0,
+                Some(goal) if now >= 0.98 * goal * size as f64 || round == 30 => break,
+                Some(goal) => ((goal * size as f64 / now - 1.0) / (growth - 1.0).max(0.05)).min(1.0),
+            };
             let side: Vec<bool> = (0..size).map(|_| rng.below(2) == 0).collect();
             let mut nil = SparseMap::zero(size);
             for j in 0..size as u32 {
-                if side[j as usize] {
+                if side[j as usize] || (fraction < 1.0 && rng.below(1 << 20) as f64 >= fraction * (1 << 20) as f64) {
                     continue;
                 }
                 let e = rng.below(3) as i64;
@@ -86,6 +126,9 @@ impl Model {
             }
             let p = SparseMap::identity(size).plus(&nil);
             self.d = p.after(&self.d.after(&p)?)?;
+            if fraction == 1.0 {
+                growth = arrows(&self.d) / now.max(1.0);
+            }
             forward = forward.after(&p)?;
             backward = p.after(&backward)?;
         }
@@ -113,8 +156,13 @@ fn term(x: String, m: Mono, y: String) -> [String; 3] {
 }
 
 /// The synthetic problem: maps O → K with K of about `n` generators, or, with `source_n`,
-/// maps C → K between two inflated complexes.
-pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result<Problem, String> {
+/// maps C → K between two inflated complexes; `density`: arrows per generator (see `inflate`).
+pub fn synthetic_problem(
+    n: usize,
+    source_n: Option<usize>,
+    density: Option<f64>,
+    seed: u64,
+) -> Result<Problem, String> {
     let mut rng = Rng(seed.wrapping_mul(0x9E3779B97F4A7C15) | 1);
     let mut k = Model { gr: vec![], d: SparseMap::zero(0) };
     let z = k.add(vec![0, 0], vec![]);
@@ -136,7 +184,7 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
     for t in 0..4i64 {
         k.tower([2 * t - 6, t - 3], (t + 1) as u32);
     }
-    let (_, k_back) = k.inflate(n, &mut rng)?;
+    let (_, k_back) = k.inflate(n, density, &mut rng)?;
     // The source: o alone, or o beside towers (sent to 0), inflated likewise.
     let mut c = Model { gr: vec![], d: SparseMap::zero(0) };
     let o = c.add(vec![0, 0], vec![]);
@@ -145,7 +193,7 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
         c.tower([-2, -1], 1);
     }
     let c_forward = match source_n {
-        Some(m) => c.inflate(m, &mut rng)?.0,
+        Some(m) => c.inflate(m, density, &mut rng)?.0,
         None => SparseMap::identity(1),
     };
     // F0(o) = z, G0(o) = z + a, zero elsewhere; in the new bases F = B_K⁻¹ ∘ F0 ∘ B_C.
@@ -184,6 +232,19 @@ pub fn synthetic_problem(n: usize, source_n: Option<usize>, seed: u64) -> Result
         bordered: None,
         bordered_claims: Vec::new(),
     })
+}
+
+/// The reduced case: C = T(p,q)^⊗3 over `F2[U,V]` and one goal about φ = id_C or U·V·id_C.
+pub fn reduced_problem(case: Case, (p, q): (u32, u32)) -> Result<Problem, String> {
+    let goal = match case {
+        Case::ReducedUv => r#"not_null_homotopic {"times":["U*V",{"id":"C"}]}"#,
+        _ => r#"not_null_homotopic {"id":"C"}"#,
+    };
+    let complexes = [format!("T = staircase torus_knot {p} {q}"), "A = tensor T T".into(), "C = tensor A T".into()];
+    crate::text_format::from_command_line("F2[U,V]", &complexes, &[goal.to_string()])
+        .and_then(|v| serde_json::from_value(v).map_err(|e| vec![e.to_string()]))
+        .and_then(crate::problem::from_written)
+        .map_err(|e| e.join("; "))
 }
 
 /// Runs `tubecert bench-check FILE` in a child process; returns (plain parse, check) times.
@@ -232,16 +293,15 @@ pub fn peak_memory() -> u64 {
         .map_or(0, |kb| kb * 1024)
 }
 
-/// Runs the bench for `n` generators; returns the header and the row.
-pub fn run(
-    n: usize,
-    source_n: Option<usize>,
-    seed: u64,
-    out: Option<&std::path::Path>,
-) -> Result<(String, String), String> {
-    let problem = synthetic_problem(n, source_n, seed)?;
+/// Runs the bench; returns the header and the row.
+pub fn run(o: &Options, out: Option<&std::path::Path>) -> Result<(String, String), String> {
+    let (problem, source, target) = match o.case {
+        Case::Inflated => (synthetic_problem(o.generators, o.source_generators, o.density, o.seed)?, "C", "K"),
+        Case::ReducedIdentity => (reduced_problem(o.case, o.torus.unwrap_or((13, 14)))?, "C", "C"),
+        Case::ReducedUv => (reduced_problem(o.case, o.torus.unwrap_or((11, 12)))?, "C", "C"),
+    };
     let bytes = crate::demo::problem_bytes(&problem);
-    let arrows = problem.complexes["K"].differential.len();
+    let arrows = problem.complexes[target].differential.len();
     drop(problem); // only its bytes are the input
     let mut times: Vec<(&str, Duration)> = Vec::new();
     let t = Instant::now();
@@ -256,20 +316,29 @@ pub fn run(
     let cert = crate::canonical_writer::file_bytes(&proved.certificate)?;
     if let Some(dir) = out {
         std::fs::create_dir_all(dir).map_err(|e| e.to_string())?;
-        std::fs::write(dir.join(format!("bench-{n}.problem.json")), &bytes).map_err(|e| e.to_string())?;
-        std::fs::write(dir.join(format!("bench-{n}.cert.json")), &cert).map_err(|e| e.to_string())?;
+        let stem = match o.case {
+            Case::Inflated => format!("bench-{}", o.generators),
+            _ => format!("bench-{:?}", o.case).to_lowercase(),
+        };
+        std::fs::write(dir.join(format!("{stem}.problem.json")), &bytes).map_err(|e| e.to_string())?;
+        std::fs::write(dir.join(format!("{stem}.cert.json")), &cert).map_err(|e| e.to_string())?;
     }
     times.push(("write", t.elapsed()));
     let producer_peak = peak_memory(); // before the checker runs in this process
     let total: Duration = times.iter().map(|t| t.1).sum();
     let claims = &proved.certificate.body.claims;
-    let order_ok =
-        matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER);
-    if !order_ok {
-        return Err(format!(
-            "bench: expected ord_U = {PLANTED_ORDER}, got {:?}",
-            claims.first().map(|c| c.statement())
-        ));
+    let answer_ok = match o.case {
+        Case::Inflated => {
+            matches!(claims.first(), Some(tubecert_format::Claim::TorsionOrder { order, .. }) if *order == PLANTED_ORDER)
+        }
+        _ => matches!(claims.first(), Some(tubecert_format::Claim::NotNullHomotopic { .. })),
+    };
+    if !answer_ok {
+        let expected = match o.case {
+            Case::Inflated => format!("ord_U = {PLANTED_ORDER}"),
+            _ => "not null-homotopic".into(),
+        };
+        return Err(format!("bench: expected {expected}, got {:?}", claims.first().map(|c| c.statement())));
     }
     // The checker's cost next to a plain parse, measured in a fresh process (as a referee runs
     // it), best of five each, so that neither inherits this process's heap.
@@ -278,7 +347,7 @@ pub fn run(
     let secs = |d: Duration| format!("{:.3}", d.as_secs_f64());
     let mut header = vec!["source_gens", "generators", "arrows"];
     let size = |c: &str| ctx.complexes[ctx.complex_index[c]].names.len().to_string();
-    let mut row = vec![size("C"), size("K"), arrows.to_string()];
+    let mut row = vec![size(source), size(target), arrows.to_string()];
     for (name, d) in &times {
         header.push(name);
         row.push(secs(*d));

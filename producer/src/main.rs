@@ -44,13 +44,26 @@ enum Command {
     #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
     CheckInput { problem: PathBuf },
     /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
-    #[command(after_help = "Example:\n  tubecert bench --generators 100000 --seed 1")]
+    #[command(
+        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --density 9.4  # denser: 9.4 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3"
+    )]
     Bench {
+        /// Which problem: an inflated complex with a planted torsion order, or a Hom question
+        /// between reduced complexes over F2[U,V].
+        #[arg(long, value_enum, default_value = "inflated")]
+        case: tubecert::bench::Case,
         #[arg(long, default_value_t = 100_000)]
         generators: usize,
         /// Inflate the source complex too, to this many generators (maps between two big complexes).
         #[arg(long)]
         source_generators: Option<usize>,
+        /// Arrows per generator of the inflated complexes, about (default: five rounds of random
+        /// basis change, about 4.4).
+        #[arg(long, value_parser = parse_density)]
+        density: Option<f64>,
+        /// P,Q: the torus knot T(P,Q) of the reduced cases (default 13,14 for reduced-identity, 11,12 for reduced-uv).
+        #[arg(long, value_parser = parse_torus)]
+        torus: Option<(u32, u32)>,
         #[arg(long, default_value_t = 1)]
         seed: u64,
         /// Also write the problem and certificate here.
@@ -135,6 +148,25 @@ enum Command {
     },
 }
 
+/// Arrows per generator for `--density`.
+fn parse_density(text: &str) -> Result<f64, String> {
+    match text.parse::<f64>() {
+        Ok(d) if (1.0..=40.0).contains(&d) => Ok(d),
+        _ => Err(format!("expected a number of arrows per generator between 1 and 40 (got \"{text}\")")),
+    }
+}
+
+/// `P,Q` for `--torus`.
+fn parse_torus(text: &str) -> Result<(u32, u32), String> {
+    let err = || format!("expected P,Q with 2 ≤ P, Q ≤ 40, e.g. 13,14 (got \"{text}\")");
+    let (p, q) = text.split_once(',').ok_or_else(err)?;
+    let (p, q): (u32, u32) = (p.trim().parse().map_err(|_| err())?, q.trim().parse().map_err(|_| err())?);
+    if !(2..=40).contains(&p) || !(2..=40).contains(&q) {
+        return Err(err());
+    }
+    Ok((p, q))
+}
+
 fn default_output(problem: &std::path::Path) -> PathBuf {
     let name = problem.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
     let stem =
@@ -215,8 +247,9 @@ fn main() -> ExitCode {
                 ExitCode::from(3)
             }
         }
-        Command::Bench { generators, source_generators, seed, out, no_header } => {
-            match tubecert::bench::run(generators, source_generators, seed, out.as_deref()) {
+        Command::Bench { case, generators, source_generators, density, torus, seed, out, no_header } => {
+            let o = tubecert::bench::Options { case, generators, source_generators, density, seed, torus };
+            match tubecert::bench::run(&o, out.as_deref()) {
                 Ok((header, row)) => {
                     if !no_header {
                         say!("{header}");

@@ -128,7 +128,7 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
         });
         walk.map_err(|e| prefix(vec![e]))?;
         match typed {
-            Ok(p) if p.format == PROBLEM_FORMAT && p.version == 1 => return Ok(p),
+            Ok(p) if p.format == PROBLEM_FORMAT && p.version == 1 && !text.contains(ASCII_TENSOR) => return Ok(p),
             _ => serde_json::from_str(text).map_err(|e| prefix(vec![json_error(&e)]))?,
         }
     } else {
@@ -219,7 +219,43 @@ pub fn written_value(bytes: &[u8]) -> Result<serde_json::Value, Vec<String>> {
     }
 }
 
-pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
+/// The ASCII spelling of `⊗` in names: `x0(x)z` is read as `x0⊗z`. (Parentheses are not in the
+/// name alphabet, so the spelling cannot clash with a name; certificates hold `⊗`.)
+pub const ASCII_TENSOR: &str = "(x)";
+
+/// Every string and key of a problem's objects and goals with `(x)` read as `⊗` (the ring holds
+/// none: its names are letters and words).
+fn read_ascii_tensor(v: &mut serde_json::Value) -> Result<(), String> {
+    use serde_json::Value;
+    let spell = |s: &str| s.replace(ASCII_TENSOR, "⊗");
+    match v {
+        Value::String(s) if s.contains(ASCII_TENSOR) => *s = spell(s),
+        Value::Array(items) => items.iter_mut().try_for_each(read_ascii_tensor)?,
+        Value::Object(m) => {
+            let mut out = serde_json::Map::new();
+            for (k, mut x) in std::mem::take(m) {
+                read_ascii_tensor(&mut x)?;
+                if out.insert(spell(&k), x).is_some() {
+                    return Err(format!("\"{k}\" and another name both read as \"{}\"", spell(&k)));
+                }
+            }
+            *m = out;
+        }
+        _ => {}
+    }
+    Ok(())
+}
+
+pub fn from_written(mut w: WrittenProblem) -> Result<Problem, Vec<String>> {
+    let mut objects = serde_json::json!([w.complexes.0, w.maps.0, w.goals]);
+    if objects.to_string().contains(ASCII_TENSOR) {
+        read_ascii_tensor(&mut objects).map_err(|e| vec![e])?;
+        let [c, m, g] = serde_json::from_value::<[serde_json::Value; 3]>(objects).expect("three parts");
+        let e = |e: serde_json::Error| vec![format!("{e}")];
+        w.complexes = UniqueMap(serde_json::from_value(c).map_err(e)?);
+        w.maps = UniqueMap(serde_json::from_value(m).map_err(e)?);
+        w.goals = serde_json::from_value(g).map_err(e)?;
+    }
     if w.format != PROBLEM_FORMAT || w.version != 1 {
         return Err(vec![format!(
             "format \"{}\" version {} is not \"{PROBLEM_FORMAT}\" version 1",
@@ -229,10 +265,10 @@ pub fn from_written(w: WrittenProblem) -> Result<Problem, Vec<String>> {
     let sections = [&w.type_d_structures.0, &w.type_a_modules.0, &w.type_d_morphisms.0];
     let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections)?;
     let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
-    let ring_name = tubecert_format::statement::ring_name(&w.ring.variables);
-    for c in &mut bordered_claims {
-        *c.statement_mut() =
-            tubecert_format::statement::render(c, &ring_name, w.ring.variables.first().map_or("", |v| v));
+    if let Ok(ring) = tubecert_format::RingInfo::new(&w.ring) {
+        for c in &mut bordered_claims {
+            *c.statement_mut() = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
+        }
     }
     Ok(Problem {
         format: w.format,

@@ -10,10 +10,11 @@ use crate::search::normal_form::{normal_form, Pivots};
 use crate::search::torsion::{torsion_order, TorsionOutcome};
 use std::time::{Duration, Instant};
 use tubecert_format::canonical::sha256_hex;
-use tubecert_format::statement::{render, ring_name, surface_reading};
+use tubecert_format::poly::parse_mono;
+use tubecert_format::statement::{render, surface_reading};
 use tubecert_format::{
     BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,
-    MapSpec, Mono, Provenance, Term, TorsionWitness, UniqueMap,
+    MapSpec, Mono, Provenance, Term, TorsionWitness, UniqueMap, CERTIFICATE_VERSION,
 };
 use tubecheck::algebra::SparseMap;
 use tubecheck::load::Context;
@@ -49,6 +50,20 @@ fn dual_terms(triples: &[HomTerm], from: &[String], to: &[String], vars: &[Strin
     t.iter().map(|&(x, m, w)| [from[x as usize].clone(), m.render(vars), to[w as usize].clone()]).collect()
 }
 
+/// The expression with each monomial in its written form (`U^2V` → `U^2*V`): a claim's
+/// statement prints its monomials as they are, and the checker requires this form.
+fn canonical_monomials(e: MapExpr, vars: &[String]) -> Result<MapExpr, String> {
+    let all = |es: Vec<MapExpr>| es.into_iter().map(|e| canonical_monomials(e, vars)).collect::<Result<Vec<_>, _>>();
+    Ok(match e {
+        MapExpr::Sum(es) => MapExpr::Sum(all(es)?),
+        MapExpr::Compose(es) => MapExpr::Compose(all(es)?),
+        MapExpr::Times(m, e) => {
+            MapExpr::Times(parse_mono(&m, vars)?.render(vars), Box::new(canonical_monomials(*e, vars)?))
+        }
+        named_or_id => named_or_id,
+    })
+}
+
 struct Builder<'a> {
     ctx: &'a Context,
     solver: Solver<'a>,
@@ -61,8 +76,7 @@ impl Builder<'_> {
     }
 
     fn add(&mut self, mut claim: Claim) -> String {
-        let vars = &self.ctx.ring.variables;
-        let text = render(&claim, &ring_name(vars), vars.first().map_or("", |v| v));
+        let text = render(&claim, &self.ctx.ring, CERTIFICATE_VERSION);
         *claim.statement_mut() = text.clone();
         self.claims.push(claim);
         text
@@ -75,6 +89,7 @@ impl Builder<'_> {
     /// Decides φ ≃ 0 and records the claim that holds; returns (holds, statement).
     fn decide_expr(&mut self, map: MapExpr) -> Result<(bool, String), String> {
         let phi = self.ctx.eval(&map)?;
+        let map = canonical_monomials(map, &self.ctx.ring.variables)?;
         Ok(match self.solver.decide(&phi)? {
             Verdict::Null(h) => {
                 let homotopy = self.homotopy_terms(phi.from, phi.to, h);
@@ -386,7 +401,7 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
         },
     };
     let start = Instant::now();
-    let results = tubecheck::verify::check_body(&body)
+    let results = tubecheck::verify::check_body(&body, CERTIFICATE_VERSION)
         .map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
     if let Some(bad) = results.iter().find(|r| r.outcome.is_err()) {
         return Err(format!(

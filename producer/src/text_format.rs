@@ -67,7 +67,9 @@ impl Line<'_> {
                 out.push((start + 1, self.text[i..].to_string())); // JSON to the end of the line
                 break;
             } else {
-                while i < b.len() && !b[i].is_ascii_whitespace() && b[i] != b'(' {
+                // A word ends at '(' unless that begins the ASCII spelling of ⊗ inside it.
+                let tensor = |i: usize| i > start && self.text[i..].starts_with(crate::problem::ASCII_TENSOR);
+                while i < b.len() && !b[i].is_ascii_whitespace() && (b[i] != b'(' || tensor(i)) {
                     i += 1;
                 }
             }

@@ -46,7 +46,8 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                 for claim in &p.bordered_claims {
                     if let Some(Err(
                         tubecheck::bordered::Failure::False(e) | tubecheck::bordered::Failure::Refused(e),
-                    )) = tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim)
+                    )) =
+                        tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim, tubecert_format::CERTIFICATE_VERSION)
                     {
                         errs.push(format!("{}: {e}", claim.statement()));
                     }

@@ -353,3 +353,28 @@ fn a_bad_shard_is_refused_with_exit_2() {
         assert!(!out.exists(), "nothing is written for a bad shard");
     }
 }
+
+#[test]
+fn bench_reduced_cases_and_density() {
+    for case in ["reduced-identity", "reduced-uv"] {
+        let (code, out, err) = tubecert(&["bench", "--case", case, "--torus", "3,4"]);
+        assert_eq!(code, 0, "{case}: {err}");
+        let row: Vec<&str> = out.lines().nth(1).unwrap().split('\t').collect();
+        assert_eq!(&row[..2], ["125", "125"], "C = T(3,4)^⊗3 has 5^3 generators");
+    }
+    let (code, _, err) = tubecert(&["bench", "--case", "reduced-uv", "--torus", "1,4"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("expected P,Q"), "{err}");
+    // A density asked for is the density built (within a few percent), on the same generators.
+    let per_generator = |density: &[&str]| {
+        let args = [&["bench", "--generators", "4000", "--no-header"], density].concat();
+        let (code, out, err) = tubecert(&args);
+        assert_eq!(code, 0, "{err}");
+        let row: Vec<f64> = out.split('\t').take(3).map(|x| x.trim().parse().unwrap()).collect();
+        row[2] / row[1]
+    };
+    let (default, dense) = (per_generator(&[]), per_generator(&["--density", "9.4"]));
+    assert!((3.0..6.0).contains(&default), "{default}");
+    assert!((9.0..10.5).contains(&dense), "{dense}");
+    assert_eq!(tubecert(&["bench", "--density", "0.5"]).0, 2);
+}

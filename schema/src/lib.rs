@@ -7,6 +7,7 @@
 //! - [`canonical`]: RFC 8785 canonical JSON and the body's SHA-256;
 //! - [`statement`]: the one wording of each claim;
 //! - [`limits`]: size limits on input;
+//! - [`names`]: the alphabet of names;
 //! - [`bordered`]: the torus algebra, type D structures, type A modules, type D morphisms.
 #![forbid(unsafe_code)]
 
@@ -14,6 +15,7 @@ pub mod bordered;
 pub mod canonical;
 pub mod limits;
 pub mod model;
+pub mod names;
 pub mod poly;
 pub mod ring;
 pub mod statement;

@@ -144,8 +144,10 @@ impl MapExpr {
         }
         let list = |x: &Value, what: &str| -> Result<Vec<MapExpr>, String> {
             let items = x.as_array().ok_or_else(|| format!("\"{what}\" takes an array of map expressions"))?;
-            if items.is_empty() {
-                return Err(format!("\"{what}\" of nothing"));
+            // One part would print like its own part (or a bracketed one): statements must
+            // read back as one expression.
+            if items.len() < 2 {
+                return Err(format!("\"{what}\" takes at least two map expressions"));
             }
             items.iter().map(|i| Self::from_value_at(i, depth + 1)).collect()
         };
@@ -405,7 +407,9 @@ pub struct Body {
 }
 
 pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
-/// The version written; version 1 (no `bordered` member) stays readable.
+/// The version written. Version 2 names τ's grading, brackets composites inside a composition
+/// and may hold a `bordered` section; version-1 certificates are still read, with version 1's
+/// wording (and without a `bordered` section).
 pub const CERTIFICATE_VERSION: u32 = 2;
 
 /// A certificate file: `{"format", "version", "sha256", "body"}`.

@@ -3,6 +3,7 @@
 
 use crate::limits::{MAX_GRADING_ABS, MAX_NAME_LEN};
 use crate::model::{Grading, Ring};
+use crate::names::{check_name, visible};
 use crate::poly::{Mono, MAX_VARIABLES};
 
 /// A validated ring.
@@ -31,13 +32,21 @@ impl RingInfo {
         }
         for (i, v) in ring.variables.iter().enumerate() {
             if v.is_empty() || v.len() > MAX_NAME_LEN || !v.chars().all(|c| c.is_ascii_alphabetic()) {
-                errs.push(format!("ring: variable name \"{v}\" must be ASCII letters only"));
+                let bad = v.chars().find(|c| !c.is_ascii_alphabetic()).map(|c| format!(" (found U+{:04X})", c as u32));
+                errs.push(format!(
+                    "ring: variable name \"{}\" must be 1 to {MAX_NAME_LEN} ASCII letters{}",
+                    visible(v),
+                    bad.unwrap_or_default()
+                ));
             }
             if ring.variables[..i].contains(v) {
                 errs.push(format!("ring: variable \"{v}\" declared twice"));
             }
         }
         for (i, g) in ring.gradings.iter().enumerate() {
+            if let Err(e) = check_name(g) {
+                errs.push(format!("ring: grading {e}"));
+            }
             if ring.gradings[..i].contains(g) {
                 errs.push(format!("ring: grading \"{g}\" declared twice"));
             }

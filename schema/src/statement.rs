@@ -2,16 +2,29 @@
 //! re-renders it from the claim's fields and refuses a claim whose statement differs, so the
 //! sentence a reader sees is the one that was verified.
 
-use crate::model::{Claim, Grading, MapExpr};
+use crate::model::{Claim, Grading, MapExpr, CERTIFICATE_VERSION};
+use crate::ring::RingInfo;
 
-/// Mathematical notation for a map expression, e.g. `U^2·(F + G)`.
+/// Mathematical notation for a map expression, e.g. `U^2·(F + G)`, as the current format
+/// version writes it: every statement reads back as exactly one expression.
 pub fn render_expr(e: &MapExpr) -> String {
+    expr_in(e, CERTIFICATE_VERSION)
+}
+
+/// Version 1 wrote a composite inside a composition without parentheses (`U·F∘G` for both
+/// U·(F∘G) and (U·F)∘G: the same map, two readings); version 2 brackets it.
+fn expr_in(e: &MapExpr, version: u32) -> String {
+    let inner = |e: &MapExpr| match e {
+        MapExpr::Compose(_) | MapExpr::Times(..) if version >= 2 => format!("({})", expr_in(e, version)),
+        _ => expr_in(e, version),
+    };
     match e {
         MapExpr::Named(n) => n.clone(),
         MapExpr::Id(c) => format!("id_{c}"),
-        MapExpr::Sum(es) => format!("({})", es.iter().map(render_expr).collect::<Vec<_>>().join(" + ")),
-        MapExpr::Compose(es) => es.iter().map(render_expr).collect::<Vec<_>>().join("∘"),
-        MapExpr::Times(m, e) => format!("{m}·{}", render_expr(e)),
+        MapExpr::Sum(es) => format!("({})", es.iter().map(|e| expr_in(e, version)).collect::<Vec<_>>().join(" + ")),
+        MapExpr::Compose(es) => es.iter().map(inner).collect::<Vec<_>>().join("∘"),
+        MapExpr::Times(m, e) if matches!(**e, MapExpr::Compose(_)) => format!("{m}·{}", inner(e)),
+        MapExpr::Times(m, e) => format!("{m}·{}", expr_in(e, version)),
     }
 }
 
@@ -33,16 +46,20 @@ pub fn render_homology(ring_name: &str, var: &str, free: &[Grading], torsion: &[
     }
 }
 
-/// The statement of a claim. `ring_name` is e.g. `F2[U]`; `variable` the ring's first variable
-/// (used by homology).
-pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
+/// The statement of a claim in a certificate of format `version` over `ring`. Every field that
+/// changes what is proved appears in it (`surfaces` only selects a reading printed beside it,
+/// derived from the variable and the order); version 1 left out τ's grading (see DEVELOPERS.md).
+pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
+    let ring_name = &ring_name(&ring.variables);
+    let first_variable = ring.variables.first().map_or("", |v| v.as_str());
+    let expr = |e: &MapExpr| expr_in(e, version);
     match claim {
         Claim::Complex { complex, .. } => {
             format!("{complex} is a chain complex over {ring_name} (∂∘∂ = 0, ∂ homogeneous)")
         }
         Claim::ChainMap { map, .. } => format!("{map} is a homogeneous chain map"),
-        Claim::NullHomotopic { map, .. } => format!("{} ≃ 0 (null-homotopic)", render_expr(map)),
-        Claim::NotNullHomotopic { map, .. } => format!("{} is not null-homotopic", render_expr(map)),
+        Claim::NullHomotopic { map, .. } => format!("{} ≃ 0 (null-homotopic)", expr(map)),
+        Claim::NotNullHomotopic { map, .. } => format!("{} is not null-homotopic", expr(map)),
         Claim::HomotopyEquivalence { maps: [f, g], .. } => {
             format!("{f} and {g} are mutually inverse homotopy equivalences")
         }
@@ -52,6 +69,11 @@ pub fn render(claim: &Claim, ring_name: &str, first_variable: &str) -> String {
         Claim::TorsionOrder { maps: [f, g], variable, order, .. } => format!("ord_{variable}({f} − {g}) = {order}"),
         Claim::TorsionOrderOfComplex { complex, variable, order, .. } => {
             format!("Ord_{variable}(H_*({complex})) = {order}")
+        }
+        // τ is read over F2[U] only, so the variable is the ring's one; the grading is named
+        // whenever the ring has another.
+        Claim::Tau { complex, tau, alexander, .. } if version >= 2 && ring.gradings.len() > 1 => {
+            format!("τ({complex}) = {tau} (Alexander grading {alexander})")
         }
         Claim::Tau { complex, tau, .. } => format!("τ({complex}) = {tau}"),
         Claim::TypeDStructure { structure, .. } => {

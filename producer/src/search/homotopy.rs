@@ -113,6 +113,55 @@ pub fn decide_in(
     })
 }
 
+/// How many cycle generators [`quick_dual`] tries, one at a time, before the whole Hom piece.
+const CYCLE_TRIES: usize = 4;
+
+/// A dual witness found without solving in the whole graded piece of Hom(C, D), when one of two
+/// sufficient conditions holds; `None` means "undecided here", never "null-homotopic".
+///
+/// - Reduced complexes (no term of ∂_C or ∂_D has coefficient 1, i.e. ∂ lies in the maximal
+///   ideal): every coefficient of ∂ψ + ψ∂ lies in that ideal too, so the single functional
+///   y = (x, 1, w) vanishes on them, and it is 1 on φ when φ(x) has the term 1·w.
+/// - A cycle generator x of C spans a subcomplex Z = R⟨x⟩, and if φ|_Z: Z → D is not
+///   null-homotopic neither is φ (restrict a homotopy). Hom(Z, D) is a graded piece of D, about
+///   |C| times smaller than the one of Hom(C, D); its witness y = x ⊗ c (c a cocycle of D with
+///   c(φ(x)) = 1) is already a functional on Hom(C, D).
+pub fn quick_dual(
+    ring: &RingInfo,
+    c: &Complex,
+    d: &Complex,
+    phi: &SparseMap,
+    degree: &[i64],
+) -> Result<Option<Vec<HomTerm>>, String> {
+    let reduced = |k: &Complex| k.d.rows.iter().flatten().all(|t| !t.1.is_one());
+    if reduced(c) && reduced(d) {
+        let constant =
+            phi.rows.iter().enumerate().find_map(|(x, r)| r.iter().find(|t| t.1.is_one()).map(|t| (x as u32, t.0)));
+        if let Some((x, w)) = constant {
+            return Ok(Some(vec![(x, Mono::ONE, w)]));
+        }
+    }
+    if c.names.len() < 2 {
+        return Ok(None); // the subcomplex would be C itself
+    }
+    let cycles = (0..c.names.len()).filter(|&x| c.d.rows[x].is_empty() && !phi.rows[x].is_empty());
+    for x in cycles.take(CYCLE_TRIES) {
+        let z = Complex {
+            name: c.name.clone(),
+            names: vec![c.names[x].clone()],
+            index: tubecheck::load::NameIndex::new([&c.names[x]].into_iter()),
+            gradings: tubecheck::load::Gradings::new(degree.len(), std::iter::once(&c.gradings[x])),
+            d: SparseMap::zero(1),
+            defects: Vec::new(),
+        };
+        let restricted = SparseMap { rows: vec![phi.rows[x].clone()] };
+        if let Verdict::NotNull(y) = decide_in(ring, &z, d, &restricted, degree)? {
+            return Ok(Some(y.into_iter().map(|(_, m, w)| (x as u32, m, w)).collect()));
+        }
+    }
+    Ok(None)
+}
+
 /// A map given by Hom-basis triples, as rows.
 pub fn to_map(triples: &[HomTerm], sources: usize) -> SparseMap {
     let mut m = SparseMap::zero(sources);
@@ -188,7 +237,10 @@ impl<'a> Solver<'a> {
     pub fn decide(&self, phi: &Evaluated) -> Result<Verdict, String> {
         let (rc, rd) = self.reduction_pair(phi.from, phi.to)?;
         let small = rd.pi.after(&phi.m.after(&rc.iota)?)?;
-        let verdict = decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)?;
+        let verdict = match quick_dual(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)? {
+            Some(y) => Verdict::NotNull(y),
+            None => decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)?,
+        };
         let start = Instant::now();
         let transported = match verdict {
             Verdict::Null(h_small) => {

@@ -1,0 +1,77 @@
+//! The name alphabet. Names of complexes, maps, generators and gradings are printed in
+//! statements and reports, so they may hold nothing a statement uses as syntax and nothing
+//! invisible: ASCII letters and digits, `_`, `.`, `'`, and `⊗` (which the tensor product puts
+//! in generator names). An allow-list, so that whitespace, control and format characters
+//! (U+200D and the like), and letters of other scripts that look like Latin ones, are all out.
+//! Variables are stricter still (ASCII letters, [`crate::ring`]); map names may not begin with
+//! `id_`, which is how statements write an identity map.
+
+use crate::limits::MAX_NAME_LEN;
+
+/// The alphabet in words, for messages and documents.
+pub const NAME_ALPHABET: &str = "ASCII letters and digits, _ . ' and ⊗";
+
+/// The one non-ASCII character of the alphabet: the tensor product's, as in `x⊗y`.
+pub const TENSOR: char = '⊗';
+
+pub fn is_name_char(c: char) -> bool {
+    c.is_ascii_alphanumeric() || matches!(c, '_' | '.' | '\'' | TENSOR)
+}
+
+/// The name with every character outside the alphabet shown as `<U+XXXX>`, so that a message
+/// about an invisible character shows where it is.
+pub fn visible(name: &str) -> String {
+    name.chars().map(|c| if is_name_char(c) { c.to_string() } else { format!("<U+{:04X}>", c as u32) }).collect()
+}
+
+/// Checks a name against the alphabet; the error names the first offending character.
+pub fn check_name(name: &str) -> Result<(), String> {
+    if name.bytes().all(|b| b.is_ascii_alphanumeric() || b == b'_') && (1..=MAX_NAME_LEN).contains(&name.len()) {
+        return Ok(()); // the common case, byte by byte
+    }
+    if name.is_empty() || name.len() > MAX_NAME_LEN {
+        return Err(format!("name \"{}\" must have 1 to {MAX_NAME_LEN} bytes", visible(name)));
+    }
+    match name.chars().find(|&c| !is_name_char(c)) {
+        Some(c) => Err(format!(
+            "name \"{}\" contains U+{:04X}{}, which is not allowed in names (allowed: {NAME_ALPHABET})",
+            visible(name),
+            c as u32,
+            match c {
+                _ if c.is_control() => ", a control character",
+                _ if c.is_whitespace() => ", whitespace",
+                _ if c.is_ascii_graphic() => "",
+                _ => " (shown as <U+…>)",
+            }
+        )),
+        None => Ok(()),
+    }
+}
+
+/// A map name: the alphabet, and not `id_…`, which statements use for identity maps.
+pub fn check_map_name(name: &str) -> Result<(), String> {
+    check_name(name)?;
+    if name.starts_with("id_") {
+        return Err(format!("map name \"{name}\" begins with \"id_\", which statements use for identity maps"));
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    #[test]
+    fn the_alphabet() {
+        for ok in ["K", "x0⊗z", "C'.x", "pi_C", "gr_U", "a.b"] {
+            assert!(check_name(ok).is_ok(), "{ok}");
+        }
+        for (bad, cp) in
+            [("U^3·F", "U+005E"), ("a\nb", "U+000A"), ("F\u{200d}", "U+200D"), ("a b", "U+0020"), ("Ϝ", "U+03DC")]
+        {
+            assert!(check_name(bad).unwrap_err().contains(cp), "{bad}");
+        }
+        assert!(check_name("").is_err());
+        assert!(check_map_name("id_K").is_err());
+        assert_eq!(visible("F\u{200d}G"), "F<U+200D>G");
+    }
+}
