@@ -1187,8 +1187,24 @@ pub mod cert {
         }
         let mut names: BTreeSet<String> =
             obj(member(body, "complexes", "body")?, "complexes")?.keys().cloned().collect();
-        let mut fresh =
-            |k: &String| if names.insert(k.clone()) { Ok(()) } else { Err(format!("the name {k} is used twice")) };
+        let mut fresh = |k: &String| {
+            if !crate::wording::name_ok(k) {
+                return Err(format!("the name {k:?} is outside the name alphabet"));
+            }
+            if names.insert(k.clone()) {
+                Ok(())
+            } else {
+                Err(format!("the name {k} is used twice"))
+            }
+        };
+        // Generator names of every bordered object are in the alphabet too.
+        for kind in ["full_complexes", "type_a_modules", "type_d_structures"] {
+            for (k, o) in obj(member(b, kind, what)?, what)? {
+                if let Some(g) = obj(member(o, "generators", k)?, k)?.keys().find(|g| !crate::wording::name_ok(g)) {
+                    return Err(format!("{k}: the generator name {g:?} is outside the name alphabet"));
+                }
+            }
+        }
         let mut out = Bordered {
             full: BTreeMap::new(),
             full_single: BTreeMap::new(),
@@ -1419,6 +1435,45 @@ pub mod cert {
 
     fn m_of(module: &FamilyModule, x: &str, w: &[Alg]) -> UElem {
         super::m(module, x, w)
+    }
+
+    /// The statement a bordered claim must carry (the wording the README's claims table and
+    /// the tool print), or None when a name is outside the name alphabet.
+    pub fn statement(c: &Value) -> Option<String> {
+        let f = |k: &str| -> Option<String> {
+            let v = c.get(k)?;
+            let s = v.as_str().map_or_else(|| v.to_string(), |s| s.to_string());
+            (v.is_number() || crate::wording::name_ok(&s)).then_some(s)
+        };
+        Some(match c.get("kind")?.as_str()? {
+            "type_d_structure" => {
+                format!("{} is a type D structure over A(T²) ((μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, idempotents match)", f("structure")?)
+            }
+            "type_a_module" => format!(
+                "{} is a strictly unital type A module over A(T²) with coefficients in F2[U] (A∞ relations on every input word of length ≤ {})",
+                f("module")?,
+                f("max_length")?
+            ),
+            "type_d_morphism" => {
+                let m = f("morphism")?;
+                format!("{m} is a type D morphism with ∂{m} = 0")
+            }
+            "box_tensor" => format!(
+                "{} = {} ⊠ {} (box tensor product, gradings added)",
+                f("complex")?,
+                f("module")?,
+                f("structure")?
+            ),
+            "box_tensor_map" => format!("{} = id_{} ⊠ {}", f("map")?, f("module")?, f("morphism")?),
+            "complement" => format!(
+                "{} = CFD of the complement of the knot with complex {}, framing {} (LOT Thm 11.26), τ = {}",
+                f("structure")?,
+                f("complex")?,
+                f("framing")?,
+                f("tau")?
+            ),
+            _ => return None,
+        })
     }
 
     pub const KINDS: [&str; 6] =

@@ -686,6 +686,8 @@ pub mod wording {
                     format!("τ({complex}) = {tau}")
                 }
             }
+            // The bordered kinds: their wording lives with their oracle.
+            c if version >= 2 => return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?),
             _ => return None,
         })
     }
