@@ -305,6 +305,11 @@ fn fields(c: &Claim) -> Claim {
         Claim::Tau { complex, alexander, tau, .. } => {
             Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() }
         }
+        // Bordered claims have no witness: every field but the statement is read.
+        mut bordered => {
+            *bordered.statement_mut() = st();
+            bordered
+        }
     }
 }
 
@@ -645,4 +650,17 @@ fn a_failure_message_cannot_print_a_verdict_of_its_own() {
     let (code, out) = run("tubecheck", &[], "w.cert.json", &serde_json::to_vec(&cert).unwrap());
     assert_eq!(code, 1, "{out}");
     assert!(out.contains("<U+000A>") && !out.lines().any(|l| l.trim_start().starts_with("✓ τ")), "{out}");
+}
+
+#[test]
+fn the_text_format_reads_the_ascii_tensor_and_claims_write_monomials_canonically() {
+    let text = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\n\
+        complex A\n  x (0, 0)\ncomplex B\n  y (0, 0)\ncomplex P\n  p (0, 0)\ncomplex T = tensor A B\n\
+        map f : P -> T degree (0, 0)\n  p -> x(x)y\nmap g : P -> T degree (0, 0)\n  p -> x⊗y\n\
+        goal homotopic f g times UU\n";
+    let p = tubecert::problem::parse_problem(text.as_bytes(), "t.problem.txt").unwrap();
+    assert_eq!(p.maps["f"].terms, p.maps["g"].terms, "x(x)y is read as x⊗y in the text format");
+    let ctx = tubecert::validate::validate(&p).unwrap();
+    let proved = tubecert::prove::prove(p, &ctx, text.as_bytes()).unwrap();
+    assert_eq!(proved.certificate.body.claims[0].statement(), "U^2·(f + g) ≃ 0 (null-homotopic)");
 }
