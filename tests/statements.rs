@@ -237,7 +237,43 @@ fn readings(s: &str, ring: &Ring) -> Vec<Claim> {
             });
         }
     }
-    for h in spell(s, &[Lit("Ord_"), Hole, Lit("(H_*("), Hole, Lit(")) = "), Hole]) {
+    // Over two variables, Ord is read on the quotient by the variable the claim does not name.
+    let two = ring.variables.len() == 2;
+    let other = |v: &str| ring.variables.iter().find(|w| *w != v).filter(|_| two).cloned();
+    let quotient = [
+        Lit("Ord_"),
+        Hole,
+        Lit("(H_*("),
+        Hole,
+        Lit("/("),
+        Hole,
+        Lit("))) = "),
+        Hole,
+        Lit(" (read on the "),
+        Hole,
+        Lit(" = 0 quotient)"),
+    ];
+    for h in spell(s, &quotient) {
+        let named = other(h[0]).is_some_and(|o| o == h[2] && o == h[4]);
+        if let (true, true, true, Some(order)) = (named, is_var(h[0]), name_ok(h[1]), uint(h[3])) {
+            let (complex, variable) = (h[1].into(), h[0].into());
+            out.push(Claim::TorsionOrderOfComplex { complex, variable, order, statement: st(), witness: basis() });
+        }
+    }
+    if two && ring.gradings.len() == 2 {
+        let (g, v) = (&ring.gradings, &ring.variables[1]);
+        let middle = format!(" = ({} − {})/2, read on ", g[0], g[1]);
+        let end = format!("/({v}), the {v} = 0 quotient)");
+        let pattern =
+            [Lit("τ("), Hole, Lit(") = "), Hole, Lit(" (Alexander grading "), Hole, Lit(&middle), Hole, Lit(&end)];
+        for h in spell(s, &pattern) {
+            if let (true, true, Some(tau)) = (name_ok(h[0]) && h[0] == h[3], name_ok(h[2]), int(h[1])) {
+                let (complex, alexander) = (h[0].into(), h[2].into());
+                out.push(Claim::Tau { complex, alexander, tau, statement: st(), witness: basis() });
+            }
+        }
+    }
+    for h in spell(s, &[Lit("Ord_"), Hole, Lit("(H_*("), Hole, Lit(")) = "), Hole]).into_iter().filter(|_| !two) {
         if let (true, true, Some(order)) = (is_var(h[0]), name_ok(h[1]), uint(h[2])) {
             let (complex, variable) = (h[1].into(), h[0].into());
             out.push(Claim::TorsionOrderOfComplex { complex, variable, order, statement: st(), witness: basis() });

@@ -435,3 +435,50 @@ impl Context {
         )
     }
 }
+
+impl Context {
+    /// Complex c with the variable `var` set to `value`: 0 gives the quotient C/(var), 1 the
+    /// localization C/(var − 1), over the ring in the other variable. Setting var to 1 keeps
+    /// only the gradings var does not change (the others stop being gradings). A context of its
+    /// own, holding just that complex, so every check on one complex applies to it unchanged.
+    pub fn specialized(&self, c: usize, var: &str, value: u32) -> Result<Context, String> {
+        let r = &self.ring;
+        let v = r.var_index(var).ok_or_else(|| format!("variable {var} is not declared"))?;
+        let keep: Vec<usize> = (0..r.gradings.len()).filter(|&i| value == 0 || r.var_degrees[v][i] == 0).collect();
+        let others: Vec<usize> = (0..r.num_vars()).filter(|&i| i != v).collect();
+        if keep.is_empty() || value > 1 {
+            return Err(format!("{var} = {value} leaves no grading"));
+        }
+        let pick = |g: &[i64]| keep.iter().map(|&i| g[i]).collect::<Grading>();
+        let ring = RingInfo {
+            variables: others.iter().map(|&i| r.variables[i].clone()).collect(),
+            gradings: keep.iter().map(|&i| r.gradings[i].clone()).collect(),
+            var_degrees: others.iter().map(|&i| pick(&r.var_degrees[i])).collect(),
+            differential_degree: pick(&r.differential_degree),
+        };
+        let relabel = |m: Mono| {
+            let mut out = Mono::ONE;
+            others.iter().enumerate().for_each(|(k, &i)| out.0[k] = m.0[i]);
+            out
+        };
+        let cx = &self.complexes[c];
+        let rows = cx.d.rows.iter().map(|row| {
+            let mut out: Vec<(u32, Mono)> =
+                row.iter().filter(|t| value == 1 || t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect();
+            crate::algebra::normalize(&mut out);
+            out
+        });
+        let gradings: Vec<Grading> = cx.gradings.iter().map(pick).collect();
+        let name = format!("{}/({var}{})", cx.name, if value == 1 { " − 1" } else { "" });
+        let complex = Complex {
+            name: name.clone(),
+            names: cx.names.clone(),
+            index: NameIndex::new(cx.names.iter()),
+            gradings: Gradings::new(keep.len(), gradings.iter().map(|g| g.as_slice())),
+            d: SparseMap { rows: rows.collect() },
+            defects: cx.defects.clone(),
+        };
+        let complex_index = BTreeMap::from([(name, 0)]);
+        Ok(Context { ring, complexes: vec![complex], complex_index, maps: vec![], map_index: BTreeMap::new() })
+    }
+}

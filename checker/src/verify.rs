@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr, surface_reading};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, Term, CERTIFICATE_VERSION};
+use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -184,6 +184,33 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     Ok(dec)
 }
 
+/// The Alexander grading τ is read in: over `F2[U]` the named grading, which U must lower by 1;
+/// over `F2[U,V]` (on the V = 0 quotient) A = (g_1 − g_2)/2, which U must lower by 1, V raise by
+/// 1 and ∂ preserve, named by `alexander` (not one of the ring's gradings). Anything else has
+/// no τ, and the error says why.
+pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> i64, String> {
+    let two = r.num_vars() == 2;
+    let a = if r.num_vars() == 1 { r.grading_index(alexander)? } else { 0 };
+    let alex = move |g: &[i64]| if two { (g[0] - g[1]).div_euclid(2) } else { g[a] };
+    let usual = match r.num_vars() {
+        1 => r.var_degrees[0][a] == -1,
+        2 => {
+            r.gradings.len() == 2
+                && !r.gradings.iter().any(|g| g == alexander)
+                && alex(&r.var_degrees[0]) == -1
+                && alex(&r.var_degrees[1]) == 1
+                && r.differential_degree[0] == r.differential_degree[1]
+        }
+        _ => false,
+    };
+    match (r.num_vars(), usual) {
+        (_, true) => Ok(alex),
+        (0, _) => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
+        (1, _) => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
+        _ => Err(format!("τ over F2[U,V] is read on the V = 0 quotient in A = (g_1 − g_2)/2, named \"{alexander}\": it needs two gradings, U lowering A by 1, V raising it by 1, ∂ preserving it, and a name that is not one of the ring's gradings")),
+    }
+}
+
 /// The names a claim holds are in the alphabet, and the monomials of its map expressions are
 /// written canonically, so that its statement prints its fields and nothing else (exit 2).
 pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
@@ -269,10 +296,15 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             facts.insert("torsion".into(), json!(dec.torsion));
         }
         Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
-            if vars.first() != Some(variable) {
+            let c = ctx.complex_named(complex)?;
+            // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
+            let other = vars.iter().find(|v| *v != variable).filter(|_| vars.len() == 2);
+            let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            if hctx.ring.variables.first() != Some(variable) {
                 return Err(format!("variable {variable} is not the ring's variable"));
             }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let dec = check_homology(hctx, hc, witness)?;
             let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
             if found != *order {
                 return Err(format!("the basis shows torsion order {found}, not {order}"));
@@ -280,21 +312,29 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             facts.insert("order".into(), json!(order));
         }
         Claim::Tau { complex, alexander, tau, witness, .. } => {
-            let a = ctx.ring.grading_index(alexander)?;
-            if ctx.ring.num_vars() != 1 || ctx.ring.var_degrees[0][a] != -1 {
-                return Err("τ is read in F2[U] with U lowering the Alexander grading by 1".into());
-            }
+            let c = ctx.complex_named(complex)?;
+            let alex = alexander_of(&ctx.ring, alexander)?;
+            let two = vars.len() == 2;
             // Version 1 did not name the grading: read it only where the words cannot mislead.
-            let choices = ctx.ring.var_degrees[0].iter().filter(|&&d| d == -1).count();
-            if version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+            let choices = ctx.ring.var_degrees.first().map_or(0, |d| d.iter().filter(|&&d| d == -1).count());
+            if !two && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
                 return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
             }
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
+            let quotient = if two { Some(ctx.specialized(c, &vars[1], 0)?) } else { None };
+            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+            let dec = check_homology(hctx, hc, witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
             };
-            if -g[a] != *tau {
-                return Err(format!("the free generator has Alexander grading {}, so τ = {}, not {tau}", g[a], -g[a]));
+            if two && (g[0] - g[1]) % 2 != 0 {
+                return Err("the free generator has gr_U − gr_V odd: no Alexander grading".into());
+            }
+            if -alex(g) != *tau {
+                return Err(format!(
+                    "the free generator has Alexander grading {}, so τ = {}, not {tau}",
+                    alex(g),
+                    -alex(g)
+                ));
             }
             facts.insert("tau".into(), json!(tau));
         }

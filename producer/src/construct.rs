@@ -215,6 +215,7 @@ pub fn resolve(
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, Value>,
     sections: [&BTreeMap<String, Value>; 3],
+    text: bool,
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
@@ -249,14 +250,24 @@ pub fn resolve(
         }
         if still.len() == before {
             for n in still {
-                let refs = referenced(&complexes[n]);
+                let refs = referenced(&complexes[n], &done_maps);
+                // A suggestion never names the complex being defined.
+                let others = complexes.keys().filter(|k| *k != n);
                 errs.push(match refs.iter().find(|r| !complexes.contains_key(**r)) {
                     Some(m) => format!(
                         "complex {n}: complex \"{m}\" is not declared{}",
-                        tubecheck::report_terms::suggest(m, complexes.keys())
+                        tubecheck::report_terms::suggest(m, others)
                     ),
                     None => {
-                        format!("complex {n}: waits for {} (which failed, or waits for it in turn)", refs.join(", "))
+                        let waiting: Vec<&str> = refs.into_iter().filter(|r| !done.contains_key(*r)).collect();
+                        match waiting.as_slice() {
+                            [] => format!("complex {n}: its pieces could not be built (see the errors above)"),
+                            w if w.contains(&n.as_str()) => format!("complex {n}: is built from itself"),
+                            w => format!(
+                                "complex {n}: is built from {} (which could not be built, or is built from {n} in turn)",
+                                w.join(", ")
+                            ),
+                        }
                     }
                 });
             }
@@ -273,7 +284,7 @@ pub fn resolve(
                 Err(e) => errs.push(format!("map {name}: {e}")),
             }
         } else if let Some(arg) = v.get("tensor_maps") {
-            match build_tensor_map(ring, arg, complexes, &done_maps) {
+            match build_tensor_map(ring, arg, complexes, &done_maps, text) {
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -293,9 +304,10 @@ pub fn resolve(
 }
 
 /// The complexes a construction is made from, by name.
-fn referenced(v: &Value) -> Vec<&str> {
+fn referenced<'a>(v: &'a Value, maps: &'a BTreeMap<String, MapSpec>) -> Vec<&'a str> {
     let Some((op, arg)) = v.as_object().and_then(|o| o.iter().next()) else { return Vec::new() };
     match (op.as_str(), arg) {
+        ("cone", Value::String(f)) => maps.get(f).map_or(vec![], |m| vec![m.from.as_str(), m.to.as_str()]),
         ("tensor" | "direct_sum", Value::Array(a)) => a.iter().filter_map(Value::as_str).collect(),
         ("dual", Value::String(c)) => vec![c.as_str()],
         ("shift", Value::Array(a)) => a.first().and_then(Value::as_str).into_iter().collect(),
@@ -452,6 +464,7 @@ fn build_tensor_map(
     arg: &Value,
     complexes: &BTreeMap<String, Value>,
     maps: &BTreeMap<String, MapSpec>,
+    text: bool,
 ) -> Result<MapSpec, String> {
     let pair: [String; 2] =
         serde_json::from_value(arg.clone()).map_err(|e| format!("tensor_maps takes [f, g]: {e}"))?;
@@ -464,7 +477,14 @@ fn build_tensor_map(
             .iter()
             .find(|(_, v)| v.get("tensor") == Some(&serde_json::json!([a, b])))
             .map(|(n, _)| n.clone())
-            .ok_or(format!("tensor_maps: declare a complex {{\"tensor\": [\"{a}\", \"{b}\"]}} first"))
+            .ok_or(match text {
+                true => format!(
+                    "tensor_maps: declare the tensor product of {a} and {b} first: complex NAME = tensor {a} {b}"
+                ),
+                false => format!(
+                    "tensor_maps: declare the tensor product of {a} and {b} first: {{\"tensor\": [\"{a}\", \"{b}\"]}}"
+                ),
+            })
     };
     tensor_maps(f, g, &find(&f.from, &g.from)?, &find(&f.to, &g.to)?, &ring.variables)
 }

@@ -157,6 +157,27 @@ pub fn instantiate(template: &Value, name: &str, value: i64) -> Result<Value, St
     })
 }
 
+/// Substitutes the parameter in a text template: each `{expr}` becomes its value.
+pub fn instantiate_text(template: &str, name: &str, value: i64) -> Result<String, String> {
+    let mut out = String::new();
+    for (no, full) in template.lines().enumerate() {
+        // Comments are copied as they are.
+        let (line, comment) = full.split_at(full.find('#').unwrap_or(full.len()));
+        let mut rest = line;
+        while let Some(start) = rest.find('{') {
+            let end = rest[start..].find('}').ok_or_else(|| format!("line {}: '{{' without '}}'", no + 1))? + start;
+            let v = eval(&rest[start + 1..end], name, value).map_err(|e| format!("line {}: {e}", no + 1))?;
+            out.push_str(&rest[..start]);
+            out.push_str(&v.to_string());
+            rest = &rest[end + 1..];
+        }
+        out.push_str(rest);
+        out.push_str(comment);
+        out.push('\n');
+    }
+    Ok(out)
+}
+
 /// Proves every member of a family; writes `STEM-NAMEv.problem.json` (the explicit instance)
 /// and its certificate into `out`; returns the table as Markdown lines and whether every goal
 /// held as stated. With `shard = Some((i, n))` only the members at positions i, i + n, … (1-based,
@@ -173,10 +194,19 @@ pub fn run(
     let file = template_path.display().to_string();
     let bytes = tubecert_format::limits::read_file(template_path).map_err(|e| vec![format!("{file}: {e}")])?;
     let text = String::from_utf8_lossy(&bytes);
-    crate::problem::refuse_repeated_keys(&text).map_err(|e| vec![format!("{file}:{e}")])?;
-    let template: Value = serde_json::from_str(&text).map_err(|e| vec![format!("{file}: {e}")])?;
+    let json = crate::problem::is_json(&text);
+    let template: Value = if json {
+        crate::problem::refuse_repeated_keys(&text).map_err(|e| vec![format!("{file}:{e}")])?;
+        serde_json::from_str(&text).map_err(|e| vec![format!("{file}: {e}")])?
+    } else {
+        Value::Null
+    };
     let base = template_path.file_name().map(|n| n.to_string_lossy().to_string()).unwrap_or_default();
-    let stem = base.strip_suffix(".template.json").or(base.strip_suffix(".json")).unwrap_or(&base).to_string();
+    let stem = [".template.json", ".template.txt", ".json", ".txt"]
+        .iter()
+        .find_map(|s| base.strip_suffix(s))
+        .unwrap_or(&base)
+        .to_string();
     std::fs::create_dir_all(out).map_err(|e| vec![format!("{}: {e}", out.display())])?;
     let mut rows = Vec::new();
     let mut all = true;
@@ -185,9 +215,16 @@ pub fn run(
             continue;
         }
         let at = |e: String| format!("{file} with {name} = {v}: {e}");
-        let written = instantiate(&template, &name, v).map_err(|e| vec![at(e)])?;
-        let written = serde_json::from_value(written).map_err(|e| vec![at(e.to_string())])?;
-        let problem = crate::problem::from_written(written).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
+        let problem = if json {
+            let written = instantiate(&template, &name, v).map_err(|e| vec![at(e)])?;
+            let written = serde_json::from_value(written).map_err(|e| vec![at(e.to_string())])?;
+            crate::problem::from_written(written).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?
+        } else {
+            // A text template: substitute in the source, then read it as any text problem, so
+            // messages keep their line numbers.
+            let source = instantiate_text(&text, &name, v).map_err(|e| vec![at(e)])?;
+            crate::problem::parse_problem(source.as_bytes(), &format!("{file} with {name} = {v}"))?
+        };
         let instance = crate::demo::problem_bytes(&problem);
         let ctx = crate::validate::validate(&problem).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
         let proved = crate::prove::prove_with(problem, &ctx, &instance, options).map_err(|e| vec![at(e)])?;

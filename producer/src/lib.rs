@@ -32,3 +32,15 @@ pub fn load_problem(path: &Path) -> Result<(problem::Problem, tubecheck::load::C
     })?;
     Ok((p, ctx, bytes))
 }
+
+/// `check-input`: everything [`load_problem`] checks and what `prove` would refuse before
+/// searching ([`prove::preconditions`]), every error at once.
+pub fn check_input(path: &Path) -> Result<(problem::Problem, tubecheck::load::Context), Vec<String>> {
+    let (p, ctx, bytes) = load_problem(path)?;
+    let errs = prove::preconditions(&p, &ctx);
+    if errs.is_empty() {
+        return Ok((p, ctx));
+    }
+    let lines = text_format::SourceLines::of(&bytes);
+    Err(errs.iter().map(|e| lines.locate(&path.display().to_string(), e)).collect())
+}

@@ -200,8 +200,8 @@ fn main() -> ExitCode {
     let options = tubecert::prove::Options { threads: cli.threads.into(), ..Default::default() };
     tubecert::progress::enable(!cli.quiet && std::io::IsTerminal::is_terminal(&std::io::stderr()));
     match cli.command {
-        Command::CheckInput { problem } => match tubecert::load_problem(&problem) {
-            Ok((p, ctx, _)) => {
+        Command::CheckInput { problem } => match tubecert::check_input(&problem) {
+            Ok((p, ctx)) => {
                 say!(
                     "{}: valid ({} complexes, {} maps, {} goals; ring {})",
                     problem.display(),
@@ -292,7 +292,7 @@ fn main() -> ExitCode {
                 || (to.is_none() && output.as_ref().is_some_and(|o| o.extension().is_some_and(|e| e == "json")));
             let built = tubecert::text_format::from_command_line(&ring, &complexes, &goals)
                 .and_then(|v| serde_json::from_value(v).map_err(|e| vec![e.to_string()]))
-                .and_then(tubecert::problem::from_written)
+                .and_then(|w| tubecert::problem::from_written(tubecert::problem::WrittenProblem { text: true, ..w }))
                 .and_then(|p| match json {
                     true => Ok(String::from_utf8(tubecert::demo::problem_bytes(&p)).expect("JSON is UTF-8")),
                     false => tubecert::text_format::render(&serde_json::to_value(&p).expect("problems serialize"))

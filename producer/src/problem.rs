@@ -110,6 +110,9 @@ pub struct WrittenProblem {
     pub type_a_modules: UniqueMap<serde_json::Value>,
     #[serde(default)]
     pub type_d_morphisms: UniqueMap<serde_json::Value>,
+    /// Written in the text format: messages then speak its notation.
+    #[serde(skip)]
+    pub text: bool,
 }
 
 /// Reads a problem file, JSON or the text format ([`crate::text_format`]), and resolves its
@@ -117,7 +120,8 @@ pub struct WrittenProblem {
 pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     let prefix = |es: Vec<String>| es.into_iter().map(|e| format!("{name}:{e}")).collect::<Vec<_>>();
     let text = std::str::from_utf8(bytes).map_err(|e| prefix(vec![format!(" not UTF-8 text: {e}")]))?;
-    let value = if is_json(text) {
+    let json = is_json(text);
+    let value = if json {
         // The common large case, a problem written out in full, is read typed in one pass,
         // with the repeated-key walk beside it on the other core. Anything else (constructions,
         // errors) goes on through the written form, which resolves constructions and gives the
@@ -134,8 +138,9 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     } else {
         crate::text_format::parse(text).map_err(prefix)?
     };
-    let w: WrittenProblem =
+    let mut w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
+    w.text = !json;
     from_written(w).map_err(|es| {
         let lines = crate::text_format::SourceLines::of(bytes);
         es.iter().map(|e| lines.locate(name, e)).collect()
@@ -263,7 +268,7 @@ pub fn from_written(mut w: WrittenProblem) -> Result<Problem, Vec<String>> {
         )]);
     }
     let sections = [&w.type_d_structures.0, &w.type_a_modules.0, &w.type_d_morphisms.0];
-    let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections)?;
+    let (complexes, maps, built) = crate::construct::resolve(&w.ring, &w.complexes, &w.maps, sections, w.text)?;
     let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
     if let Ok(ring) = tubecert_format::RingInfo::new(&w.ring) {
         for c in &mut bordered_claims {

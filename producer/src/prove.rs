@@ -50,6 +50,68 @@ fn dual_terms(triples: &[HomTerm], from: &[String], to: &[String], vars: &[Strin
     t.iter().map(|&(x, m, w)| [from[x as usize].clone(), m.render(vars), to[w as usize].clone()]).collect()
 }
 
+/// A normal-form basis witness and the decomposition it shows.
+pub fn homology_witness(ctx: &Context, c: usize) -> Result<(BasisWitness, Decomposition), String> {
+    if ctx.ring.num_vars() > 1 {
+        return Err("homology is computed over F2 or F2[U]; quotient by a variable first".into());
+    }
+    let cx = &ctx.complexes[c];
+    let nf = normal_form(cx, Pivots::Minimal)?;
+    let vars = &ctx.ring.variables;
+    let basis = nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
+    let inverse =
+        nf.inverse_rows.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (g, m, t as u32))).collect();
+    let witness = BasisWitness {
+        generators: UniqueMap(cx.names.iter().cloned().zip(cx.gradings.iter().map(|g| g.to_vec())).collect()),
+        basis: terms_of(basis, &cx.names, &cx.names, vars),
+        inverse: terms_of(inverse, &cx.names, &cx.names, vars),
+    };
+    let mut free: Vec<Vec<i64>> = nf.survivors.iter().map(|&t| cx.gradings[t as usize].to_vec()).collect();
+    let mut torsion: Vec<(u32, Vec<i64>)> = nf
+        .pairs
+        .iter()
+        .filter(|p| !p.2.is_one())
+        .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].to_vec()))
+        .collect();
+    free.sort();
+    torsion.sort();
+    Ok((witness, Decomposition { free, torsion }))
+}
+
+/// The basis witness and τ of complex c: over `F2[U,V]` read on the V = 0 quotient with
+/// A = (gr_U − gr_V)/2, as the checker reads it. Errors say why τ is not defined.
+pub fn tau_witness(ctx: &Context, c: usize, alexander: &str) -> Result<(BasisWitness, i64), String> {
+    let name = &ctx.complexes[c].name;
+    let two = ctx.ring.num_vars() == 2;
+    let quotient = if two { Some(ctx.specialized(c, &ctx.ring.variables[1], 0)?) } else { None };
+    let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+    let alex = tubecheck::verify::alexander_of(&ctx.ring, alexander)?;
+    let (witness, Decomposition { free, .. }) = homology_witness(hctx, hc)?;
+    let [gen] = free.as_slice() else {
+        return Err(format!(
+            "τ({name}) needs homology{} of free rank one (as for a knot in S^3); it has free rank {}",
+            if two { " of the V = 0 quotient" } else { "" },
+            free.len()
+        ));
+    };
+    if two && (gen[0] - gen[1]) % 2 != 0 {
+        return Err(format!("τ({name}): the free generator has gr_U − gr_V odd, so no Alexander grading"));
+    }
+    Ok((witness, -alex(gen)))
+}
+
+/// What `prove` would refuse beyond validation, found without the witness search: τ needs
+/// homology of free rank one. `check-input` runs this so that it accepts exactly what `prove`
+/// decides.
+pub fn preconditions(problem: &Problem, ctx: &Context) -> Vec<String> {
+    let tau = |c: &String, a: &String| ctx.complex_named(c).and_then(|c| tau_witness(ctx, c, a)).err();
+    let found = problem.goals.iter().enumerate().filter_map(|(i, g)| match g {
+        Goal::Tau { complex, alexander } => tau(complex, alexander).map(|e| format!("goal {}: {e}", i + 1)),
+        _ => None,
+    });
+    found.collect()
+}
+
 /// The expression with each monomial in its written form (`U^2V` → `U^2*V`): a claim's
 /// statement prints its monomials as they are, and the checker requires this form.
 fn canonical_monomials(e: MapExpr, vars: &[String]) -> Result<MapExpr, String> {
@@ -112,39 +174,6 @@ impl Builder<'_> {
         })
     }
 
-    /// A normal-form basis witness and the decomposition it shows.
-    fn homology_witness(&self, c: usize) -> Result<(BasisWitness, Decomposition), String> {
-        if self.ctx.ring.num_vars() > 1 {
-            return Err("homology is computed over F2 or F2[U]; quotient by a variable first".into());
-        }
-        let cx = &self.ctx.complexes[c];
-        let nf = normal_form(cx, Pivots::Minimal)?;
-        let vars = &self.ctx.ring.variables;
-        let basis =
-            nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
-        let inverse = nf
-            .inverse_rows
-            .iter()
-            .enumerate()
-            .flat_map(|(t, v)| v.iter().map(move |&(g, m)| (g, m, t as u32)))
-            .collect();
-        let witness = BasisWitness {
-            generators: UniqueMap(cx.names.iter().cloned().zip(cx.gradings.iter().map(|g| g.to_vec())).collect()),
-            basis: terms_of(basis, &cx.names, &cx.names, vars),
-            inverse: terms_of(inverse, &cx.names, &cx.names, vars),
-        };
-        let mut free: Vec<Vec<i64>> = nf.survivors.iter().map(|&t| cx.gradings[t as usize].to_vec()).collect();
-        let mut torsion: Vec<(u32, Vec<i64>)> = nf
-            .pairs
-            .iter()
-            .filter(|p| !p.2.is_one())
-            .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].to_vec()))
-            .collect();
-        free.sort();
-        torsion.sort();
-        Ok((witness, Decomposition { free, torsion }))
-    }
-
     /// Proves one goal; returns (as stated, line to print).
     fn goal(&mut self, goal: &Goal) -> Result<(bool, String), String> {
         let ctx = self.ctx;
@@ -196,7 +225,7 @@ impl Builder<'_> {
             Goal::NotNullHomotopic { map } => self.decide_expr(map.clone()).map(|(held, l)| (!held, l)),
             Goal::Homology { complex } => {
                 let c = ctx.complex_named(complex)?;
-                let (witness, Decomposition { free, torsion }) = self.homology_witness(c)?;
+                let (witness, Decomposition { free, torsion }) = homology_witness(ctx, c)?;
                 Ok((
                     true,
                     self.add(Claim::Homology {
@@ -210,7 +239,11 @@ impl Builder<'_> {
             }
             Goal::TorsionOrderOfComplex { complex, variable } => {
                 let c = ctx.complex_named(complex)?;
-                let (witness, Decomposition { torsion, .. }) = self.homology_witness(c)?;
+                // Over F2[U,V]: the quotient by the other variable, as the checker reads it.
+                let other = ctx.ring.variables.iter().find(|v| *v != variable).filter(|_| ctx.ring.num_vars() == 2);
+                let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
+                let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
+                let (witness, Decomposition { torsion, .. }) = homology_witness(hctx, hc)?;
                 let order = torsion.iter().map(|t| t.0).max().unwrap_or(0);
                 let claim = Claim::TorsionOrderOfComplex {
                     complex: complex.clone(),
@@ -223,18 +256,11 @@ impl Builder<'_> {
             }
             Goal::Tau { complex, alexander } => {
                 let c = ctx.complex_named(complex)?;
-                let a = ctx.ring.grading_index(alexander)?;
-                let (witness, Decomposition { free, .. }) = self.homology_witness(c)?;
-                let [gen] = free.as_slice() else {
-                    return Err(format!(
-                        "τ({complex}) needs homology of free rank one; it has free rank {}",
-                        free.len()
-                    ));
-                };
+                let (witness, tau) = tau_witness(ctx, c, alexander)?;
                 let claim = Claim::Tau {
                     complex: complex.clone(),
                     alexander: alexander.clone(),
-                    tau: -gen[a],
+                    tau,
                     statement: String::new(),
                     witness,
                 };

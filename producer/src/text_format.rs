@@ -170,6 +170,7 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
     let (mut variables, mut gradings) = (Vec::<String>::new(), Vec::<String>::new());
     let (mut var_degrees, mut complexes, mut maps, mut goals) = (Map::new(), Map::new(), Map::new(), Vec::new());
     let mut diff_degree = Value::Null;
+    let mut header = Header::default();
     // The block that indented lines belong to: ("complex"|"map", name).
     let mut block: Option<(&str, String)> = None;
     for (i, raw) in src.lines().enumerate() {
@@ -231,6 +232,7 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                 return Ok(());
             }
             block = None;
+            header.check(&line, &toks, &variables, gradings.len())?;
             match word(0) {
                 "ring" => {
                     let r = word(1);
@@ -297,6 +299,10 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
             errs.push(e);
         }
     }
+    if header.body.is_none() {
+        header.complete(src.lines().count() + 1, "the end of the file", &variables, gradings.len());
+    }
+    errs.extend(header.errs);
     if !errs.is_empty() {
         return Err(errs);
     }
@@ -306,6 +312,93 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
         "complexes": complexes, "maps": maps, "goals": goals
     });
     Ok((problem, lines))
+}
+
+/// Where the ring's declarations were seen, so that a missing, repeated, misplaced or
+/// mismatched one is reported in the text format's own words at its line.
+#[derive(Default)]
+struct Header {
+    /// Declaration ("ring", "gradings", "degree d", "degree U") → (its line, entries).
+    seen: std::collections::BTreeMap<String, (usize, usize)>,
+    /// The first complex, map or goal: (line, what it declares).
+    body: Option<(usize, String)>,
+    /// Errors found when the body starts (or at the end of the file).
+    errs: Vec<String>,
+}
+
+impl Header {
+    fn check(
+        &mut self,
+        line: &Line,
+        toks: &[(usize, String)],
+        variables: &[String],
+        gradings: usize,
+    ) -> Result<(), String> {
+        let word = |k: usize| toks.get(k).map(|t| t.1.as_str()).unwrap_or("");
+        let key = match word(0) {
+            "ring" | "gradings" => word(0).to_string(),
+            "degree" => format!("degree {}", word(1)),
+            _ => {
+                if self.body.is_none() {
+                    self.body = Some((line.no, format!("{} {}", word(0), word(1)).trim_end().to_string()));
+                    self.complete(line.no, &format!("\"{} {}\"", word(0), word(1)), variables, gradings);
+                }
+                return Ok(());
+            }
+        };
+        let at = |msg: String| format!("{}:1: {msg}", line.no);
+        if let Some((first, _)) = self.seen.get(&key) {
+            return Err(at(format!("\"{key}\" is declared twice (first at line {first})")));
+        }
+        if let Some((l, what)) = &self.body {
+            return Err(at(format!(
+                "\"{key}\" must come before the complexes, maps and goals (line {l} declares {what}); move it to the top"
+            )));
+        }
+        if key == "gradings" && toks.len() < 2 {
+            return Err(at("\"gradings\" needs at least one name, e.g. \"gradings maslov alexander\"".into()));
+        }
+        let entries = if key.starts_with("degree") { toks.get(2).map_or(0, |t| t.1.split(',').count()) } else { 0 };
+        self.seen.insert(key, (line.no, entries));
+        Ok(())
+    }
+
+    /// Every ring declaration present and consistent, checked when `what` at line `no` starts
+    /// the complexes, maps and goals.
+    fn complete(&mut self, no: usize, what: &str, variables: &[String], gradings: usize) {
+        let mut missing = Vec::new();
+        if !self.seen.contains_key("ring") {
+            missing.push("\"ring F2|F2[U]|F2[U,V]\"".to_string());
+        }
+        if !self.seen.contains_key("gradings") {
+            missing.push("\"gradings NAMES…\" (e.g. maslov alexander)".into());
+        }
+        for v in variables.iter().filter(|v| !self.seen.contains_key(&format!("degree {v}"))) {
+            missing.push(format!("\"degree {v} (…)\" (the degree of {v}, one entry per grading)"));
+        }
+        if !self.seen.contains_key("degree d") {
+            missing.push("\"degree d (…)\" (the degree of the differential)".into());
+        }
+        for (key, &(l, entries)) in self.seen.iter().filter(|(k, _)| k.starts_with("degree ")) {
+            let var = &key["degree ".len()..];
+            if var != "d" && self.seen.contains_key("ring") && !variables.iter().any(|v| v == var) {
+                let has = if variables.is_empty() { "F2 has none".to_string() } else { variables.join(", ") };
+                self.errs.push(format!(
+                    "{l}:1: \"{key}\": {var} is not a variable of the ring ({has}); \"degree d\" is the differential's"
+                ));
+            } else if self.seen.contains_key("gradings") && entries != gradings {
+                let g = self.seen["gradings"].0;
+                self.errs.push(format!(
+                    "{l}:1: \"{key}\" has {entries} entries; line {g} declares {gradings} grading{} (one entry each)",
+                    if gradings == 1 { "" } else { "s" }
+                ));
+            }
+        }
+        if !missing.is_empty() {
+            self.errs
+                .push(format!("{no}:1: the ring is not fully declared before {what}: missing {}", missing.join(", ")));
+        }
+    }
 }
 
 fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {

@@ -77,15 +77,19 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                 errs.push(format!("{at}: {msg}"));
             }
         };
+        let ring = &ctx.ring;
         match goal {
             Goal::TorsionOrder { maps, variable: v, .. } => {
                 maps.iter().for_each(|m| map(m, &mut errs));
                 variable(v, &mut errs);
+                if maps.iter().all(|m| ctx.map_index.contains_key(m)) {
+                    expr(&Goal::pair_expr(maps, &None), &mut errs);
+                }
             }
             Goal::Homotopic { maps, times } | Goal::Distinct { maps, times } => {
                 maps.iter().for_each(|m| map(m, &mut errs));
                 if let Some(t) = times {
-                    if let Err(e) = parse_mono(t, &ctx.ring.variables) {
+                    if let Err(e) = parse_mono(t, &ring.variables) {
                         errs.push(format!("{at}: times: {e}"));
                     }
                 }
@@ -94,7 +98,20 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                 }
             }
             Goal::NullHomotopic { map: e } | Goal::NotNullHomotopic { map: e } => expr(e, &mut errs),
-            Goal::Homology { complex: c } | Goal::Tau { complex: c, .. } => complex(c, &mut errs),
+            Goal::Homology { complex: c } => {
+                complex(c, &mut errs);
+                if ring.num_vars() > 1 {
+                    errs.push(format!(
+                        "{at}: homology {c}: over F2[U,V], which is not a principal ideal domain, H_* has no decomposition into towers and torsion; quotient first (a problem over F2[U] with complex Q = quotient V of …), or ask for tau / torsion_order_of_complex, which read the V = 0 quotient themselves"
+                    ));
+                }
+            }
+            Goal::Tau { complex: c, alexander } => {
+                complex(c, &mut errs);
+                if let Err(e) = tubecheck::verify::alexander_of(ring, alexander) {
+                    errs.push(format!("{at}: tau {c}: {e}"));
+                }
+            }
             Goal::TorsionOrderOfComplex { complex: c, variable: v } => {
                 complex(c, &mut errs);
                 variable(v, &mut errs);
@@ -102,6 +119,17 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
             Goal::Equivalent { complexes, maps } => {
                 complexes.iter().for_each(|c| complex(c, &mut errs));
                 maps.iter().for_each(|m| map(m, &mut errs));
+                let ends = |m: &String| ctx.map_index.get(m).map(|&i| (ctx.maps[i].from, ctx.maps[i].to));
+                let ids = (ctx.complex_index.get(&complexes[0]), ctx.complex_index.get(&complexes[1]));
+                if let (Some(f), Some(g), (Some(&c), Some(&d))) = (ends(&maps[0]), ends(&maps[1]), ids) {
+                    if (f, g) != ((c, d), (d, c)) {
+                        let [cn, dn] = complexes;
+                        errs.push(format!(
+                            "{at}: equivalent: {} must map {cn} → {dn} and {} map {dn} → {cn}",
+                            maps[0], maps[1]
+                        ));
+                    }
+                }
             }
         }
     }

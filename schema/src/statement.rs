@@ -68,10 +68,20 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
         }
         Claim::TorsionOrder { maps: [f, g], variable, order, .. } => format!("ord_{variable}({f} − {g}) = {order}"),
         Claim::TorsionOrderOfComplex { complex, variable, order, .. } => {
-            format!("Ord_{variable}(H_*({complex})) = {order}")
+            match ring.variables.iter().find(|v| *v != variable).filter(|_| ring.variables.len() == 2) {
+                Some(o) => format!("Ord_{variable}(H_*({complex}/({o}))) = {order} (read on the {o} = 0 quotient)"),
+                None => format!("Ord_{variable}(H_*({complex})) = {order}"),
+            }
         }
-        // τ is read over F2[U] only, so the variable is the ring's one; the grading is named
-        // whenever the ring has another.
+        // Over F2[U,V] τ is read on the V = 0 quotient, in the grading A = (g_1 − g_2)/2, which
+        // the claim's `alexander` names (checked by `verify::alexander_of`).
+        Claim::Tau { complex, tau, alexander, .. } if ring.variables.len() == 2 && ring.gradings.len() == 2 => {
+            let (g, v) = (&ring.gradings, &ring.variables[1]);
+            format!(
+                "τ({complex}) = {tau} (Alexander grading {alexander} = ({} − {})/2, read on {complex}/({v}), the {v} = 0 quotient)",
+                g[0], g[1]
+            )
+        }
         Claim::Tau { complex, tau, alexander, .. } if version >= 2 && ring.gradings.len() > 1 => {
             format!("τ({complex}) = {tau} (Alexander grading {alexander})")
         }
