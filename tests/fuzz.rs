@@ -26,10 +26,17 @@ fn stored(suffix: &str) -> Vec<Vec<u8>> {
 const HOSTILE_NAMES: [&str; 6] = ["U^3·F", "F\n✓ τ(K) = 9", "F\u{200d}", "\u{2060}K", "a\u{7}", " "];
 
 /// Values that have broken parsers before: huge and negative numbers, floats, deep nesting,
-/// odd strings, wrong types, hostile names.
+/// odd strings, wrong types, hostile names, integers just past the format's bounds (gradings
+/// ±2^31, exponents 2^20) and exponents that wrap 64 bits inside a product.
 fn nasty(k: u64) -> Value {
-    match k % 14 {
-        12 | 13 => json!(HOSTILE_NAMES[(k / 14 % 6) as usize]),
+    match k % 20 {
+        12 | 13 => json!(HOSTILE_NAMES[(k / 20 % 6) as usize]),
+        14 => json!((1i64 << 31) + 1),
+        15 => json!(-(1i64 << 31) - 1),
+        16 => json!(WRAPS_TO_ONE),
+        17 => json!("U^1048577"),
+        18 => json!("U*U^1048576"),
+        19 => json!(i64::MIN + 1),
         0 => json!(u64::MAX),
         1 => json!(i64::MIN),
         2 => json!(1.5e300),
@@ -48,6 +55,79 @@ fn nasty(k: u64) -> Value {
         9 => json!(["a", "U^2 + U^2", "b"]),
         10 => json!({"times": ["U", {"compose": []}]}),
         _ => json!("x".repeat(5000)),
+    }
+}
+
+/// U^3·U^(2^64−3): the monomial 1 to a reader whose exponent sum wraps in 64 bits.
+const WRAPS_TO_ONE: &str = "U^3*U^18446744073709551613";
+
+/// The same coefficient to a wrapping reader, absurd to an honest one.
+fn wrapped(coef: &str) -> String {
+    if coef.trim() == "1" {
+        WRAPS_TO_ONE.to_string()
+    } else {
+        format!("{WRAPS_TO_ONE}*{coef}")
+    }
+}
+
+/// The number of terms `[from, coefficient, to]` in a document.
+fn terms(v: &Value) -> usize {
+    match v {
+        Value::Array(items) if items.len() == 3 && items.iter().all(Value::is_string) => 1,
+        Value::Array(items) => items.iter().map(terms).sum(),
+        Value::Object(m) => m.values().map(terms).sum(),
+        _ => 0,
+    }
+}
+
+/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice.
+fn with_repeated_key(v: &Value, n: &mut i64, out: &mut String) {
+    match v {
+        Value::Object(m) => {
+            let here = *n == 0;
+            *n -= 1;
+            out.push('{');
+            for (i, (k, x)) in m.iter().enumerate() {
+                let key = serde_json::to_string(k).unwrap();
+                if i > 0 {
+                    out.push(',');
+                }
+                let mut inner = String::new();
+                with_repeated_key(x, n, &mut inner);
+                out.push_str(&format!("{key}:{inner}"));
+                if here && i == 0 {
+                    out.push_str(&format!(",{key}:{inner}"));
+                }
+            }
+            out.push('}');
+        }
+        Value::Array(items) => {
+            out.push('[');
+            for (i, x) in items.iter().enumerate() {
+                if i > 0 {
+                    out.push(',');
+                }
+                with_repeated_key(x, n, out);
+            }
+            out.push(']');
+        }
+        _ => out.push_str(&v.to_string()),
+    }
+}
+
+fn objects(v: &Value) -> u64 {
+    match v {
+        Value::Object(m) => 1 + m.values().map(objects).sum::<u64>(),
+        Value::Array(a) => a.iter().map(objects).sum(),
+        _ => 0,
+    }
+}
+
+fn nodes(v: &Value) -> u64 {
+    1 + match v {
+        Value::Object(m) => m.values().map(nodes).sum::<u64>(),
+        Value::Array(a) => a.iter().map(nodes).sum(),
+        _ => 0,
     }
 }
 
@@ -180,6 +260,44 @@ proptest! {
     }
 
     #[test]
+    fn an_exponent_that_wraps_64_bits_is_never_read_as_another(which: usize, at: usize) {
+        let files = stored(".cert.json");
+        let mut v: Value = serde_json::from_slice(&files[which % files.len()]).unwrap();
+        if v["body"]["ring"]["variables"][0] != "U" {
+            return Ok(());
+        }
+        let k = at % terms(&v);
+        rewrite_nth_coefficient(&mut v, k, &mut 0);
+        let body: tubecert_format::Body = serde_json::from_value(v["body"].clone()).unwrap();
+        v["sha256"] = json!(tubecert_format::canonical::canonical_sha256(&body).unwrap());
+        let accepted = tubecheck::check_bytes("fuzz", &serde_json::to_vec(&v).unwrap()).is_ok_and(|r| r.ok());
+        prop_assert!(!accepted, "a wrapped exponent was read as a legal one");
+        prop_assert!(!tubecert_tests::oracle::holds(&body));
+    }
+
+    #[test]
+    fn a_null_or_a_repeated_key_anywhere_is_refused(which: usize, at: u64, problem: bool) {
+        let files = stored(if problem { ".problem.json" } else { ".cert.json" });
+        let v: Value = serde_json::from_slice(&files[which % files.len()]).unwrap();
+        let refused = |bytes: &[u8]| {
+            if problem {
+                tubecert::problem::parse_problem(bytes, "fuzz").is_err()
+            } else {
+                tubecheck::check_bytes("fuzz", bytes).is_err()
+            }
+        };
+        let mut n = (at % objects(&v)) as i64;
+        let mut text = String::new();
+        with_repeated_key(&v, &mut n, &mut text);
+        prop_assert!(refused(text.as_bytes()), "a repeated key was accepted: {}", text);
+        let mut w = v.clone();
+        let mut n = 1 + at % (nodes(&v) - 1);
+        replace_nth(&mut w, &mut n, &Value::Null);
+        let bytes = serde_json::to_vec(&w).unwrap();
+        prop_assert!(refused(&bytes), "a null was accepted: {}", String::from_utf8_lossy(&bytes));
+    }
+
+    #[test]
     fn producer_never_panics_on_damaged_problems(which: usize, at: u64, kind: u64, ops in prop::collection::vec((any::<u64>(), any::<u8>()), 0..3)) {
         let files = stored(".problem.json");
         let mut v: Value = serde_json::from_slice(&files[which % files.len()]).unwrap();
@@ -191,5 +309,20 @@ proptest! {
                 let _ = tubecert::prove::prove(p, &ctx, &bytes);
             }
         }
+    }
+}
+
+/// Rewrites the coefficient of the `k`-th term (pre-order) into its wrapping twin.
+fn rewrite_nth_coefficient(v: &mut Value, k: usize, i: &mut usize) {
+    match v {
+        Value::Array(items) if items.len() == 3 && items.iter().all(Value::is_string) => {
+            if *i == k {
+                items[1] = json!(wrapped(items[1].as_str().unwrap()));
+            }
+            *i += 1;
+        }
+        Value::Array(items) => items.iter_mut().for_each(|x| rewrite_nth_coefficient(x, k, i)),
+        Value::Object(m) => m.values_mut().for_each(|x| rewrite_nth_coefficient(x, k, i)),
+        _ => {}
     }
 }

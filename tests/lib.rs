@@ -50,26 +50,164 @@ fn toggle(e: &mut Elem, k: (String, (u32, u32))) {
     }
 }
 
-/// Parses "U^2*V + 1" style coefficients by hand (independent of the format crate).
-pub fn monomials(coef: &str) -> Vec<(u32, u32)> {
-    coef.split('+')
-        .map(|t| {
-            let t = t.trim();
-            let (mut i, mut j) = (0, 0);
-            if t != "1" {
-                for f in t.split('*') {
-                    let (v, e) = f.split_once('^').map_or((f, 1), |(v, e)| (v, e.parse().unwrap()));
-                    if v == "U" {
-                        i += e
-                    } else {
-                        j += e
-                    }
-                }
+/// The oracle's own reading of numbers, written without the format crate's parser: the bounds
+/// (exponents ≤ 2^20, gradings within ±2^31) and the grammar of coefficients as the README
+/// states them.
+pub mod numbers {
+    use std::cell::RefCell;
+
+    pub const MAX_EXPONENT: u32 = 1 << 20;
+    pub const MAX_GRADING: i64 = 1 << 31;
+
+    thread_local! {
+        /// The ring variables coefficients are read in, by position (`U`, `V` by default; the
+        /// oracle sets the ring's own for the body it judges).
+        static VARIABLES: RefCell<Vec<String>> = RefCell::new(vec!["U".into(), "V".into()]);
+    }
+
+    /// Reads coefficients in `vars` until the guard is dropped.
+    pub struct InRing(Vec<String>);
+    pub fn in_ring(vars: &[String]) -> InRing {
+        InRing(VARIABLES.with(|v| std::mem::replace(&mut *v.borrow_mut(), vars.to_vec())))
+    }
+    impl Drop for InRing {
+        fn drop(&mut self) {
+            VARIABLES.with(|v| *v.borrow_mut() = std::mem::take(&mut self.0));
+        }
+    }
+
+    /// A polynomial `m + m + …`, each monomial `1` or factors `VAR`, `VAR^e` with an optional
+    /// `*` between them and blanks anywhere between tokens, as exponent pairs; `None` if it does
+    /// not read, if an exponent (written, or summed over repeated factors) passes 2^20, or if a
+    /// monomial repeats.
+    pub fn read_poly(text: &str, vars: &[String]) -> Option<Vec<(u32, u32)>> {
+        let mut out: Vec<(u32, u32)> = text.split('+').map(|m| read_mono(m, vars)).collect::<Option<_>>()?;
+        out.sort();
+        let n = out.len();
+        out.dedup();
+        (out.len() == n).then_some(out)
+    }
+
+    fn read_mono(text: &str, vars: &[String]) -> Option<(u32, u32)> {
+        let b = text.as_bytes();
+        let skip = |mut i: usize| {
+            while i < b.len() && b[i] == b' ' {
+                i += 1;
             }
-            (i, j)
-        })
-        .collect()
+            i
+        };
+        let mut i = skip(0);
+        if text.trim() == "1" {
+            return Some((0, 0));
+        }
+        let mut e = [0u64; 2];
+        let mut first = true;
+        while i < b.len() {
+            if !first && b[i] == b'*' {
+                i = skip(i + 1);
+            }
+            first = false;
+            // The longest ring variable written here.
+            let (v, name) = vars
+                .iter()
+                .enumerate()
+                .filter(|(_, n)| text[i..].starts_with(n.as_str()))
+                .max_by_key(|(_, n)| n.len())?;
+            i = skip(i + name.len());
+            let mut power = 1u64;
+            if i < b.len() && b[i] == b'^' {
+                i = skip(i + 1);
+                let digits = b[i..].iter().take_while(|c| c.is_ascii_digit()).count();
+                // More than seven digits is beyond 2^20 whatever they are: never parsed.
+                if digits == 0 || digits > 7 {
+                    return None;
+                }
+                power = text[i..i + digits].parse().ok()?;
+                i = skip(i + digits);
+            }
+            e[v] += power;
+            if e[v] > MAX_EXPONENT as u64 {
+                return None;
+            }
+        }
+        if first {
+            return None; // an empty monomial
+        }
+        Some((e[0] as u32, e[1] as u32))
+    }
+
+    /// [`read_poly`] in the current ring; unreadable text is no monomial at all (the oracle
+    /// refuses such a body before it computes, see [`readable`]).
+    pub fn monomials(coef: &str) -> Vec<(u32, u32)> {
+        VARIABLES.with(|v| read_poly(coef, &v.borrow())).unwrap_or_default()
+    }
+
+    /// One monomial in the current ring.
+    pub fn monomial(text: &str) -> Option<(u32, u32)> {
+        match VARIABLES.with(|v| read_poly(text, &v.borrow()))?.as_slice() {
+            [m] if !text.contains('+') => Some(*m),
+            _ => None,
+        }
+    }
+
+    /// The written form of U^i V^j in the current ring.
+    pub fn write_mono((i, j): (u32, u32)) -> String {
+        let vars = VARIABLES.with(|v| v.borrow().clone());
+        let factors: Vec<String> = [i, j]
+            .iter()
+            .zip(&vars)
+            .filter(|(e, _)| **e > 0)
+            .map(|(e, v)| if *e == 1 { v.clone() } else { format!("{v}^{e}") })
+            .collect();
+        if factors.is_empty() {
+            "1".into()
+        } else {
+            factors.join("*")
+        }
+    }
+
+    pub fn grading_ok(g: &[i64]) -> bool {
+        g.iter().all(|x| (-MAX_GRADING..=MAX_GRADING).contains(x))
+    }
+
+    /// Every number of the body reads within the bounds: gradings, degrees, τ, orders and every
+    /// coefficient (a single monomial in a dual witness). Then no computation of the oracle can
+    /// overflow: degrees stay below 2^62.
+    pub fn readable(body: &tubecert_format::Body) -> bool {
+        use tubecert_format::Claim;
+        let vars = &body.ring.variables;
+        let coefs = |terms: &[[String; 3]]| terms.iter().all(|t| read_poly(&t[1], vars).is_some());
+        let single =
+            |terms: &[[String; 3]]| terms.iter().all(|t| !t[1].contains('+') && read_poly(&t[1], vars).is_some());
+        let basis = |w: &tubecert_format::BasisWitness| {
+            w.generators.values().all(|g| grading_ok(g)) && coefs(&w.basis) && coefs(&w.inverse)
+        };
+        let ring =
+            body.ring.variable_degrees.values().all(|g| grading_ok(g)) && grading_ok(&body.ring.differential_degree);
+        ring && body.complexes.values().all(|c| c.generators.values().all(|g| grading_ok(g)) && coefs(&c.differential))
+            && body.maps.values().all(|m| grading_ok(&m.degree) && coefs(&m.terms))
+            && body.claims.iter().all(|c| match c {
+                Claim::NullHomotopic { witness, .. } => coefs(&witness.homotopy),
+                Claim::NotNullHomotopic { witness, .. } => single(&witness.dual),
+                Claim::HomotopyEquivalence { witness, .. } => {
+                    coefs(&witness.source_homotopy) && coefs(&witness.target_homotopy)
+                }
+                Claim::TorsionOrder { order, witness, .. } => {
+                    *order <= MAX_EXPONENT && coefs(&witness.homotopy) && witness.dual.as_deref().is_none_or(single)
+                }
+                Claim::TorsionOrderOfComplex { order, witness, .. } => *order <= MAX_EXPONENT && basis(witness),
+                Claim::Homology { free, torsion, witness, .. } => {
+                    free.iter().all(|g| grading_ok(g))
+                        && torsion.iter().all(|(k, g)| *k <= MAX_EXPONENT && grading_ok(g))
+                        && basis(witness)
+                }
+                Claim::Tau { tau, witness, .. } => grading_ok(&[*tau]) && basis(witness),
+                _ => true, // the other kinds carry no numbers of their own
+            })
+    }
 }
+
+pub use numbers::monomials;
 
 /// A map as generator → element, from `[from, coef, to]` terms.
 pub fn map_of(terms: &[[String; 3]]) -> BTreeMap<String, Elem> {
@@ -114,7 +252,10 @@ pub fn is_homotopy(
 /// Checked by brute force over the ψ whose boundary can meet y.
 pub fn is_dual_witness(src_d: &[[String; 3]], dst_d: &[[String; 3]], phi: &[[String; 3]], y: &[[String; 3]]) -> bool {
     let ys: Vec<(String, (u32, u32), String)> =
-        y.iter().map(|[x, m, w]| (x.clone(), monomials(m)[0], w.clone())).collect();
+        y.iter().filter_map(|[x, m, w]| Some((x.clone(), numbers::monomial(m)?, w.clone()))).collect();
+    if ys.len() != y.len() {
+        return false;
+    }
     let phi = map_of(phi);
     let pairing = ys.iter().filter(|(x, m, w)| phi.get(x).is_some_and(|e| e.contains(&(w.clone(), *m)))).count();
     if pairing % 2 != 1 {
@@ -352,7 +493,7 @@ pub mod oracle {
                     acc
                 }
                 MapExpr::Times(m, e) => {
-                    let (i, j) = monomials(m)[0];
+                    let (i, j) = super::numbers::monomial(m)?;
                     let v = self.eval(e)?;
                     let deg = v.2.iter().zip(self.mono_deg((i, j))).map(|(a, b)| a + b).collect();
                     let scaled =
@@ -379,7 +520,7 @@ pub mod oracle {
         /// A map written back as terms, for the term-based checks above.
         fn as_terms(phi: &Map) -> Vec<Term> {
             phi.iter()
-                .flat_map(|(x, el)| el.iter().map(move |(w, (i, j))| [x.clone(), format!("U^{i}*V^{j}"), w.clone()]))
+                .flat_map(|(x, el)| el.iter().map(move |(w, m)| [x.clone(), super::numbers::write_mono(*m), w.clone()]))
                 .collect()
         }
 
@@ -494,7 +635,9 @@ pub mod oracle {
         if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
             return false;
         }
-        if !crate::wording::names_legal(body) {
+        // Numbers first, read by the oracle's own reader in the body's ring.
+        let _ring = super::numbers::in_ring(&body.ring.variables);
+        if !super::numbers::readable(body) || !crate::wording::names_legal(body) {
             return false;
         }
         let vars = &body.ring.variables;

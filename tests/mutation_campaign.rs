@@ -8,7 +8,10 @@
 //! statement, or the certificate relabelled as version 1 in version 1's wording), the hash
 //! is recomputed, and the checker's verdict is compared with the independent oracle of
 //! `tests/lib.rs`. An accepted mutation is *neutral* only when the oracle confirms that every
-//! claim still holds; any other acceptance is *unexplained* and fails the run.
+//! claim still holds; any other acceptance is *unexplained* and fails the run. Numbers at and
+//! past the format's bounds (extreme gradings, exponents past 2^20, exponents that wrap 64 bits
+//! inside a product) and file-level defects (`null`, a repeated key, at any depth) are among
+//! the mutations; a file-level defect must always be refused.
 //!
 //! Usage: `mutation-campaign [--per-certificate N] [--seed S] [FOLDER]`
 
@@ -175,13 +178,166 @@ fn mutate_tau_grading(rng: &mut Rng, body: &mut Body, version: &mut u32) -> &'st
     }
 }
 
+/// Every term of a body: differentials, maps and witnesses.
+fn all_terms(body: &mut Body) -> Vec<&mut Term> {
+    let mut out: Vec<&mut Term> = Vec::new();
+    body.complexes.0.values_mut().for_each(|c| out.extend(c.differential.iter_mut()));
+    body.maps.0.values_mut().for_each(|m| out.extend(m.terms.iter_mut()));
+    for c in body.claims.iter_mut() {
+        match c {
+            Claim::NullHomotopic { witness, .. } => out.extend(witness.homotopy.iter_mut()),
+            Claim::NotNullHomotopic { witness, .. } => out.extend(witness.dual.iter_mut()),
+            Claim::HomotopyEquivalence { witness, .. } => {
+                out.extend(witness.source_homotopy.iter_mut().chain(witness.target_homotopy.iter_mut()))
+            }
+            Claim::TorsionOrder { witness, .. } => {
+                out.extend(witness.homotopy.iter_mut().chain(witness.dual.iter_mut().flatten()))
+            }
+            Claim::Homology { witness, .. }
+            | Claim::Tau { witness, .. }
+            | Claim::TorsionOrderOfComplex { witness, .. } => {
+                out.extend(witness.basis.iter_mut().chain(witness.inverse.iter_mut()))
+            }
+            _ => {}
+        }
+    }
+    out
+}
+
+/// Numbers at and just past the format's bounds, and exponents that wrap 64 bits inside a
+/// product (read as the original monomial by a reader that adds exponents in 64 bits).
+fn mutate_numbers(rng: &mut Rng, body: &mut Body) -> &'static str {
+    let var = body.ring.variables.first().cloned();
+    let extreme = [i64::MIN, i64::MIN + 1, (1 << 31) + 1, -(1 << 31) - 1, i64::MAX];
+    match (rng.below(3), var) {
+        (0, Some(v)) => {
+            let mut terms = all_terms(body);
+            let n = terms.len() as u64;
+            let Some(t) = terms.get_mut(rng.below(n.max(1)) as usize) else { return "leave the numbers unchanged" };
+            let wrap = format!("{v}^3*{v}^18446744073709551613");
+            t[1] = if t[1] == "1" { wrap } else { format!("{wrap}*{}", t[1]) };
+            "wrap an exponent past 64 bits inside a product"
+        }
+        (1, Some(v)) => {
+            let mut terms = all_terms(body);
+            let n = terms.len() as u64;
+            let Some(t) = terms.get_mut(rng.below(n.max(1)) as usize) else { return "leave the numbers unchanged" };
+            t[1] = if rng.below(2) == 0 { format!("{v}^1048577") } else { format!("{v}*{v}^1048576") };
+            "an exponent past 2^20"
+        }
+        _ => {
+            let complexes: Vec<String> = body.complexes.keys().cloned().collect();
+            let c = pick(rng, &complexes).cloned().unwrap();
+            let g = pick(rng, &gens(body, &c)).cloned().unwrap();
+            let x = *pick(rng, &extreme).unwrap();
+            let v = body.complexes.0.get_mut(&c).unwrap().generators.0.get_mut(&g).unwrap();
+            let k = rng.below(v.len() as u64) as usize;
+            v[k] = x;
+            "an extreme grading"
+        }
+    }
+}
+
+/// A file-level defect the typed body cannot hold, with the hash of the body as the typed
+/// reader sees it: `"dual": null` beside a witness, a `null` anywhere, a repeated key anywhere.
+/// Each must be refused.
+fn mutate_text(rng: &mut Rng, cert: &Certificate) -> (Vec<u8>, &'static str) {
+    let mut v = serde_json::to_value(cert).unwrap();
+    match rng.below(3) {
+        0 => {
+            let witnesses: Vec<usize> = (0..cert.body.claims.len())
+                .filter(|&i| v["body"]["claims"][i]["witness"].get("homotopy").is_some())
+                .filter(|&i| v["body"]["claims"][i]["witness"].get("dual").is_none())
+                .collect();
+            if let Some(&i) = pick(rng, &witnesses) {
+                v["body"]["claims"][i]["witness"]["dual"] = serde_json::Value::Null;
+                return (serde_json::to_vec(&v).unwrap(), "write \"dual\": null beside a witness");
+            }
+            (serde_json::to_vec(&v).unwrap(), "leave the file unchanged")
+        }
+        1 => {
+            let n = 1 + rng.below(nodes(&v) - 1);
+            set_nth(&mut v, &mut n.clone(), serde_json::Value::Null);
+            (serde_json::to_vec(&v).unwrap(), "write a null")
+        }
+        _ => {
+            let mut n = rng.below(objects(&v)) as i64;
+            let mut text = String::new();
+            with_repeated_key(&v, &mut n, &mut text);
+            (text.into_bytes(), "repeat a key")
+        }
+    }
+}
+
+fn nodes(v: &serde_json::Value) -> u64 {
+    1 + match v {
+        serde_json::Value::Object(m) => m.values().map(nodes).sum::<u64>(),
+        serde_json::Value::Array(a) => a.iter().map(nodes).sum(),
+        _ => 0,
+    }
+}
+
+fn objects(v: &serde_json::Value) -> u64 {
+    match v {
+        serde_json::Value::Object(m) => 1 + m.values().map(objects).sum::<u64>(),
+        serde_json::Value::Array(a) => a.iter().map(objects).sum(),
+        _ => 0,
+    }
+}
+
+fn set_nth(v: &mut serde_json::Value, n: &mut u64, new: serde_json::Value) -> bool {
+    if *n == 0 {
+        *v = new;
+        return true;
+    }
+    *n -= 1;
+    match v {
+        serde_json::Value::Array(items) => items.iter_mut().any(|i| set_nth(i, n, new.clone())),
+        serde_json::Value::Object(m) => m.values_mut().any(|i| set_nth(i, n, new.clone())),
+        _ => false,
+    }
+}
+
+/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice.
+fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
+    match v {
+        serde_json::Value::Object(m) => {
+            let here = *n == 0;
+            *n -= 1;
+            out.push('{');
+            for (i, (k, x)) in m.iter().enumerate() {
+                let key = serde_json::to_string(k).unwrap();
+                let mut inner = String::new();
+                with_repeated_key(x, n, &mut inner);
+                out.push_str(&format!("{}{key}:{inner}", if i > 0 { "," } else { "" }));
+                if here && i == 0 {
+                    out.push_str(&format!(",{key}:{inner}"));
+                }
+            }
+            out.push('}');
+        }
+        serde_json::Value::Array(items) => {
+            out.push('[');
+            for (i, x) in items.iter().enumerate() {
+                if i > 0 {
+                    out.push(',');
+                }
+                with_repeated_key(x, n, out);
+            }
+            out.push(']');
+        }
+        _ => out.push_str(&v.to_string()),
+    }
+}
+
 /// Applies one random semantic mutation (some also change the format version).
 fn mutate(rng: &mut Rng, body: &mut Body, version: &mut u32) -> &'static str {
     let two = body.ring.variables.len() == 2;
     let complexes: Vec<String> = body.complexes.keys().cloned().collect();
-    match rng.below(12) {
+    match rng.below(13) {
         10 => rename_hostile(rng, body, *version),
         11 => mutate_tau_grading(rng, body, version),
+        12 => mutate_numbers(rng, body),
         0 => {
             // A grading of one generator.
             let c = pick(rng, &complexes).cloned().unwrap();
@@ -318,17 +474,23 @@ fn main() {
         let mut rng = Rng(seed ^ 0x51ED_2701 ^ (f.to_string_lossy().len() as u64) << 7);
         let mut c = Counts::default();
         for _ in 0..per {
-            // Only mutations that change the body count.
-            let (mut body, mut what, mut version) = (cert.body.clone(), "", cert.version);
-            while body == cert.body && version == cert.version {
-                what = mutate(&mut rng, &mut body, &mut version);
-            }
             c.tried += 1;
-            let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
-            let mutant = Certificate { sha256, version, body: body.clone(), ..cert.clone() };
-            let bytes = serde_json::to_vec(&mutant).unwrap();
+            // One in twelve is a file-level defect (null, repeated key): refused by definition.
+            let (bytes, what, holds) = if rng.below(12) == 0 {
+                let (bytes, what) = mutate_text(&mut rng, &cert);
+                (bytes, what, what == "leave the file unchanged")
+            } else {
+                // Only mutations that change the body count.
+                let (mut body, mut what, mut version) = (cert.body.clone(), "", cert.version);
+                while body == cert.body && version == cert.version {
+                    what = mutate(&mut rng, &mut body, &mut version);
+                }
+                // The fast hash: it takes numbers beyond ±2^53 in complexes (refused later).
+                let sha256 = tubecert_format::canonical::body_sha256(&body).unwrap_or_default();
+                let mutant = Certificate { sha256, version, body: body.clone(), ..cert.clone() };
+                (serde_json::to_vec(&mutant).unwrap(), what, oracle::holds_in(&body, version))
+            };
             let accepted = tubecheck::check_bytes("mutant", &bytes).is_ok_and(|r| r.ok());
-            let holds = oracle::holds_in(&body, version);
             match (accepted, holds) {
                 (false, false) => c.rejected += 1,
                 (true, true) => c.neutral += 1,

@@ -101,7 +101,7 @@ fn idem_ok(i: u8, what: &str) -> Result<u8, String> {
 }
 
 fn grading_ok(g: &Grading, what: &str) -> Result<(), String> {
-    let fine = g.len() == 2 && g.iter().all(|x| x.abs() <= tubecert_format::limits::MAX_GRADING_ABS);
+    let fine = g.len() == 2 && g.iter().all(|&x| tubecert_format::limits::grading_in_bounds(x));
     fine.then_some(()).ok_or_else(|| format!("{what}: a grading is [Maslov, Alexander] within ±2^31"))
 }
 

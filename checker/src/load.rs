@@ -6,7 +6,7 @@
 use crate::algebra::SparseMap;
 use crate::report_terms::suggest;
 use std::collections::{BTreeMap, HashMap};
-use tubecert_format::limits::{MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
+use tubecert_format::limits::{grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_TERMS};
 use tubecert_format::names::{check_map_name, check_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
@@ -285,7 +285,7 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
         if let Err(e) = check_name(g) {
             errs.push(format!("complex {name}, generator {e}"));
         }
-        if gr.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+        if !gr.iter().all(|&x| grading_in_bounds(x)) {
             well_graded = false;
             errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
         } else if gr.len() != ring.gradings.len() {
@@ -344,7 +344,7 @@ pub fn load_lenient(
         let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else {
             continue;
         };
-        if spec.degree.len() != ctx.ring.gradings.len() || spec.degree.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+        if spec.degree.len() != ctx.ring.gradings.len() || !spec.degree.iter().all(|&x| grading_in_bounds(x)) {
             errs.push(format!(
                 "map {name}: degree must have {} entries within ±{MAX_GRADING_ABS}, found {}",
                 ctx.ring.gradings.len(),

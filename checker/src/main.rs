@@ -1,5 +1,5 @@
 //! `tubecheck PATH...`: re-verifies certificates. Exit 0 iff everything verifies, 1 if a claim
-//! or an expected hash fails, 2 if a file is unreadable or malformed.
+//! or an expected hash fails, 2 if a file is unreadable or malformed or nothing was checked.
 
 use clap::Parser;
 use std::path::{Path, PathBuf};
@@ -12,7 +12,7 @@ use tubecheck::report_cli::{self, Style};
     name = "tubecheck",
     version,
     about = "Re-verify tubecert certificates by exact arithmetic over F2[U,V]",
-    after_help = "Examples:\n  tubecheck certificates/\n  tubecheck paper.cert.json --expect 3f1c…(the hash printed in the paper)\n  tubecheck --json certificates/ > report.json\n\nExit codes: 0 all verified; 1 a claim or an expected hash failed; 2 a file is unreadable or malformed."
+    after_help = "Examples:\n  tubecheck certificates/\n  tubecheck paper.cert.json --expect 3f1c…(the hash printed in the paper)\n  tubecheck --json certificates/ > report.json\n\nExit codes: 0 all verified; 1 a claim or an expected hash failed; 2 a file is unreadable or malformed, or no certificate was found."
 )]
 struct Args {
     /// Certificate files, or folders (every *.json inside, recursively; problem files are skipped).
@@ -55,6 +55,7 @@ fn is_problem_file(bytes: &[u8]) -> bool {
 }
 
 fn main() -> ExitCode {
+    std::panic::set_hook(Box::new(|_| {})); // a panic is reported as the file's refusal below
     let args = Args::parse();
     let mut files = Vec::new();
     for p in &args.paths {
@@ -66,17 +67,34 @@ fn main() -> ExitCode {
     let mut outcomes = Vec::new();
     for (path, named) in files {
         let name = path.display().to_string();
-        let outcome = match tubecert_format::limits::read_file(&path).map(|b| (check_bytes(&name, &b), b)) {
+        // Overflow checks are on in release: an overflow the bounds did not catch refuses the
+        // file (exit 2) rather than giving a verdict, and is reported, never shown as a panic.
+        let check = |b: &[u8]| {
+            std::panic::catch_unwind(|| check_bytes(&name, b)).unwrap_or_else(|_| {
+                Err("refused: an integer overflow while checking (a number beyond the format's bounds)".into())
+            })
+        };
+        let outcome = match tubecert_format::limits::read_file(&path).map(|b| (check(&b), b)) {
             Err(e) => Err(e),
             Ok((Ok(report), _)) => Ok(report),
-            // Problem files sit beside their certificates: skipped in folders, explained if named.
-            Ok((Err(_), bytes)) if is_problem_file(&bytes) && !named => continue,
+            // Problem files sit beside their certificates: skipped in folders (and named, so a
+            // certificate overwritten by its problem is noticed), explained if named.
+            Ok((Err(_), bytes)) if is_problem_file(&bytes) && !named => {
+                let odd = if name.ends_with(".cert.json") { " although its name is a certificate's" } else { "" };
+                eprintln!("tubecheck: skipped {name}: a problem file, not a certificate{odd}");
+                continue;
+            }
             Ok((Err(_), bytes)) if is_problem_file(&bytes) => {
                 Err("a problem file, not a certificate (`tubecert prove` makes one from it)".into())
             }
             Ok((Err(e), _)) => Err(format!("malformed: {e}")),
         };
         outcomes.push((name, outcome));
+    }
+    if outcomes.is_empty() {
+        let paths: Vec<String> = args.paths.iter().map(|p| p.display().to_string()).collect();
+        eprintln!("tubecheck: no certificate found in {}: nothing was checked", paths.join(", "));
+        return ExitCode::from(2);
     }
     let missing: Vec<&String> = args
         .expect

@@ -365,6 +365,29 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
     Ok(facts)
 }
 
+/// The numbers a claim states are read under the bounds every other number is read under
+/// (orders are exponents; gradings and τ are gradings), so no claim speaks of a number that
+/// the arithmetic could not represent.
+fn numbers_in_bounds(claim: &Claim) -> Result<(), String> {
+    use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT, MAX_GRADING_ABS};
+    let (orders, gradings): (Vec<u32>, Vec<i64>) = match claim {
+        Claim::Homology { free, torsion, .. } => (
+            torsion.iter().map(|t| t.0).collect(),
+            free.iter().chain(torsion.iter().map(|t| &t.1)).flatten().copied().collect(),
+        ),
+        Claim::TorsionOrder { order, .. } | Claim::TorsionOrderOfComplex { order, .. } => (vec![*order], vec![]),
+        Claim::Tau { tau, .. } => (vec![], vec![*tau]),
+        _ => (vec![], vec![]),
+    };
+    if orders.iter().any(|&k| k > MAX_EXPONENT) || !gradings.iter().all(|&x| grading_in_bounds(x)) {
+        return Err(format!(
+            "claim \"{}\": a number is beyond the limits (orders at most {MAX_EXPONENT}, gradings and τ within ±{MAX_GRADING_ABS})",
+            claim.kind()
+        ));
+    }
+    Ok(())
+}
+
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
@@ -392,6 +415,10 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
 /// each claim.
 pub fn check_body(body: &tubecert_format::Body, version: u32) -> Result<Vec<ClaimResult>, Vec<String>> {
     use crate::bordered::{Failure, Objects};
+    let out_of_bounds: Vec<String> = body.claims.iter().filter_map(|c| numbers_in_bounds(c).err()).collect();
+    if !out_of_bounds.is_empty() {
+        return Err(out_of_bounds);
+    }
     let ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     for (i, claim) in body.claims.iter().enumerate() {
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;

@@ -124,3 +124,30 @@ fn a_problem_file_named_by_mistake_is_explained() {
     assert_eq!(code, 2);
     assert!(err.contains("a problem file, not a certificate"), "{err}");
 }
+
+#[test]
+fn a_folder_with_nothing_to_check_exits_2() {
+    let dir = std::env::temp_dir().join(format!("tubecheck-cli-empty-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let (code, out, err) = tubecheck(&[&dir.to_string_lossy()]);
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(err.contains("no certificate"), "{err}");
+}
+
+#[test]
+fn a_skipped_file_is_named_with_the_reason() {
+    // A problem saved under a certificate's name, alone in a folder: nothing was checked.
+    let dir = std::env::temp_dir().join(format!("tubecheck-cli-skip-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let problem = std::fs::read(format!("{}/tower.problem.json", certificates())).unwrap();
+    std::fs::write(dir.join("tower.cert.json"), &problem).unwrap();
+    let (code, out, err) = tubecheck(&[&dir.to_string_lossy()]);
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(err.contains("tower.cert.json") && err.contains("problem file"), "{err}");
+    // Beside a real certificate the skipped file is still named, and the verdict is the
+    // certificate's.
+    std::fs::copy(format!("{}/tower.cert.json", certificates()), dir.join("real.cert.json")).unwrap();
+    let (code, out, err) = tubecheck(&[&dir.to_string_lossy()]);
+    assert_eq!(code, 0, "{out}{err}");
+    assert!(err.contains("skipped") && err.contains("tower.cert.json"), "{err}");
+}

@@ -113,3 +113,73 @@ fn generator_and_term_counts() {
     .unwrap_err();
     assert!(e[0].contains("terms, above the limit"), "{e:?}");
 }
+
+/// The ring of [`body`] with other variable degrees.
+fn with_ring(mut v: Value, ring: Value) -> Value {
+    v["body"]["ring"] = ring;
+    v
+}
+
+#[test]
+fn an_exponent_beyond_64_bits_inside_a_product_is_refused() {
+    // U^3·U^(2^64) must not wrap to U^3 (or to anything else): the token itself is refused.
+    for coef in ["U^3*U^18446744073709551616", "U^3*U^18446744073709551613", "U*U^1048576", "U^1048577"] {
+        let v = body(json!({"a": [0, 0], "b": [1, 0]}), json!([["b", coef, "a"]]), json!([]));
+        let e = check(&v).unwrap_err();
+        assert!(e.contains("above the limit"), "{coef}: {e}");
+    }
+    // At the limit exactly, a product is read (and then found not homogeneous, not wrapped).
+    let v = body(json!({"a": [0, 0], "b": [1, 0]}), json!([["b", "U^1048575*U", "a"]]), json!([]));
+    let r = check(&v).unwrap();
+    assert!(!r.ok());
+}
+
+#[test]
+fn the_most_negative_grading_is_refused() {
+    // |i64::MIN| overflows: a check written as |x| ≤ 2^31 must not let it through.
+    for bad in [i64::MIN, i64::MIN + 1, i64::MAX, -MAX_GRADING_ABS - 1, MAX_GRADING_ABS + 1] {
+        let v = body(json!({"a": [0, 0], "b": [bad, 0]}), json!([]), json!([]));
+        assert!(check(&v).unwrap_err().contains("beyond"), "generator grading {bad}");
+        let mut v = body(json!({"a": [0, 0]}), json!([]), json!([]));
+        v["body"]["maps"]["F"]["degree"] = json!([0, bad]);
+        assert!(check(&v).unwrap_err().contains("within"), "map degree {bad}");
+        let ring = json!({"variables": ["U"], "gradings": ["m", "a"], "variable_degrees": {"U": [bad, -1]}, "differential_degree": [-1, 0]});
+        // (Beyond ±2^53 the canonical hash refuses the number first.)
+        let e = check(&with_ring(body(json!({"a": [0, 0]}), json!([]), json!([])), ring)).unwrap_err();
+        assert!(e.contains("beyond") || e.contains("within ±2^53"), "{bad}: {e}");
+        let ring = json!({"variables": ["U"], "gradings": ["m", "a"], "variable_degrees": {"U": [-2, -1]}, "differential_degree": [bad, 0]});
+        let e = check(&with_ring(body(json!({"a": [0, 0]}), json!([]), json!([])), ring)).unwrap_err();
+        assert!(e.contains("beyond") || e.contains("within ±2^53"), "{bad}: {e}");
+    }
+    // The bounds themselves are legal.
+    let v = body(json!({"a": [0, 0], "b": [MAX_GRADING_ABS, -MAX_GRADING_ABS]}), json!([]), json!([]));
+    assert!(check(&v).is_ok());
+}
+
+#[test]
+fn the_finiteness_test_does_not_overflow() {
+    // deg U = −deg V with entries ±2^31 in four gradings: U·V has degree zero, so the ring has
+    // infinite-dimensional graded pieces. The dot product deg U · deg V = −2^64 must not wrap to 0.
+    let (lo, hi) = (-MAX_GRADING_ABS, MAX_GRADING_ABS);
+    let ring = json!({"variables": ["U", "V"], "gradings": ["a", "b", "c", "d"],
+        "variable_degrees": {"U": [lo, lo, lo, lo], "V": [hi, hi, hi, hi]}, "differential_degree": [-1, 0, 0, 0]});
+    let mut v = with_ring(body(json!({"a": [0, 0, 0, 0]}), json!([]), json!([])), ring);
+    v["body"]["maps"]["F"]["degree"] = json!([0, 0, 0, 0]);
+    let e = check(&v).unwrap_err();
+    assert!(e.contains("infinite"), "{e}");
+}
+
+#[test]
+fn numbers_in_claims_are_bounded() {
+    // τ, orders and torsion exponents are read under the same bounds as gradings and exponents.
+    let basis = json!({"generators": {"a": [0, 0]}, "basis": [["a", "1", "a"]], "inverse": [["a", "1", "a"]]});
+    for claim in [
+        json!({"kind": "tau", "complex": "K", "alexander": "alexander", "tau": -(1i64 << 40), "statement": format!("τ(K) = {}", -(1i64 << 40)), "witness": basis}),
+        json!({"kind": "torsion_order_of_complex", "complex": "K", "variable": "U", "order": MAX_EXPONENT as u64 + 1, "statement": format!("Ord_U(H_*(K)) = {}", MAX_EXPONENT as u64 + 1), "witness": basis}),
+        json!({"kind": "homology", "complex": "K", "free": [[1i64 << 40, 0]], "torsion": [], "statement": format!("H_*(K) ≅ F2[U]⟨({}, 0)⟩", 1i64 << 40), "witness": basis}),
+    ] {
+        let v = body(json!({"a": [0, 0]}), json!([]), json!([claim.clone()]));
+        let e = check(&v).unwrap_err();
+        assert!(e.contains("limit") || e.contains("beyond"), "{claim}: {e}");
+    }
+}

@@ -7,6 +7,7 @@ use crate::bordered::Built;
 use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
+use tubecert_format::limits::{grading_in_bounds, MAX_GRADING_ABS};
 use tubecert_format::poly::parse_poly;
 use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Ring, Term, UniqueMap};
 
@@ -217,6 +218,8 @@ pub fn resolve(
     sections: [&BTreeMap<String, Value>; 3],
     text: bool,
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
+    // The ring's degrees enter the constructions' arithmetic (cones): checked first.
+    tubecert_format::RingInfo::new(ring)?;
     let mut done: Complexes = BTreeMap::new();
     let mut done_maps: BTreeMap<String, MapSpec> = BTreeMap::new();
     let mut errs = Vec::new();
@@ -228,6 +231,9 @@ pub fn resolve(
     for (name, v) in maps {
         if v.get("from").is_some() {
             match serde_json::from_value::<MapSpec>(v.clone()) {
+                Ok(m) if !m.degree.iter().all(|&x| grading_in_bounds(x)) => {
+                    errs.push(format!("map {name}: a degree entry is beyond ±{MAX_GRADING_ABS}"))
+                }
                 Ok(m) => {
                     done_maps.insert(name.clone(), m);
                 }
@@ -322,15 +328,49 @@ pub fn build_staircase(ring: &Ring, arg: &Value) -> Result<ComplexSpec, String> 
         let [p, q] = pq[..] else { return Err("torus_knot takes [p, q]".into()) };
         torus_knot_exponents(p, q)?
     } else if let Some(a) = arg.get("alexander") {
-        serde_json::from_value(a.clone()).map_err(|e| format!("alexander: {e}"))?
+        bounded("alexander", a)?
     } else {
         return Err("staircase takes {\"torus_knot\": [p, q]} or {\"alexander\": [a_0, …, a_2n]}".into());
     };
     staircase(ring, &exps)
 }
 
-/// Builds one complex; `Ok(None)` when it depends on one not built yet.
+/// Builds one complex; `Ok(None)` when it depends on one not built yet. Its gradings must be
+/// within the format's bounds, so the inputs of every construction are, and the sums a
+/// construction makes (at most twice the bound) cannot overflow.
 fn build_complex(
+    ring: &Ring,
+    name: &str,
+    v: &Value,
+    done: &Complexes,
+    maps: &BTreeMap<String, MapSpec>,
+    defs: &BTreeMap<String, Value>,
+    bordered: &mut Built,
+) -> Result<Option<ComplexSpec>, String> {
+    let built = construct_complex(ring, name, v, done, maps, defs, bordered)?;
+    built.as_ref().map_or(Ok(()), check_bounds)?;
+    Ok(built)
+}
+
+fn check_bounds(c: &ComplexSpec) -> Result<(), String> {
+    for (g, gr) in c.generators.iter() {
+        if let Some(x) = gr.iter().find(|&&x| !grading_in_bounds(x)) {
+            return Err(format!("generator \"{g}\" has a grading entry {x}, beyond ±{MAX_GRADING_ABS}"));
+        }
+    }
+    Ok(())
+}
+
+/// Integers written in a construction, bounded before any arithmetic.
+fn bounded(what: &str, v: &Value) -> Result<Vec<i64>, String> {
+    let xs: Vec<i64> = serde_json::from_value(v.clone()).map_err(|e| format!("{what}: {e}"))?;
+    match xs.iter().find(|&&x| !grading_in_bounds(x)) {
+        Some(x) => Err(format!("{what}: {x} is beyond ±{MAX_GRADING_ABS}")),
+        None => Ok(xs),
+    }
+}
+
+fn construct_complex(
     ring: &Ring,
     name: &str,
     v: &Value,
@@ -369,7 +409,7 @@ fn build_complex(
         "shift" => {
             let a = arg.as_array().filter(|a| a.len() == 2).ok_or("\"shift\" takes [complex, [shift…]]")?;
             let n = a[0].as_str().ok_or("shift: expected a complex name")?;
-            let s: Vec<i64> = serde_json::from_value(a[1].clone()).map_err(|e| format!("shift: {e}"))?;
+            let s = bounded("shift", &a[1])?;
             if s.len() != ring.gradings.len() {
                 return Err(format!("shift has {} entries, expected {}", s.len(), ring.gradings.len()));
             }
@@ -394,6 +434,7 @@ fn build_complex(
                 return Err("quotient: give the complex inline, e.g. [{\"staircase\": {\"torus_knot\": [3, 4]}}, \"V\"]: it lives over the larger ring".into());
             }
             let src = crate::bordered::inline_source(&source_ring, &a[0], defs, 0).map_err(|e| format!("quotient source: {e}"))?;
+            check_bounds(&src)?;
             Some(quotient(&source_ring, ring, &src)?)
         }
         "cable" => Some(crate::bordered::cable(name, arg, ring, defs, bordered)?),

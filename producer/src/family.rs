@@ -10,8 +10,12 @@ pub fn parse_param(text: &str) -> Result<(String, i64, i64), String> {
     let err = || format!("--param \"{text}\": expected NAME=LO..HI, e.g. p=1..8");
     let (name, range) = text.split_once('=').ok_or_else(err)?;
     let (lo, hi) = range.split_once("..").ok_or_else(err)?;
-    let (lo, hi) = (lo.trim().parse().map_err(|_| err())?, hi.trim().parse().map_err(|_| err())?);
-    if name.is_empty() || !name.chars().all(|c| c.is_ascii_alphabetic()) || lo > hi || hi - lo > 1000 {
+    let (lo, hi): (i64, i64) = (lo.trim().parse().map_err(|_| err())?, hi.trim().parse().map_err(|_| err())?);
+    if name.is_empty()
+        || !name.chars().all(|c| c.is_ascii_alphabetic())
+        || lo > hi
+        || hi.checked_sub(lo).is_none_or(|n| n > 1000)
+    {
         return Err(err());
     }
     Ok((name.to_string(), lo, hi))
@@ -84,7 +88,7 @@ pub fn eval(expr: &str, name: &str, value: i64) -> Result<i64, String> {
             match rest.first() {
                 Some(b'-') => {
                     self.i += 1;
-                    Ok(-self.atom()?)
+                    self.atom()?.checked_neg().ok_or_else(|| "overflow".into())
                 }
                 Some(b'(') => {
                     self.i += 1;

@@ -196,6 +196,21 @@ fn write_output(text: &str, output: Option<PathBuf>) -> ExitCode {
 }
 
 fn main() -> ExitCode {
+    // The checker's crates panic on an integer overflow even in release (the last line of
+    // defence behind the bounds every number is read under): reported as an internal error
+    // (exit 4), never as a bare panic.
+    std::panic::set_hook(Box::new(|info| {
+        let at = info.location().map_or(String::new(), |l| format!(" at {}:{}", l.file(), l.line()));
+        eprintln!("tubecert: internal error{at}: {}", panic_text(info.payload()));
+    }));
+    std::panic::catch_unwind(run).unwrap_or(ExitCode::from(4))
+}
+
+fn panic_text(payload: &(dyn std::any::Any + Send)) -> &str {
+    payload.downcast_ref::<&str>().copied().or(payload.downcast_ref::<String>().map(|s| s.as_str())).unwrap_or("")
+}
+
+fn run() -> ExitCode {
     let cli = Cli::parse();
     let options = tubecert::prove::Options { threads: cli.threads.into(), ..Default::default() };
     tubecert::progress::enable(!cli.quiet && std::io::IsTerminal::is_terminal(&std::io::stderr()));

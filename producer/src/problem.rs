@@ -160,12 +160,13 @@ fn json_error(e: &serde_json::Error) -> String {
 }
 
 /// A JSON object keeps only the last of repeated keys: refuse them, so that a generator declared
-/// twice is an error rather than silently dropped.
+/// twice is an error rather than silently dropped. `null` is refused too: the format has none,
+/// and reading it as an absent field would make two different files mean the same.
 pub fn refuse_repeated_keys(json: &str) -> Result<(), String> {
     serde_json::from_str::<NoRepeatedKeys>(json).map(|_| ()).map_err(|e| json_error(&e))
 }
 
-/// Walks a JSON document and fails on an object with a repeated key.
+/// Walks a JSON document and fails on an object with a repeated key or on a `null`.
 struct NoRepeatedKeys;
 
 impl<'de> Deserialize<'de> for NoRepeatedKeys {
@@ -205,8 +206,9 @@ impl<'de> Deserialize<'de> for NoRepeatedKeys {
             fn visit_str<E>(self, _: &str) -> Result<NoRepeatedKeys, E> {
                 Ok(NoRepeatedKeys)
             }
-            fn visit_unit<E>(self) -> Result<NoRepeatedKeys, E> {
-                Ok(NoRepeatedKeys)
+            fn visit_unit<E: serde::de::Error>(self) -> Result<NoRepeatedKeys, E> {
+                // The format has no null (see the JSON Schema): leave an optional field out.
+                Err(E::custom("null is not a value of the format (leave an optional field out)"))
             }
         }
         d.deserialize_any(V)

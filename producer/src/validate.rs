@@ -2,6 +2,7 @@
 //! at once (up to a limit), plus the goals' references.
 
 use crate::problem::{Goal, Problem};
+use tubecert_format::limits::MAX_EXPONENT;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::MapExpr;
 use tubecheck::load::{load_lenient, Context, Errors};
@@ -79,9 +80,13 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
         };
         let ring = &ctx.ring;
         match goal {
-            Goal::TorsionOrder { maps, variable: v, .. } => {
+            Goal::TorsionOrder { maps, variable: v, order, max_order, .. } => {
                 maps.iter().for_each(|m| map(m, &mut errs));
                 variable(v, &mut errs);
+                // Orders are exponents: bounded like every exponent, before the search uses them.
+                if order.iter().chain([max_order]).any(|&k| k > MAX_EXPONENT) {
+                    errs.push(format!("{at}: order and max_order are exponents, at most {MAX_EXPONENT}"));
+                }
                 if maps.iter().all(|m| ctx.map_index.contains_key(m)) {
                     expr(&Goal::pair_expr(maps, &None), &mut errs);
                 }

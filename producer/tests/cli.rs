@@ -381,3 +381,62 @@ fn bench_reduced_cases_and_density() {
     assert!((9.0..10.5).contains(&dense), "{dense}");
     assert_eq!(tubecert(&["bench", "--density", "0.5"]).0, 2);
 }
+
+/// A minus-version problem with the given complexes (JSON members) and goals.
+fn minus_problem(complexes: &str, goals: &str) -> String {
+    format!(
+        r#"{{"format": "tubecert-problem", "version": 1,
+  "ring": {{"variables": ["U"], "gradings": ["maslov", "alexander"], "variable_degrees": {{"U": [-2, -1]}}, "differential_degree": [-1, 0]}},
+  "complexes": {{ "A": {{"generators": {{"a": [0, 0]}}, "differential": []}}, {complexes} }},
+  "maps": {{"F": {{"from": "A", "to": "A", "degree": [0, 0], "terms": [["a", "1", "a"]]}}}},
+  "goals": [{goals}]}}"#
+    )
+}
+
+#[test]
+fn extreme_integers_in_constructions_are_refused_where_they_are_written() {
+    // Each would overflow 64-bit arithmetic in a construction (a shift, a staircase's
+    // gradings, a quotient's (gr_U − gr_V)/2, a tensor's sums): refused at the number, with
+    // the construction named, before any arithmetic.
+    let min = i64::MIN;
+    for (what, complex) in [
+        ("shift", format!(r#""S": {{"shift": ["A", [{min}, 0]]}}"#)),
+        ("shift", r#""S": {"shift": ["A", [2147483649, 0]]}"#.to_string()),
+        (
+            "alexander",
+            r#""S": {"staircase": {"alexander": [9223372036854775807, 0, -9223372036854775807]}}"#.to_string(),
+        ),
+        ("beyond", format!(r#""Q": {{"quotient": [{{"generators": {{"x": [0, {min}]}}, "differential": []}}, "V"]}}"#)),
+        (
+            "beyond",
+            r#""B": {"generators": {"b": [2147483648, 0]}, "differential": []}, "T": {"tensor": ["B", "B"]}"#
+                .to_string(),
+        ),
+    ] {
+        let err = refused("extreme.problem.json", &minus_problem(&complex, ""));
+        assert!(err.contains(what) && err.contains("2147483648"), "{complex}: {err}");
+        assert!(!err.contains("panicked"), "{err}");
+    }
+}
+
+#[test]
+fn orders_beyond_the_exponent_limit_are_refused_before_the_search() {
+    for goal in [
+        r#"{"torsion_order": {"maps": ["F", "F"], "variable": "U", "max_order": 1048577}}"#,
+        r#"{"torsion_order": {"maps": ["F", "F"], "variable": "U", "order": 4294967295}}"#,
+    ] {
+        let err = refused("order.problem.json", &minus_problem(r#""B": {"generators": {}, "differential": []}"#, goal));
+        assert!(err.contains("1048576"), "{goal}: {err}");
+    }
+}
+
+#[test]
+fn family_parameters_do_not_overflow() {
+    // hi − lo wraps to −1 for the extreme range, which passed the "at most 1000 members" test.
+    assert!(tubecert::family::parse_param("p=-9223372036854775808..9223372036854775807").is_err());
+    assert!(tubecert::family::parse_param("p=1..1002").is_err());
+    assert!(tubecert::family::parse_param("p=1..1001").is_ok());
+    // −p for the most negative p has no 64-bit value.
+    assert!(tubecert::family::eval("-p", "p", i64::MIN).is_err());
+    assert_eq!(tubecert::family::eval("-p", "p", 5), Ok(-5));
+}

@@ -6,6 +6,11 @@ pub const MAX_EXPONENT: u32 = 1 << 20;
 /// Largest absolute value of a grading component or degree. With the exponent and expression
 /// limits this keeps every degree computed anywhere below 2^62: no overflow is possible.
 pub const MAX_GRADING_ABS: i64 = 1 << 31;
+/// Whether a grading entry, degree or τ is within ±[`MAX_GRADING_ABS`]. (A range test, not
+/// `abs`, which overflows on the most negative integer.)
+pub fn grading_in_bounds(x: i64) -> bool {
+    (-MAX_GRADING_ABS..=MAX_GRADING_ABS).contains(&x)
+}
 /// Largest file the tools read.
 pub const MAX_FILE_BYTES: u64 = 4 << 30;
 /// Largest number of generators in one complex.

@@ -178,9 +178,54 @@ impl MapExpr {
 
 impl<'de> Deserialize<'de> for MapExpr {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let v = Value::deserialize(d)?;
+        let UniqueKeys(v) = UniqueKeys::deserialize(d)?;
         MapExpr::from_value(&v).map_err(de::Error::custom)
     }
+}
+
+/// A map expression's JSON, read with a repeated key refused at every depth (a `Value` would
+/// silently keep the last, and the file would say two things). Strings, arrays and objects
+/// only: anything else, `null` included, is not part of an expression.
+struct UniqueKeys(Value);
+
+impl<'de> Deserialize<'de> for UniqueKeys {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct V;
+        impl<'de> Visitor<'de> for V {
+            type Value = UniqueKeys;
+            fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+                f.write_str("a map expression")
+            }
+            fn visit_str<E: de::Error>(self, s: &str) -> Result<UniqueKeys, E> {
+                Ok(UniqueKeys(Value::String(s.into())))
+            }
+            fn visit_seq<A: de::SeqAccess<'de>>(self, mut a: A) -> Result<UniqueKeys, A::Error> {
+                let mut items = Vec::new();
+                while let Some(UniqueKeys(x)) = a.next_element()? {
+                    items.push(x);
+                }
+                Ok(UniqueKeys(Value::Array(items)))
+            }
+            fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<UniqueKeys, A::Error> {
+                let mut m = serde_json::Map::new();
+                while let Some(k) = a.next_key::<String>()? {
+                    let UniqueKeys(x) = a.next_value()?;
+                    if m.insert(k.clone(), x).is_some() {
+                        return Err(de::Error::custom(format!("\"{k}\" appears twice in one map expression")));
+                    }
+                }
+                Ok(UniqueKeys(Value::Object(m)))
+            }
+        }
+        d.deserialize_any(V)
+    }
+}
+
+/// An optional field that, when written, holds a value: `null` is refused, as in the JSON
+/// Schema (RFC 8785 would hash `"dual": null`, unlike an absent field, so reading it as absent
+/// would make the hash differ from the file's).
+fn present<'de, D: Deserializer<'de>, T: Deserialize<'de>>(d: D) -> Result<Option<T>, D::Error> {
+    T::deserialize(d).map(Some)
 }
 
 /// Witness of a null-homotopy: φ = ∂H + H∂.
@@ -223,7 +268,7 @@ pub struct BasisWitness {
 #[serde(deny_unknown_fields)]
 pub struct TorsionWitness {
     pub homotopy: Vec<Term>,
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "present")]
     pub dual: Option<Vec<Term>>,
 }
 

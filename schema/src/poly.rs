@@ -126,21 +126,29 @@ fn parse_factors(part: &str, column: usize, variables: &[String]) -> Result<Mono
             return Err(format!("at column {}: expected {expected}, found {found}", at(rest)));
         };
         rest = rest[name.len()..].trim_start();
-        let mut e: u64 = 1;
+        let mut e: u32 = 1;
         if let Some(after) = rest.strip_prefix('^') {
             let after = after.trim_start();
             let digits = after.len() - after.trim_start_matches(|c: char| c.is_ascii_digit()).len();
             if digits == 0 {
                 return Err(format!("at column {}: expected an exponent after '^'", at(after)));
             }
-            e = after[..digits].parse().unwrap_or(u64::MAX);
+            // Bounded at the token, before any arithmetic: no exponent can wrap.
+            e = match after[..digits].parse::<u32>() {
+                Ok(e) if e <= MAX_EXPONENT => e,
+                _ => {
+                    let shown = if digits > 20 { format!("{}…", &after[..20]) } else { after[..digits].to_string() };
+                    return Err(format!("at column {}: exponent {shown} is above the limit {MAX_EXPONENT}", at(after)));
+                }
+            };
             rest = after[digits..].trim_start();
         }
-        let total = m.0[vi] as u64 + e;
-        if total > MAX_EXPONENT as u64 {
+        // Both at most 2^20: the sum cannot overflow.
+        let total = m.0[vi] + e;
+        if total > MAX_EXPONENT {
             return Err(format!("exponent of {name} is {total}, above the limit {MAX_EXPONENT}"));
         }
-        m.0[vi] = total as u32;
+        m.0[vi] = total;
         match rest.strip_prefix('*') {
             _ if rest.is_empty() => return Ok(m),
             Some(after) => rest = after.trim_start(),
@@ -172,6 +180,10 @@ mod tests {
         assert!(parse_poly("W", &v).unwrap_err().contains("column 1"));
         assert!(parse_poly("U + U", &v).unwrap_err().contains("twice"));
         assert!(parse_poly("U^99999999999", &v).unwrap_err().contains("limit"));
+        // 3 + (2^64 − 3) wraps to 0 in 64 bits: each exponent is bounded before it is added.
+        assert!(parse_poly("U^3*U^18446744073709551613", &v).unwrap_err().contains("limit"));
+        assert!(parse_poly("U^1048576*U", &v).unwrap_err().contains("limit"));
+        assert_eq!(parse_poly("U^1048575*U", &v).unwrap(), vec![Mono([MAX_EXPONENT, 0])]);
         assert!(parse_poly("U +", &v).is_err());
         assert!(parse_poly("U", &[]).unwrap_err().contains("no variables"));
         assert!(parse_poly("U*", &v).unwrap_err().contains("column 3"));

@@ -1,7 +1,7 @@
 //! The checked form of a [`Ring`]: variable names, degrees of monomials, and the finiteness
 //! condition that makes every graded piece of Hom(C, D) finite-dimensional.
 
-use crate::limits::{MAX_GRADING_ABS, MAX_NAME_LEN};
+use crate::limits::{grading_in_bounds, MAX_GRADING_ABS, MAX_NAME_LEN};
 use crate::model::{Grading, Ring};
 use crate::names::{check_name, visible};
 use crate::poly::{Mono, MAX_VARIABLES};
@@ -120,7 +120,7 @@ fn check_vector(what: &str, v: &[i64], m: usize, errs: &mut Vec<String>) {
     if v.len() != m {
         errs.push(format!("{what} has {} entries, expected {m} (one per grading)", v.len()));
     }
-    if v.iter().any(|x| x.abs() > MAX_GRADING_ABS) {
+    if !v.iter().all(|&x| grading_in_bounds(x)) {
         errs.push(format!("{what} has an entry beyond ±{MAX_GRADING_ABS}"));
     }
 }
@@ -134,8 +134,12 @@ fn infinite_piece(d: &[Grading]) -> Option<String> {
         return Some("a variable has degree zero".into());
     }
     if let [d0, d1] = d {
+        // Entries are at most 2^31, so products are below 2^62 but a sum of four may pass 2^63:
+        // computed in 128 bits.
+        let (d0, d1): (Vec<i128>, Vec<i128>) =
+            (d0.iter().map(|&x| x.into()).collect(), d1.iter().map(|&x| x.into()).collect());
         let parallel = (0..d0.len()).all(|i| (0..d0.len()).all(|j| d0[i] * d1[j] == d0[j] * d1[i]));
-        let dot: i64 = d0.iter().zip(d1).map(|(a, b)| a * b).sum();
+        let dot: i128 = d0.iter().zip(&d1).map(|(a, b)| a * b).sum();
         if parallel && dot < 0 {
             return Some("a product of variables has degree zero".into());
         }
@@ -164,5 +168,9 @@ mod tests {
         assert!(ring(&[("U", vec![0, 0])], vec![-1, 0]).is_err());
         // Parallel degrees pointing the same way are fine.
         assert!(ring(&[("U", vec![-2, 0]), ("V", vec![-4, 0])], vec![-1, 0]).is_ok());
+        // deg U · deg V = −2^64 in 64 bits wraps to 0; U·V has degree zero all the same.
+        let m = crate::limits::MAX_GRADING_ABS;
+        assert!(ring(&[("U", vec![-m; 4]), ("V", vec![m; 4])], vec![-1, 0, 0, 0]).is_err());
+        assert!(ring(&[("U", vec![i64::MIN, -1])], vec![-1, 0]).is_err());
     }
 }

@@ -69,6 +69,42 @@ def check_hashes_and_schemas(root, extra_dirs):
     return len(files)
 
 
+def check_null_and_repeated_keys(root, tubecheck):
+    """A file whose hash is right by RFC 8785 but which holds a null (the schema has none) or a
+    repeated key (which readers resolve differently) must be refused by the schema and by
+    tubecheck (exit 2), never read as another file."""
+    cert_schema = json.load(open(os.path.join(root, "schema/certificate.schema.json")))
+    doc = json.load(open(os.path.join(root, "certificates/tower.cert.json"), encoding="utf-8"))
+    with tempfile.TemporaryDirectory() as tmp:
+        # "dual": null on the torsion-order claim, hashed as RFC 8785 hashes it (with the null).
+        nulled = json.loads(json.dumps(doc))
+        claim = next(c for c in nulled["body"]["claims"] if c["kind"] == "torsion_order")
+        claim["witness"]["dual"] = None
+        nulled["sha256"] = hashlib.sha256(rfc8785.dumps(nulled["body"])).hexdigest()
+        try:
+            jsonschema.validate(nulled, cert_schema, cls=jsonschema.Draft202012Validator)
+            record(False, "the certificate schema accepts \"dual\": null")
+        except jsonschema.ValidationError:
+            record(True, "")
+        path = os.path.join(tmp, "null.cert.json")
+        with open(path, "w", encoding="utf-8") as f:
+            json.dump(nulled, f, ensure_ascii=False)
+        r = subprocess.run([tubecheck, path], capture_output=True, text=True)
+        record(r.returncode == 2 and "null" in r.stderr + r.stdout, f"tubecheck on \"dual\": null: exit {r.returncode}")
+        # A repeated key inside a map expression; the hash is the one a last-wins reader computes.
+        text = json.dumps(doc, ensure_ascii=False)
+        at = text.index('{"sum": [')
+        text = text[:at] + '{"sum": ["F"], "sum": [' + text[at + len('{"sum": ['):]
+        last_wins = json.loads(text)
+        last_wins_hash = hashlib.sha256(rfc8785.dumps(last_wins["body"])).hexdigest()
+        text = text.replace(doc["sha256"], last_wins_hash)
+        path = os.path.join(tmp, "dup.cert.json")
+        with open(path, "w", encoding="utf-8") as f:
+            f.write(text)
+        r = subprocess.run([tubecheck, path], capture_output=True, text=True)
+        record(r.returncode == 2 and "twice" in r.stderr + r.stdout, f"tubecheck on a repeated key: exit {r.returncode}")
+
+
 # Polynomials over F2[U] as Python ints: bit e is the coefficient of U^e.
 def pmul(a, b):
     out = 0
@@ -196,6 +232,8 @@ def main():
     a = ap.parse_args()
     n = check_hashes_and_schemas(a.root, a.extra)
     print(f"outside: {n} stored files checked against rfc8785 and the JSON schemas")
+    check_null_and_repeated_keys(a.root, os.path.join(os.path.dirname(a.tubecert), "tubecheck"))
+    print("outside: a null and a repeated key, hashed by rfc8785, refused by the schema and tubecheck")
     check_homology_against_sympy(a.tubecert, a.cases, a.seed)
     print(f"outside: {a.cases} random complexes compared with sympy's Smith normal form over GF(2)[U]")
     print(f"outside: {PASSED} passed, {FAILED} failed")
