@@ -2,6 +2,8 @@
 //! independent evaluator of the two defining identities (written without the checker's code),
 //! used to decide whether a mutated witness is semantically neutral.
 
+pub mod bordered_oracle;
+
 use serde_json::Value;
 use std::collections::BTreeMap;
 use tubecert::prove::Proved;
@@ -629,6 +631,10 @@ pub mod oracle {
 
     /// Does every implicit check and every claim of a body of format `version` hold?
     pub fn holds_in(body: &Body, version: u32) -> bool {
+        // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
+        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
+            return false;
+        }
         // Numbers first, read by the oracle's own reader in the body's ring.
         let _ring = super::numbers::in_ring(&body.ring.variables);
         if !super::numbers::readable(body) || !crate::wording::names_legal(body) {
@@ -696,6 +702,15 @@ pub mod oracle {
                     vars.first() == Some(variable)
                         && w.homology(complex, witness)
                             .is_some_and(|(_, t)| t.iter().map(|x| x.0).max().unwrap_or(0) == *order)
+                }
+                // The bordered kinds are decided by their own oracle, over the body as JSON.
+                c if crate::bordered_oracle::cert::KINDS.contains(&c.kind()) => {
+                    let body = serde_json::to_value(body).unwrap();
+                    let claim = serde_json::to_value(c).unwrap();
+                    crate::bordered_oracle::cert::read_bordered(&body)
+                        .and_then(|b| b.ok_or("no bordered member".into()))
+                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim))
+                        .is_ok()
                 }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
             }
@@ -814,6 +829,8 @@ pub mod wording {
                     format!("τ({complex}) = {tau}")
                 }
             }
+            // The bordered kinds: their wording lives with their oracle.
+            c if version >= 2 => return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?),
             _ => return None,
         })
     }

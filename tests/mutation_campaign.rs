@@ -359,6 +359,21 @@ fn mutate(rng: &mut Rng, body: &mut Body, version: &mut u32) -> &'static str {
             let (fg, tg) = (gens(body, &from), gens(body, &to));
             mutate_terms(rng, &mut body.maps.0.get_mut(&m).unwrap().terms, &fg, &tg, two)
         }
+        4 if serde_json::to_value(&*body).is_ok_and(|v| v.get("bordered").is_some_and(|b| !b.is_null())) => {
+            // A bordered object or claim (tests/bordered_oracle.rs), statements re-rendered.
+            let mut v = serde_json::to_value(&*body).unwrap();
+            let what = tubecert_tests::bordered_oracle::mutation::mutate(rng, &mut v);
+            match serde_json::from_value::<Body>(v) {
+                Ok(b) => {
+                    *body = b;
+                    for i in 0..body.claims.len() {
+                        restate(body, i, *version);
+                    }
+                    what
+                }
+                Err(_) => "leave a bordered object unchanged",
+            }
+        }
         3 => {
             // A claimed order or rank, with the statement kept consistent.
             let i = rng.below(body.claims.len() as u64) as usize;

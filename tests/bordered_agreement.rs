@@ -1,0 +1,431 @@
+//! The bordered claims decided twice — by the checker and by the independent oracle of
+//! `tests/bordered_oracle.rs` (which reads the certificate as plain JSON) — on certificates the
+//! producer writes and on mutations of them: the two must agree on every verdict. Plus the
+//! cross-check of the pairing with the core pattern against the V = 0 quotient, by homology
+//! computed by the oracle, never through a box tensor product.
+
+use serde_json::{json, Value};
+use std::collections::BTreeMap;
+use tubecert_tests::bordered_oracle::{self as bo, cert, mutation};
+use tubecert_tests::{minus_ring, oracle, prove_value, Rng};
+
+fn certificate(problem: &Value) -> Value {
+    let proved = prove_value(problem);
+    serde_json::from_slice(&tubecert::canonical_writer::file_bytes(&proved.certificate).unwrap()).unwrap()
+}
+
+/// The checker's verdict on a certificate given as JSON.
+fn checker_accepts(c: &Value) -> bool {
+    tubecheck::check_bytes("mutant", &serde_json::to_vec(c).unwrap()).is_ok_and(|r| r.ok())
+}
+
+/// The oracle's verdict: the bordered arms over JSON, and the oracle of `tests/lib.rs` for the
+/// ordinary objects (complexes, maps) and the statements.
+fn oracle_accepts(body: &Value) -> Result<(), String> {
+    cert::check_body(body)?;
+    let typed: tubecert_format::Body = serde_json::from_value(body.clone()).map_err(|e| e.to_string())?;
+    if !oracle::holds(&typed) {
+        return Err("the oracle of tests/lib.rs refuses".into());
+    }
+    Ok(())
+}
+
+/// A mutated body sealed again: statements re-rendered (they are derived), hash recomputed.
+/// None when the body no longer has the typed shape (then the checker refuses it at loading).
+fn reseal(cert: &Value, body: Value) -> Option<Value> {
+    let mut typed: tubecert_format::Body = serde_json::from_value(body).ok()?;
+    let ring = tubecert_format::RingInfo::new(&typed.ring).ok()?;
+    for c in typed.claims.iter_mut() {
+        let text = tubecert_format::statement::render(c, &ring, 2);
+        *c.statement_mut() = text;
+    }
+    let sha = tubecert_format::canonical::canonical_sha256(&typed).ok()?;
+    let mut out = cert.clone();
+    out["body"] = serde_json::to_value(&typed).unwrap();
+    out["sha256"] = json!(sha);
+    Some(out)
+}
+
+const TORUS: [(&str, i64); 3] = [("T23", 1), ("T34", 3), ("T25", 2)];
+
+fn source(name: &str) -> Value {
+    match name {
+        "T23" => json!({"staircase": {"torus_knot": [2, 3]}}),
+        "T34" => json!({"staircase": {"torus_knot": [3, 4]}}),
+        "T25" => json!({"staircase": {"torus_knot": [2, 5]}}),
+        "O" => json!({"staircase": {"alexander": [0]}}),
+        _ => unreachable!(),
+    }
+}
+
+/// An explicit complex over F2[U,V] with an isolated generator `x` at (0, 0) (so ξ_0 = η_0) and
+/// a square a → U·b + V·c, b → V·d, c → U·d with a at (m, m): the shape of the figure-eight's
+/// complex for m = 0 (memory), simultaneously simplified as written.
+fn box_and_point(m: i64, stair: Option<&[i64]>) -> Value {
+    let mut gens = json!({"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]});
+    let mut d = vec![json!(["a", "U", "b"]), json!(["a", "V", "c"]), json!(["b", "V", "d"]), json!(["c", "U", "d"])];
+    match stair {
+        None => gens["x"] = json!([0, 0]),
+        // A staircase in place of the point (conventions sheet), names s0, s1, ….
+        Some(a) => {
+            let mut gu = 0;
+            for i in 0..a.len() {
+                if i > 0 {
+                    gu += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
+                }
+                gens[format!("s{i}")] = json!([gu, gu - 2 * a[i]]);
+            }
+            for i in (1..a.len()).step_by(2) {
+                d.push(json!([format!("s{i}"), format!("U^{}", a[i - 1] - a[i]), format!("s{}", i - 1)]));
+                d.push(json!([format!("s{i}"), format!("V^{}", a[i] - a[i + 1]), format!("s{}", i + 1)]));
+            }
+        }
+    }
+    json!({"generators": gens, "differential": d})
+}
+
+/// Companions with their τ (OS 2003: τ(T(p,q)) = (p−1)(q−1)/2, odd under mirror): staircases,
+/// duals (mirrors), the unknot, a square beside a point (the figure-eight's shape, τ = 0,
+/// ξ_0 = η_0), and the T(2,5) staircase beside a square at (−2, −2) — the complex of
+/// T(2,3) # T(2,3) up to homotopy (memory), τ = 2 — together with its dual.
+fn companions() -> Vec<(String, Value, i64)> {
+    let mut out = vec![("unknot".to_string(), source("O"), 0)];
+    for (k, tau) in TORUS {
+        out.push((k.to_string(), source(k), tau));
+        out.push((format!("dual {k}"), json!({"dual": source(k)}), -tau));
+    }
+    out.push(("square and point".into(), box_and_point(0, None), 0));
+    out.push(("staircase 8 0 −8".into(), json!({"staircase": {"alexander": [8, 0, -8]}}), 8));
+    let sum = box_and_point(-2, Some(&[2, 1, 0, -1, -2]));
+    out.push(("T(2,5) staircase and square".into(), sum.clone(), 2));
+    out.push(("dual of T(2,5) staircase and square".into(), json!({"dual": sum}), -2));
+    out
+}
+
+/// One problem: the complement of SOURCE at framing t, the core, their box tensor product, the
+/// same through `cable`, and the V = 0 quotient of SOURCE.
+fn pairing_problem(src: &Value, t: i64) -> Value {
+    json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
+        "type_d_structures": {"N": {"complement": {"companion": src, "framing": t}}},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}},
+        "complexes": {
+            "X": {"box_tensor": ["M", "N"]},
+            "K": {"cable": {"companion": src, "p": 1, "q": t + 1}},
+            "Q": {"quotient": [src, "V"]}
+        },
+        "goals": []})
+}
+
+fn framings(tau: i64) -> Vec<i64> {
+    vec![2 * tau - 3, 2 * tau - 1, 2 * tau, 2 * tau + 1, 2 * tau + 4]
+}
+
+/// The homology over F2[U] with (Maslov, Alexander) gradings of a complex of the body, by the
+/// oracle's own cancellation.
+fn homology_of(body: &Value, name: &str) -> bo::Homology {
+    let c = &body["complexes"][name];
+    let gr: BTreeMap<String, (i64, i64)> = c["generators"]
+        .as_object()
+        .unwrap()
+        .iter()
+        .map(|(g, v)| (g.clone(), (v[0].as_i64().unwrap(), v[1].as_i64().unwrap())))
+        .collect();
+    let mut d: bo::UComplex = gr.keys().map(|g| (g.clone(), Default::default())).collect();
+    for t in c["differential"].as_array().unwrap() {
+        for (i, _) in cert::coefficient(t[1].as_str().unwrap(), &["U"]).unwrap() {
+            bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), (i, t[2].as_str().unwrap().to_string()));
+        }
+    }
+    bo::homology(&gr, &d).unwrap()
+}
+
+/// The homology of C/(V) for the full complex C of the body, computed by the oracle; with
+/// `flip`, of C/(U) over F2[V] with gradings (gr_V, −A), which for the symmetric complex of a
+/// knot (staircases, their duals and tensor products) is the same graded module
+/// (Ozsváth–Szabó's symmetry of CFK, memory).
+fn quotient_homology(body: &Value, full: &str, flip: bool) -> bo::Homology {
+    let c = &body["bordered"]["full_complexes"][full];
+    let gr: BTreeMap<String, (i64, i64)> = c["generators"]
+        .as_object()
+        .unwrap()
+        .iter()
+        .map(|(g, v)| {
+            let (mut u, mut w) = (v[0].as_i64().unwrap(), v[1].as_i64().unwrap());
+            if flip {
+                (u, w) = (w, u);
+            }
+            (g.clone(), (u, (u - w) / 2))
+        })
+        .collect();
+    let mut d: bo::UComplex = gr.keys().map(|g| (g.clone(), Default::default())).collect();
+    for t in c["differential"].as_array().unwrap() {
+        for (mut i, mut j) in cert::coefficient(t[1].as_str().unwrap(), &["U", "V"]).unwrap() {
+            if flip {
+                (i, j) = (j, i);
+            }
+            if j == 0 {
+                bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), (i, t[2].as_str().unwrap().to_string()));
+            }
+        }
+    }
+    bo::homology(&gr, &d).unwrap()
+}
+
+#[test]
+fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
+    for (what, src, tau) in companions() {
+        for t in framings(tau) {
+            let c = certificate(&pairing_problem(&src, t));
+            assert!(checker_accepts(&c), "{what}, t = {t}: the checker refuses the producer's certificate");
+            oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+            let body = &c["body"];
+            let kinds: Vec<&str> =
+                body["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+            for k in ["complement", "type_d_structure", "type_a_module", "box_tensor"] {
+                assert!(kinds.contains(&k), "{what}, t = {t}: no {k} claim");
+            }
+            cert::truncation_covers_pairings(body).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+            // τ as the complement claim states it (OS 2003, memory: torus knots, sums, mirrors).
+            let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap();
+            assert_eq!(comp["tau"], json!(tau), "{what}");
+            // Pairing theorem for knots (LOT Thm 11.21) with the core: CFK^-(K) itself; compared
+            // with the quotient, through homology only (no box tensor code involved).
+            let hx = homology_of(body, "X");
+            assert_eq!(hx, homology_of(body, "K"), "{what}, t = {t}: cable 1 (t+1) against the box tensor product");
+            assert_eq!(hx, homology_of(body, "Q"), "{what}, t = {t}: against quotient V of SOURCE");
+            let full = comp["complex"].as_str().unwrap();
+            assert_eq!(
+                hx,
+                quotient_homology(body, full, false),
+                "{what}, t = {t}: against C/(V) of the certificate's C"
+            );
+            // The vertical arrows of the certificate's C (which make the κ chains) are checked
+            // against the source by symmetry: C/(U) must look like C/(V).
+            assert_eq!(hx, quotient_homology(body, full, true), "{what}, t = {t}: C/(U) of the certificate's C");
+            // HFK^- = F2[U] ⊕ torsion with the tower at (−2τ, −τ) (conventions sheet).
+            assert_eq!(hx.0, vec![(-2 * tau, -tau)], "{what}, t = {t}");
+        }
+    }
+}
+
+/// Mutates every certificate `per` times and compares verdicts; returns the disagreements.
+fn campaign(certs: &[(String, Value)], per: usize, seed: u64) -> Vec<String> {
+    let mut bad = Vec::new();
+    let mut rng = Rng(seed);
+    let (mut tried, mut rejected) = (0, 0);
+    for (what, c) in certs {
+        for _ in 0..per {
+            let mut body = c["body"].clone();
+            let how = mutation::mutate(&mut rng, &mut body);
+            if body == c["body"] {
+                continue;
+            }
+            tried += 1;
+            let sealed = reseal(c, body.clone());
+            let checker = sealed.as_ref().is_some_and(checker_accepts);
+            let ours = match &sealed {
+                Some(s) => oracle_accepts(&s["body"]),
+                None => Err("no longer the typed shape".into()),
+            };
+            if !checker {
+                rejected += 1;
+            }
+            if checker != ours.is_ok() {
+                bad.push(format!("{what}: after \"{how}\" the checker says {checker}, the oracle {ours:?}"));
+            }
+        }
+    }
+    eprintln!("bordered mutations: {tried} tried, {rejected} rejected, {} disagreements", bad.len());
+    bad
+}
+
+#[test]
+fn checker_and_oracle_agree_on_mutated_pairings() {
+    let mut certs = Vec::new();
+    for (what, src, tau) in companions() {
+        for t in [2 * tau - 2, 2 * tau, 2 * tau + 2] {
+            certs.push((format!("{what}, t = {t}"), certificate(&pairing_problem(&src, t))));
+        }
+    }
+    let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0x05EE_DB0D);
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+/// A structure written out in the problem (the oracle's own complement of T(3,4) at framing t,
+/// staircase names as the producer's), a renamed copy, and morphisms between them: the renaming
+/// (ι coefficients), and δ¹ itself into N and into the copy (a sum of the two kinds would not
+/// be homogeneous).
+fn morphism_problem(t: i64) -> Value {
+    let mut c = bo::UVComplex::default();
+    // T(3,4): a = (3, 2, 0, −2, −3) (OS 2005); staircase as on the conventions sheet.
+    let a = [3i64, 2, 0, -2, -3];
+    let mut gu = 0;
+    for i in 0..5 {
+        if i > 0 {
+            gu += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
+        }
+        c.gr.insert(format!("x{i}"), (gu, gu - 2 * a[i]));
+    }
+    for i in [1usize, 3] {
+        let e = c.d.entry(format!("x{i}")).or_default();
+        e.insert(((a[i - 1] - a[i]) as u32, 0, format!("x{}", i - 1)));
+        e.insert((0, (a[i] - a[i + 1]) as u32, format!("x{}", i + 1)));
+    }
+    let n = bo::complement(&c, t, false).unwrap();
+    let write = |n: &bo::DStructure, suffix: &str| -> Value {
+        let gens: serde_json::Map<String, Value> = n
+            .idem
+            .iter()
+            .map(|(g, i)| {
+                let mut o = json!({"idempotent": i});
+                if let Some((m, a)) = n.gr.get(g) {
+                    o["grading"] = json!([m, a]);
+                }
+                (format!("{g}{suffix}"), o)
+            })
+            .collect();
+        let terms: Vec<Value> = n
+            .delta
+            .iter()
+            .flat_map(|(x, e)| {
+                e.iter().map(move |(al, y)| json!([format!("{x}{suffix}"), alg_name(*al), format!("{y}{suffix}")]))
+            })
+            .collect();
+        json!({"generators": gens, "differential": terms})
+    };
+    let rename: Vec<Value> = n.idem.keys().map(|g| json!([g, "1", format!("{g}'")])).collect();
+    let delta: Vec<Value> =
+        n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), y]))).collect();
+    let delta2: Vec<Value> = n
+        .delta
+        .iter()
+        .flat_map(|(x, e)| e.iter().map(move |(al, y)| json!([x, alg_name(*al), format!("{y}'")])))
+        .collect();
+    json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
+        "type_d_structures": {"N": write(&n, ""), "N2": write(&n, "'")},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 1}}, "M2": two_cores()},
+        "type_d_morphisms": {"f": {"from": "N", "to": "N2", "terms": rename},
+                             "g": {"from": "N", "to": "N", "terms": delta},
+                             "k": {"from": "N", "to": "N2", "terms": delta2}},
+        "complexes": {"X": {"box_tensor": ["M", "N"]}, "X2": {"box_tensor": ["M", "N2"]},
+                      "Y": {"box_tensor": ["M2", "N"]}, "Y2": {"box_tensor": ["M2", "N2"]}},
+        "maps": {"F": {"box_tensor_map": ["M", "f"]}, "G": {"box_tensor_map": ["M", "g"]},
+                 "H": {"box_tensor_map": ["M", "k"]}, "FY": {"box_tensor_map": ["M2", "f"]}},
+        "goals": []})
+}
+
+/// Two copies of the core with m_1(x) = x′ (a module with a differential, two generators):
+/// the A∞ relations hold since m(x′, w) = U^ℓ·x′ = m_1(m(x, w)) for every core word w.
+fn two_cores() -> Value {
+    let core = |x: &str| json!({"from": x, "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": x});
+    json!({"generators": {"x": {"grading": [0, 0], "idempotent": 0}, "x'": {"grading": [-1, 0], "idempotent": 0}},
+           "operations": [core("x"), core("x'"),
+                          {"from": "x", "power": [0, 0], "prefix": [], "repeat": [], "suffix": [], "to": "x'"}]})
+}
+
+fn alg_name(a: bo::torus::Alg) -> String {
+    if a.is_idempotent() {
+        "1".into()
+    } else {
+        a.name().replace("ρ_", "rho")
+    }
+}
+
+#[test]
+fn morphisms_and_their_maps_agree_and_mutations_too() {
+    let mut certs = Vec::new();
+    for t in [3, 6, 9] {
+        let c = certificate(&morphism_problem(t));
+        assert!(checker_accepts(&c), "t = {t}");
+        oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("t = {t}: {e}"));
+        let kinds: Vec<&str> =
+            c["body"]["claims"].as_array().unwrap().iter().map(|x| x["kind"].as_str().unwrap()).collect();
+        assert!(kinds.contains(&"type_d_morphism") && kinds.contains(&"box_tensor_map"), "{kinds:?}");
+        certs.push((format!("morphisms, t = {t}"), c));
+    }
+    let bad = campaign(&certs, tubecert_tests::cases(60) as usize, 0xF00D);
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+/// Tensor products of sources (connected sums; τ additive, OS 2003): in the product basis they
+/// are not simplified, and the producer must either find a simultaneously simplified basis —
+/// then the certificate passes both deciders and pairs back to the quotient — or refuse
+/// saying which theorem needs it.
+#[test]
+fn tensor_product_companions_are_paired_or_refused_by_name() {
+    let t23 = source("T23");
+    for (what, src, tau) in [
+        ("T23 # T23", json!({"tensor": [t23, t23]}), 2),
+        ("T23 # mirror T23", json!({"tensor": [t23, {"dual": t23}]}), 0),
+        ("T34 # mirror T23", json!({"tensor": [source("T34"), {"dual": t23}]}), 2),
+    ] {
+        for t in [2 * tau - 1, 2 * tau, 2 * tau + 2] {
+            let problem = pairing_problem(&src, t);
+            let bytes = serde_json::to_vec(&problem).unwrap();
+            let checked = tubecert::problem::parse_problem(&bytes, "test")
+                .map_err(|e| format!("{e:?}"))
+                .and_then(|p| tubecert::validate::validate(&p).map(|_| ()).map_err(|e| format!("{e:?}")));
+            match checked {
+                Err(e) => {
+                    let msg = format!("{e:?}");
+                    assert!(msg.contains("simultaneously") && msg.contains("11.26"), "{what}: {msg}");
+                }
+                Ok(_) => {
+                    let c = certificate(&problem);
+                    assert!(checker_accepts(&c), "{what}, t = {t}");
+                    oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+                    assert_eq!(homology_of(&c["body"], "X"), homology_of(&c["body"], "Q"), "{what}, t = {t}");
+                }
+            }
+        }
+    }
+}
+
+/// The τ and Alexander-grading rules of `complement` probed on a grid: the unknot's generator
+/// moved to (g_U, g_V), the structure's and the box tensor product's gradings and the claimed τ
+/// set to every nearby value; the two deciders must agree on each (LOT Thm 11.26 speaks of
+/// knots, where A(ξ_0) = τ = −A(η_0) is an integer).
+#[test]
+fn complement_grading_rules_agree_on_a_grid() {
+    let c = certificate(&pairing_problem(&source("O"), 0));
+    let body = &c["body"];
+    let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap().clone();
+    let (full, n) = (comp["complex"].as_str().unwrap().to_string(), comp["structure"].as_str().unwrap().to_string());
+    let x0 = mutation::keys(&body["bordered"]["full_complexes"][&full]["generators"])[0].clone();
+    let (mut tried, mut accepted, mut bad) = (0, 0, Vec::new());
+    for gu in -2i64..=2 {
+        for gv in -2i64..=2 {
+            for a in -1i64..=1 {
+                for tau in -1i64..=1 {
+                    let mut b = body.clone();
+                    b["bordered"]["full_complexes"][&full]["generators"][&x0] = json!([gu, gv]);
+                    b["bordered"]["type_d_structures"][&n]["generators"][&x0]["grading"] = json!([gu, a]);
+                    for (cx, g) in [("X", format!("x⊗{x0}"))] {
+                        if b["complexes"][cx]["generators"].get(&g).is_some() {
+                            b["complexes"][cx]["generators"][&g] = json!([gu, a]);
+                        }
+                    }
+                    let claims = b["claims"].as_array_mut().unwrap();
+                    for cl in claims.iter_mut() {
+                        if cl["kind"] == "complement" && cl["structure"] == json!(n) {
+                            cl["tau"] = json!(tau);
+                        }
+                    }
+                    let Some(sealed) = reseal(&c, b) else { continue };
+                    tried += 1;
+                    let checker = checker_accepts(&sealed);
+                    let ours = oracle_accepts(&sealed["body"]);
+                    accepted += checker as u32;
+                    if checker != ours.is_ok() {
+                        bad.push(format!(
+                            "C at ({gu}, {gv}), grading A = {a}, τ = {tau}: checker {checker}, oracle {ours:?}"
+                        ));
+                    }
+                }
+            }
+        }
+    }
+    eprintln!("grading grid: {tried} tried, {accepted} accepted");
+    assert!(accepted >= 1, "the unmoved certificate is among the grid");
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
