@@ -103,7 +103,7 @@ fn a_forged_tau_over_the_full_ring_is_rejected() {
     let forged = claim["statement"].as_str().unwrap().replace("τ(T) = 1", "τ(T) = 2");
     claim["statement"] = serde_json::json!(forged);
     let body: tubecert_format::Body = serde_json::from_value(c["body"].clone()).unwrap();
-    let results = tubecheck::verify::check_body(&body, tubecert_format::CERTIFICATE_VERSION).unwrap();
+    let results = tubecheck::verify::check_body(&body, tubecert_format::CERTIFICATE_VERSION, u64::MAX).unwrap();
     let r = results.iter().find(|r| r.kind == "tau").unwrap();
     assert!(r.outcome.as_ref().unwrap_err().contains("τ = 1, not 2"), "{:?}", r.outcome);
 }
