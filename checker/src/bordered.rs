@@ -626,7 +626,7 @@ pub fn tensor_map(
     Ok((gens, rows))
 }
 
-/// The type D structure of LOT Thm 11.26 for a complex C over F2[U,V] in a simultaneously
+/// The type D structure of LOT Thm 11.26 for a complex C over `F2[U,V]` in a simultaneously
 /// simplified basis and framing t, and τ = A(ξ_0).
 pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
     let refuse = |why: String| {
