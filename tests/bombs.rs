@@ -6,12 +6,12 @@
 
 use serde_json::{json, Value};
 
-/// The minus ring F2[U] with (Maslov, Alexander).
+/// The minus ring `F2[U]` with (Maslov, Alexander).
 pub fn ring_u() -> Value {
     json!({"variables": ["U"], "gradings": ["maslov", "alexander"], "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]})
 }
 
-/// F2[U,V] with U and V of the same degree: many monomials share a degree.
+/// `F2[U,V]` with U and V of the same degree: many monomials share a degree.
 pub fn ring_uv_same_degree() -> Value {
     json!({"variables": ["U", "V"], "gradings": ["g"], "variable_degrees": {"U": [-1], "V": [-1]}, "differential_degree": [-1]})
 }

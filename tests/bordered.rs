@@ -30,7 +30,7 @@ fn failed_kinds(body: Body) -> Vec<String> {
     outcomes(body).unwrap().into_iter().filter(|c| c.1.is_err()).map(|c| c.0).collect()
 }
 
-/// Companions over F2[U,V]: staircases (Ozsváth–Szabó 2005) and their duals (mirrors).
+/// Companions over `F2[U,V]`: staircases (Ozsváth–Szabó 2005) and their duals (mirrors).
 fn companions() -> Vec<(String, Value)> {
     let mut out = Vec::new();
     for pq in [[2, 3], [2, 5], [3, 4], [3, 5], [2, 7], [4, 5]] {

@@ -58,7 +58,7 @@ fn source(name: &str) -> Value {
     }
 }
 
-/// An explicit complex over F2[U,V] with an isolated generator `x` at (0, 0) (so ξ_0 = η_0) and
+/// An explicit complex over `F2[U,V]` with an isolated generator `x` at (0, 0) (so ξ_0 = η_0) and
 /// a square a → U·b + V·c, b → V·d, c → U·d with a at (m, m): the shape of the figure-eight's
 /// complex for m = 0 (memory), simultaneously simplified as written.
 fn box_and_point(m: i64, stair: Option<&[i64]>) -> Value {
@@ -120,7 +120,7 @@ fn framings(tau: i64) -> Vec<i64> {
     vec![2 * tau - 3, 2 * tau - 1, 2 * tau, 2 * tau + 1, 2 * tau + 4]
 }
 
-/// The homology over F2[U] with (Maslov, Alexander) gradings of a complex of the body, by the
+/// The homology over `F2[U]` with (Maslov, Alexander) gradings of a complex of the body, by the
 /// oracle's own cancellation.
 fn homology_of(body: &Value, name: &str) -> bo::Homology {
     let c = &body["complexes"][name];

@@ -96,7 +96,7 @@ pub mod torus {
 
 use torus::Alg;
 
-/// An element of a free F2[U]-module: a set of U^n·g (sums mod 2 by toggling).
+/// An element of a free `F2[U]`-module: a set of U^n·g (sums mod 2 by toggling).
 pub type UElem = BTreeSet<(u32, String)>;
 /// An element of A ⊗ N for a type D structure N.
 pub type AElem = BTreeSet<(Alg, String)>;
@@ -212,7 +212,7 @@ pub fn show_uelem(e: &UElem) -> String {
     e.iter().map(|(n, y)| if *n == 0 { y.clone() } else { format!("U^{n}·{y}") }).collect::<Vec<_>>().join(" + ")
 }
 
-/// A right type A module over A(T²) with coefficients in F2[U]: `op(x, [a_1..a_k])` is
+/// A right type A module over A(T²) with coefficients in `F2[U]`: `op(x, [a_1..a_k])` is
 /// m_{k+1}(x, a_1, …, a_k) on composable Reeb sequences (k = 0 is m_1). Idempotent inputs
 /// are handled once, by strict unitality, in [`m`].
 pub trait Module {
@@ -398,7 +398,7 @@ impl Module for CoreModule {
     }
 }
 
-/// A complex over F2[U]: ∂ as generator → element.
+/// A complex over `F2[U]`: ∂ as generator → element.
 pub type UComplex = BTreeMap<String, UElem>;
 
 pub fn pair_name(x: &str, y: &str) -> String {
@@ -506,7 +506,7 @@ pub fn box_tensor_map(module: &dyn Module, n: &DStructure, f: &DMorphism, n2: &D
     Ok(out)
 }
 
-/// ∂∂ = 0 over F2[U].
+/// ∂∂ = 0 over `F2[U]`.
 pub fn is_complex(d: &UComplex) -> bool {
     d.keys().all(|x| {
         let mut s = UElem::new();
@@ -675,8 +675,8 @@ pub fn complement(c: &UVComplex, t: i64, diagonal_allowed: bool) -> Result<DStru
     Ok(n)
 }
 
-/// Homology of a graded complex over F2[U] with gradings (M, A), deg U = (−2, −1):
-/// (gradings of free generators, (k, grading) of each F2[U]/U^k, k ≥ 1), both sorted.
+/// Homology of a graded complex over `F2[U]` with gradings (M, A), deg U = (−2, −1):
+/// (gradings of free generators, (k, grading) of each `F2[U]/U^k`, k ≥ 1), both sorted.
 /// By cancellation of the arrow of least U-power: with x → U^k·y of least k, y* = ∂x / U^k is a
 /// basis element (coefficient 1 on y), every other arrow into y* has power ≥ k and is removed
 /// by z ↦ z + U^{j−k}x, and nothing reaches x since ∂∂ = 0; so (x, y*) splits off.

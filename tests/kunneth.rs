@@ -1,4 +1,4 @@
-//! The Künneth formula over the PID F2[U] for tensor products of random complexes: the
+//! The Künneth formula over the PID `F2[U]` for tensor products of random complexes: the
 //! homology of C ⊗ D is ⊕ H(C) ⊗ H(D) ⊕ Tor(H(C), H(D)) shifted, summand by summand:
 //! R⟨g⟩⊗R⟨h⟩ = R⟨g+h⟩; R⟨g⟩⊗R/(U^k)⟨h⟩ = R/(U^k)⟨g+h⟩; R/(U^a)⟨g⟩⊗R/(U^b)⟨h⟩ gives
 //! R/(U^min)⟨g+h⟩ and, from Tor, R/(U^min)⟨g + h + max·deg U − deg ∂⟩

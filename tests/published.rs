@@ -4,7 +4,7 @@
 use serde_json::json;
 use tubecert_tests::{minus_ring, prove_value, verified_claims};
 
-/// Proves goals about named complexes over F2[U] and returns the verified claims.
+/// Proves goals about named complexes over `F2[U]` and returns the verified claims.
 fn claims(complexes: serde_json::Value, goals: serde_json::Value) -> Vec<serde_json::Value> {
     let p = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(), "complexes": complexes, "goals": goals});
     verified_claims(&prove_value(&p))

@@ -1,4 +1,4 @@
-//! Hom questions between reduced complexes over F2[U,V] (∂ in the maximal ideal (U, V)): the
+//! Hom questions between reduced complexes over `F2[U,V]` (∂ in the maximal ideal (U, V)): the
 //! quick dual witnesses agree with the solve in the whole Hom piece, the checker accepts them,
 //! and a null-homotopic map is never given one.
 

@@ -615,7 +615,7 @@ fn a_monomial_with_a_line_break_cannot_print_a_second_line() {
 
 // ---------- τ names its grading ----------
 
-/// A one-generator complex over F2[U] where U lowers both gradings by 1, so either could be
+/// A one-generator complex over `F2[U]` where U lowers both gradings by 1, so either could be
 /// read as the Alexander grading: τ is 0 in grading a and −2 in grading b.
 fn two_candidates(alexander: &str) -> Value {
     json!({"format": "tubecert-problem", "version": 1,

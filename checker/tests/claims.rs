@@ -1,6 +1,6 @@
 //! Each claim kind, accepted and rejected, on small hand-made certificates.
-//! The complexes: O = ⟨o⟩; K = ⟨z, a, b⟩ with ∂b = U^2·a over F2[U] (Maslov, Alexander),
-//! so a generates F2[U]/(U^2). F(o) = z, G(o) = z + a: ord_U(F − G) = 2.
+//! The complexes: O = ⟨o⟩; K = ⟨z, a, b⟩ with ∂b = U^2·a over `F2[U]` (Maslov, Alexander),
+//! so a generates `F2[U]`/(U^2). F(o) = z, G(o) = z + a: ord_U(F − G) = 2.
 
 use serde_json::{json, Value};
 use tubecert_format::statement::render;

@@ -23,9 +23,9 @@ const ROUNDS: usize = 5;
 pub enum Case {
     /// ord_U(F − G) on an inflated complex (and, with a source size, between two).
     Inflated,
-    /// id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic.
+    /// id of T(p,q)^⊗3 over `F2[U,V]` is not null-homotopic.
     ReducedIdentity,
-    /// U·V·id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic.
+    /// U·V·id of T(p,q)^⊗3 over `F2[U,V]` is not null-homotopic.
     ReducedUv,
 }
 

@@ -542,8 +542,8 @@ fn construct_complex(
     })
 }
 
-/// The ring a quotient's source lives over: the full F2[U,V] with (gr_U, gr_V) for the minus
-/// version (V = 0) or the hat version (U = V = 0); the minus F2[U] for hat from minus (U = 0).
+/// The ring a quotient's source lives over: the full `F2[U,V]` with (gr_U, gr_V) for the minus
+/// version (V = 0) or the hat version (U = V = 0); the minus `F2[U]` for hat from minus (U = 0).
 fn quotient_source(target: &Ring, zeroed: &[String]) -> Result<Ring, String> {
     let minus = target.variables == ["U"]
         && target.variable_degrees.get("U") == Some(&vec![-2, -1])

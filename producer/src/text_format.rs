@@ -1,7 +1,7 @@
 //! The hand-written problem format: one declaration per line, `#` starts a comment.
 //!
 //! ```text
-//! ring F2[U]
+//! ring `F2[U]`
 //! gradings maslov alexander
 //! degree U (-2, -1)
 //! degree d (-1, 0)
@@ -15,7 +15,7 @@
 //!   b -> U^2 a
 //! complex T = staircase torus_knot 3 4      # also: alexander 3 2 0 -2 -3
 //! complex S = tensor T K                    # dual T | shift T (1, 0) | direct_sum A B | cone f
-//! complex Q = quotient V of staircase torus_knot 3 4   # the source is over F2[U,V]
+//! complex Q = quotient V of staircase torus_knot 3 4   # the source is over `F2[U,V]`
 //!
 //! map F : O -> K degree (0, 0)
 //!   o -> z

@@ -35,7 +35,7 @@ impl Alg {
     }
 
     /// (left, right) idempotent of a Reeb element: ρ1 = ι0ρ1ι1, ρ2 = ι1ρ2ι0, ρ3 = ι0ρ3ι1, so
-    /// ρ_[lo,hi] starts in ι_((lo−1) mod 2) and ends in ι_(hi mod 2). `None` for the idempotent.
+    /// `ρ_[lo,hi]` starts in ι_((lo−1) mod 2) and ends in ι_(hi mod 2). `None` for the idempotent.
     pub fn idempotents(self) -> Option<(u8, u8)> {
         match self {
             Alg::One => None,
@@ -93,7 +93,7 @@ pub struct Family {
     pub to: String,
 }
 
-/// A strictly unital right type A module over A(T²) with coefficients in F2[U].
+/// A strictly unital right type A module over A(T²) with coefficients in `F2[U]`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct TypeASpec {
@@ -121,7 +121,7 @@ pub struct Bordered {
     pub type_d_structures: UniqueMap<TypeDSpec>,
 }
 
-/// F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1).
+/// `F2[U,V]` with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1).
 pub fn full_ring() -> Ring {
     Ring {
         variables: vec!["U".into(), "V".into()],
@@ -131,7 +131,7 @@ pub fn full_ring() -> Ring {
     }
 }
 
-/// The minus ring the bordered claims need: F2[U], two gradings, deg U = (−2, −1), deg ∂ = (−1, 0).
+/// The minus ring the bordered claims need: `F2[U]`, two gradings, deg U = (−2, −1), deg ∂ = (−1, 0).
 pub fn is_minus_ring(r: &Ring) -> bool {
     r.variables == ["U"]
         && r.gradings.len() == 2

@@ -441,7 +441,7 @@ pub struct Provenance {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
-    /// Version 2 only: complexes over F2[U,V] and the bordered objects.
+    /// Version 2 only: complexes over `F2[U,V]` and the bordered objects.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub bordered: Option<crate::bordered::Bordered>,
     pub ring: Ring,
