@@ -80,41 +80,6 @@ fn terms(v: &Value) -> usize {
     }
 }
 
-/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice.
-fn with_repeated_key(v: &Value, n: &mut i64, out: &mut String) {
-    match v {
-        Value::Object(m) => {
-            let here = *n == 0;
-            *n -= 1;
-            out.push('{');
-            for (i, (k, x)) in m.iter().enumerate() {
-                let key = serde_json::to_string(k).unwrap();
-                if i > 0 {
-                    out.push(',');
-                }
-                let mut inner = String::new();
-                with_repeated_key(x, n, &mut inner);
-                out.push_str(&format!("{key}:{inner}"));
-                if here && i == 0 {
-                    out.push_str(&format!(",{key}:{inner}"));
-                }
-            }
-            out.push('}');
-        }
-        Value::Array(items) => {
-            out.push('[');
-            for (i, x) in items.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                with_repeated_key(x, n, out);
-            }
-            out.push(']');
-        }
-        _ => out.push_str(&v.to_string()),
-    }
-}
-
 fn objects(v: &Value) -> u64 {
     match v {
         Value::Object(m) => 1 + m.values().map(objects).sum::<u64>(),
@@ -288,7 +253,7 @@ proptest! {
         };
         let mut n = (at % objects(&v)) as i64;
         let mut text = String::new();
-        with_repeated_key(&v, &mut n, &mut text);
+        tubecert_tests::with_repeated_key(&v, &mut n, &mut text);
         prop_assert!(refused(text.as_bytes()), "a repeated key was accepted: {}", text);
         let mut w = v.clone();
         let mut n = 1 + at % (nodes(&v) - 1);

@@ -837,3 +837,39 @@ pub mod wording {
 }
 
 pub mod bombs;
+
+/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice;
+/// shared by the fuzzer and the mutation campaign.
+pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
+    match v {
+        serde_json::Value::Object(m) => {
+            let here = *n == 0;
+            *n -= 1;
+            out.push('{');
+            for (i, (k, x)) in m.iter().enumerate() {
+                let key = serde_json::to_string(k).unwrap();
+                if i > 0 {
+                    out.push(',');
+                }
+                let mut inner = String::new();
+                with_repeated_key(x, n, &mut inner);
+                out.push_str(&format!("{key}:{inner}"));
+                if here && i == 0 {
+                    out.push_str(&format!(",{key}:{inner}"));
+                }
+            }
+            out.push('}');
+        }
+        serde_json::Value::Array(items) => {
+            out.push('[');
+            for (i, x) in items.iter().enumerate() {
+                if i > 0 {
+                    out.push(',');
+                }
+                with_repeated_key(x, n, out);
+            }
+            out.push(']');
+        }
+        _ => out.push_str(&v.to_string()),
+    }
+}

@@ -263,7 +263,7 @@ fn mutate_text(rng: &mut Rng, cert: &Certificate) -> (Vec<u8>, &'static str) {
         _ => {
             let mut n = rng.below(objects(&v)) as i64;
             let mut text = String::new();
-            with_repeated_key(&v, &mut n, &mut text);
+            tubecert_tests::with_repeated_key(&v, &mut n, &mut text);
             // An empty object has no key to repeat (bordered bodies have some, e.g. no morphisms).
             let what =
                 if text == serde_json::to_string(&v).unwrap() { "leave the file unchanged" } else { "repeat a key" };
@@ -298,38 +298,6 @@ fn set_nth(v: &mut serde_json::Value, n: &mut u64, new: serde_json::Value) -> bo
         serde_json::Value::Array(items) => items.iter_mut().any(|i| set_nth(i, n, new.clone())),
         serde_json::Value::Object(m) => m.values_mut().any(|i| set_nth(i, n, new.clone())),
         _ => false,
-    }
-}
-
-/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice.
-fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
-    match v {
-        serde_json::Value::Object(m) => {
-            let here = *n == 0;
-            *n -= 1;
-            out.push('{');
-            for (i, (k, x)) in m.iter().enumerate() {
-                let key = serde_json::to_string(k).unwrap();
-                let mut inner = String::new();
-                with_repeated_key(x, n, &mut inner);
-                out.push_str(&format!("{}{key}:{inner}", if i > 0 { "," } else { "" }));
-                if here && i == 0 {
-                    out.push_str(&format!(",{key}:{inner}"));
-                }
-            }
-            out.push('}');
-        }
-        serde_json::Value::Array(items) => {
-            out.push('[');
-            for (i, x) in items.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                with_repeated_key(x, n, out);
-            }
-            out.push(']');
-        }
-        _ => out.push_str(&v.to_string()),
     }
 }
 
