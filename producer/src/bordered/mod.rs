@@ -4,6 +4,8 @@
 //! what the checker recomputes; this module only resolves names, renders explicit objects and
 //! records the claims that go with them.
 
+pub mod diagram;
+
 use serde_json::Value;
 use std::cell::Cell;
 use std::collections::BTreeMap;
