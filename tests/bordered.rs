@@ -259,8 +259,10 @@ fn refusals_say_what_is_missing() {
         tubecert::problem::parse_problem(&bytes, "p").unwrap_err().join("\n")
     };
     let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 4}}}), json!({})));
+    assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-1, 1, 3"), "{e}");
     let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
-    assert!(e.contains("only p = 1"), "{e}");
+    assert!(e.contains("only Q = 1 is reachable"), "{e}");
     // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified: x1⊗x1 has two
     // horizontal arrows.
     let e = run(problem(json!({"K": {"cable": {"companion": {"tensor": [t23, t23]}, "p": 1, "q": 1}}}), json!({})));

@@ -22,6 +22,7 @@
 use std::collections::{BTreeMap, BTreeSet, VecDeque};
 use tubecert_format::bordered::{AGenerator, Alg, Family, TypeASpec};
 use tubecert_format::UniqueMap;
+use tubecheck::bordered::{gr_alg, gr_mul, gr_pow, Gr, GR_U, LAMBDA};
 
 /// Which α arc a crossing lies on.
 #[derive(Copy, Clone, Debug, PartialEq, Eq, PartialOrd, Ord)]
@@ -79,6 +80,10 @@ pub struct DiagramSpec {
 }
 
 impl Diagram {
+    /// The number of crossings of β with the α arcs (the generators).
+    pub fn crossings(&self) -> usize {
+        self.word.len()
+    }
     fn positions(&self) -> usize {
         2 * self.nh + 2 * self.nv + 4
     }
@@ -678,7 +683,9 @@ pub fn module(d: &Diagram, max_len: usize) -> Result<PatternModule, String> {
     let mut generators = BTreeMap::new();
     for (k, c) in d.word.iter().enumerate() {
         let idempotent = if c.arc == Arc::V { 0 } else { 1 };
-        generators.insert(names[k].clone(), AGenerator { grading: gr[k].to_vec(), idempotent });
+        let grading =
+            gr[k].iter().map(|&v| i64::try_from(v).map_err(|_| "grading out of range")).collect::<Result<_, _>>()?;
+        generators.insert(names[k].clone(), AGenerator { grading, idempotent });
     }
     let s = |v: &[Alg]| v.iter().map(|a| a.name().to_string()).collect::<Vec<_>>();
     let mut operations: Vec<Family> = fams
@@ -693,7 +700,8 @@ pub fn module(d: &Diagram, max_len: usize) -> Result<PatternModule, String> {
         })
         .collect();
     operations.sort();
-    Ok(PatternModule { module: TypeASpec { generators: UniqueMap(generators), operations }, period })
+    let written = Some(period.iter().map(|&v| v as i64).collect());
+    Ok(PatternModule { module: TypeASpec { generators: UniqueMap(generators), operations, period: written }, period })
 }
 
 /// The module of the (p, 1) cable pattern, p ≥ 1, from its genus-one diagram (`cable_diagram`).
@@ -706,47 +714,12 @@ pub fn cable_module(p: usize) -> Result<PatternModule, String> {
     module(&Diagram::read(&cable_diagram(p))?, 2 * p + 6)
 }
 
-/// An element (j; p, q; a) of LOT's grading group G′ with each coordinate doubled:
-/// [2j, 2p, 2q, 2a]; product (j1 + j2 + p1·q2 − q1·p2; p1 + p2, q1 + q2; a1 + a2).
-pub type Gr = [i64; 4];
-
-fn gr_mul(a: Gr, b: Gr) -> Gr {
-    // 2·(p1 q2 − q1 p2) = (2p1·2q2 − 2q1·2p2)/2, exact since p + q ∈ Z.
-    [a[0] + b[0] + (a[1] * b[2] - a[2] * b[1]) / 2, a[1] + b[1], a[2] + b[2], a[3] + b[3]]
-}
-
-fn gr_inv(a: Gr) -> Gr {
-    [-a[0], -a[1], -a[2], -a[3]]
-}
-
-fn gr_pow(a: Gr, n: i64) -> Gr {
-    [a[0] * n, a[1] * n, a[2] * n, a[3] * n]
-}
-
-/// gr(ρ_I) (LOT §11.1, recalled from memory): ρ1 (−½; ½, −½), ρ2 (−½; ½, ½), ρ3 (−½; −½, ½),
-/// products by the group law; no Alexander part.
-fn gr_alg(a: Alg) -> Gr {
-    let base = |i: u8| match i {
-        1 => [-1, 1, -1, 0],
-        2 => [-1, 1, 1, 0],
-        _ => [-1, -1, 1, 0],
-    };
-    match a {
-        Alg::One => [0; 4],
-        Alg::Reeb(lo, hi) => (lo + 1..=hi).fold(base(lo), |g, i| gr_mul(g, base(i))),
-    }
-}
-
-/// λ = (1; 0, 0; 0) and gr(U) = (−2; 0, 0; −1).
-const LAMBDA: Gr = [2, 0, 0, 0];
-const GR_U: Gr = [-4, 0, 0, -2];
-
 /// g(B) of the domain of an operation m_{k+1}(x, a1, …, ak) ∋ U^n·y:
 /// gr(a1)⋯gr(ak)·λ^(k−1)·gr(U)^(−n), so that gr(y) = gr(x)·g(B) modulo the periodic domains.
 fn op_grading(word: &[Alg], n: u32) -> Gr {
     let g = word.iter().fold([0; 4], |g, &a| gr_mul(g, gr_alg(a)));
-    let g = gr_mul(g, gr_pow(LAMBDA, word.len() as i64 - 1));
-    gr_mul(g, gr_pow(GR_U, -(n as i64)))
+    let g = gr_mul(g, gr_pow(LAMBDA, word.len() as i128 - 1));
+    gr_mul(g, gr_pow(GR_U, -(n as i128)))
 }
 
 /// Gradings of the generators relative to the base generator (grading identity), read from the
@@ -767,7 +740,7 @@ pub fn gradings(d: &Diagram, ops: &[Op], base: usize) -> Result<(Vec<Gr>, Gr), S
                     changed = true;
                 }
                 (None, Some(b)) => {
-                    gr[x] = Some(gr_mul(b, gr_inv(g)));
+                    gr[x] = Some(gr_mul(b, gr_pow(g, -1)));
                     changed = true;
                 }
                 _ => {}
@@ -781,7 +754,7 @@ pub fn gradings(d: &Diagram, ops: &[Op], base: usize) -> Result<(Vec<Gr>, Gr), S
         .map(|(g, nm)| g.ok_or(format!("generator {nm} is joined to {} by no operation found", names[base])))
         .collect::<Result<_, _>>()?;
     // Each operation closes a loop: gr(x)·g·gr(y)^(−1) must be a power of h_A.
-    let loops: Vec<Gr> = edges.iter().map(|&(x, y, g)| gr_mul(gr_mul(gr[x], g), gr_inv(gr[y]))).collect();
+    let loops: Vec<Gr> = edges.iter().map(|&(x, y, g)| gr_mul(gr_mul(gr[x], g), gr_pow(gr[y], -1))).collect();
     let k = loops.iter().filter(|c| c[2] != 0).map(|c| c[2].abs()).min().ok_or("no periodic domain found")?;
     let c = loops.iter().find(|c| c[2].abs() == k).expect("found");
     let s = c[2].signum() * k / 2; // q of c is s·1: h_A = c / s, q(h_A) = 1
@@ -790,8 +763,7 @@ pub fn gradings(d: &Diagram, ops: &[Op], base: usize) -> Result<(Vec<Gr>, Gr), S
     }
     let h: Gr = [c[0] / s, c[1] / s, c[2] / s, c[3] / s];
     for c in &loops {
-        let m = c[2] / 2;
-        if c[2] % 2 != 0 || *c != gr_pow(h, m) {
+        if c[2] % 2 != 0 || *c != gr_pow(h, c[2] / 2) {
             return Err(format!("an operation's domain has grading {c:?}, not a power of h_A = {h:?}"));
         }
     }
@@ -817,10 +789,7 @@ mod tests {
     use tubecheck::bordered as checked;
 
     fn a_infinity(m: &TypeASpec, len: u32) -> Result<(), String> {
-        // The A∞ check does not read gradings; version-2 modules carry [Maslov, Alexander].
-        let mut m = m.clone();
-        m.generators.0.values_mut().for_each(|g| g.grading = vec![0, 0]);
-        let a = checked::read_module("M", &m)?;
+        let a = checked::read_module("M", m, true)?;
         let b = checked::Budget(Cell::new(1 << 40), Cell::new(0));
         checked::check_module(&b, &a, len).map_err(|(checked::Failure::False(e) | checked::Failure::Refused(e))| e)
     }
