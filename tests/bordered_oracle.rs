@@ -1575,7 +1575,37 @@ pub mod cert {
                 }
             }
         }
+        if version >= 4 {
+            symmetric_shift(&mut out)?;
+        }
         Ok(out)
+    }
+
+    /// Version 4: the Alexander polynomial Σ(−1)^M t^A of a knot is symmetric (Ozsváth–Szabó
+    /// 2004); move every (M, A) by k·(2, 1) for the k centring it (it must then be symmetric).
+    fn symmetric_shift(g: &mut BTreeMap<String, (i64, i64)>) -> R<()> {
+        let mut poly: BTreeMap<i64, i64> = BTreeMap::new();
+        for &(m, a) in g.values() {
+            *poly.entry(a).or_insert(0) += 1 - 2 * m.rem_euclid(2);
+        }
+        let support: Vec<i64> = poly.iter().filter(|(_, c)| **c != 0).map(|(a, _)| *a).collect();
+        let (Some(top), Some(bottom)) = (support.last(), support.first()) else {
+            return Err("the box tensor product's Euler characteristic vanishes".into());
+        };
+        let twice = -(top + bottom);
+        if twice % 2 != 0 {
+            return Err("the box tensor product's Euler characteristic has no centre".into());
+        }
+        let k = twice / 2;
+        for (a, c) in &poly {
+            if poly.get(&(-(a + k) - k)).copied().unwrap_or(0) != *c {
+                return Err("the box tensor product's Euler characteristic is not symmetric".into());
+            }
+        }
+        for v in g.values_mut() {
+            *v = (v.0 + 2 * k, v.1 + k);
+        }
+        Ok(())
     }
 
     fn same(ours: &UComplex, theirs: &UComplex, what: &str) -> R<()> {
@@ -1763,6 +1793,12 @@ pub mod cert {
                 let m = f("morphism")?;
                 format!("{m} is a type D morphism with ∂{m} = 0")
             }
+            "box_tensor" if version >= 4 => format!(
+                "{} = {} ⊠ {} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group, then shifted by s·(2, 1) with the one s making Σ(−1)^M t^A symmetric under t ↔ t⁻¹)",
+                f("complex")?,
+                f("module")?,
+                f("structure")?
+            ),
             "box_tensor" if version >= 3 => format!(
                 "{} = {} ⊠ {} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group)",
                 f("complex")?,

@@ -138,28 +138,98 @@ mod cables {
         ]
     }
 
-    // τ of cables, Hom 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable
-    // knots", J. Topology): ε(K) = 1: τ(K_{p,q}) = pτ(K) + (p−1)(q−1)/2; ε(K) = −1:
-    // pτ(K) + (p−1)(q+1)/2; ε(K) = 0: τ(T(p,q)) (τ(T(p,q)) = (p−1)(q−1)/2 for q > 0,
-    // Ozsváth–Szabó 2003, and τ(mirror) = −τ). And the graded Euler characteristic of the
-    // cable's hat homology is Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula for satellites), which
-    // tests every generator's (Maslov, Alexander) grading read from the double coset.
+    fn free_of(b: &Body) -> Vec<Vec<i64>> {
+        b.claims
+            .iter()
+            .find_map(|c| if let Claim::Homology { free, .. } = c { Some(free.clone()) } else { None })
+            .unwrap()
+    }
+
+    /// τ from Hom 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable knots",
+    /// J. Topology): ε(K) = 1: τ(K_{p,q}) = pτ(K) + (p−1)(q−1)/2; ε(K) = −1:
+    /// pτ(K) + (p−1)(q+1)/2; ε(K) = 0: τ(T(p,q)) (τ(T(p,q)) = (p−1)(q−1)/2 for q > 0,
+    /// Ozsváth–Szabó 2003, and τ(mirror) = −τ).
+    fn hom_tau(tau: i64, eps: i64, p: i64, q: i64) -> i64 {
+        match eps {
+            1 => p * tau + (p - 1) * (q - 1) / 2,
+            -1 => p * tau + (p - 1) * (q + 1) / 2,
+            _ if q > 0 => (p - 1) * (q - 1) / 2,
+            _ => (p - 1) * (q + 1) / 2,
+        }
+    }
+
+    // τ of cables (Hom 2014, `hom_tau`) at framings n = −2 … 2 (Q = Pn + 1, negative Q
+    // included). The graded Euler characteristic of the cable's hat homology is
+    // Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula for satellites), which tests every generator's
+    // absolute (Maslov, Alexander) grading. HFK^- of a knot in S³ has one tower F2[U], generated
+    // in grading (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003, τ from the tower; d(S³) = 0): on the
+    // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
     #[test]
     fn tau_and_alexander_polynomials_of_cables() {
         for (name, src, tau, eps, delta) in companions() {
-            // Q = 1 only: the reachable cables for P ≥ 2 (see `cable`).
-            for p in 2..=4i64 {
-                for q in [1i64] {
+            for p in 2..=3i64 {
+                for n in -2..=2i64 {
+                    let q = p * n + 1;
                     let b = cable(&src, p, q);
-                    let want = match eps {
-                        1 => p * tau + (p - 1) * (q - 1) / 2,
-                        -1 => p * tau + (p - 1) * (q + 1) / 2,
-                        _ if q > 0 => (p - 1) * (q - 1) / 2,
-                        _ => (p - 1) * (q + 1) / 2,
-                    };
+                    let want = hom_tau(tau, eps, p, q);
                     assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
                     let seifert = mul(&substitute_power(&delta, p), &torus_alexander(p, q));
                     assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
+                    assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
+                }
+            }
+        }
+    }
+
+    // The (P, 1) cables of the unknot, and its (2, −1) cable, are T(P, ±1) = the unknot: HFK^- is
+    // one tower F2[U] in (0, 0), no torsion, χ = 1 (the other Q ≡ 1 mod P give T(P, Q), above).
+    #[test]
+    fn the_p_plus_minus_one_cables_of_the_unknot_are_the_unknot() {
+        let unknot = json!({"staircase": {"alexander": [0]}});
+        for (p, q) in [(2, 1), (3, 1), (4, 1), (5, 1), (2, -1)] {
+            let b = cable(&unknot, p, q);
+            let torsion = b.claims.iter().find_map(|c| {
+                if let Claim::Homology { torsion, .. } = c {
+                    Some(torsion.len())
+                } else {
+                    None
+                }
+            });
+            assert_eq!((free_of(&b), torsion), (vec![vec![0, 0]], Some(0)), "({p},{q}) cable of the unknot");
+            assert_eq!(euler(&b), Poly::from([(0, 1)]), "({p},{q}) cable of the unknot");
+        }
+    }
+
+    // Cross-check of the normalization by the mathematics of the pattern: pairing the (p, 1)
+    // pattern with the complement at framing t adds t full twists on p strands, and the raw
+    // reading from the double coset is off by exactly c·(2, 1), c = t·p(p−1)/2 (derived here:
+    // a full twist on p strands has p(p−1) crossings, half of them raising A; zero for the
+    // core and t = 0). The symmetric normalization must remove exactly that.
+    #[test]
+    fn the_normalization_removes_the_twisting_offset() {
+        use tubecert::bordered as bd;
+        use tubecheck::bordered as ck;
+        let full = tubecert_format::bordered::full_ring();
+        for (name, src, ..) in companions() {
+            let c = bd::inline_source(&full, &src, &Default::default(), 0).unwrap();
+            for p in 1..=4usize {
+                for t in -3..=3i64 {
+                    let (d, _) = bd::complement_of("C", &c, t).unwrap();
+                    let m = bd::cable_pattern(p as i64).unwrap();
+                    let (ma, nd) =
+                        (ck::read_module("M", &m, true).unwrap(), ck::read_structure("N", &d, true).unwrap());
+                    let (raw, norm) =
+                        (ck::generators(&ma, &nd, false).unwrap(), ck::generators(&ma, &nd, true).unwrap());
+                    let off = t * (p * (p - 1) / 2) as i64;
+                    for (r, n) in raw.iter().zip(&norm) {
+                        assert_eq!(r.2, n.2);
+                        assert_eq!(
+                            (r.3[0] - n.3[0], r.3[1] - n.3[1]),
+                            (2 * off, off),
+                            "{name}, p = {p}, t = {t}, {}",
+                            r.2
+                        );
+                    }
                 }
             }
         }

@@ -615,8 +615,9 @@ fn paths(
 pub type Generator = (u32, u32, String, Grading);
 
 /// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings: version 3 (Maslov,
-/// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y).
-pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
+/// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y);
+/// `symmetric` (version 4): then normalized by `symmetrize`.
+pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
@@ -630,7 +631,33 @@ pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
             out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), gr));
         }
     }
+    if symmetric && m.group && n.group {
+        symmetrize(&mut out)?;
+    }
     Ok(out)
+}
+
+/// The absolute normalization of a knot's complex in S³ read from a pairing: χ = Σ(−1)^M t^A
+/// over the generators is χ(HFK-hat) = Δ_K, symmetric under t ↔ t⁻¹ (Ozsváth–Szabó 2004,
+/// "Holomorphic disks and knot invariants"); the one integer s making it so shifts every
+/// (M, A) by s·(2, 1) = the grading of U^(−s), which keeps the line M = 2A of the U-tower.
+fn symmetrize(gens: &mut [Generator]) -> Result<(), String> {
+    let mut chi: BTreeMap<i64, i64> = BTreeMap::new();
+    for g in gens.iter() {
+        *chi.entry(g.3[1]).or_default() += if g.3[0] % 2 == 0 { 1 } else { -1 };
+    }
+    chi.retain(|_, c| *c != 0);
+    let (Some((&lo, _)), Some((&hi, _))) = (chi.first_key_value(), chi.last_key_value()) else {
+        return Err("the graded Euler characteristic Σ(−1)^M t^A of the box tensor product is 0: no shift makes it symmetric, so no absolute grading is read".into());
+    };
+    if (lo + hi) % 2 != 0 || chi.iter().any(|(a, c)| chi.get(&(lo + hi - a)) != Some(c)) {
+        return Err(format!("no shift of A makes the graded Euler characteristic Σ(−1)^M t^A of the box tensor product symmetric under t ↔ t⁻¹ (exponents {lo} to {hi}): it is not a knot's"));
+    }
+    let s = -(lo + hi) / 2;
+    for g in gens.iter_mut() {
+        g.3 = written([(g.3[0] + 2 * s) as i128, (g.3[1] + s) as i128, 0, 0])?[..2].to_vec();
+    }
+    Ok(())
 }
 
 /// A complex or map of the certificate against the recomputed generators and terms.
@@ -707,11 +734,11 @@ fn rows(
 }
 
 /// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)).
-pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD) -> Result<(Vec<Generator>, Rows), Failure> {
+pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<(Vec<Generator>, Rows), Failure> {
     if let Some(e) = m.defects.first().or(n.defects.first()) {
         return Err(e.clone().into());
     }
-    let gens = generators(m, n)?;
+    let gens = generators(m, n, symmetric)?;
     let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
     let node = |y: u32| n.names[y as usize].clone();
     let rows = rows(o, m, &gens, true, &steps, &node)?;
@@ -725,11 +752,12 @@ pub fn tensor_map(
     f: &Morphism,
     n: &TypeD,
     n2: &TypeD,
+    symmetric: bool,
 ) -> Result<(Vec<Generator>, Rows), Failure> {
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }
-    let gens = generators(m, n)?;
+    let gens = generators(m, n, symmetric)?;
     // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
     let k = n.names.len() as u32;
     let steps = |y: u32| -> Vec<(Alg, u32, bool)> {
@@ -928,7 +956,7 @@ pub fn check(
             Claim::BoxTensor { complex, module, structure, .. } => {
                 minus()?;
                 let c = &ctx.complexes[ctx.complex_named(complex)?];
-                let (gens, rows) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?)?;
+                let (gens, rows) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
                 compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
                 facts.insert("generators".into(), serde_json::json!(gens.len()));
             }
@@ -940,9 +968,9 @@ pub fn check(
                 let fm = &ctx.maps[i];
                 let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
-                let gens2 = generators(m, n2)?;
+                let gens2 = generators(m, n2, version >= 4)?;
                 compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
-                let (gens, rows) = tensor_map(&o.budget, m, f, n, n2)?;
+                let (gens, rows) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
             }
             Claim::Complement { structure, complex, framing, tau, .. } => {

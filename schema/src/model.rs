@@ -456,8 +456,10 @@ pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
 /// and may hold a `bordered` section; version-1 certificates are still read, with version 1's
 /// wording (and without a `bordered` section). Version 3 grades bordered objects by elements
 /// of LOT's grading group (`period` members, four-entry gradings); version-2 bordered sections
-/// are still read with version 2's rule (gradings added).
-pub const CERTIFICATE_VERSION: u32 = 3;
+/// are still read with version 2's rule (gradings added). Version 4 normalizes the gradings of
+/// a box tensor product by the symmetry of its graded Euler characteristic (version-3
+/// certificates keep version 3's reading and wording).
+pub const CERTIFICATE_VERSION: u32 = 4;
 
 /// A certificate file: `{"format", "version", "sha256", "body"}`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]

@@ -197,7 +197,7 @@ fn budget() -> Budget {
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize), String> {
     let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
-    let (gens, rows) = checked::tensor_complex(&b, &ma, &nd).map_err(failure)?;
+    let (gens, rows) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
     let mut differential = Vec::new();
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
         differential.extend(row.iter().map(|(t, p)| [name.clone(), power(*p), t.clone()]));
@@ -233,7 +233,7 @@ pub fn box_tensor_map(
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
-    let (gens, rows) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2).map_err(failure)?;
+    let (gens, rows) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, gr), row) in gens.iter().zip(&rows) {
@@ -358,7 +358,8 @@ fn note_longest(out: &mut Built, m: &str, len: usize) {
 /// `{"cable": {"companion": SOURCE, "p": P, "q": Q}}`: the (P, 1) pattern ⊠ the complement of
 /// SOURCE with framing t = (Q − 1)/P (the (p, 1) pattern with framing t gives the (p, pt + 1)
 /// cable, memory; the tests check it against torus knots and L-space cables), stored as
-/// `K.pattern`, `K.complement`, `K.companion`; Q ≢ 1 mod P is refused.
+/// `K.pattern`, `K.complement`, `K.companion`; Q ≢ 1 mod P is refused. Absolute gradings by the
+/// box tensor product's symmetric normalization (`box_tensor` claim, format version 4).
 pub fn cable(
     name: &str,
     arg: &Value,
@@ -389,11 +390,6 @@ pub fn cable(
         ));
     }
     let t = t / p;
-    if p > 1 && t != 0 {
-        return Err(format!(
-            "cable {p} {q}: for P ≥ 2 only Q = 1 is reachable so far (the (P, 1) pattern at framing 0): the absolute gradings of the pattern module's pairing at other framings are not yet established; reachable are (1, Q) for every Q and (P, 1) for every P ≥ 1"
-        ));
-    }
     let pattern = cable_pattern(p).map_err(|e| format!("cable {p} {q}: {e}"))?;
     let (mn, nn) = (format!("{name}.pattern"), format!("{name}.complement"));
     add_complement(&nn, &format!("{name}.companion"), src, t, defs, out)?;
