@@ -441,3 +441,44 @@ fn family_parameters_do_not_overflow() {
     assert!(tubecert::family::eval("-p", "p", i64::MIN).is_err());
     assert_eq!(tubecert::family::eval("-p", "p", 5), Ok(-5));
 }
+
+/// The README's goal table: each example is a line of `examples/goals.problem.txt`, which
+/// proves as stated, and is shown by `prove --help`; and the README's table of where the
+/// staircase of T(3,4) sits is what `build` writes.
+#[test]
+fn every_goal_form_is_documented_and_proved() {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let goals = std::fs::read_to_string(root.join("examples/goals.problem.txt")).unwrap();
+    let (_, help, _) = tubecert(&["prove", "--help"]);
+    let examples: Vec<&str> = readme
+        .lines()
+        .filter_map(|l| l.strip_prefix("| `")?.split("` | `").nth(1)?.split('`').next())
+        .filter(|e| e.starts_with("goal "))
+        .collect();
+    let forms = ["torsion_order", "homotopic", "distinct", "null_homotopic", "not_null_homotopic", "equivalent"];
+    for form in forms.iter().chain(&["homology", "tau", "torsion_order_of_complex"]) {
+        assert!(examples.iter().any(|e| e.split(' ').nth(1) == Some(form)), "no README example of {form}");
+    }
+    for e in &examples {
+        assert!(goals.lines().any(|l| l == *e), "README example `{e}` is not in examples/goals.problem.txt");
+        assert!(help.contains(e), "README example `{e}` is not in prove --help");
+    }
+    let out = dir().join("goals.cert.json");
+    let (code, stdout, err) =
+        tubecert(&["prove", &root.join("examples/goals.problem.txt").to_string_lossy(), "-o", &out.to_string_lossy()]);
+    assert_eq!(code, 0, "{stdout}{err}");
+    assert_eq!(stdout.matches('✓').count(), 10, "{stdout}");
+    // The staircase table: | x1 | (−1, −5) | (−1, 2) | (−1, 2) | … as build writes it.
+    let number = |t: &str| t.trim().replace('−', "-");
+    for (ring, column) in [("F2[U,V]", 1), ("F2[U]", 2), ("F2", 3)] {
+        let (code, text, err) =
+            tubecert(&["build", "--ring", ring, "--complex", "T = staircase torus_knot 3 4", "--to", "text"]);
+        assert_eq!(code, 0, "{err}");
+        for i in 0..5 {
+            let row = readme.lines().find(|l| l.starts_with(&format!("| x{i} | ("))).unwrap();
+            let cell = number(row.split('|').nth(column + 1).unwrap());
+            assert!(text.contains(&format!("  x{i} {cell}\n")), "{ring}: x{i} {cell} is not in\n{text}");
+        }
+    }
+}
