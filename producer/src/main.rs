@@ -140,7 +140,7 @@ enum Command {
     },
     /// Draw a complex as an SVG picture, optionally highlighting a claim's witness.
     #[command(
-        after_help = "Example:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png"
+        after_help = "To scale: over F2[U,V] the plane of the two filtration levels (an arrow x → U^a·V^b·y goes a\nunits left and b down: U arrows horizontal, V arrows vertical, mixed monomials diagonal); over\nF2[U] or F2 the lattice of the gradings (Alexander across, Maslov up). Generators at one point are\nstacked and named together; a legend explains colours and the highlighted witness.\n\nExample:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png"
     )]
     Draw {
         /// A problem file or a certificate.
@@ -150,6 +150,10 @@ enum Command {
         /// Claim number (1-based) whose witness support is highlighted.
         #[arg(long)]
         highlight: Option<usize>,
+        /// Above this many generators, draw a summary (generators counted per cell, arrows
+        /// counted by kind) instead of every generator.
+        #[arg(long, default_value_t = tubecert::draw::DEFAULT_MAX_GENERATORS)]
+        max_generators: usize,
         #[arg(short, long)]
         output: PathBuf,
     },
@@ -356,10 +360,13 @@ fn run() -> ExitCode {
                 Err(errs) => report_errors(&errs),
             }
         }
-        Command::Draw { file, complex, highlight, output } => {
-            match tubecert::draw::draw_file(&file, &complex, highlight) {
-                Ok(svg) => match std::fs::write(&output, svg) {
+        Command::Draw { file, complex, highlight, max_generators, output } => {
+            match tubecert::draw::draw_file(&file, &complex, highlight, max_generators) {
+                Ok(drawing) => match std::fs::write(&output, drawing.svg) {
                     Ok(()) => {
+                        if let Some(note) = drawing.note {
+                            eprintln!("note: {note}");
+                        }
                         say!("wrote {}", output.display());
                         ExitCode::SUCCESS
                     }

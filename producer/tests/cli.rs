@@ -200,9 +200,15 @@ fn draw_writes_an_svg_with_every_generator_and_the_highlight() {
     let (code, _, err) = tubecert(&["draw", &cert, "--complex", "K", "--highlight", "1", "-o", &svg.to_string_lossy()]);
     assert_eq!(code, 0, "{err}");
     let text = std::fs::read_to_string(&svg).unwrap();
-    assert_eq!(text.matches("<circle").count(), 21, "T(2,7) ⊗ tower: 7 × 3 generators");
-    assert_eq!(text.matches("#f5a623").count(), 2, "the witness of ord_U touches two generators of K");
-    assert!(text.contains("x6⊗a"));
+    // T(2,7) ⊗ tower: 7 × 3 generators, each named in a label (x_i⊗a and x_i⊗z share a point).
+    for i in 0..7 {
+        for g in ["a", "b", "z"] {
+            assert!(text.contains(&format!("x{i}⊗{g}")), "x{i}⊗{g} is not named");
+        }
+    }
+    assert_eq!(text.matches("2× ").count(), 7, "seven points hold two generators each");
+    assert_eq!(text.matches("font-weight=\"bold\">x").count(), 2, "the witness of ord_U touches two generators of K");
+    assert!(text.contains("orange: generators in the support of the witness of claim 1"));
     // Rendered to PNG by a standard converter where one is installed (CI installs librsvg2-bin).
     if std::process::Command::new("rsvg-convert").arg("--version").output().is_ok() {
         let png = dir().join("k.png");
