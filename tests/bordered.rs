@@ -261,8 +261,11 @@ fn refusals_say_what_is_missing() {
     let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
     let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 4}}}), json!({})));
     assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-1, 1, 3"), "{e}");
-    let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
-    assert!(e.contains("only Q = 1 is reachable"), "{e}");
+    // Every Q ≡ 1 mod P is reachable, negative Q too.
+    for q in [3, -1, -3] {
+        let p = problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": q}}}), json!({}));
+        assert!(tubecert::problem::parse_problem(&serde_json::to_vec(&p).unwrap(), "p").is_ok(), "(2, {q})");
+    }
     // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified: x1⊗x1 has two
     // horizontal arrows.
     let e = run(problem(json!({"K": {"cable": {"companion": {"tensor": [t23, t23]}, "p": 1, "q": 1}}}), json!({})));
@@ -352,7 +355,7 @@ fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
         json!({}),
     ));
     let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
-    assert_eq!(cert["version"], 3);
+    assert_eq!(cert["version"], 4);
     cert["version"] = json!(1);
     let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
     assert!(e.contains("version-1"), "{e}");
@@ -485,4 +488,48 @@ fn work_beyond_the_budget_is_refused_before_it_is_done() {
     restate(&mut body);
     let e = outcomes(body).unwrap_err();
     assert!(e.contains("budget"), "{e}");
+}
+
+// Version 4 normalizes box tensor gradings by the symmetric Euler characteristic; a version-3
+// file keeps version 3's raw reading. The raw reading of the (2, 3) cable of T(2,3) (the (2, 1)
+// pattern at framing 1) is off by (2, 1) (DEVELOPERS.md, Gradings), so its version-4 body
+// restated as version 3 fails `box_tensor` and nothing else; the core (no shift) passes in both.
+#[test]
+fn version_3_reads_box_tensor_gradings_without_the_normalization() {
+    let as_v3 = |mut body: Body| -> Value {
+        let ring = tubecert_format::RingInfo::new(&body.ring).unwrap();
+        for c in &mut body.claims {
+            *c.statement_mut() = tubecert_format::statement::render(c, &ring, 3);
+        }
+        let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+        cert["version"] = json!(3);
+        cert
+    };
+    let failed = |cert: &Value| -> Vec<String> {
+        let r = tubecheck::check_bytes("v3", &serde_json::to_vec(cert).unwrap()).unwrap();
+        r.claims.into_iter().filter(|c| c.outcome.is_err()).map(|c| c.kind).collect()
+    };
+    let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    let core = body_of(&problem(json!({"K": {"cable": {"companion": t23, "p": 1, "q": 3}}}), json!({})));
+    assert!(failed_kinds(core.clone()).is_empty());
+    assert!(failed(&as_v3(core)).is_empty());
+    let cable = body_of(&problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
+    assert!(failed_kinds(cable.clone()).is_empty());
+    assert_eq!(failed(&as_v3(cable)), vec!["box_tensor".to_string()]);
+}
+
+// A product whose Euler characteristic has no centre is refused: two cores, the second moved by
+// one Alexander unit, give χ = (1 + t)·Δ_{T(2,3)}.
+#[test]
+fn a_box_tensor_product_without_a_symmetric_euler_characteristic_is_refused() {
+    let core = |x: &str| json!({"from": x, "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": x});
+    let m = json!({"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}, "y": {"grading": [0, 0, 0, 2], "idempotent": 0}},
+                   "period": [3, 0, 2, 2], "operations": [core("x"), core("y")]});
+    let n = json!({"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": 0}});
+    let p = problem(
+        json!({"X": {"box_tensor": ["M", "N"]}}),
+        json!({"type_a_modules": {"M": m}, "type_d_structures": {"N": n}}),
+    );
+    let e = tubecert::problem::parse_problem(&serde_json::to_vec(&p).unwrap(), "p").unwrap_err().join("\n");
+    assert!(e.contains("symmetric under t ↔ t⁻¹"), "{e}");
 }

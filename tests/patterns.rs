@@ -138,6 +138,32 @@ mod cables {
         ]
     }
 
+    /// Companions that are not L-space knots, for τ and χ only: T(2,3) # T(2,3) as the T(2,5)
+    /// staircase beside a square at (−2, −2) (its complex up to homotopy, memory; τ = 2, ε = 1,
+    /// Δ = (t − 1 + t⁻¹)²), its mirror (ε = −1), and the figure-eight's shape, a square beside a
+    /// point (τ = 0, ε = 0: the point splits off, as for K # mirror K, whose tensor basis is not
+    /// simultaneously simplified and so is not reachable as a companion; Δ = −t + 3 − t⁻¹).
+    fn more_companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
+        let square = |m: i64| {
+            json!({"generators": {"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]},
+                   "differential": [["a", "U", "b"], ["a", "V", "c"], ["b", "V", "d"], ["c", "U", "d"]]})
+        };
+        let sum = json!({"direct_sum": [{"staircase": {"alexander": [2, 1, 0, -1, -2]}}, square(-2)]});
+        let point = json!({"staircase": {"alexander": [0]}});
+        let trefoil_squared = mul(&torus_alexander(2, 3), &torus_alexander(2, 3));
+        vec![
+            ("T(2,3) # T(2,3)", sum.clone(), 2, 1, trefoil_squared.clone()),
+            ("mirror of T(2,3) # T(2,3)", json!({"dual": sum}), -2, -1, trefoil_squared),
+            (
+                "figure-eight shape",
+                json!({"direct_sum": [point, square(0)]}),
+                0,
+                0,
+                Poly::from([(-1, -1), (0, 3), (1, -1)]),
+            ),
+        ]
+    }
+
     fn free_of(b: &Body) -> Vec<Vec<i64>> {
         b.claims
             .iter()
@@ -166,7 +192,7 @@ mod cables {
     // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
     #[test]
     fn tau_and_alexander_polynomials_of_cables() {
-        for (name, src, tau, eps, delta) in companions() {
+        for (name, src, tau, eps, delta) in companions().into_iter().chain(more_companions()) {
             for p in 2..=3i64 {
                 for n in -2..=2i64 {
                     let q = p * n + 1;
