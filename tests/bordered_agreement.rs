@@ -314,13 +314,16 @@ fn morphism_problem(t: i64) -> Value {
         "goals": []})
 }
 
-/// Two copies of the core with m_1(x) = x′ (a module with a differential, two generators):
-/// the A∞ relations hold since m(x′, w) = U^ℓ·x′ = m_1(m(x, w)) for every core word w.
+/// Two copies of the core with m_1(x) = x′ (a module with a differential), and a third copy x″
+/// on its own: the A∞ relations hold since m(x′, w) = U^ℓ·x′ = m_1(m(x, w)) for every core word
+/// w. The pair x, x′ cancels in the Euler characteristic, so the product's is the companion's
+/// (symmetric, with shift 0, as version 4's normalization needs; without x″ it would be 0).
 fn two_cores() -> Value {
     let core = |x: &str| json!({"from": x, "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": x});
     // gr(x′) = gr(m_1(x)) = λ⁻¹·gr(x); the core's period (DEVELOPERS.md, Gradings).
-    json!({"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}, "x'": {"grading": [-2, 0, 0, 0], "idempotent": 0}},
-           "period": [3, 0, 2, 2], "operations": [core("x"), core("x'"),
+    json!({"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}, "x'": {"grading": [-2, 0, 0, 0], "idempotent": 0},
+                          "x''": {"grading": [0, 0, 0, 0], "idempotent": 0}},
+           "period": [3, 0, 2, 2], "operations": [core("x"), core("x'"), core("x''"),
                           {"from": "x", "power": [0, 0], "prefix": [], "repeat": [], "suffix": [], "to": "x'"}]})
 }
 
