@@ -149,7 +149,8 @@ mod cables {
         for (name, src, tau, eps, delta) in companions() {
             // Q = 1 only: the reachable cables for P ≥ 2 (see `cable`).
             for p in 2..=4i64 {
-                for q in [1i64] {
+                {
+                    let q = 1i64;
                     let b = cable(&src, p, q);
                     let want = match eps {
                         1 => p * tau + (p - 1) * (q - 1) / 2,
