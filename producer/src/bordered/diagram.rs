@@ -197,8 +197,8 @@ impl Diagram {
         d.trace_regions();
         let mut cell = (0, 0);
         d.after = vec![(0, 0); l];
-        for k in 1..l {
-            let s = Self::step(word[k]);
+        for (k, &c) in word.iter().enumerate().skip(1) {
+            let s = Self::step(c);
             cell = (cell.0 + s.0, cell.1 + s.1);
             d.after[k] = cell;
         }
