@@ -402,10 +402,18 @@ pub fn box_tensor_map_entry(
     let mor = out.morphisms.get(&f).ok_or(format!("type D morphism \"{f}\" is not declared"))?;
     let get = |s: &str| out.structures.get(s).ok_or(format!("type D structure \"{s}\" is not declared"));
     let (n, n2) = (get(&mor.from)?, get(&mor.to)?);
+    // M ⊠ s: a complex declared {"box_tensor": [M, s]}, or a cable K whose complement is s
+    // (`K.complement`) and whose pattern module is M's (the same module, under K's name).
     let find = |s: &str| -> Result<(&str, &ComplexSpec), String> {
         let want = serde_json::json!({"box_tensor": [m, s]});
-        let (k, _) =
-            defs.iter().find(|(_, v)| **v == want).ok_or(format!("box_tensor_map: declare a complex {want} first"))?;
+        let cable = |k: &str, v: &Value| {
+            v.get("cable").is_some()
+                && s == format!("{k}.complement")
+                && out.modules.get(&format!("{k}.pattern")).is_some_and(|p| p == module)
+        };
+        let (k, _) = defs.iter().find(|(k, v)| **v == want || cable(k, v)).ok_or(format!(
+            "box_tensor_map: declare a complex {want} first, or a cable whose complement is {s} and whose pattern is {m}"
+        ))?;
         Ok((k.as_str(), built.get(k).ok_or(format!("complex {k} was not built"))?))
     };
     let (map, longest) = box_tensor_map(module, mor, n, n2, find(&mor.from)?, find(&mor.to)?)?;
