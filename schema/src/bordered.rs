@@ -59,7 +59,7 @@ impl Alg {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct DGenerator {
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub grading: Option<Grading>,
     pub idempotent: u8,
 }
