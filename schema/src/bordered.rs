@@ -71,7 +71,7 @@ pub struct TypeDSpec {
     pub differential: Vec<Term>,
     pub generators: UniqueMap<DGenerator>,
     /// Version 3: the grading of the generator of the periodic domains (P_D = its powers).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub period: Option<Grading>,
 }
 
@@ -103,7 +103,7 @@ pub struct TypeASpec {
     pub generators: UniqueMap<AGenerator>,
     pub operations: Vec<Family>,
     /// Version 3: the grading of the generator of the periodic domains (P_A = its powers).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub period: Option<Grading>,
 }
 
