@@ -33,7 +33,7 @@ pub struct Simplified {
 /// The monomial exponents (a, b) with U^a·V^b of degree `to − from` in (gr_U, gr_V), if any.
 fn exponents(from: &[i64], to: &[i64]) -> Option<(u32, u32)> {
     let (du, dv) = (from[0] - to[0], from[1] - to[1]);
-    (du >= 0 && dv >= 0 && du % 2 == 0 && dv % 2 == 0).then(|| ((du / 2) as u32, (dv / 2) as u32))
+    (du >= 0 && dv >= 0 && du % 2 == 0 && dv % 2 == 0).then_some(((du / 2) as u32, (dv / 2) as u32))
 }
 
 #[derive(Copy, Clone, PartialEq, Eq, Debug)]
