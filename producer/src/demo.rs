@@ -8,7 +8,7 @@
 //! - `ext-class`: over `F2[U]`, two maps that agree on homology but are not homotopic (the
 //!   difference lives in Ext, so only the dual witness can tell them apart);
 //! - `cabled-pair-p{1..4}` (from `examples/cabled-pair.template.json`): the whole bordered
-//!   workflow. An invented companion C over F2[U,V] (a point z beside a square of side p:
+//!   workflow. An invented companion C over `F2[U,V]` (a point z beside a square of side p:
 //!   a → U^p·b + V^p·c, b → V^p·d, c → U^p·d) and the unknot; their complements at framing −1
 //!   (LOT Thm 11.26); their cables `cable 1 0` (the core pattern ⊠ the complement); two type D
 //!   morphisms f, f2 from the unknot's complement to C's (f2 differs from f by o ↦ d and

@@ -1,4 +1,4 @@
-//! A change of basis of a complex over F2[U,V] to one that is simultaneously horizontally and
+//! A change of basis of a complex over `F2[U,V]` to one that is simultaneously horizontally and
 //! vertically simplified (LOT §11.5): every U-arrow U^ℓ·b (ℓ ≥ 1) and every V-arrow V^ℓ·b
 //! touches each basis element at most once; mixed arrows U^a·V^b (a, b > 0), which neither the
 //! vertical complex C/(U) nor the horizontal complex C/(V) sees, may remain.
@@ -220,7 +220,7 @@ impl State {
         r
     }
 
-    /// Pivot elimination of the arrows of kind `k` (Smith normal form over F2[U] or F2[V]),
+    /// Pivot elimination of the arrows of kind `k` (Smith normal form over `F2[U]` or `F2[V]`),
     /// shortest arrows first. With `keep_vertical`, a constant change z += x is made only when
     /// it can keep a vertically simplified basis so (key(z) ≤ key(x)), with its repair.
     fn eliminate(&mut self, k: Kind, keep_vertical: bool, max_changes: usize) -> Result<(), String> {
@@ -297,7 +297,7 @@ fn defect(h: &[u32], v: &[u32]) -> i64 {
     h.iter().chain(v).map(|&c| (c as i64 - 1).max(0)).sum()
 }
 
-/// Looks for a simultaneously simplified basis of `c` (a complex over F2[U,V] with gradings
+/// Looks for a simultaneously simplified basis of `c` (a complex over `F2[U,V]` with gradings
 /// (gr_U, gr_V), already validated). `Err` says why none was found.
 pub fn simplify(c: &ComplexSpec, max_changes: usize) -> Result<Simplified, String> {
     let names: Vec<&String> = c.generators.keys().collect();
