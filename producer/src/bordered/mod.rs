@@ -162,12 +162,13 @@ fn validate_over(ring: &Ring, spec: &ComplexSpec) -> Result<(), String> {
     tubecheck::verify::check_complex(&ctx, 0)
 }
 
-/// The type D structure of the complement with framing t (LOT Thm 11.26), and τ.
-pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, i64), String> {
+/// The type D structure of the complement with framing t (LOT Thm 11.26, in its bounded model
+/// where that one has a cycle), τ, and whether it is the bounded model.
+pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, i64, bool), String> {
     let ctx =
         tubecheck::load::load(&full_ring(), &UniqueMap([(name.to_string(), c.clone())].into()), &UniqueMap::default())
             .map_err(|e| e.join("; "))?;
-    checked::complement(&ctx.complexes[0], t)
+    checked::complement(&ctx.complexes[0], t, true)
 }
 
 fn budget() -> Budget {
@@ -178,7 +179,7 @@ fn budget() -> Budget {
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize), String> {
     let (ma, nd) = (checked::read_module("M", m)?, checked::read_structure("N", n)?);
     let b = budget();
-    let (gens, rows) = checked::tensor_complex(&b, &ma, &nd).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_complex(&b, &ma, &nd).map_err(failure)?;
     let mut differential = Vec::new();
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
         differential.extend(row.iter().map(|(t, p)| [name.clone(), power(*p), t.clone()]));
@@ -211,7 +212,7 @@ pub fn box_tensor_map(
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
-    let (gens, rows) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, gr), row) in gens.iter().zip(&rows) {
@@ -302,10 +303,11 @@ fn add_complement(
 ) -> Result<i64, String> {
     let c = inline_source(&full_ring(), src, defs, 0).map_err(|e| format!("source: {e}"))?;
     let cname = cname.to_string();
-    let (d, tau) = complement_of(&cname, &c, t)?;
+    let (d, tau, split) = complement_of(&cname, &c, t)?;
     out.full.insert(cname.clone(), c);
     out.structures.insert(name.to_string(), d);
     out.claims.push(Claim::Complement {
+        bounded_model: split.then_some(true),
         complex: cname,
         framing: t,
         statement: String::new(),
