@@ -48,7 +48,12 @@ fn companions() -> Vec<(String, Value)> {
         let n = |g: &str| format!("{g}{k}");
         (
             [(n("a"), [m, m]), (n("b"), [m + 1, m - 1]), (n("c"), [m - 1, m + 1]), (n("d"), [m, m])],
-            [[n("a"), "U".into(), n("b")], [n("a"), "V".into(), n("c")], [n("b"), "V".into(), n("d")], [n("c"), "U".into(), n("d")]],
+            [
+                [n("a"), "U".into(), n("b")],
+                [n("a"), "V".into(), n("c")],
+                [n("b"), "V".into(), n("d")],
+                [n("c"), "U".into(), n("d")],
+            ],
         )
     };
     let (mut gens, mut d) = (serde_json::Map::new(), Vec::new());
@@ -274,7 +279,8 @@ fn a_pairing_with_no_bounded_side_is_refused() {
 /// statements re-rendered: what the producer wrote before bounded models.
 fn with_structure(body: &Body, n: Value) -> Body {
     let mut b = body.clone();
-    *b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap() = serde_json::from_value(n).unwrap();
+    *b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap() =
+        serde_json::from_value(n).unwrap();
     for c in &mut b.claims {
         if let Claim::Complement { bounded_model, .. } = c {
             *bounded_model = None;
@@ -293,15 +299,24 @@ fn an_unbounded_structure_is_refused_even_where_every_term_vanishes() {
     // HF-hat(S¹×S²): the oracle's test), so the pairing is refused, and the producer pairs with
     // the bounded model instead.
     for (q, n) in [
-        (1, json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}}, "differential": [["x0", "rho12", "x0"]]})),
-        (3, json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}, "gamma1": {"idempotent": 1}, "gamma2": {"idempotent": 1}},
-            "differential": [["x0", "rho123", "gamma1"], ["gamma1", "rho23", "gamma2"], ["gamma2", "rho2", "x0"]]})),
+        (
+            1,
+            json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}}, "differential": [["x0", "rho12", "x0"]]}),
+        ),
+        (
+            3,
+            json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}, "gamma1": {"idempotent": 1}, "gamma2": {"idempotent": 1}},
+            "differential": [["x0", "rho123", "gamma1"], ["gamma1", "rho23", "gamma2"], ["gamma2", "rho2", "x0"]]}),
+        ),
     ] {
         let body = body_of(&problem(
             json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
             json!({}),
         ));
-        assert_eq!(body.bordered.as_ref().unwrap().full_complexes["K.companion"].generators.keys().collect::<Vec<_>>(), ["x0"]);
+        assert_eq!(
+            body.bordered.as_ref().unwrap().full_complexes["K.companion"].generators.keys().collect::<Vec<_>>(),
+            ["x0"]
+        );
         assert!(failed_kinds(body.clone()).is_empty());
         assert!(body.claims.iter().any(|c| matches!(c, Claim::Complement { bounded_model: Some(true), .. })));
         let old = with_structure(&body, n);
@@ -334,7 +349,10 @@ fn a_module_checked_on_too_short_words_is_refused() {
         restate(&mut b);
         match outcomes(b) {
             Ok(o) => assert!(ok && o.iter().all(|c| c.1.is_ok()), "L = {l}"),
-            Err(e) => assert!(!ok && e.contains("length 8") && e.contains("≤ 16") && e.contains(&format!("up to {l}")), "L = {l}: {e}"),
+            Err(e) => assert!(
+                !ok && e.contains("length 8") && e.contains("≤ 16") && e.contains(&format!("up to {l}")),
+                "L = {l}: {e}"
+            ),
         }
     }
     // Without any type_a_module claim the pairing is refused too.

@@ -146,11 +146,8 @@ impl DStructure {
     pub fn is_bounded(&self) -> bool {
         let mut left: BTreeSet<&String> = self.idem.keys().collect();
         loop {
-            let sinks: Vec<&String> = left
-                .iter()
-                .copied()
-                .filter(|x| self.d(x).iter().all(|(_, y)| !left.contains(y)))
-                .collect();
+            let sinks: Vec<&String> =
+                left.iter().copied().filter(|x| self.d(x).iter().all(|(_, y)| !left.contains(y))).collect();
             if sinks.is_empty() {
                 return left.is_empty();
             }
@@ -1382,7 +1379,8 @@ pub mod cert {
                 only(c, &["kind", "map", "module", "morphism", "statement"], kind)?;
                 let m = b.modules.get(name("module")?).ok_or("no such module")?;
                 let (from, to, f) = b.morphisms.get(name("morphism")?).ok_or("no such morphism")?;
-                if !(b.structures[from].is_bounded() && b.structures[to].is_bounded()) && !m.is_bounded() {
+                let structures_bounded = b.structures[from].is_bounded() && b.structures[to].is_bounded();
+                if !structures_bounded && !m.is_bounded() {
                     return Err("neither the structures nor the module are bounded".into());
                 }
                 let map_name = name("map")?;

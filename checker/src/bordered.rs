@@ -680,7 +680,10 @@ pub fn complement(c: &Complex, t: i64, bounded: bool) -> Result<(TypeDSpec, i64,
             // arrows are all LOT Thm 11.26 reads: it does not enter the structure.
             let (kind, count) = match (u, v) {
                 (0, 0) => {
-                    return Err(refuse(format!("∂{} has the term {} with coefficient 1 (not reduced)", c.names[a], c.names[b as usize])))
+                    return Err(refuse(format!(
+                        "∂{} has the term {} with coefficient 1 (not reduced)",
+                        c.names[a], c.names[b as usize]
+                    )))
                 }
                 (_, 0) => ("lambda", &mut horizontal),
                 (0, _) => ("kappa", &mut vertical),
