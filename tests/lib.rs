@@ -838,9 +838,10 @@ pub mod wording {
 
 pub mod bombs;
 
-/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice;
-/// shared by the fuzzer and the mutation campaign.
-pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
+/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice, the
+/// second time with the value `second` (or the same value when `None`); `n` is left negative
+/// once it was used. Shared by the fuzzer, the mutation campaign and the canonical-form tests.
+pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, second: Option<&serde_json::Value>, out: &mut String) {
     match v {
         serde_json::Value::Object(m) => {
             let here = *n == 0;
@@ -852,10 +853,11 @@ pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
                     out.push(',');
                 }
                 let mut inner = String::new();
-                with_repeated_key(x, n, &mut inner);
+                with_repeated_key(x, n, second, &mut inner);
                 out.push_str(&format!("{key}:{inner}"));
                 if here && i == 0 {
-                    out.push_str(&format!(",{key}:{inner}"));
+                    let again = second.map_or(inner, |s| s.to_string());
+                    out.push_str(&format!(",{key}:{again}"));
                 }
             }
             out.push('}');
@@ -866,7 +868,7 @@ pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
                 if i > 0 {
                     out.push(',');
                 }
-                with_repeated_key(x, n, out);
+                with_repeated_key(x, n, second, out);
             }
             out.push(']');
         }
