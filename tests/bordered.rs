@@ -69,6 +69,14 @@ fn companions() -> Vec<(String, Value)> {
     }
     d.push(json!(["a2", "U*V", "d1"]));
     out.push(("point beside two squares and a diagonal arrow".into(), json!({"generators": gens, "differential": d})));
+    // Pieces with no arrow between them: a box a → U·b, a → V·c, b → V·d, c → U·d beside a
+    // staircase. The unknot plus a box is the figure-eight's complex (recalled from memory).
+    let square = json!({"generators": {"a": [0, 0], "b": [1, -1], "c": [-1, 1], "d": [0, 0]},
+        "differential": [["a", "U", "b"], ["a", "V", "c"], ["b", "V", "d"], ["c", "U", "d"]]});
+    out.push(("figure-eight".into(), json!({"direct_sum": [{"staircase": {"alexander": [0]}}, square]})));
+    let far = json!({"shift": [square, [5, -7]]});
+    let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    out.push(("T(2,3) and two boxes".into(), json!({"direct_sum": [t23, {"direct_sum": [far, {"dual": square}]}]})));
     out
 }
 
@@ -139,7 +147,7 @@ fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_frami
             assert_eq!(gammas, (t - t2).abs(), "{name}, t = {t}");
             // ξ0 = η0 (the unknot here) and t ≥ 2τ: the bounded model, ξ0 →ρ12 ξ0 or
             // ξ0 →ρ123 γ1 split through the cancelling pair pair.x →1 pair.y.
-            let split = (name == "unknot" || name.starts_with("point")) && t >= t2;
+            let split = (name == "unknot" || name == "figure-eight" || name.starts_with("point")) && t >= t2;
             assert_eq!(n.generators.contains_key("pair.x"), split, "{name}, t = {t}");
             let rho12 = n.differential.iter().filter(|d| d[1] == "rho12").count();
             assert_eq!(rho12, usize::from(t == t2 && !split), "{name}, t = {t}");
@@ -253,8 +261,8 @@ fn restate(b: &mut Body) {
 #[test]
 fn a_pairing_with_no_bounded_side_is_refused() {
     // y0 →ρ3 y1 with a ρ23 loop at y1, paired with the core (operations of every length).
-    let n = json!({"generators": {"y0": {"grading": [0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
-        "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]]});
+    let n = json!({"generators": {"y0": {"grading": [0, 0, 0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
+        "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]], "period": [1, 2, 0, 0]});
     let p = problem(
         json!({"K": {"box_tensor": ["M", "N"]}}),
         json!({"type_d_structures": {"N": n}, "type_a_modules": {"M": {"cable_pattern": {"p": 1}}}}),
@@ -275,12 +283,20 @@ fn a_pairing_with_no_bounded_side_is_refused() {
     }
 }
 
-/// A certificate body with the structure `n` in place of K.complement (no bounded_model) and
-/// statements re-rendered: what the producer wrote before bounded models.
-fn with_structure(body: &Body, n: Value) -> Body {
+/// The certificate body with K.complement's cancelling pair cancelled back (ξ0 →ρ1 pair.y,
+/// pair.x →1 pair.y, pair.x →b z become ξ0 →ρ1·b z), no bounded_model, statements re-rendered:
+/// LOT Thm 11.26's own structure, as the producer wrote it before bounded models.
+fn unsplit(body: &Body) -> Body {
     let mut b = body.clone();
-    *b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap() =
-        serde_json::from_value(n).unwrap();
+    let n = b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap();
+    let find = |to: &str| n.differential.iter().find(|t| t[2] == to && t[0] != "pair.x").unwrap().clone();
+    let xi = find("pair.y")[0].clone();
+    let out = n.differential.iter().find(|t| t[0] == "pair.x" && t[1] != "1").unwrap().clone();
+    let merged = if out[1] == "rho2" { "rho12" } else { "rho123" };
+    n.differential.retain(|t| !t[0].starts_with("pair.") && !t[2].starts_with("pair."));
+    n.differential.push([xi, merged.into(), out[2].clone()]);
+    n.differential.sort();
+    n.generators.0.retain(|g, _| !g.starts_with("pair."));
     for c in &mut b.claims {
         if let Claim::Complement { bounded_model, .. } = c {
             *bounded_model = None;
@@ -298,17 +314,7 @@ fn an_unbounded_structure_is_refused_even_where_every_term_vanishes() {
     // (the surgery solid torus with the unknot's complement at t = 0 gives rank 0, not the 2 of
     // HF-hat(S¹×S²): the oracle's test), so the pairing is refused, and the producer pairs with
     // the bounded model instead.
-    for (q, n) in [
-        (
-            1,
-            json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}}, "differential": [["x0", "rho12", "x0"]]}),
-        ),
-        (
-            3,
-            json!({"generators": {"x0": {"grading": [0, 0], "idempotent": 0}, "gamma1": {"idempotent": 1}, "gamma2": {"idempotent": 1}},
-            "differential": [["x0", "rho123", "gamma1"], ["gamma1", "rho23", "gamma2"], ["gamma2", "rho2", "x0"]]}),
-        ),
-    ] {
+    for (q, loop_terms) in [(1, vec![["x0", "rho12", "x0"]]), (3, vec![["x0", "rho123", "gamma1"], ["gamma2", "rho2", "x0"]])] {
         let body = body_of(&problem(
             json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
             json!({}),
@@ -319,7 +325,9 @@ fn an_unbounded_structure_is_refused_even_where_every_term_vanishes() {
         );
         assert!(failed_kinds(body.clone()).is_empty());
         assert!(body.claims.iter().any(|c| matches!(c, Claim::Complement { bounded_model: Some(true), .. })));
-        let old = with_structure(&body, n);
+        let old = unsplit(&body);
+        let d = &old.bordered.as_ref().unwrap().type_d_structures["K.complement"].differential;
+        assert!(loop_terms.iter().all(|t| d.contains(&t.map(String::from))), "{d:?}");
         let e = outcomes(old.clone()).unwrap_err();
         assert!(e.contains("neither side is bounded"), "{e}");
         // Its complement claim alone (LOT Thm 11.26's structure itself) still verifies.
@@ -460,10 +468,114 @@ fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
         json!({}),
     ));
     let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
-    assert_eq!(cert["version"], 2);
+    assert_eq!(cert["version"], 3);
     cert["version"] = json!(1);
     let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
     assert!(e.contains("version-1"), "{e}");
+}
+
+/// A version-3 cable body rewritten as version 2 wrote it: module and ι_0 gradings
+/// [Maslov, Alexander] (added in the box tensor product), ι_1 generators ungraded, no periods,
+/// version 2's wording.
+fn as_version_2(mut body: Body) -> Value {
+    let b = body.bordered.as_mut().unwrap();
+    for m in b.type_a_modules.0.values_mut() {
+        m.period = None;
+        m.generators.0.values_mut().for_each(|g| g.grading = vec![0, 0]);
+    }
+    let full = b.full_complexes.0.values().next().unwrap().clone();
+    for n in b.type_d_structures.0.values_mut() {
+        n.period = None;
+        for (g, gen) in n.generators.0.iter_mut() {
+            gen.grading = full.generators.get(g).map(|gr| vec![gr[0], (gr[0] - gr[1]) / 2]);
+        }
+    }
+    let ring = tubecert_format::RingInfo::new(&body.ring).unwrap();
+    for c in &mut body.claims {
+        *c.statement_mut() = tubecert_format::statement::render(c, &ring, 2);
+    }
+    let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+    cert["version"] = json!(2);
+    cert
+}
+
+#[test]
+fn version_2_bordered_certificates_stay_verifiable_with_version_2_gradings() {
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [3, 4]}}, "p": 1, "q": 3}}}),
+        json!({}),
+    ));
+    let v2 = as_version_2(body.clone());
+    let r = tubecheck::check_bytes("v2", &serde_json::to_vec(&v2).unwrap()).unwrap();
+    assert!(
+        r.claims.iter().all(|c| c.outcome.is_ok()),
+        "{:?}",
+        r.claims.iter().map(|c| &c.outcome).collect::<Vec<_>>()
+    );
+    assert!(tubecert_tests::oracle::holds_in(&serde_json::from_value::<Body>(v2["body"].clone()).unwrap(), 2));
+    // A version-2 file cannot hold a period, nor four-entry gradings.
+    let mut bad = v2.clone();
+    bad["body"]["bordered"]["type_a_modules"]["K.pattern"]["period"] = json!([3, 0, 2, 2]);
+    assert!(tubecheck::check_bytes("v2", &serde_json::to_vec(&bad).unwrap()).is_err());
+    // The version-3 body under version 2's rules: four-entry gradings are refused.
+    let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+    cert["version"] = json!(2);
+    assert!(tubecheck::check_bytes("v2", &serde_json::to_vec(&cert).unwrap()).is_err());
+}
+
+#[test]
+fn group_gradings_are_checked_against_every_arrow_operation_and_complement() {
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 5]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    let failed_after = |edit: &dyn Fn(&mut tubecert_format::bordered::Bordered)| {
+        let mut b = body.clone();
+        edit(b.bordered.as_mut().unwrap());
+        outcomes(b).map(|o| o.into_iter().filter(|c| c.1.is_err()).map(|c| c.0).collect::<Vec<_>>())
+    };
+    assert_eq!(failed_after(&|_| {}), Ok(vec![]));
+    // A ι_1 generator's grading moved by λ: the D structure's arrows are no longer homogeneous.
+    let f = failed_after(&|b| {
+        let n = b.type_d_structures.0.get_mut("K.complement").unwrap();
+        let g = n.generators.0.iter_mut().find(|(k, _)| k.starts_with("lambda1.")).unwrap().1;
+        g.grading.as_mut().unwrap()[0] += 2;
+    })
+    .unwrap();
+    assert!(f.contains(&"type_d_structure".to_string()) && f.contains(&"complement".to_string()), "{f:?}");
+    // The same generator moved by the period: still homogeneous (gradings live in G/P_D), but
+    // not the representative LOT Thm 11.26's recomputation writes.
+    let f = failed_after(&|b| {
+        let n = b.type_d_structures.0.get_mut("K.complement").unwrap();
+        let h = n.period.clone().unwrap();
+        let g = n.generators.0.get_mut("gamma1").unwrap().grading.as_mut().unwrap();
+        // g·h: j gains h_j + det(v_g, v_h), written doubled.
+        let (j, p, q) = (g[0] + h[0] + (g[1] * h[2] - g[2] * h[1]) / 2, g[1] + h[1], g[2] + h[2]);
+        *g = vec![j, p, q, g[3] + h[3]];
+    })
+    .unwrap();
+    assert_eq!(f, vec!["complement".to_string()]);
+    // Another period for the structure: the complement claim fails.
+    let f = failed_after(&|b| {
+        b.type_d_structures.0.get_mut("K.complement").unwrap().period = Some(vec![5, 2, 4, 0]);
+    });
+    assert!(f.is_err() || f.as_ref().unwrap().contains(&"complement".to_string()), "{f:?}");
+    // The module's period or its generator's grading changed: its operations are not homogeneous.
+    let f =
+        failed_after(&|b| b.type_a_modules.0.get_mut("K.pattern").unwrap().period = Some(vec![1, 0, 2, 2])).unwrap();
+    assert!(f.contains(&"type_a_module".to_string()), "{f:?}");
+    // The box tensor product's gradings, read from a module generator moved by λ, no longer
+    // match the complex: the box_tensor claim fails.
+    let f = failed_after(&|b| {
+        b.type_a_modules.0.get_mut("K.pattern").unwrap().generators.0.get_mut("x").unwrap().grading[0] += 2
+    })
+    .unwrap();
+    assert!(f.contains(&"box_tensor".to_string()), "{f:?}");
+    // A grading that is not a group element (2p, 2q of different parity) makes the file unreadable.
+    let f = failed_after(&|b| {
+        b.type_a_modules.0.get_mut("K.pattern").unwrap().generators.0.get_mut("x").unwrap().grading[1] = 1
+    });
+    assert!(f.is_err(), "{f:?}");
 }
 
 #[test]

@@ -624,15 +624,15 @@ pub mod oracle {
         }
     }
 
-    /// Does every implicit check and every claim of the body hold (format version 2)?
+    /// Does every implicit check and every claim of the body hold (the format version written)?
     pub fn holds(body: &Body) -> bool {
-        holds_in(body, 2)
+        holds_in(body, tubecert_format::CERTIFICATE_VERSION)
     }
 
     /// Does every implicit check and every claim of a body of format `version` hold?
     pub fn holds_in(body: &Body, version: u32) -> bool {
         // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
-        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
+        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap(), version).is_err() {
             return false;
         }
         // Numbers first, read by the oracle's own reader in the body's ring.
@@ -707,9 +707,9 @@ pub mod oracle {
                 c if crate::bordered_oracle::cert::KINDS.contains(&c.kind()) => {
                     let body = serde_json::to_value(body).unwrap();
                     let claim = serde_json::to_value(c).unwrap();
-                    crate::bordered_oracle::cert::read_bordered(&body)
+                    crate::bordered_oracle::cert::read_bordered(&body, version)
                         .and_then(|b| b.ok_or("no bordered member".into()))
-                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim))
+                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim, version))
                         .is_ok()
                 }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
@@ -830,7 +830,9 @@ pub mod wording {
                 }
             }
             // The bordered kinds: their wording lives with their oracle.
-            c if version >= 2 => return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?),
+            c if version >= 2 => {
+                return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?, version)
+            }
             _ => return None,
         })
     }
