@@ -314,7 +314,9 @@ fn an_unbounded_structure_is_refused_even_where_every_term_vanishes() {
     // (the surgery solid torus with the unknot's complement at t = 0 gives rank 0, not the 2 of
     // HF-hat(S¹×S²): the oracle's test), so the pairing is refused, and the producer pairs with
     // the bounded model instead.
-    for (q, loop_terms) in [(1, vec![["x0", "rho12", "x0"]]), (3, vec![["x0", "rho123", "gamma1"], ["gamma2", "rho2", "x0"]])] {
+    for (q, loop_terms) in
+        [(1, vec![["x0", "rho12", "x0"]]), (3, vec![["x0", "rho123", "gamma1"], ["gamma2", "rho2", "x0"]])]
+    {
         let body = body_of(&problem(
             json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
             json!({}),

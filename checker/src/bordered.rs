@@ -956,7 +956,6 @@ fn covered(o: &Objects, module: &str) -> Result<(), Failure> {
         ))),
     }
 }
-}
 
 /// Checks one bordered claim; `None` for the other kinds.
 pub fn check(
