@@ -562,6 +562,13 @@ fn group_gradings_are_checked_against_every_arrow_operation_and_complement() {
         b.type_d_structures.0.get_mut("K.complement").unwrap().period = Some(vec![5, 2, 4, 0]);
     });
     assert!(f.is_err() || f.as_ref().unwrap().contains(&"complement".to_string()), "{f:?}");
+    // A period whose (p, q) part is twice a primitive class: the glued manifold is not a homology
+    // sphere, (Maslov, Alexander) cannot be read and the box tensor claim fails, saying so.
+    let mut b = body.clone();
+    b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap().period = Some(vec![1, 4, 0, 0]);
+    let r = tubecheck::check_bytes("det", &seal(b)).unwrap();
+    let bt = r.claims.iter().find(|c| c.kind == "box_tensor").unwrap();
+    assert!(format!("{:?}", bt.outcome).contains("determinant"), "{:?}", bt.outcome);
     // The module's period or its generator's grading changed: its operations are not homogeneous.
     let f =
         failed_after(&|b| b.type_a_modules.0.get_mut("K.pattern").unwrap().period = Some(vec![1, 0, 2, 2])).unwrap();
