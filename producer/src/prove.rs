@@ -23,11 +23,15 @@ use tubecheck::verify::Decomposition;
 /// What proving a problem gave.
 pub struct Proved {
     pub certificate: Certificate,
+    /// The certificate file's bytes (`canonical_writer::file_bytes` of `certificate`, written
+    /// with the body serialized once).
+    pub file: Vec<u8>,
     /// One line per goal for the terminal.
     pub lines: Vec<String>,
     /// False when some goal was false and its opposite was proved instead.
     pub all_as_stated: bool,
-    /// Time per stage (reduce, solve, transport, self-check, seal), for the bench.
+    /// Time per stage (reduce, solve, transport, self-check with the SHA-256 beside it, the
+    /// canonical body written), for the bench.
     pub timings: Vec<(&'static str, Duration)>,
 }
 
@@ -431,16 +435,25 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
         },
     };
     let start = Instant::now();
-    let (certificate, size) = crate::canonical_writer::seal_sized(body)?;
-    let hash = start.elapsed();
-    // Checked within the work the checker will allow the file (its size is at least the body's).
+    let file = crate::canonical_writer::start_file(&body)?;
+    let serialize = start.elapsed();
+    // Checked within the work the checker will allow the file (its size is at least the body's),
+    // with the body's SHA-256 taken beside it on a second thread when there is one.
     let start = Instant::now();
-    let results = tubecheck::verify::check_body(
-        &certificate.body,
-        CERTIFICATE_VERSION,
-        tubecert_format::limits::work_limit(size),
-    )
-    .map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
+    let canonical = crate::canonical_writer::body_of(&file);
+    let limit = tubecert_format::limits::work_limit(canonical.len() as u64);
+    let hash = || tubecert_format::canonical::sha256_hex(canonical);
+    let (sha256, results) = if options.threads > 1 {
+        std::thread::scope(|s| {
+            let hashing = s.spawn(hash);
+            let results = tubecheck::verify::check_body(&body, CERTIFICATE_VERSION, limit);
+            (hashing.join().unwrap_or_else(|p| std::panic::resume_unwind(p)), results)
+        })
+    } else {
+        (hash(), tubecheck::verify::check_body(&body, CERTIFICATE_VERSION, limit))
+    };
+    let results =
+        results.map_err(|e| format!("internal error: the checker cannot read the certificate: {}", e.join("; ")))?;
     if let Some(bad) = results.iter().find(|r| r.outcome.is_err()) {
         return Err(format!(
             "internal error: the checker rejects claim \"{}\": {}",
@@ -448,12 +461,15 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
             bad.outcome.as_ref().expect_err("is_err")
         ));
     }
+    let self_check = start.elapsed();
+    let certificate = crate::canonical_writer::certificate(body, sha256);
+    let file = crate::canonical_writer::finish_file(file, &certificate)?;
     let timings = vec![
         ("reduce", reduce),
         ("solve", solve),
         ("transport", transport),
-        ("self_check", start.elapsed()),
-        ("hash", hash),
+        ("self_check", self_check),
+        ("hash", serialize),
     ];
-    Ok(Proved { certificate, lines, all_as_stated: all, timings })
+    Ok(Proved { certificate, file, lines, all_as_stated: all, timings })
 }

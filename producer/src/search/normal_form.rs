@@ -25,9 +25,10 @@ pub enum Pivots {
 
 /// The result: a new basis, its inverse, and the arrows of ∂ in it.
 pub struct NormalForm {
-    /// New basis vector t written in the old generators.
+    /// New basis vector t written in the old generators (`Units`: empty for cancelled targets).
     pub basis: Vec<Vector>,
-    /// Row t of B⁻¹: each old generator g with the coefficient of t in g.
+    /// Row t of B⁻¹: each old generator g with the coefficient of t in g (`Units`: empty for
+    /// cancelled sources).
     pub inverse_rows: Vec<Vector>,
     /// Cancelled arrows a → m·b of ∂ in the new basis.
     pub pairs: Vec<(u32, u32, Mono)>,
@@ -65,12 +66,14 @@ fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
     row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
 }
 
-/// `target += Σ_f f·src` for the monomials f of `factor`, by merging: both are sorted without
+/// `old + Σ_f f·src` for the monomials f of `factor`, by merging: both are sorted without
 /// repeats and multiplying by f keeps the order, so this gives exactly what sorting would.
-fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
+fn plus_multiple(old: &Vector, factor: &[Mono], src: &Vector) -> Result<Vector, String> {
+    let mut acc: Option<Vector> = None;
     for &f in factor {
-        let mut merged = Vec::with_capacity(target.len() + src.len());
-        let mut t = target.iter().copied().peekable();
+        let base = acc.as_ref().unwrap_or(old);
+        let mut merged = Vec::with_capacity(base.len() + src.len());
+        let mut t = base.iter().copied().peekable();
         for &(g, n) in src {
             let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
             while let Some(&x) = t.peek() {
@@ -87,8 +90,14 @@ fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<()
             }
         }
         merged.extend(t);
-        *target = merged;
+        acc = Some(merged);
     }
+    Ok(acc.unwrap_or_else(|| old.clone()))
+}
+
+/// `target += Σ_f f·src` (see [`plus_multiple`]).
+fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
+    *target = plus_multiple(target, factor, src)?;
     Ok(())
 }
 
@@ -135,7 +144,34 @@ impl<K: Ord + Copy> Candidates<K> {
     }
 }
 
+/// The monomial of the only term of `row` into `b`, if there is exactly one.
+fn only_term(row: &Vector, b: u32) -> Option<Mono> {
+    let i = row.partition_point(|t| t.0 < b);
+    let first = row.get(i).filter(|t| t.0 == b)?;
+    row.get(i + 1).is_none_or(|t| t.0 != b).then_some(first.1)
+}
+
+/// A candidate pivot a → m·b: (degree of m, fill-in cost, a, b, m) packed as
+/// (degree·2^42 + cost, a·2^32 + b, m), the same order in 24 bytes (degrees stay below 2^22; a
+/// cost past 2^42 is capped). The cost is the Markowitz count (sources of b − 1)·(terms of ∂a − 1).
+type Key = (u64, u64, Mono);
+
+fn key(a: u32, b: u32, m: Mono, row_len: usize, sources_of_b: usize) -> Key {
+    let cost = (sources_of_b.saturating_sub(1) * row_len.saturating_sub(1)) as u64;
+    ((total_degree(m) << 42) | cost.min((1 << 42) - 1), ((a as u64) << 32) | b as u64, m)
+}
+
+/// Pivots are popped smallest key first. With [`Pivots::Minimal`] every candidate of a row is
+/// pushed again whenever the row changes (a pivot refused for divisibility gets its next
+/// chance then). With [`Pivots::Units`] any order gives a valid reduction and the key only
+/// steers fill-in, so a row change pushes only the arrows that became candidates, and a popped
+/// key that has grown stale (a longer row, more sources) is pushed again with its present cost
+/// instead of being used: far fewer heap entries on dense complexes, each candidate present at
+/// least once. Only what a [`Reduction`](super::reduce::Reduction) reads is kept for `Units`:
+/// the basis vectors of cancelled targets and the inverse rows of cancelled sources are left
+/// empty.
 pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
+    let units = pivots == Pivots::Units;
     let n = c.names.len();
     let mut out: Vec<Vector> = c.d.rows.clone();
     let mut inc: Vec<Sources> = vec![Sources::default(); n];
@@ -149,34 +185,39 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let mut inverse_rows: Vec<Vector> = (0..n as u32).map(unit).collect();
     let mut done = vec![false; n];
     let mut pairs = Vec::new();
-    // Key (degree of m, fill-in cost, a, b, m) packed as (degree·2^42 + cost, a·2^32 + b, m): the
-    // same order in 24 bytes (degrees stay below 2^22; a cost past 2^42 is capped).
-    let arrows = |a: u32, row: &Vector, inc: &[Sources], into: &mut dyn FnMut((u64, u64, Mono))| {
+    // The candidates of row a, except those that were candidates of `old` already.
+    let arrows = |a: u32, row: &Vector, old: Option<&Vector>, inc: &[Sources], into: &mut dyn FnMut(Key)| {
         for (i, &(b, m)) in row.iter().enumerate() {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
-            if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
-                let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
-                into(((total_degree(m) << 42) | cost.min((1 << 42) - 1), ((a as u64) << 32) | b as u64, m));
+            if single && a != b && (!units || m.is_one()) && old.is_none_or(|o| only_term(o, b) != Some(m)) {
+                into(key(a, b, m, row.len(), inc[b as usize].len()));
             }
         }
     };
     let mut initial = Vec::new();
     for (a, row) in out.iter().enumerate() {
-        arrows(a as u32, row, &inc, &mut |k| initial.push(k));
+        arrows(a as u32, row, None, &inc, &mut |k| initial.push(k));
     }
     initial.sort_unstable();
     let mut heap = Candidates { initial, next: 0, later: BinaryHeap::new() };
-    while let Some((_, ab, m)) = heap.pop() {
+    while let Some((k, ab, m)) = heap.pop() {
         let (a, b) = ((ab >> 32) as u32, ab as u32);
         let (au, bu) = (a as usize, b as usize);
-        if done[au] || done[bu] || coefficient(&out[au], b) != [m] {
+        if done[au] || done[bu] || only_term(&out[au], b) != Some(m) {
             continue;
         }
-        let divides =
-            |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.checked_div(m).is_some());
+        if units {
+            let now = key(a, b, m, out[au].len(), inc[bu].len());
+            if now.0 > k {
+                heap.later.push(Reverse(now));
+                continue;
+            }
+        }
         let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
-        if !divides(&out[au], None)
-            || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.checked_div(m).is_none()))
+        let divides = |row: &Vector| row.iter().all(|t| t.1.checked_div(m).is_some());
+        if !m.is_one()
+            && (!divides(&out[au])
+                || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.checked_div(m).is_none())))
         {
             continue;
         }
@@ -188,19 +229,22 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             let a2u = a2 as usize;
             let factor: Vec<Mono> =
                 coefficient(&out[a2u], b).iter().map(|c| c.checked_div(m).expect("checked")).collect();
-            let before = out[a2u].clone();
-            add_multiple(&mut out[a2u], &factor, &row_a)?;
+            let before = std::mem::take(&mut out[a2u]);
+            let after = plus_multiple(&before, &factor, &row_a)?;
             // Only the generators that enter or leave the row change their sources.
-            each_change(&before, &out[a2u], |t, entered| match entered {
+            each_change(&before, &after, |t, entered| match entered {
                 true => inc[t as usize].insert(a2),
                 false => inc[t as usize].remove(&a2),
             });
-            arrows(a2, &out[a2u], &inc, &mut |k| heap.later.push(Reverse(k)));
+            arrows(a2, &after, units.then_some(&before), &inc, &mut |k| heap.later.push(Reverse(k)));
+            out[a2u] = after;
             add_multiple(&mut basis[a2u], &factor, &basis_a)?;
-            add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+            if !units {
+                add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+            }
         }
         basis[au] = basis_a;
-        inverse_rows[au] = inverse_a;
+        inverse_rows[au] = if units { Vec::new() } else { inverse_a };
         // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
         for x in std::mem::take(&mut inc[au]).0 {
             out[x as usize].retain(|t| t.0 != a);
@@ -210,11 +254,13 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         let inverse_b = std::mem::take(&mut inverse_rows[bu]);
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
             let f = [c2.checked_div(m).expect("checked")];
-            add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+            if !units {
+                add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+            }
             add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
             inc[b2 as usize].remove(&a);
         }
-        basis[bu] = basis_b;
+        basis[bu] = if units { Vec::new() } else { basis_b };
         inverse_rows[bu] = inverse_b;
         out[au] = vec![(b, m)];
         // ∂b = 0 in the new basis.
