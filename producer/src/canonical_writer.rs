@@ -38,8 +38,16 @@ struct Writer<'a> {
     out: &'a mut Vec<u8>,
 }
 
+/// A JSON string as RFC 8785 writes it: serde_json's escaping is exactly RFC 8785's; a string
+/// with nothing to escape (no `"`, `\` or control character) is copied as it is.
 fn string(out: &mut Vec<u8>, s: &str) {
-    serde_json::to_writer(out, s).expect("writing to a Vec cannot fail");
+    if s.bytes().all(|b| b >= 0x20 && b != b'"' && b != b'\\') {
+        out.push(b'"');
+        out.extend_from_slice(s.as_bytes());
+        out.push(b'"');
+    } else {
+        serde_json::to_writer(out, s).expect("writing to a Vec cannot fail");
+    }
 }
 
 fn integer(out: &mut Vec<u8>, v: i128) -> Result<(), Error> {

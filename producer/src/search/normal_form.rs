@@ -61,63 +61,92 @@ impl Sources {
     }
 }
 
-fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
+/// The terms of `row` into `b`.
+fn terms_into(row: &[(u32, Mono)], b: u32) -> &[(u32, Mono)] {
     let start = row.partition_point(|t| t.0 < b);
-    row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
+    let len = row[start..].iter().take_while(|t| t.0 == b).count();
+    &row[start..start + len]
 }
 
-/// `old + Σ_f f·src` for the monomials f of `factor`, by merging: both are sorted without
-/// repeats and multiplying by f keeps the order, so this gives exactly what sorting would.
-fn plus_multiple(old: &Vector, factor: &[Mono], src: &Vector) -> Result<Vector, String> {
-    let mut acc: Option<Vector> = None;
-    for &f in factor {
-        let base = acc.as_ref().unwrap_or(old);
-        let mut merged = Vec::with_capacity(base.len() + src.len());
-        let mut t = base.iter().copied().peekable();
-        for &(g, n) in src {
-            let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
-            while let Some(&x) = t.peek() {
-                if x >= term {
-                    break;
-                }
-                merged.push(x);
-                t.next();
+/// `out = old + f·src`, by merging: both are sorted without repeats and multiplying by f keeps
+/// the order, so this gives exactly what sorting would.
+fn merge_one(old: &[(u32, Mono)], f: Mono, src: &[(u32, Mono)], out: &mut Vector) -> Result<(), String> {
+    out.clear();
+    out.reserve(old.len() + src.len());
+    let mut t = old.iter().copied().peekable();
+    for &(g, n) in src {
+        let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
+        while let Some(&x) = t.peek() {
+            if x >= term {
+                break;
             }
-            if t.peek() == Some(&term) {
-                t.next(); // 1 + 1 = 0
-            } else {
-                merged.push(term);
+            out.push(x);
+            t.next();
+        }
+        if t.peek() == Some(&term) {
+            t.next(); // 1 + 1 = 0
+        } else {
+            out.push(term);
+        }
+    }
+    out.extend(t);
+    Ok(())
+}
+
+/// Vectors reused as working space, so that adding rows allocates nothing in the common case.
+#[derive(Default)]
+struct Spare {
+    out: Vector,
+    step: Vector,
+}
+
+impl Spare {
+    /// `self.out = old + Σ_f f·src` for the monomials f of `factor`.
+    fn plus_multiple(&mut self, old: &[(u32, Mono)], factor: &[Mono], src: &Vector) -> Result<(), String> {
+        match factor.split_first() {
+            None => {
+                self.out.clear();
+                self.out.extend_from_slice(old);
+            }
+            Some((&f, rest)) => {
+                merge_one(old, f, src, &mut self.out)?;
+                for &g in rest {
+                    merge_one(&self.out, g, src, &mut self.step)?;
+                    std::mem::swap(&mut self.out, &mut self.step);
+                }
             }
         }
-        merged.extend(t);
-        acc = Some(merged);
+        Ok(())
     }
-    Ok(acc.unwrap_or_else(|| old.clone()))
-}
 
-/// `target += Σ_f f·src` (see [`plus_multiple`]).
-fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
-    *target = plus_multiple(target, factor, src)?;
-    Ok(())
+    /// `target += Σ_f f·src`.
+    fn add_multiple(&mut self, target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
+        self.plus_multiple(target, factor, src)?;
+        std::mem::swap(target, &mut self.out);
+        Ok(())
+    }
 }
 
 /// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and
 /// `f(t, false)` for each in `old` but not in `new` (both sorted by generator).
-fn each_change(old: &Vector, new: &Vector, mut f: impl FnMut(u32, bool)) {
-    let gens = |v: &Vector| {
-        let mut g: Vec<u32> = v.iter().map(|t| t.0).collect();
-        g.dedup();
-        g
-    };
-    let (old, new) = (gens(old), gens(new));
+fn each_change(old: &[(u32, Mono)], new: &[(u32, Mono)], mut f: impl FnMut(u32, bool)) {
+    // The index after the run of terms into the generator at i; past the end, "generator" 2^32.
+    let past = |v: &[(u32, Mono)], i: usize| i + v[i..].iter().take_while(|t| t.0 == v[i].0).count();
+    let at = |v: &[(u32, Mono)], i: usize| v.get(i).map_or(1u64 << 32, |t| t.0 as u64);
     let (mut i, mut j) = (0, 0);
-    while i < old.len() || j < new.len() {
-        match (old.get(i), new.get(j)) {
-            (Some(a), Some(b)) if a == b => (i, j) = (i + 1, j + 1),
-            (Some(&a), Some(&b)) if a < b => (f(a, false), i += 1).1,
-            (Some(&a), None) => (f(a, false), i += 1).1,
-            (_, Some(&b)) => (f(b, true), j += 1).1,
-            (None, None) => break,
+    loop {
+        let (a, b) = (at(old, i), at(new, j));
+        match a.cmp(&b) {
+            std::cmp::Ordering::Equal if a == 1 << 32 => break,
+            std::cmp::Ordering::Equal => (i, j) = (past(old, i), past(new, j)),
+            std::cmp::Ordering::Less => {
+                f(a as u32, false);
+                i = past(old, i);
+            }
+            std::cmp::Ordering::Greater => {
+                f(b as u32, true);
+                j = past(new, j);
+            }
         }
     }
 }
@@ -200,6 +229,7 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     }
     initial.sort_unstable();
     let mut heap = Candidates { initial, next: 0, later: BinaryHeap::new() };
+    let (mut spare, mut others, mut factor) = (Spare::default(), Vec::new(), Vec::new());
     while let Some((k, ab, m)) = heap.pop() {
         let (a, b) = ((ab >> 32) as u32, ab as u32);
         let (au, bu) = (a as usize, b as usize);
@@ -213,34 +243,34 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
                 continue;
             }
         }
-        let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
-        let divides = |row: &Vector| row.iter().all(|t| t.1.checked_div(m).is_some());
-        if !m.is_one()
-            && (!divides(&out[au])
-                || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.checked_div(m).is_none())))
-        {
+        others.clear();
+        others.extend(inc[bu].iter().copied().filter(|&x| x != a));
+        let divides = |row: &[(u32, Mono)]| row.iter().all(|t| t.1.checked_div(m).is_some());
+        if !m.is_one() && (!divides(&out[au]) || others.iter().any(|&x| !divides(terms_into(&out[x as usize], b)))) {
             continue;
         }
         // Taken out while the other rows change (a is none of them), put back below.
-        let row_a = std::mem::take(&mut out[au]);
+        let mut row_a = std::mem::take(&mut out[au]);
         let basis_a = std::mem::take(&mut basis[au]);
         let mut inverse_a = std::mem::take(&mut inverse_rows[au]);
-        for a2 in others {
+        for &a2 in &others {
             let a2u = a2 as usize;
-            let factor: Vec<Mono> =
-                coefficient(&out[a2u], b).iter().map(|c| c.checked_div(m).expect("checked")).collect();
+            factor.clear();
+            factor.extend(terms_into(&out[a2u], b).iter().map(|c| c.1.checked_div(m).expect("checked")));
             let before = std::mem::take(&mut out[a2u]);
-            let after = plus_multiple(&before, &factor, &row_a)?;
+            spare.plus_multiple(&before, &factor, &row_a)?;
+            let after = std::mem::replace(&mut spare.out, before);
+            let before = &spare.out;
             // Only the generators that enter or leave the row change their sources.
-            each_change(&before, &after, |t, entered| match entered {
+            each_change(before, &after, |t, entered| match entered {
                 true => inc[t as usize].insert(a2),
                 false => inc[t as usize].remove(&a2),
             });
-            arrows(a2, &after, units.then_some(&before), &inc, &mut |k| heap.later.push(Reverse(k)));
+            arrows(a2, &after, units.then_some(before), &inc, &mut |k| heap.later.push(Reverse(k)));
             out[a2u] = after;
-            add_multiple(&mut basis[a2u], &factor, &basis_a)?;
+            spare.add_multiple(&mut basis[a2u], &factor, &basis_a)?;
             if !units {
-                add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+                spare.add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
             }
         }
         basis[au] = basis_a;
@@ -255,14 +285,16 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
             let f = [c2.checked_div(m).expect("checked")];
             if !units {
-                add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+                spare.add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
             }
-            add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
+            spare.add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
             inc[b2 as usize].remove(&a);
         }
         basis[bu] = if units { Vec::new() } else { basis_b };
         inverse_rows[bu] = inverse_b;
-        out[au] = vec![(b, m)];
+        row_a.clear();
+        row_a.push((b, m));
+        out[au] = row_a;
         // ∂b = 0 in the new basis.
         for (t, _) in std::mem::take(&mut out[bu]) {
             inc[t as usize].remove(&b);
