@@ -41,6 +41,14 @@ fn companions() -> Vec<(String, Value)> {
     out.push(("unknot".into(), json!({"staircase": {"alexander": [0]}})));
     out.push(("staircase 4 3 0 -3 -4".into(), json!({"staircase": {"alexander": [4, 3, 0, -3, -4]}})));
     out.push(("shifted dual".into(), json!({"dual": {"staircase": {"alexander": [4, 3, 0, -3, -4]}}})));
+    // Pieces with no arrow between them: a box a → U·b, a → V·c, b → V·d, c → U·d beside a
+    // staircase. The unknot plus a box is the figure-eight's complex (recalled from memory).
+    let square = json!({"generators": {"a": [0, 0], "b": [1, -1], "c": [-1, 1], "d": [0, 0]},
+        "differential": [["a", "U", "b"], ["a", "V", "c"], ["b", "V", "d"], ["c", "U", "d"]]});
+    out.push(("figure-eight".into(), json!({"direct_sum": [{"staircase": {"alexander": [0]}}, square]})));
+    let far = json!({"shift": [square, [5, -7]]});
+    let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    out.push(("T(2,3) and two boxes".into(), json!({"direct_sum": [t23, {"direct_sum": [far, {"dual": square}]}]})));
     out
 }
 
@@ -222,8 +230,8 @@ fn restate(b: &mut Body) {
 #[test]
 fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_harmless() {
     // y0 →ρ3 y1 with a ρ23 loop at y1: ρ3 ρ23 ρ23 … is a prefix of the core's inputs forever.
-    let n = json!({"generators": {"y0": {"grading": [0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
-        "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]]});
+    let n = json!({"generators": {"y0": {"grading": [0, 0, 0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
+        "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]], "period": [1, 2, 0, 0]});
     let p = problem(
         json!({"K": {"box_tensor": ["M", "N"]}}),
         json!({"type_d_structures": {"N": n}, "type_a_modules": {"M": {"cable_pattern": {"p": 1}}}}),
@@ -342,10 +350,121 @@ fn version_one_certificates_stay_readable_and_cannot_hold_bordered_objects() {
         json!({}),
     ));
     let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
-    assert_eq!(cert["version"], 2);
+    assert_eq!(cert["version"], 3);
     cert["version"] = json!(1);
     let e = tubecheck::check_bytes("v1", &serde_json::to_vec(&cert).unwrap()).unwrap_err();
     assert!(e.contains("version-1"), "{e}");
+}
+
+/// A version-3 cable body rewritten as version 2 wrote it: module and ι_0 gradings
+/// [Maslov, Alexander] (added in the box tensor product), ι_1 generators ungraded, no periods,
+/// version 2's wording.
+fn as_version_2(mut body: Body) -> Value {
+    let b = body.bordered.as_mut().unwrap();
+    for m in b.type_a_modules.0.values_mut() {
+        m.period = None;
+        m.generators.0.values_mut().for_each(|g| g.grading = vec![0, 0]);
+    }
+    let full = b.full_complexes.0.values().next().unwrap().clone();
+    for n in b.type_d_structures.0.values_mut() {
+        n.period = None;
+        for (g, gen) in n.generators.0.iter_mut() {
+            gen.grading = full.generators.get(g).map(|gr| vec![gr[0], (gr[0] - gr[1]) / 2]);
+        }
+    }
+    let ring = tubecert_format::RingInfo::new(&body.ring).unwrap();
+    for c in &mut body.claims {
+        *c.statement_mut() = tubecert_format::statement::render(c, &ring, 2);
+    }
+    let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+    cert["version"] = json!(2);
+    cert
+}
+
+#[test]
+fn version_2_bordered_certificates_stay_verifiable_with_version_2_gradings() {
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [3, 4]}}, "p": 1, "q": 3}}}),
+        json!({}),
+    ));
+    let v2 = as_version_2(body.clone());
+    let r = tubecheck::check_bytes("v2", &serde_json::to_vec(&v2).unwrap()).unwrap();
+    assert!(
+        r.claims.iter().all(|c| c.outcome.is_ok()),
+        "{:?}",
+        r.claims.iter().map(|c| &c.outcome).collect::<Vec<_>>()
+    );
+    assert!(tubecert_tests::oracle::holds_in(&serde_json::from_value::<Body>(v2["body"].clone()).unwrap(), 2));
+    // A version-2 file cannot hold a period, nor four-entry gradings.
+    let mut bad = v2.clone();
+    bad["body"]["bordered"]["type_a_modules"]["K.pattern"]["period"] = json!([3, 0, 2, 2]);
+    assert!(tubecheck::check_bytes("v2", &serde_json::to_vec(&bad).unwrap()).is_err());
+    // The version-3 body under version 2's rules: four-entry gradings are refused.
+    let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
+    cert["version"] = json!(2);
+    assert!(tubecheck::check_bytes("v2", &serde_json::to_vec(&cert).unwrap()).is_err());
+}
+
+#[test]
+fn group_gradings_are_checked_against_every_arrow_operation_and_complement() {
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"torus_knot": [2, 5]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    let failed_after = |edit: &dyn Fn(&mut tubecert_format::bordered::Bordered)| {
+        let mut b = body.clone();
+        edit(b.bordered.as_mut().unwrap());
+        outcomes(b).map(|o| o.into_iter().filter(|c| c.1.is_err()).map(|c| c.0).collect::<Vec<_>>())
+    };
+    assert_eq!(failed_after(&|_| {}), Ok(vec![]));
+    // A ι_1 generator's grading moved by λ: the D structure's arrows are no longer homogeneous.
+    let f = failed_after(&|b| {
+        let n = b.type_d_structures.0.get_mut("K.complement").unwrap();
+        let g = n.generators.0.iter_mut().find(|(k, _)| k.starts_with("lambda1.")).unwrap().1;
+        g.grading.as_mut().unwrap()[0] += 2;
+    })
+    .unwrap();
+    assert!(f.contains(&"type_d_structure".to_string()) && f.contains(&"complement".to_string()), "{f:?}");
+    // The same generator moved by the period: still homogeneous (gradings live in G/P_D), but
+    // not the representative LOT Thm 11.26's recomputation writes.
+    let f = failed_after(&|b| {
+        let n = b.type_d_structures.0.get_mut("K.complement").unwrap();
+        let h = n.period.clone().unwrap();
+        let g = n.generators.0.get_mut("gamma1").unwrap().grading.as_mut().unwrap();
+        // g·h: j gains h_j + det(v_g, v_h), written doubled.
+        let (j, p, q) = (g[0] + h[0] + (g[1] * h[2] - g[2] * h[1]) / 2, g[1] + h[1], g[2] + h[2]);
+        *g = vec![j, p, q, g[3] + h[3]];
+    })
+    .unwrap();
+    assert_eq!(f, vec!["complement".to_string()]);
+    // Another period for the structure: the complement claim fails.
+    let f = failed_after(&|b| {
+        b.type_d_structures.0.get_mut("K.complement").unwrap().period = Some(vec![5, 2, 4, 0]);
+    });
+    assert!(f.is_err() || f.as_ref().unwrap().contains(&"complement".to_string()), "{f:?}");
+    // A period whose (p, q) part is twice a primitive class: the glued manifold is not a homology
+    // sphere, (Maslov, Alexander) cannot be read and the box tensor claim fails, saying so.
+    let mut b = body.clone();
+    b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap().period = Some(vec![1, 4, 0, 0]);
+    let r = tubecheck::check_bytes("det", &seal(b)).unwrap();
+    let bt = r.claims.iter().find(|c| c.kind == "box_tensor").unwrap();
+    assert!(format!("{:?}", bt.outcome).contains("determinant"), "{:?}", bt.outcome);
+    // The module's period or its generator's grading changed: its operations are not homogeneous.
+    let f =
+        failed_after(&|b| b.type_a_modules.0.get_mut("K.pattern").unwrap().period = Some(vec![1, 0, 2, 2])).unwrap();
+    assert!(f.contains(&"type_a_module".to_string()), "{f:?}");
+    // The box tensor product's gradings, read from a module generator moved by λ, no longer
+    // match the complex: the box_tensor claim fails.
+    let f = failed_after(&|b| {
+        b.type_a_modules.0.get_mut("K.pattern").unwrap().generators.0.get_mut("x").unwrap().grading[0] += 2
+    })
+    .unwrap();
+    assert!(f.contains(&"box_tensor".to_string()), "{f:?}");
+    // A grading that is not a group element (2p, 2q of different parity) makes the file unreadable.
+    let f = failed_after(&|b| {
+        b.type_a_modules.0.get_mut("K.pattern").unwrap().generators.0.get_mut("x").unwrap().grading[1] = 1
+    });
+    assert!(f.is_err(), "{f:?}");
 }
 
 #[test]

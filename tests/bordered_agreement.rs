@@ -36,7 +36,7 @@ fn reseal(cert: &Value, body: Value) -> Option<Value> {
     let mut typed: tubecert_format::Body = serde_json::from_value(body).ok()?;
     let ring = tubecert_format::RingInfo::new(&typed.ring).ok()?;
     for c in typed.claims.iter_mut() {
-        let text = tubecert_format::statement::render(c, &ring, 2);
+        let text = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
         *c.statement_mut() = text;
     }
     let sha = tubecert_format::canonical::canonical_sha256(&typed).ok()?;
@@ -278,8 +278,8 @@ fn morphism_problem(t: i64) -> Value {
             .iter()
             .map(|(g, i)| {
                 let mut o = json!({"idempotent": i});
-                if let Some((m, a)) = n.gr.get(g) {
-                    o["grading"] = json!([m, a]);
+                if let Some(h) = n.grp.get(g) {
+                    o["grading"] = json!(h.written().unwrap());
                 }
                 (format!("{g}{suffix}"), o)
             })
@@ -291,7 +291,7 @@ fn morphism_problem(t: i64) -> Value {
                 e.iter().map(move |(al, y)| json!([format!("{x}{suffix}"), alg_name(*al), format!("{y}{suffix}")]))
             })
             .collect();
-        json!({"generators": gens, "differential": terms})
+        json!({"generators": gens, "differential": terms, "period": n.period.unwrap().written().unwrap()})
     };
     let rename: Vec<Value> = n.idem.keys().map(|g| json!([g, "1", format!("{g}'")])).collect();
     let delta: Vec<Value> =
@@ -318,8 +318,9 @@ fn morphism_problem(t: i64) -> Value {
 /// the A∞ relations hold since m(x′, w) = U^ℓ·x′ = m_1(m(x, w)) for every core word w.
 fn two_cores() -> Value {
     let core = |x: &str| json!({"from": x, "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": x});
-    json!({"generators": {"x": {"grading": [0, 0], "idempotent": 0}, "x'": {"grading": [-1, 0], "idempotent": 0}},
-           "operations": [core("x"), core("x'"),
+    // gr(x′) = gr(m_1(x)) = λ⁻¹·gr(x); the core's period (DEVELOPERS.md, Gradings).
+    json!({"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}, "x'": {"grading": [-2, 0, 0, 0], "idempotent": 0}},
+           "period": [3, 0, 2, 2], "operations": [core("x"), core("x'"),
                           {"from": "x", "power": [0, 0], "prefix": [], "repeat": [], "suffix": [], "to": "x'"}]})
 }
 
@@ -399,7 +400,9 @@ fn complement_grading_rules_agree_on_a_grid() {
                 for tau in -1i64..=1 {
                     let mut b = body.clone();
                     b["bordered"]["full_complexes"][&full]["generators"][&x0] = json!([gu, gv]);
-                    b["bordered"]["type_d_structures"][&n]["generators"][&x0]["grading"] = json!([gu, a]);
+                    // (M − 3A/2; 0, −A; 0) written doubled (DEVELOPERS.md, Gradings).
+                    b["bordered"]["type_d_structures"][&n]["generators"][&x0]["grading"] =
+                        json!([2 * gu - 3 * a, 0, -2 * a, 0]);
                     for (cx, g) in [("X", format!("x⊗{x0}"))] {
                         if b["complexes"][cx]["generators"].get(&g).is_some() {
                             b["complexes"][cx]["generators"][&g] = json!([gu, a]);

@@ -94,6 +94,178 @@ pub mod torus {
     }
 }
 
+/// LOT's grading group for A(T²) (LOT §11.1 and Ch. 10, memory) with the Alexander coordinate
+/// of a doubly pointed diagram, computed here as a Heisenberg group: (j; p, q; a) is the upper
+/// triangular matrix [[1, p, z], [0, 1, q], [0, 0, 1]] with z = (j + p·q)/2, beside a. Matrix
+/// multiplication gives z = z1 + z2 + p1·q2, i.e. j = j1 + j2 + (p1·q2 − q1·p2): LOT's product.
+/// Exact rationals throughout; certificates write [2j, 2p, 2q, 2a].
+pub mod grading {
+    use super::torus::Alg;
+
+    /// An exact rational n/d, d > 0, in lowest terms.
+    #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+    pub struct Q(pub i128, pub i128);
+
+    impl Default for Q {
+        fn default() -> Q {
+            Q(0, 1)
+        }
+    }
+
+    fn gcd(a: i128, b: i128) -> i128 {
+        if b == 0 {
+            a.abs()
+        } else {
+            gcd(b, a % b)
+        }
+    }
+
+    impl Q {
+        pub fn new(n: i128, d: i128) -> Q {
+            let g = gcd(n, d).max(1) * d.signum();
+            Q(n / g, d / g)
+        }
+        pub fn int(n: i128) -> Q {
+            Q(n, 1)
+        }
+        pub fn plus(self, o: Q) -> Q {
+            Q::new(self.0 * o.1 + o.0 * self.1, self.1 * o.1)
+        }
+        pub fn minus(self, o: Q) -> Q {
+            self.plus(Q(-o.0, o.1))
+        }
+        pub fn by(self, o: Q) -> Q {
+            Q::new(self.0 * o.0, self.1 * o.1)
+        }
+        pub fn over(self, o: Q) -> Option<Q> {
+            (o.0 != 0).then(|| Q::new(self.0 * o.1, self.1 * o.0))
+        }
+        pub fn as_int(self) -> Option<i128> {
+            (self.1 == 1).then_some(self.0)
+        }
+    }
+
+    /// A group element: the matrix entries (p, q, z) and the Alexander coordinate a.
+    #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+    pub struct H {
+        pub p: Q,
+        pub q: Q,
+        pub z: Q,
+        pub a: Q,
+    }
+
+    impl H {
+        /// From (j; p, q; a).
+        pub fn new(j: Q, p: Q, q: Q, a: Q) -> H {
+            H { p, q, z: j.plus(p.by(q)).by(Q::new(1, 2)), a }
+        }
+        /// j = 2z − p·q.
+        pub fn j(self) -> Q {
+            self.z.by(Q::int(2)).minus(self.p.by(self.q))
+        }
+        /// From the written [2j, 2p, 2q, 2a].
+        pub fn from_written(w: &[i64]) -> Option<H> {
+            let [j, p, q, a] = w else { return None };
+            let h = |x: &i64| Q::new(*x as i128, 2);
+            ((p - q) % 2 == 0).then(|| H::new(h(j), h(p), h(q), h(a)))
+        }
+        pub fn written(self) -> Option<Vec<i64>> {
+            [self.j(), self.p, self.q, self.a]
+                .iter()
+                .map(|x| x.by(Q::int(2)).as_int().and_then(|n| i64::try_from(n).ok()))
+                .collect()
+        }
+        pub fn times(self, o: H) -> H {
+            H {
+                p: self.p.plus(o.p),
+                q: self.q.plus(o.q),
+                z: self.z.plus(o.z).plus(self.p.by(o.q)),
+                a: self.a.plus(o.a),
+            }
+        }
+        pub fn inverse(self) -> H {
+            // [[1, p, z], [0, 1, q], [0, 0, 1]]⁻¹ = [[1, −p, pq − z], [0, 1, −q], [0, 0, 1]].
+            let zero = Q::int(0);
+            H {
+                p: zero.minus(self.p),
+                q: zero.minus(self.q),
+                z: self.p.by(self.q).minus(self.z),
+                a: zero.minus(self.a),
+            }
+        }
+        pub fn pow(self, n: i128) -> H {
+            let (mut out, mut base, mut k) =
+                (H::default(), if n < 0 { self.inverse() } else { self }, n.unsigned_abs());
+            while k > 0 {
+                if k & 1 == 1 {
+                    out = out.times(base);
+                }
+                base = base.times(base);
+                k >>= 1;
+            }
+            out
+        }
+        pub fn is_one(self) -> bool {
+            self == H::default()
+        }
+    }
+
+    /// λ = (1; 0, 0; 0).
+    pub fn lambda() -> H {
+        H::new(Q::int(1), Q::int(0), Q::int(0), Q::int(0))
+    }
+
+    /// gr(U) = (−2; 0, 0; −1).
+    pub fn u() -> H {
+        H::new(Q::int(-2), Q::int(0), Q::int(0), Q::int(-1))
+    }
+
+    /// gr(ρ1) = (−½; ½, −½), gr(ρ2) = (−½; ½, ½), gr(ρ3) = (−½; −½, ½) (LOT §11.1, memory);
+    /// longer chords are products (ρ12 = ρ1ρ2, …); idempotents have grading 1.
+    pub fn of(a: Alg) -> H {
+        let half = |n: i128| Q::new(n, 2);
+        let chord = |k: u8| match k {
+            1 => H::new(half(-1), half(1), half(-1), Q::int(0)),
+            2 => H::new(half(-1), half(1), half(1), Q::int(0)),
+            _ => H::new(half(-1), half(-1), half(1), Q::int(0)),
+        };
+        match a.interval() {
+            None => H::default(),
+            Some((lo, hi)) => (lo..=hi).fold(H::default(), |g, k| g.times(chord(k))),
+        }
+    }
+
+    /// Whether g is a power of h.
+    pub fn power_of(g: H, h: Option<H>) -> bool {
+        let Some(h) = h else { return g.is_one() };
+        let n = [(g.p, h.p), (g.q, h.q), (g.a, h.a), (g.j(), h.j())]
+            .iter()
+            .find(|(_, y)| y.0 != 0)
+            .and_then(|(x, y)| x.over(*y))
+            .and_then(Q::as_int);
+        match n {
+            Some(n) => h.pow(n) == g,
+            None => g.is_one(),
+        }
+    }
+
+    /// (Maslov, Alexander) of P_A·g·P_D: the integers m, n with h_A^m·g·h_D^n of zero (p, q)
+    /// part (unique when the (p, q) parts of the periods form a basis), then (j, a).
+    pub fn read(g: H, ha: H, hd: H) -> Option<(i64, i64)> {
+        let det = ha.p.by(hd.q).minus(ha.q.by(hd.p));
+        if det != Q::int(1) && det != Q::int(-1) {
+            return None;
+        }
+        // m·(ha.p, ha.q) + n·(hd.p, hd.q) = −(g.p, g.q), by the inverse 2×2 matrix.
+        let (x, y) = (Q::int(0).minus(g.p), Q::int(0).minus(g.q));
+        let m = x.by(hd.q).minus(y.by(hd.p)).over(det)?.as_int()?;
+        let n = ha.p.by(y).minus(ha.q.by(x)).over(det)?.as_int()?;
+        let r = ha.pow(m).times(g).times(hd.pow(n));
+        assert!(r.p.0 == 0 && r.q.0 == 0);
+        Some((i64::try_from(r.j().as_int()?).ok()?, i64::try_from(r.a.as_int()?).ok()?))
+    }
+}
+
 use torus::Alg;
 
 /// An element of a free `F2[U]`-module: a set of U^n·g (sums mod 2 by toggling).
@@ -111,12 +283,30 @@ pub fn toggle<T: Ord>(s: &mut BTreeSet<T>, t: T) {
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct DStructure {
     pub idem: BTreeMap<String, u8>,
-    /// (Maslov, Alexander) where given.
+    /// (Maslov, Alexander) where given (format version 2).
     pub gr: BTreeMap<String, (i64, i64)>,
+    /// Grading-group gradings where given, and the period (format version 3).
+    pub grp: BTreeMap<String, grading::H>,
+    pub period: Option<grading::H>,
     pub delta: BTreeMap<String, AElem>,
 }
 
 impl DStructure {
+    /// Every term x →a y between graded generators has gr(a)·gr(y) = λ⁻¹·gr(x) modulo the period.
+    pub fn check_gradings(&self) -> Result<(), String> {
+        for (x, e) in &self.delta {
+            for (a, y) in e {
+                if let (Some(gx), Some(gy)) = (self.grp.get(x), self.grp.get(y)) {
+                    let d = gx.inverse().times(grading::lambda()).times(grading::of(*a)).times(*gy);
+                    if !grading::power_of(d, self.period) {
+                        return Err(format!("{x} →{} {y} is not homogeneous", a.name()));
+                    }
+                }
+            }
+        }
+        Ok(())
+    }
+
     pub fn add(&mut self, x: &str, a: Alg, y: &str) {
         toggle(self.delta.entry(x.to_string()).or_default(), (a, y.to_string()));
     }
@@ -627,6 +817,10 @@ pub fn complement(c: &UVComplex, t: i64, diagonal_allowed: bool) -> Result<DStru
     for (g, &gr) in &c.gr {
         n.idem.insert(g.clone(), 0);
         n.gr.insert(g.clone(), (gr.0, alexander(gr)));
+        // (M − 3A/2; 0, −A; 0): the grading of a ι_0 generator with C-grading (M, A).
+        let (m, a) = (grading::Q::int(gr.0 as i128), grading::Q::int(alexander(gr) as i128));
+        let zero = grading::Q::int(0);
+        n.grp.insert(g.clone(), grading::H::new(m.minus(a.by(grading::Q::new(3, 2))), zero, zero.minus(a), zero));
     }
     let chain = |n: &mut DStructure, keys: Vec<Iota1>| -> Result<Vec<String>, String> {
         let names: Vec<String> = keys.iter().map(iota1_name).collect();
@@ -672,7 +866,49 @@ pub fn complement(c: &UVComplex, t: i64, diagonal_allowed: bool) -> Result<DStru
         }
         n.add(&g[g.len() - 1], R2, eta0);
     }
+    grade_chains(&mut n, eta0)?;
     Ok(n)
+}
+
+/// Gradings of the ι_1 generators, spread along δ¹ from the graded ι_0 generators
+/// (x →a y: gr(x) = λ·gr(a)·gr(y)), never through an arrow between η_0 and the unstable chain,
+/// so that chain is graded from ξ_0; the period is the discrepancy found around the unstable
+/// chain at η_0, with p = +1.
+fn grade_chains(n: &mut DStructure, eta0: &str) -> Result<(), String> {
+    let lam = grading::lambda();
+    let arrows: Vec<(String, Alg, String)> =
+        n.delta.iter().flat_map(|(x, e)| e.iter().map(move |(a, y)| (x.clone(), *a, y.clone()))).collect();
+    // The only ρ3 out of η_0 and the only ρ2 into it close the unstable chain (η_0 has no
+    // horizontal arrow).
+    let unstable = |x: &str, a: Alg, y: &str| (x == eta0 && a == Alg::R3) || (y == eta0 && a == Alg::R2);
+    loop {
+        let mut grew = false;
+        for (x, a, y) in arrows.iter().filter(|(x, a, y)| !unstable(x, *a, y)) {
+            match (n.grp.get(x).copied(), n.grp.get(y).copied()) {
+                (Some(gx), None) => {
+                    n.grp.insert(y.clone(), grading::of(*a).inverse().times(lam.inverse()).times(gx));
+                    grew = true;
+                }
+                (None, Some(gy)) => {
+                    n.grp.insert(x.clone(), lam.times(grading::of(*a)).times(gy));
+                    grew = true;
+                }
+                _ => {}
+            }
+        }
+        if !grew {
+            break;
+        }
+    }
+    if n.grp.len() != n.idem.len() {
+        return Err("a generator of the complement is joined to no ι_0 generator".into());
+    }
+    // The arrow at η_0 closing the unstable chain (or ξ_0 →ρ12 η_0): its discrepancy.
+    for (x, a, y) in arrows.iter().filter(|(x, a, y)| unstable(x, *a, y) || (y == eta0 && *a == Alg::R12)) {
+        let d = n.grp[x].inverse().times(lam).times(grading::of(*a)).times(n.grp[y]);
+        n.period = Some(if d.p.0 < 0 { d.inverse() } else { d });
+    }
+    Ok(())
 }
 
 /// Homology of a graded complex over `F2[U]` with gradings (M, A), deg U = (−2, −1):
@@ -799,10 +1035,34 @@ impl Family {
 pub struct FamilyModule {
     pub idem: BTreeMap<String, u8>,
     pub gr: BTreeMap<String, (i64, i64)>,
+    /// Format version 3: grading-group gradings and the period.
+    pub grp: BTreeMap<String, grading::H>,
+    pub period: Option<grading::H>,
     pub families: Vec<Family>,
 }
 
 impl FamilyModule {
+    /// m(x, a_1, …, a_k) ∋ U^e·y needs gr(U)^e·gr(y) = gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1) modulo the
+    /// period (on the left); checked for the repeat counts n = 0 … 3 of every family.
+    pub fn check_gradings(&self) -> Result<(), String> {
+        for (k, f) in self.families.iter().enumerate() {
+            for n in 0..=3u32 {
+                let w: Vec<Alg> =
+                    f.prefix.iter().chain((0..n).flat_map(|_| f.repeat.iter())).chain(&f.suffix).cloned().collect();
+                let (Some(gx), Some(gy)) = (self.grp.get(&f.from), self.grp.get(&f.to)) else {
+                    return Err(format!("family {} joins an ungraded generator", k + 1));
+                };
+                let input = w.iter().fold(*gx, |g, a| g.times(grading::of(*a)));
+                let out = grading::u().pow((f.a * n + f.b) as i128).times(*gy);
+                let d = input.times(grading::lambda().pow(w.len() as i128 - 1)).times(out.inverse());
+                if !grading::power_of(d, self.period) {
+                    return Err(format!("family {} with its block {n} times is not homogeneous", k + 1));
+                }
+            }
+        }
+        Ok(())
+    }
+
     /// The idempotent rules of every family, for every n: adjacent inputs compose, the first
     /// starts at I(from), the last ends at I(to); no input word at all needs I(from) = I(to).
     /// Pairs of adjacent inputs of word(n) all occur in word(0), word(1) or word(2).
@@ -1028,13 +1288,34 @@ pub mod cert {
         }
     }
 
-    pub fn read_structure(v: &Value, what: &str) -> R<DStructure> {
-        only(v, &["differential", "generators"], what)?;
-        let mut n = DStructure::default();
+    /// A version-3 grading [2j, 2p, 2q, 2a].
+    fn group_element(v: &Value, what: &str) -> R<grading::H> {
+        let w: R<Vec<i64>> = arr(v, what)?.iter().map(|x| int(x, what)).collect();
+        let w = w?;
+        if w.iter().any(|x| x.abs() > 1 << 31) {
+            return Err(format!("{what}: a grading entry beyond 2^31"));
+        }
+        grading::H::from_written(&w).ok_or(format!("{what}: not [2j, 2p, 2q, 2a] with 2p ≡ 2q mod 2"))
+    }
+
+    /// `period` (version 3 only).
+    fn period(v: &Value, version: u32, what: &str) -> R<Option<grading::H>> {
+        match (v.get("period"), version >= 3) {
+            (None, _) => Ok(None),
+            (Some(_), false) => Err(format!("{what}: a period before version 3")),
+            (Some(p), true) => group_element(p, what).map(Some),
+        }
+    }
+
+    pub fn read_structure(v: &Value, what: &str, version: u32) -> R<DStructure> {
+        only(v, &["differential", "generators", "period"], what)?;
+        let mut n = DStructure { period: period(v, version, what)?, ..Default::default() };
         for (g, gv) in obj(member(v, "generators", what)?, what)? {
             only(gv, &["grading", "idempotent"], what)?;
             n.idem.insert(g.clone(), idempotent(member(gv, "idempotent", what)?, what)?);
-            if let Some(gr) = gv.get("grading") {
+            if let Some(gr) = gv.get("grading").filter(|_| version >= 3) {
+                n.grp.insert(g.clone(), group_element(gr, what)?);
+            } else if let Some(gr) = gv.get("grading") {
                 n.gr.insert(g.clone(), pair(gr, what)?);
             }
         }
@@ -1048,13 +1329,21 @@ pub mod cert {
         Ok(n)
     }
 
-    pub fn read_module(v: &Value, what: &str) -> R<FamilyModule> {
-        only(v, &["generators", "operations"], what)?;
-        let mut m = FamilyModule::default();
+    pub fn read_module(v: &Value, what: &str, version: u32) -> R<FamilyModule> {
+        only(v, &["generators", "operations", "period"], what)?;
+        let mut m = FamilyModule { period: period(v, version, what)?, ..Default::default() };
+        if version >= 3 && m.period.is_none() {
+            return Err(format!("{what}: a version-3 module states its period"));
+        }
         for (g, gv) in obj(member(v, "generators", what)?, what)? {
             only(gv, &["grading", "idempotent"], what)?;
             m.idem.insert(g.clone(), idempotent(member(gv, "idempotent", what)?, what)?);
-            m.gr.insert(g.clone(), pair(member(gv, "grading", what)?, what)?);
+            let gr = member(gv, "grading", what)?;
+            if version >= 3 {
+                m.grp.insert(g.clone(), group_element(gr, what)?);
+            } else {
+                m.gr.insert(g.clone(), pair(gr, what)?);
+            }
         }
         for e in arr(member(v, "operations", what)?, what)? {
             only(e, &["from", "power", "prefix", "repeat", "suffix", "to"], what)?;
@@ -1167,7 +1456,7 @@ pub mod cert {
     /// Reads and checks the `bordered` member: the full ring, full complexes (∂∂ = 0,
     /// homogeneous), structures and morphisms (idempotent rules), modules (idempotent rules,
     /// no repeated family), one namespace across the five kinds of objects.
-    pub fn read_bordered(body: &Value) -> R<Option<Bordered>> {
+    pub fn read_bordered(body: &Value, version: u32) -> R<Option<Bordered>> {
         let Some(b) = body.get("bordered") else { return Ok(None) };
         let what = "bordered";
         only(b, &["full_ring", "full_complexes", "type_a_modules", "type_d_morphisms", "type_d_structures"], what)?;
@@ -1235,11 +1524,11 @@ pub mod cert {
         }
         for (k, s) in obj(member(b, "type_d_structures", what)?, what)? {
             fresh(k)?;
-            out.structures.insert(k.clone(), read_structure(s, &format!("type D structure {k}"))?);
+            out.structures.insert(k.clone(), read_structure(s, &format!("type D structure {k}"), version)?);
         }
         for (k, m) in obj(member(b, "type_a_modules", what)?, what)? {
             fresh(k)?;
-            out.modules.insert(k.clone(), read_module(m, &format!("type A module {k}"))?);
+            out.modules.insert(k.clone(), read_module(m, &format!("type A module {k}"), version)?);
         }
         for (k, f) in obj(member(b, "type_d_morphisms", what)?, what)? {
             fresh(k)?;
@@ -1267,12 +1556,19 @@ pub mod cert {
         Ok((gr, out))
     }
 
-    /// The generators x⊗y of M ⊠ N with gradings gr(x) + gr(y) (every paired y needs one).
-    fn tensor_generators(m: &FamilyModule, n: &DStructure) -> R<BTreeMap<String, (i64, i64)>> {
+    /// The generators x⊗y of M ⊠ N with gradings: version 3 read from gr(x)·gr(y) in
+    /// P_A\G/P_D, version 2 gr(x) + gr(y) (every paired y needs one).
+    fn tensor_generators(m: &FamilyModule, n: &DStructure, version: u32) -> R<BTreeMap<String, (i64, i64)>> {
         let mut out = BTreeMap::new();
         for (x, ix) in &m.idem {
             for (y, iy) in &n.idem {
-                if ix == iy {
+                if ix == iy && version >= 3 {
+                    let gy = n.grp.get(y).ok_or(format!("{y} has no grading but pairs with {x}"))?;
+                    let (ha, hd) = (m.period.ok_or("no module period")?, n.period.ok_or("no structure period")?);
+                    let g =
+                        grading::read(m.grp[x].times(*gy), ha, hd).ok_or(format!("{x}⊗{y}: no (Maslov, Alexander)"))?;
+                    out.insert(pair_name(x, y), g);
+                } else if ix == iy {
                     let gy = n.gr.get(y).ok_or(format!("{y} has no grading but pairs with {x}"))?;
                     let gx = m.gr[x];
                     out.insert(pair_name(x, y), (gx.0 + gy.0, gx.1 + gy.1));
@@ -1298,18 +1594,24 @@ pub mod cert {
     }
 
     /// Decides one bordered claim.
-    pub fn claim(body: &Value, b: &Bordered, c: &Value) -> R<()> {
+    pub fn claim(body: &Value, b: &Bordered, c: &Value, version: u32) -> R<()> {
         let kind = text(member(c, "kind", "claim")?, "claim")?;
         let name = |k: &str| -> R<&str> { text(member(c, k, kind)?, kind) };
         match kind {
             "type_d_structure" => {
                 only(c, &["kind", "statement", "structure"], kind)?;
-                b.structures.get(name("structure")?).ok_or("no such structure")?.check_relation()
+                let n = b.structures.get(name("structure")?).ok_or("no such structure")?;
+                n.check_relation()?;
+                n.check_gradings()
             }
             "type_a_module" => {
                 only(c, &["kind", "statement", "max_length", "module"], kind)?;
                 let len = usize::try_from(int(member(c, "max_length", kind)?, kind)?).map_err(|_| "negative length")?;
-                b.modules.get(name("module")?).ok_or("no such module")?.check_ainf_up_to(len)
+                let m = b.modules.get(name("module")?).ok_or("no such module")?;
+                if version >= 3 {
+                    m.check_gradings()?;
+                }
+                m.check_ainf_up_to(len)
             }
             "type_d_morphism" => {
                 only(c, &["kind", "statement", "morphism"], kind)?;
@@ -1321,7 +1623,7 @@ pub mod cert {
                 let m = b.modules.get(name("module")?).ok_or("no such module")?;
                 let n = b.structures.get(name("structure")?).ok_or("no such structure")?;
                 let (gr, d) = minus_complex(body, name("complex")?)?;
-                if tensor_generators(m, n)? != gr {
+                if tensor_generators(m, n, version)? != gr {
                     return Err("generators or gradings differ from x⊗y with gr(x) + gr(y)".into());
                 }
                 same(&box_tensor(m, n)?, &d, "∂")
@@ -1335,7 +1637,7 @@ pub mod cert {
                 let (cf, ct) = (text(member(map, "from", "map")?, "map")?, text(member(map, "to", "map")?, "map")?);
                 for (cx, n) in [(cf, &b.structures[from]), (ct, &b.structures[to])] {
                     let (gr, _) = minus_complex(body, cx)?;
-                    let want: BTreeSet<String> = tensor_generators(m, n)?.into_keys().collect();
+                    let want: BTreeSet<String> = tensor_generators(m, n, version)?.into_keys().collect();
                     if gr.keys().cloned().collect::<BTreeSet<_>>() != want {
                         return Err(format!("complex {cx} does not have the generators of the box tensor product"));
                     }
@@ -1365,8 +1667,11 @@ pub mod cert {
                 if ours.idem != theirs.idem {
                     return Err("generators or idempotents differ from LOT Thm 11.26".into());
                 }
-                if ours.gr != theirs.gr {
+                if version < 3 && ours.gr != theirs.gr {
                     return Err("gradings differ from LOT Thm 11.26".into());
+                }
+                if version >= 3 && (ours.grp != theirs.grp || ours.period != theirs.period) {
+                    return Err("gradings or the period differ from LOT Thm 11.26".into());
                 }
                 let clean = |n: &DStructure| -> BTreeMap<String, AElem> {
                     n.delta.iter().filter(|(_, e)| !e.is_empty()).map(|(k, e)| (k.clone(), e.clone())).collect()
@@ -1386,7 +1691,7 @@ pub mod cert {
     /// ∂∂ = 0 on M ⊠ N follows from the A∞ relations on concatenations of two such words.
     /// (Not part of the certificate layout; the producer's choice 2·(k + 1) meets it.)
     pub fn truncation_covers_pairings(body: &Value) -> R<()> {
-        let b = read_bordered(body)?.ok_or("no bordered member")?;
+        let b = read_bordered(body, tubecert_format::CERTIFICATE_VERSION)?.ok_or("no bordered member")?;
         let claims = arr(member(body, "claims", "body")?, "claims")?;
         let stated = |m: &str| -> Option<usize> {
             claims
@@ -1439,7 +1744,7 @@ pub mod cert {
 
     /// The statement a bordered claim must carry (the wording the README's claims table and
     /// the tool print), or None when a name is outside the name alphabet.
-    pub fn statement(c: &Value) -> Option<String> {
+    pub fn statement(c: &Value, version: u32) -> Option<String> {
         let f = |k: &str| -> Option<String> {
             let v = c.get(k)?;
             let s = v.as_str().map_or_else(|| v.to_string(), |s| s.to_string());
@@ -1458,6 +1763,12 @@ pub mod cert {
                 let m = f("morphism")?;
                 format!("{m} is a type D morphism with ∂{m} = 0")
             }
+            "box_tensor" if version >= 3 => format!(
+                "{} = {} ⊠ {} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group)",
+                f("complex")?,
+                f("module")?,
+                f("structure")?
+            ),
             "box_tensor" => format!(
                 "{} = {} ⊠ {} (box tensor product, gradings added)",
                 f("complex")?,
@@ -1482,12 +1793,12 @@ pub mod cert {
     /// Every bordered object and every bordered claim of a body (other claim kinds are left to
     /// the oracle of `tests/lib.rs`).
     pub fn check_body(body: &Value) -> R<()> {
-        let b = read_bordered(body)?;
+        let b = read_bordered(body, tubecert_format::CERTIFICATE_VERSION)?;
         for c in arr(member(body, "claims", "body")?, "claims")? {
             let kind = c.get("kind").and_then(|k| k.as_str()).unwrap_or("");
             if KINDS.contains(&kind) {
                 let b = b.as_ref().ok_or("a bordered claim without a bordered member")?;
-                claim(body, b, c).map_err(|e| format!("{kind}: {e}"))?;
+                claim(body, b, c, tubecert_format::CERTIFICATE_VERSION).map_err(|e| format!("{kind}: {e}"))?;
             }
         }
         Ok(())
@@ -1780,6 +2091,90 @@ mod tests {
         }
     }
 
+    /// A box a → U·b, a → V·c, b → V·d, c → U·d with a at (gr_U, gr_V) = (u, v), names prefixed.
+    fn add_box(c: &mut UVComplex, pre: &str, (u, v): (i64, i64)) {
+        let n = |s: &str| format!("{pre}{s}");
+        for (g, gr) in [("a", (u, v)), ("b", (u + 1, v - 1)), ("c", (u - 1, v + 1)), ("d", (u, v))] {
+            c.gr.insert(n(g), gr);
+        }
+        for (x, i, j, y) in [("a", 1, 0, "b"), ("a", 0, 1, "c"), ("b", 0, 1, "d"), ("c", 1, 0, "d")] {
+            c.d.entry(n(x)).or_default().insert((i, j, n(y)));
+        }
+    }
+
+    #[test]
+    fn grading_group_reads_back_the_companions_gradings_piece_by_piece() {
+        // The core module: gr(x) = 1 and its period (3/2; 0, 1; 1), the grading of the periodic
+        // domain of m_3(x, ρ_3, ρ_2) = U·x: gr(ρ_3)·gr(ρ_2)·λ·gr(U)⁻¹.
+        let core = core_family("x");
+        let h_a =
+            grading::of(Alg::R3).times(grading::of(Alg::R2)).times(grading::lambda()).times(grading::u().inverse());
+        assert_eq!(h_a.written().unwrap(), vec![3, 0, 2, 2]);
+        let graded = FamilyModule { grp: [("x".to_string(), grading::H::default())].into(), period: Some(h_a), ..core };
+        graded.check_gradings().unwrap();
+        // Staircases (Ozsváth–Szabó 2005), the figure-eight as the unknot plus a box (its hat
+        // homology: ranks 1, 3, 1 in A = 1, 0, −1, Ozsváth–Szabó 2003, recalled from memory), and
+        // T(2,3) plus two boxes at unrelated gradings: pieces with no arrow between them.
+        let mut fig8 = staircase(&[0]);
+        add_box(&mut fig8, "e", (0, 0));
+        let mut t23 = staircase(&[1, 0, -1]);
+        add_box(&mut t23, "p", (3, -5));
+        add_box(&mut t23, "q", (-6, 2));
+        let mut cases = vec![fig8, t23];
+        for a in [vec![1, 0, -1], vec![3, 2, 0, -2, -3], vec![2, 1, 0, -1, -2], vec![0]] {
+            cases.push(staircase(&a));
+        }
+        for c in &cases {
+            let want: BTreeMap<String, (i64, i64)> =
+                minus_gradings(c).into_iter().map(|(g, gr)| (pair_name("x", &g), gr)).collect();
+            let mut periods = BTreeSet::new();
+            for t in -4..=9 {
+                let n = complement(c, t, true).unwrap();
+                n.check_relation().unwrap();
+                n.check_gradings().unwrap();
+                let h_d = n.period.unwrap();
+                // The period found around the unstable chain is (t/2 + ½; 1, t; 0), whatever C is.
+                assert_eq!(h_d.written().unwrap(), vec![t + 1, 2, 2 * t, 0], "t = {t}");
+                periods.insert(h_d.written().unwrap());
+                let mut got = BTreeMap::new();
+                for (y, &i) in &n.idem {
+                    if i == 0 {
+                        let g = grading::read(graded.grp["x"].times(n.grp[y]), h_a, h_d).unwrap();
+                        got.insert(pair_name("x", y), g);
+                    }
+                }
+                assert_eq!(got, want, "t = {t}: (Maslov, Alexander) of x⊗ξ are those of ξ in C/(V)");
+            }
+            assert_eq!(periods.len(), 14, "the period changes with the framing");
+        }
+        // A grading not in the lattice of the two periods is refused, not guessed.
+        let odd = grading::H::new(grading::Q::int(0), grading::Q::new(1, 2), grading::Q::new(1, 2), grading::Q::int(0));
+        let h_d = complement(&staircase(&[0]), 0, true).unwrap().period.unwrap();
+        assert_eq!(grading::read(odd, h_a, h_d), None);
+    }
+
+    #[test]
+    fn the_grading_group_is_a_group_and_the_reeb_gradings_multiply_like_the_algebra() {
+        use grading::{of, H, Q};
+        // gr(a·b) = gr(a)·gr(b) for every non-zero product of A(T²) (LOT §11.1, memory).
+        for a in torus::ALL {
+            for b in torus::ALL {
+                if let Some(ab) = a.times(b) {
+                    assert_eq!(of(ab), of(a).times(of(b)), "{} {}", a.name(), b.name());
+                }
+            }
+        }
+        let e = |j: i128, p: i128, q: i128, a: i128| H::new(Q::new(j, 2), Q::new(p, 2), Q::new(q, 2), Q::new(a, 2));
+        let (g, h, k) = (e(3, 1, -3, 2), e(-5, 2, 4, 0), e(1, -1, 1, -7));
+        assert_eq!(g.times(h).times(k), g.times(h.times(k)));
+        assert!(g.times(g.inverse()).is_one());
+        // LOT's product on (j; p, q): j = j1 + j2 + det[[p1, q1], [p2, q2]] (memory).
+        let gh = g.times(h);
+        assert_eq!(gh.j(), g.j().plus(h.j()).plus(g.p.by(h.q)).minus(g.q.by(h.p)));
+        assert_eq!(g.pow(5), g.times(g).times(g).times(g).times(g));
+        assert_eq!(g.pow(-2), g.inverse().times(g.inverse()));
+    }
+
     #[test]
     fn homology_by_cancellation_on_a_hidden_basis() {
         // ∂b = U^2 a, ∂c = U a + ... : b ↦ U^2 a, c ↦ U a (c − U·? ): H = F2[U]/U ⊕ F2[U]
@@ -1899,8 +2294,8 @@ mod tests {
             .iter()
             .map(|(g, i)| {
                 let mut o = serde_json::json!({"idempotent": i});
-                if let Some((m, a)) = n.gr.get(g) {
-                    o["grading"] = serde_json::json!([m, a]);
+                if let Some(h) = n.grp.get(g) {
+                    o["grading"] = serde_json::json!(h.written().unwrap());
                 }
                 (g.clone(), o)
             })
@@ -1915,7 +2310,7 @@ mod tests {
                 })
             })
             .collect();
-        serde_json::json!({"generators": gens, "differential": terms})
+        serde_json::json!({"generators": gens, "differential": terms, "period": n.period.unwrap().written().unwrap()})
     }
 
     /// A certificate body written by the oracle's own hand: T(3,4) (staircase of OS 2005), its
@@ -1950,8 +2345,8 @@ mod tests {
                 "full_ring": {"variables": ["U", "V"], "gradings": ["gr_U", "gr_V"],
                               "variable_degrees": {"U": [-2, 0], "V": [0, -2]}, "differential_degree": [-1, -1]},
                 "full_complexes": {"C": {"generators": fgens, "differential": fd}},
-                "type_a_modules": {"M": {"generators": {"x": {"grading": [0, 0], "idempotent": 0}},
-                    "operations": [{"from": "x", "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"],
+                "type_a_modules": {"M": {"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}},
+                    "period": [3, 0, 2, 2], "operations": [{"from": "x", "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"],
                                     "suffix": ["rho2"], "to": "x"}]}},
                 "type_d_morphisms": {"f": {"from": "N", "to": "N", "terms": id_terms}},
                 "type_d_structures": {"N": structure_json(&n)}

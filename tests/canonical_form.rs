@@ -20,101 +20,21 @@ fn stored(suffix: &str) -> Vec<(String, Value)> {
         .collect()
 }
 
-/// JSON text of `v` in which the `n`-th object (pre-order) has its first member written twice,
-/// the second time with `second` as its value; `n` is left negative once it was used.
-fn with_repeated_key(v: &Value, n: &mut i64, second: &Value, out: &mut String) {
-    match v {
-        Value::Object(m) => {
-            let here = *n == 0;
-            *n -= 1;
-            out.push('{');
-            for (i, (k, x)) in m.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                out.push_str(&serde_json::to_string(k).unwrap());
-                out.push(':');
-                with_repeated_key(x, n, second, out);
-                if here && i == 0 {
-                    out.push_str(&format!(",{}:{}", serde_json::to_string(k).unwrap(), second));
-                }
-            }
-            out.push('}');
-        }
-        Value::Array(items) => {
-            out.push('[');
-            for (i, x) in items.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                with_repeated_key(x, n, second, out);
-            }
-            out.push(']');
-        }
-        _ => out.push_str(&v.to_string()),
-    }
-}
-
 /// Every variant of `v` with one repeated key, for each object in it (same and other value).
 fn repeated_key_variants(v: &Value) -> Vec<String> {
+    let other = Value::Bool(true);
     let mut out = Vec::new();
-    for second in [None, Some(serde_json::json!([]))] {
+    for second in [None, Some(&other)] {
         for n in 0.. {
-            let mut k = n;
-            let mut text = String::new();
-            let first_value = Value::Null; // placeholder, replaced below
-            let _ = first_value;
-            // The same value as the first member, or another one.
-            let dup = second.clone().unwrap_or(Value::Bool(true));
-            with_repeated_key(v, &mut k, &dup, &mut text);
+            let (mut k, mut text) = (n, String::new());
+            tubecert_tests::with_repeated_key(v, &mut k, second, &mut text);
             if k >= 0 {
                 break;
             }
             out.push(text);
-            if second.is_none() {
-                // The identical duplicate: the same member written twice.
-                let mut k = n;
-                let mut same = String::new();
-                same_first_member_twice(v, &mut k, &mut same);
-                out.push(same);
-            }
         }
     }
     out
-}
-
-/// Like [`with_repeated_key`] with the repeated member identical to the first.
-fn same_first_member_twice(v: &Value, n: &mut i64, out: &mut String) {
-    match v {
-        Value::Object(m) => {
-            let here = *n == 0;
-            *n -= 1;
-            out.push('{');
-            for (i, (k, x)) in m.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                let mut inner = String::new();
-                same_first_member_twice(x, n, &mut inner);
-                out.push_str(&format!("{}:{inner}", serde_json::to_string(k).unwrap()));
-                if here && i == 0 {
-                    out.push_str(&format!(",{}:{inner}", serde_json::to_string(k).unwrap()));
-                }
-            }
-            out.push('}');
-        }
-        Value::Array(items) => {
-            out.push('[');
-            for (i, x) in items.iter().enumerate() {
-                if i > 0 {
-                    out.push(',');
-                }
-                same_first_member_twice(x, n, out);
-            }
-            out.push(']');
-        }
-        _ => out.push_str(&v.to_string()),
-    }
 }
 
 /// Every variant of `v` with one node (below the root) replaced by `null`.

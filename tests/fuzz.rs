@@ -253,7 +253,7 @@ proptest! {
         };
         let mut n = (at % objects(&v)) as i64;
         let mut text = String::new();
-        tubecert_tests::with_repeated_key(&v, &mut n, &mut text);
+        tubecert_tests::with_repeated_key(&v, &mut n, None, &mut text);
         prop_assert!(refused(text.as_bytes()), "a repeated key was accepted: {}", text);
         let mut w = v.clone();
         let mut n = 1 + at % (nodes(&v) - 1);

@@ -624,15 +624,15 @@ pub mod oracle {
         }
     }
 
-    /// Does every implicit check and every claim of the body hold (format version 2)?
+    /// Does every implicit check and every claim of the body hold (the format version written)?
     pub fn holds(body: &Body) -> bool {
-        holds_in(body, 2)
+        holds_in(body, tubecert_format::CERTIFICATE_VERSION)
     }
 
     /// Does every implicit check and every claim of a body of format `version` hold?
     pub fn holds_in(body: &Body, version: u32) -> bool {
         // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
-        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap()).is_err() {
+        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap(), version).is_err() {
             return false;
         }
         // Numbers first, read by the oracle's own reader in the body's ring.
@@ -707,9 +707,9 @@ pub mod oracle {
                 c if crate::bordered_oracle::cert::KINDS.contains(&c.kind()) => {
                     let body = serde_json::to_value(body).unwrap();
                     let claim = serde_json::to_value(c).unwrap();
-                    crate::bordered_oracle::cert::read_bordered(&body)
+                    crate::bordered_oracle::cert::read_bordered(&body, version)
                         .and_then(|b| b.ok_or("no bordered member".into()))
-                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim))
+                        .and_then(|b| crate::bordered_oracle::cert::claim(&body, &b, &claim, version))
                         .is_ok()
                 }
                 _ => panic!("the oracle covers the claim kinds of the stored certificates"),
@@ -830,7 +830,9 @@ pub mod wording {
                 }
             }
             // The bordered kinds: their wording lives with their oracle.
-            c if version >= 2 => return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?),
+            c if version >= 2 => {
+                return crate::bordered_oracle::cert::statement(&serde_json::to_value(c).ok()?, version)
+            }
             _ => return None,
         })
     }
@@ -838,9 +840,10 @@ pub mod wording {
 
 pub mod bombs;
 
-/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice;
-/// shared by the fuzzer and the mutation campaign.
-pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
+/// JSON text of `v` with the first member of the `n`-th object (pre-order) written twice, the
+/// second time with the value `second` (or the same value when `None`); `n` is left negative
+/// once it was used. Shared by the fuzzer, the mutation campaign and the canonical-form tests.
+pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, second: Option<&serde_json::Value>, out: &mut String) {
     match v {
         serde_json::Value::Object(m) => {
             let here = *n == 0;
@@ -852,10 +855,11 @@ pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
                     out.push(',');
                 }
                 let mut inner = String::new();
-                with_repeated_key(x, n, &mut inner);
+                with_repeated_key(x, n, second, &mut inner);
                 out.push_str(&format!("{key}:{inner}"));
                 if here && i == 0 {
-                    out.push_str(&format!(",{key}:{inner}"));
+                    let again = second.map_or(inner, |s| s.to_string());
+                    out.push_str(&format!(",{key}:{again}"));
                 }
             }
             out.push('}');
@@ -866,7 +870,7 @@ pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, out: &mut String) {
                 if i > 0 {
                     out.push(',');
                 }
-                with_repeated_key(x, n, out);
+                with_repeated_key(x, n, second, out);
             }
             out.push(']');
         }

@@ -40,6 +40,9 @@ pub struct TypeD {
     pub index: BTreeMap<String, u32>,
     pub idem: Vec<u8>,
     pub grading: Vec<Option<Grading>>,
+    /// Version 3: gradings are elements of the grading group, `period` generates P_D.
+    pub group: bool,
+    pub period: Gr,
     /// δ¹(y) as (coefficient, target), sorted.
     pub delta: Vec<Vec<(Alg, u32)>>,
     /// Terms whose idempotents do not match.
@@ -60,6 +63,8 @@ pub struct TypeA {
     pub names: Vec<String>,
     pub idem: Vec<u8>,
     pub grading: Vec<Grading>,
+    pub group: bool,
+    pub period: Gr,
     pub families: Vec<Family>,
     pub defects: Vec<String>,
 }
@@ -78,6 +83,8 @@ pub struct Objects {
     pub modules: BTreeMap<String, TypeA>,
     pub morphisms: BTreeMap<String, Morphism>,
     pub budget: Budget,
+    /// Version 3 (gradings in the grading group).
+    pub group: bool,
 }
 
 /// Work units left: every check counts its work before doing it and refuses beyond. `longest`:
@@ -100,9 +107,83 @@ fn idem_ok(i: u8, what: &str) -> Result<u8, String> {
     (i <= 1).then_some(i).ok_or_else(|| format!("{what}: idempotent {i} is not 0 or 1"))
 }
 
-fn grading_ok(g: &Grading, what: &str) -> Result<(), String> {
-    let fine = g.len() == 2 && g.iter().all(|&x| tubecert_format::limits::grading_in_bounds(x));
-    fine.then_some(()).ok_or_else(|| format!("{what}: a grading is [Maslov, Alexander] within ±2^31"))
+fn grading_ok(g: &Grading, group: bool, what: &str) -> Result<(), String> {
+    let bounded = g.iter().all(|&x| tubecert_format::limits::grading_in_bounds(x));
+    match group {
+        false if bounded && g.len() == 2 => Ok(()),
+        false => Err(format!("{what}: a version-2 grading is [Maslov, Alexander] within ±2^31")),
+        true if bounded && g.len() == 4 && (g[1] - g[2]) % 2 == 0 => Ok(()),
+        true => Err(format!("{what}: a grading is [2j, 2p, 2q, 2a] (twice the coordinates of (j; p, q; a), 2p and 2q of equal parity) within ±2^31")),
+    }
+}
+
+/// An element (j; p, q; a) of the grading group of A(T²) (LOT §11.1, Ch. 10) with the
+/// Alexander coordinate a of a doubly pointed diagram, stored doubled: [2j, 2p, 2q, 2a].
+/// Product (j1; v1; a1)(j2; v2; a2) = (j1 + j2 + det(v1, v2); v1 + v2; a1 + a2).
+pub type Gr = [i128; 4];
+/// λ = (1; 0, 0; 0): the differential lowers gradings by λ.
+pub const LAMBDA: Gr = [2, 0, 0, 0];
+/// gr(U) = (−2; 0, 0; −1).
+pub const GR_U: Gr = [-4, 0, 0, -2];
+
+pub fn gr_mul(g: Gr, h: Gr) -> Gr {
+    // det in halves is (P1·Q2 − Q1·P2)/4; doubled, /2 (exact: P ≡ Q mod 2 for every element).
+    [g[0] + h[0] + (g[1] * h[2] - g[2] * h[1]) / 2, g[1] + h[1], g[2] + h[2], g[3] + h[3]]
+}
+
+/// g^n (n·g coordinate-wise, since det(v, v) = 0); n = −1 is the inverse.
+pub fn gr_pow(g: Gr, n: i128) -> Gr {
+    g.map(|x| x * n)
+}
+
+/// gr(ρ1) = (−½; ½, −½), gr(ρ2) = (−½; ½, ½), gr(ρ3) = (−½; −½, ½), gr(ρ_I) the product
+/// along I, gr(ι) = 1 (LOT §11.1).
+pub fn gr_alg(a: Alg) -> Gr {
+    const CHORD: [Gr; 3] = [[-1, 1, -1, 0], [-1, 1, 1, 0], [-1, -1, 1, 0]];
+    match a {
+        Alg::One => [0; 4],
+        Alg::Reeb(lo, hi) => (lo..=hi).fold([0; 4], |g, i| gr_mul(g, CHORD[i as usize - 1])),
+    }
+}
+
+pub fn gr_of(g: &Grading) -> Gr {
+    [0, 1, 2, 3].map(|i| g.get(i).copied().unwrap_or(0) as i128)
+}
+
+/// Whether g is a power of the period h.
+fn in_period(g: Gr, h: Gr) -> bool {
+    match h.iter().position(|&x| x != 0) {
+        None => g == [0; 4],
+        Some(i) => g[i] % h[i] == 0 && gr_pow(h, g[i] / h[i]) == g,
+    }
+}
+
+/// (Maslov, Alexander) of the double coset P_A·g·P_D: with m·v(h_A) + v(g) + n·v(h_D) = 0
+/// ((p, q) parts; det = ±1, i.e. the glued manifold has H_1 = 0), h_A^m·g·h_D^n = (j; 0, 0; a).
+pub fn read_grading(g: Gr, ha: Gr, hd: Gr) -> Result<Grading, String> {
+    let det = ha[1] * hd[2] - ha[2] * hd[1];
+    if det.abs() != 4 {
+        return Err(format!("the periods' (p, q) parts have determinant {}/4, not ±1: the pairing is not a knot in a homology sphere, so (Maslov, Alexander) cannot be read", det));
+    }
+    let (m, n) = ((g[2] * hd[1] - g[1] * hd[2]) / det, (ha[2] * g[1] - ha[1] * g[2]) / det);
+    // Bounded so that no product below leaves i128 (entries of h^m stay under 2^62).
+    if m.abs() > 1 << 31 || n.abs() > 1 << 31 {
+        return Err("the double coset needs a power of a period beyond 2^31".into());
+    }
+    let r = gr_mul(gr_mul(gr_pow(ha, m), g), gr_pow(hd, n));
+    let (j, a) = (r[0] / 2, r[3] / 2);
+    if r[1] != 0 || r[2] != 0 || r[0] % 2 != 0 || r[3] % 2 != 0 {
+        return Err(format!("the grading {g:?} (doubled) does not reduce to integral (Maslov, Alexander)"));
+    }
+    written([j, a, 0, 0]).map(|g| g[..2].to_vec())
+}
+
+fn period_ok(p: &Option<Grading>, group: bool, what: &str) -> Result<Gr, String> {
+    match (p, group) {
+        (None, _) => Ok([0; 4]),
+        (Some(_), false) => Err(format!("{what}: `period` is a version-3 member")),
+        (Some(g), true) => grading_ok(g, true, &format!("{what}, period")).map(|_| gr_of(g)),
+    }
 }
 
 /// Whether a ⊗ (generator of idempotent j) may follow a generator of idempotent i.
@@ -111,12 +192,14 @@ fn step_ok(a: Alg, i: u8, j: u8) -> bool {
 }
 
 /// Generators of a type D structure and its δ¹ (or any terms between two generator sets).
-pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
+pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<TypeD, String> {
     let mut d = TypeD {
         names: spec.generators.keys().cloned().collect(),
         index: spec.generators.keys().enumerate().map(|(i, n)| (n.clone(), i as u32)).collect(),
         idem: Vec::new(),
         grading: Vec::new(),
+        group,
+        period: period_ok(&spec.period, group, &format!("type D structure {name}"))?,
         delta: Vec::new(),
         defects: Vec::new(),
     };
@@ -125,7 +208,7 @@ pub fn read_structure(name: &str, spec: &TypeDSpec) -> Result<TypeD, String> {
         tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
         d.idem.push(idem_ok(*idempotent, &what)?);
         if let Some(gr) = grading {
-            grading_ok(gr, &what)?;
+            grading_ok(gr, group, &what)?;
         }
         d.grading.push(grading.clone());
     }
@@ -161,12 +244,14 @@ pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Resu
     Ok((rows, defects))
 }
 
-pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> Result<TypeA, String> {
+pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, group: bool) -> Result<TypeA, String> {
     let index: BTreeMap<&String, u32> = spec.generators.keys().enumerate().map(|(i, n)| (n, i as u32)).collect();
     let mut m = TypeA {
         names: spec.generators.keys().cloned().collect(),
         idem: vec![],
         grading: vec![],
+        group,
+        period: period_ok(&spec.period, group, &format!("type A module {name}"))?,
         families: vec![],
         defects: vec![],
     };
@@ -174,7 +259,7 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec) -> R
         let what = format!("type A module {name}, generator \"{g}\"");
         tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
         m.idem.push(idem_ok(gen.idempotent, &what)?);
-        grading_ok(&gen.grading, &what)?;
+        grading_ok(&gen.grading, group, &what)?;
         m.grading.push(gen.grading.clone());
     }
     for (k, f) in spec.operations.iter().enumerate() {
@@ -281,15 +366,17 @@ impl TypeA {
 }
 
 impl Objects {
-    pub fn load(b: &Bordered, items: u64) -> Result<Objects, Vec<String>> {
+    /// `version` ≥ 3: gradings are elements of the grading group.
+    pub fn load(b: &Bordered, items: u64, version: u32) -> Result<Objects, Vec<String>> {
+        let group = version >= 3;
         if b.full_ring != full_ring() {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
         }
         let full = crate::load::load(&b.full_ring, &b.full_complexes, &UniqueMap::default())?;
         let structures: Result<BTreeMap<String, TypeD>, String> =
-            b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s)?))).collect();
+            b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?))).collect();
         let modules: Result<BTreeMap<String, TypeA>, String> =
-            b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s)?))).collect();
+            b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?))).collect();
         let (structures, modules) = (structures.map_err(|e| vec![e])?, modules.map_err(|e| vec![e])?);
         let mut o = Objects {
             full,
@@ -297,6 +384,7 @@ impl Objects {
             modules,
             morphisms: BTreeMap::new(),
             budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)),
+            group,
         };
         for (n, f) in b.type_d_morphisms.iter() {
             let side = |s: &String| {
@@ -347,6 +435,17 @@ pub fn check_structure(d: &TypeD) -> Result<(), String> {
             return Err(format!("(μ ⊗ id)(id ⊗ δ¹)δ¹({}) = {} ≠ 0", d.names[y], show(&acc, &d.names)));
         }
     }
+    // Version 3: a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
+    for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
+        for &(a, y2) in row {
+            if let (Some(g), Some(g2)) = (&d.grading[y], &d.grading[y2 as usize]) {
+                let e = gr_mul(gr_mul(gr_mul(gr_pow(gr_of(g), -1), LAMBDA), gr_alg(a)), gr_of(g2));
+                if !in_period(e, d.period) {
+                    return Err(format!("the term {}⊗{} of δ¹({}) is not homogeneous: gr({0})⁻¹·λ·gr(ρ)·gr({1}) = {e:?} (doubled) is not a power of the period", a.name(), d.names[y2 as usize], d.names[y]));
+                }
+            }
+        }
+    }
     Ok(())
 }
 
@@ -372,6 +471,20 @@ fn check_morphism(o: &Objects, f: &Morphism) -> Result<(), Failure> {
 pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> {
     if let Some(e) = m.defects.first() {
         return Err(e.clone().into());
+    }
+    // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1) ∈ P_A;
+    // along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
+    for (k, f) in m.families.iter().enumerate().filter(|_| m.group) {
+        for n in 0..if f.repeat > 0 { 2 } else { 1 } {
+            let w = f.word(n);
+            let g = w.iter().fold(gr_of(&m.grading[f.from as usize]), |g, &a| gr_mul(g, gr_alg(a)));
+            let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
+            let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
+            let e = gr_mul(g, gr_pow(gr_of(&m.grading[f.to as usize]), -1));
+            if !in_period(e, m.period) {
+                return Err(format!("operation {} (repeated block {n} times) is not homogeneous: gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period", k + 1).into());
+            }
+        }
     }
     let l = max_len as usize;
     // Words of each family up to length l: n = 0, 1, … while the word fits (counted before
@@ -501,14 +614,20 @@ fn paths(
 /// A generator x⊗y of a box tensor product: x, y, its name and grading.
 pub type Generator = (u32, u32, String, Grading);
 
-/// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings gr(x) + gr(y).
+/// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings: version 3 (Maslov,
+/// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y).
 pub fn generators(m: &TypeA, n: &TypeD) -> Result<Vec<Generator>, Failure> {
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
             let gy =
                 n.grading[y].as_ref().ok_or_else(|| format!("generator {yn} has no grading, so {xn}⊗{yn} has none"))?;
-            out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), crate::load::grading_sum(&m.grading[x], gy)));
+            let gr = match m.group && n.group {
+                true => read_grading(gr_mul(gr_of(&m.grading[x]), gr_of(gy)), m.period, n.period)
+                    .map_err(|e| format!("{xn}⊗{yn}: {e}"))?,
+                false => crate::load::grading_sum(&m.grading[x], gy),
+            };
+            out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), gr));
         }
     }
     Ok(out)
@@ -627,8 +746,11 @@ pub fn tensor_map(
 }
 
 /// The type D structure of LOT Thm 11.26 for a complex C over `F2[U,V]` in a simultaneously
-/// simplified basis and framing t, and τ = A(ξ_0).
-pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
+/// simplified basis and framing t, and τ = A(ξ_0). `group` (version 3): ξ with C-grading
+/// (M, A) = (gr_U, (gr_U − gr_V)/2) gets (M − 3A/2; 0, −A; 0), each chain of ι_1 generators
+/// the gradings its arrows force from the ξ it starts at, and the period is the grading
+/// (t/2 + ½; 1, t; 0) of the periodic domain (derived in DEVELOPERS.md, "Gradings").
+pub fn complement(c: &Complex, t: i64, group: bool) -> Result<(TypeDSpec, i64), String> {
     let refuse = |why: String| {
         format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
     };
@@ -682,19 +804,24 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
         ));
     }
     let mut gens: Vec<(String, DGenerator)> = Vec::new();
+    let mut gr0 = Vec::new();
     for x in 0..n {
-        gens.push((
-            c.names[x].clone(),
-            DGenerator { grading: Some(vec![c.gradings[x][0], alexander(x)?]), idempotent: 0 },
-        ));
+        let (m, a) = (c.gradings[x][0], alexander(x)?);
+        gr0.push([2 * m as i128 - 3 * a as i128, 0, -2 * a as i128, 0]);
+        let grading = if group { written(gr0[x])? } else { vec![m, a] };
+        gens.push((c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 }));
     }
     let mut terms: Vec<Term> = Vec::new();
     let mut term = |a: &str, r: &str, b: &str| terms.push([a.to_string(), r.to_string(), b.to_string()]);
-    // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`).
+    // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered
+    // from a ι_0 generator of grading `from` by an arrow ρ ⊗ c_1: gr(c_1) = gr(ρ)⁻¹·λ⁻¹·from,
+    // then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up).
     let chain = |gens: &mut Vec<(String, DGenerator)>,
                  names: Vec<String>,
                  down: bool,
-                 term: &mut dyn FnMut(&str, &str, &str)| {
+                 (rho, from): (Alg, Gr),
+                 term: &mut dyn FnMut(&str, &str, &str)|
+     -> Result<(), String> {
         for w in names.windows(2) {
             if down {
                 term(&w[1], "rho23", &w[0])
@@ -702,19 +829,28 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
                 term(&w[0], "rho23", &w[1])
             }
         }
-        gens.extend(names.into_iter().map(|g| (g, DGenerator { grading: None, idempotent: 1 })));
+        let (back, r23) = (gr_pow(LAMBDA, -1), gr_alg(Alg::Reeb(2, 3)));
+        let mut g = gr_mul(gr_mul(gr_pow(gr_alg(rho), -1), back), from);
+        for name in names {
+            let grading = if group { Some(written(g)?) } else { None };
+            gens.push((name, DGenerator { grading, idempotent: 1 }));
+            g = if down { gr_mul(gr_mul(LAMBDA, r23), g) } else { gr_mul(gr_mul(gr_pow(r23, -1), back), g) };
+        }
+        Ok(())
     };
     for &(kind, a, b, l) in &arrows {
         let (an, bn) = (&c.names[a], &c.names[b]);
         let names: Vec<String> = (1..=l).map(|k| format!("{kind}{k}.{an}.{bn}")).collect();
-        if kind == "kappa" {
+        let first = if kind == "kappa" {
             term(an, "rho1", &names[0]);
             term(bn, "rho123", &names[l as usize - 1]);
+            Alg::Reeb(1, 1)
         } else {
             term(an, "rho3", &names[0]);
             term(&names[l as usize - 1], "rho2", bn);
-        }
-        chain(&mut gens, names, kind == "kappa", &mut term);
+            Alg::Reeb(3, 3)
+        };
+        chain(&mut gens, names, kind == "kappa", (first, gr0[a]), &mut term)?;
     }
     let (xn, en) = (&c.names[xi0], &c.names[eta0]);
     let m = (t - 2 * tau).unsigned_abs();
@@ -722,25 +858,39 @@ pub fn complement(c: &Complex, t: i64) -> Result<(TypeDSpec, i64), String> {
         return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
     }
     let names: Vec<String> = (1..=m).map(|k| format!("gamma{k}")).collect();
-    match t.cmp(&(2 * tau)) {
+    let first = match t.cmp(&(2 * tau)) {
         std::cmp::Ordering::Less => {
             term(xn, "rho1", &names[0]);
             term(en, "rho3", &names[m as usize - 1]);
+            Alg::Reeb(1, 1)
         }
-        std::cmp::Ordering::Equal => term(xn, "rho12", en),
+        std::cmp::Ordering::Equal => {
+            term(xn, "rho12", en);
+            Alg::Reeb(1, 2)
+        }
         std::cmp::Ordering::Greater => {
             term(xn, "rho123", &names[0]);
             term(&names[m as usize - 1], "rho2", en);
+            Alg::Reeb(1, 3)
         }
-    }
-    chain(&mut gens, names, t < 2 * tau, &mut term);
+    };
+    chain(&mut gens, names, t < 2 * tau, (first, gr0[xi0]), &mut term)?;
     let count = gens.len();
     let generators = UniqueMap(gens.into_iter().collect());
     if generators.len() != count {
         return Err(format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…); rename it", c.name));
     }
     terms.sort();
-    Ok((TypeDSpec { differential: terms, generators }, tau))
+    let period = if group { Some(written([t as i128 + 1, 2, 2 * t as i128, 0])?) } else { None };
+    Ok((TypeDSpec { differential: terms, generators, period }, tau))
+}
+
+/// A grading element as written, within the bounds every grading obeys.
+fn written(g: Gr) -> Result<Grading, String> {
+    g.iter()
+        .map(|&x| i64::try_from(x).ok().filter(|&x| tubecert_format::limits::grading_in_bounds(x)))
+        .collect::<Option<Grading>>()
+        .ok_or_else(|| format!("a grading {g:?} (doubled) is beyond ±2^31"))
 }
 
 /// Checks one bordered claim; `None` for the other kinds.
@@ -798,15 +948,15 @@ pub fn check(
             Claim::Complement { structure, complex, framing, tau, .. } => {
                 let c = &o.full.complexes[o.full.complex_named(complex)?];
                 o.budget.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
-                let (want, found_tau) = complement(c, *framing)?;
+                let (want, found_tau) = complement(c, *framing, o.group)?;
                 let given = spec.type_d_structures.get(structure).ok_or_else(|| format!("type D structure \"{structure}\" is not declared"))?;
                 if found_tau != *tau {
                     return Err(format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}").into());
                 }
                 let mut d = given.differential.clone();
                 d.sort();
-                if given.generators != want.generators {
-                    return Err(format!("{structure}: its generators (names, idempotents, gradings) differ from those LOT Thm 11.26 gives").into());
+                if given.generators != want.generators || given.period != want.period {
+                    return Err(format!("{structure}: its generators (names, idempotents, gradings) or its period differ from those LOT Thm 11.26 gives").into());
                 }
                 if let Some(t) = d.iter().find(|t| want.differential.binary_search(t).is_err()).or(want.differential.iter().find(|t| d.binary_search(t).is_err())) {
                     return Err(format!("{structure}: δ¹ differs from LOT Thm 11.26 at the term [{}, {}, {}]", t[0], t[1], t[2]).into());

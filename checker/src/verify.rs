@@ -450,7 +450,7 @@ pub fn check_body(
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
     let b = body.bordered.as_ref();
-    let mut objects = b.map(|b| Objects::load(b, written_items(body))).transpose()?;
+    let mut objects = b.map(|b| Objects::load(b, written_items(body), version)).transpose()?;
     if let Some(b) = b {
         let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));

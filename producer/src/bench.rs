@@ -23,9 +23,11 @@ const ROUNDS: usize = 5;
 pub enum Case {
     /// ord_U(F − G) on an inflated complex (and, with a source size, between two).
     Inflated,
-    /// id of T(p,q)^⊗3 over `F2[U,V]` is not null-homotopic.
+    // The help text is an attribute, not a doc comment: rustdoc would read [U,V] as a link
+    // and clap would print a code span's backticks.
+    #[value(help = "id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic")]
     ReducedIdentity,
-    /// U·V·id of T(p,q)^⊗3 over `F2[U,V]` is not null-homotopic.
+    #[value(help = "U·V·id of T(p,q)^⊗3 over F2[U,V] is not null-homotopic")]
     ReducedUv,
 }
 

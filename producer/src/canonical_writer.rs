@@ -124,6 +124,15 @@ impl<'a> Object<'a> {
     }
 }
 
+/// `fn serialize_iN(self, v: iN)` for each integer type, all through [`integer`].
+macro_rules! serialize_integers {
+    ($($name:ident: $ty:ty),*) => {
+        $(fn $name(self, v: $ty) -> Result<(), Error> {
+            integer(self.out, v as i128)
+        })*
+    };
+}
+
 impl<'a> ser::Serializer for Writer<'a> {
     type Ok = ();
     type Error = Error;
@@ -139,30 +148,9 @@ impl<'a> ser::Serializer for Writer<'a> {
         self.out.extend_from_slice(if v { b"true" } else { b"false" });
         Ok(())
     }
-    fn serialize_i8(self, v: i8) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_i16(self, v: i16) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_i32(self, v: i32) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_i64(self, v: i64) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_u8(self, v: u8) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_u16(self, v: u16) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_u32(self, v: u32) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
-    fn serialize_u64(self, v: u64) -> Result<(), Error> {
-        integer(self.out, v as i128)
-    }
+    // Every integer type is written by one function.
+    serialize_integers!(serialize_i8: i8, serialize_i16: i16, serialize_i32: i32, serialize_i64: i64,
+        serialize_u8: u8, serialize_u16: u16, serialize_u32: u32, serialize_u64: u64);
     fn serialize_f32(self, _: f32) -> Result<(), Error> {
         Err(Error("floating-point numbers are not part of the format".into()))
     }

@@ -306,6 +306,8 @@ fn run() -> ExitCode {
             let built = tubecert::text_format::from_command_line(&ring, &complexes, &goals)
                 .and_then(|v| serde_json::from_value(v).map_err(|e| vec![e.to_string()]))
                 .and_then(|w| tubecert::problem::from_written(tubecert::problem::WrittenProblem { text: true, ..w }))
+                // The same validation as `check-input`, so a built problem never names what it lacks.
+                .and_then(|p| tubecert::validate::validate(&p).map(|_| p))
                 .and_then(|p| match json {
                     true => Ok(String::from_utf8(tubecert::demo::problem_bytes(&p)).expect("JSON is UTF-8")),
                     false => tubecert::text_format::render(&serde_json::to_value(&p).expect("problems serialize"))

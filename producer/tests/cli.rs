@@ -285,6 +285,12 @@ fn build_writes_explicit_complexes_that_prove() {
     assert!(err.contains("complex S: complex \"X\" is not declared"), "{err}");
     let (_, _, err) = tubecert(&["build", "--complex", "A = dual B", "--complex", "B = dual A"]);
     assert!(err.contains("complex A: is built from B"), "{err}");
+    // A goal is validated as `check-input` would: no problem file naming maps it lacks.
+    let (code, stdout, err) =
+        tubecert(&["build", "--complex", "T = staircase torus_knot 2 3", "--goal", "torsion_order F G U"]);
+    assert_eq!(code, 2, "{stdout}");
+    assert!(err.contains("map \"F\" is not declared"), "{err}");
+    assert!(stdout.is_empty(), "nothing written: {stdout}");
 }
 
 /// Every file of a folder, by name.

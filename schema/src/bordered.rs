@@ -54,8 +54,8 @@ impl Alg {
     }
 }
 
-/// A generator of a type D structure: its idempotent (0 or 1) and, optionally, its
-/// (Maslov, Alexander) grading.
+/// A generator of a type D structure: its idempotent (0 or 1) and, optionally, its grading
+/// (version 2: [Maslov, Alexander]; version 3: an element of the grading group, [2j, 2p, 2q, 2a]).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct DGenerator {
@@ -70,9 +70,12 @@ pub struct DGenerator {
 pub struct TypeDSpec {
     pub differential: Vec<Term>,
     pub generators: UniqueMap<DGenerator>,
+    /// Version 3: the grading of the generator of the periodic domains (P_D = its powers).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub period: Option<Grading>,
 }
 
-/// A generator of a type A module.
+/// A generator of a type A module (grading: version 2 [Maslov, Alexander], version 3 [2j, 2p, 2q, 2a]).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct AGenerator {
@@ -99,6 +102,9 @@ pub struct Family {
 pub struct TypeASpec {
     pub generators: UniqueMap<AGenerator>,
     pub operations: Vec<Family>,
+    /// Version 3: the grading of the generator of the periodic domains (P_A = its powers).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub period: Option<Grading>,
 }
 
 /// A type D morphism f: N → A(T²) ⊗ N′, terms `[y, a, y′]`.

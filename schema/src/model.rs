@@ -454,8 +454,10 @@ pub struct Body {
 pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
 /// The version written. Version 2 names τ's grading, brackets composites inside a composition
 /// and may hold a `bordered` section; version-1 certificates are still read, with version 1's
-/// wording (and without a `bordered` section).
-pub const CERTIFICATE_VERSION: u32 = 2;
+/// wording (and without a `bordered` section). Version 3 grades bordered objects by elements
+/// of LOT's grading group (`period` members, four-entry gradings); version-2 bordered sections
+/// are still read with version 2's rule (gradings added).
+pub const CERTIFICATE_VERSION: u32 = 3;
 
 /// A certificate file: `{"format", "version", "sha256", "body"}`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]

@@ -93,6 +93,9 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
             "{module} is a strictly unital type A module over A(T²) with coefficients in F2[U] (A∞ relations on every input word of length ≤ {max_length})"
         ),
         Claim::TypeDMorphism { morphism, .. } => format!("{morphism} is a type D morphism with ∂{morphism} = 0"),
+        Claim::BoxTensor { complex, module, structure, .. } if version >= 3 => format!(
+            "{complex} = {module} ⊠ {structure} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group)"
+        ),
         Claim::BoxTensor { complex, module, structure, .. } => {
             format!("{complex} = {module} ⊠ {structure} (box tensor product, gradings added)")
         }

@@ -65,11 +65,13 @@ fn failure(f: Failure) -> String {
 }
 
 /// The core of the solid torus (the (1,1) cable pattern): one generator x in ι_0 and
-/// m_{ℓ+2}(x, ρ3, ρ23^(ℓ−1), ρ2) = U^ℓ·x for ℓ ≥ 1 (LOT §11.4, memory), one family.
+/// m_{ℓ+2}(x, ρ3, ρ23^(ℓ−1), ρ2) = U^ℓ·x for ℓ ≥ 1 (LOT §11.4, memory), one family. Grading:
+/// gr(x) = 1; the period is the grading of the periodic domain of m_3(x, ρ3, ρ2) = U·x,
+/// gr(ρ3)·gr(ρ2)·λ·gr(U)⁻¹ = (3/2; 0, 1; 1), written doubled.
 pub fn core_module() -> TypeASpec {
     let s = |v: &[&str]| v.iter().map(|x| x.to_string()).collect::<Vec<_>>();
     TypeASpec {
-        generators: UniqueMap([("x".to_string(), AGenerator { grading: vec![0, 0], idempotent: 0 })].into()),
+        generators: UniqueMap([("x".to_string(), AGenerator { grading: vec![0, 0, 0, 0], idempotent: 0 })].into()),
         operations: vec![Family {
             from: "x".into(),
             power: [1, 1],
@@ -78,6 +80,7 @@ pub fn core_module() -> TypeASpec {
             suffix: s(&["rho2"]),
             to: "x".into(),
         }],
+        period: Some(vec![3, 0, 2, 2]),
     }
 }
 
@@ -167,7 +170,7 @@ pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, 
     let ctx =
         tubecheck::load::load(&full_ring(), &UniqueMap([(name.to_string(), c.clone())].into()), &UniqueMap::default())
             .map_err(|e| e.join("; "))?;
-    checked::complement(&ctx.complexes[0], t)
+    checked::complement(&ctx.complexes[0], t, true)
 }
 
 fn budget() -> Budget {
@@ -176,7 +179,7 @@ fn budget() -> Budget {
 
 /// The complex M ⊠ N, and the longest input word it used.
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize), String> {
-    let (ma, nd) = (checked::read_module("M", m)?, checked::read_structure("N", n)?);
+    let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
     let (gens, rows) = checked::tensor_complex(&b, &ma, &nd).map_err(failure)?;
     let mut differential = Vec::new();
@@ -206,8 +209,11 @@ pub fn box_tensor_map(
     from: (&str, &ComplexSpec),
     to: (&str, &ComplexSpec),
 ) -> Result<(MapSpec, usize), String> {
-    let (ma, nd, nd2) =
-        (checked::read_module("M", m)?, checked::read_structure(&f.from, n)?, checked::read_structure(&f.to, n2)?);
+    let (ma, nd, nd2) = (
+        checked::read_module("M", m, true)?,
+        checked::read_structure(&f.from, n, true)?,
+        checked::read_structure(&f.to, n2, true)?,
+    );
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
