@@ -381,6 +381,8 @@ mod tests {
             let ctx = crate::validate::validate(&p).unwrap();
             let proved = crate::prove::prove(p, &ctx, &bytes).unwrap();
             assert_eq!(proved.file, file_bytes(&proved.certificate).unwrap(), "one serialization, same file");
+            let body_len = to_canonical(&proved.certificate.body).unwrap().len() as u64;
+            assert!(crate::prove::written_floor(&proved.certificate.body) <= body_len, "a lower bound");
             let cert = proved.certificate;
             let mut expected = Vec::new();
             tubecert_format::canonical::write_canonical(&serde_json::to_value(&cert).unwrap(), &mut expected).unwrap();

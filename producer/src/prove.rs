@@ -391,7 +391,7 @@ fn emit_reductions(
 
 /// A lower bound on the length of a body's canonical form: each term of a differential or a
 /// map is written as at least `["a","1","b"]`, 13 bytes.
-fn written_floor(body: &Body) -> u64 {
+pub(crate) fn written_floor(body: &Body) -> u64 {
     let terms = body.complexes.values().map(|c| c.differential.len()).sum::<usize>()
         + body.maps.values().map(|m| m.terms.len()).sum::<usize>();
     13 * terms as u64
