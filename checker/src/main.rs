@@ -12,7 +12,7 @@ use tubecheck::report_cli::{self, Style};
     name = "tubecheck",
     version,
     about = "Re-verify tubecert certificates by exact arithmetic over F2[U,V]",
-    after_help = "Examples:\n  tubecheck certificates/\n  tubecheck paper.cert.json --expect 3f1c…(the hash printed in the paper)\n  tubecheck --json certificates/ > report.json\n\nExit codes: 0 all verified; 1 a claim or an expected hash failed; 2 a file is unreadable or malformed, or no certificate was found."
+    after_help = "Examples:\n  tubecheck certificates/\n  tubecheck paper.cert.json --expect 3f1c…(the hash printed in the paper)\n  tubecheck --json certificates/ > report.json\n  tubecheck --report tex paper.cert.json > appendix.tex     # \\input{appendix} in the paper\n  tubecheck --report tex --standalone paper.cert.json > a.tex && pdflatex a.tex\n\nExit codes: 0 all verified; 1 a claim or an expected hash failed; 2 a file is unreadable or malformed, or no certificate was found."
 )]
 struct Args {
     /// Certificate files, or folders (every *.json inside, recursively; problem files are skipped).
@@ -24,9 +24,13 @@ struct Args {
     /// Print a machine-readable JSON report on stdout.
     #[arg(long)]
     json: bool,
-    /// Print an appendix-ready summary instead: Markdown (md) or a LaTeX document (tex).
+    /// Print an appendix instead, with the claims' witnesses written out: Markdown (md) or a
+    /// LaTeX fragment to \input (tex; needs amsmath and amssymb).
     #[arg(long, value_parser = ["md", "tex"])]
     report: Option<String>,
+    /// With --report tex: a whole LaTeX document (one for all files) instead of a fragment.
+    #[arg(long, requires = "report")]
+    standalone: bool,
 }
 
 /// Files to check: named files as given, folders walked in sorted order.
@@ -114,7 +118,12 @@ fn main() -> ExitCode {
     let style = if args.json {
         Style::Json
     } else {
-        args.report.as_deref().map_or(Style::Text, |r| if r == "md" { Style::Markdown } else { Style::Latex })
+        match args.report.as_deref() {
+            None => Style::Text,
+            Some("md") => Style::Markdown,
+            _ if args.standalone => Style::LatexDocument,
+            _ => Style::Latex,
+        }
     };
     report_cli::print(&outcomes, style, &missing, !args.expect.is_empty());
     if outcomes.iter().any(|(_, o)| o.is_err()) {

@@ -28,7 +28,10 @@ pub enum Style {
     Text,
     Json,
     Markdown,
+    /// A LaTeX fragment per file, to `\input`.
     Latex,
+    /// One whole LaTeX document around every file's fragment (`--standalone`).
+    LatexDocument,
 }
 
 /// Prints the outcome of each file (a report, or why it could not be read) and the totals.
@@ -39,6 +42,7 @@ pub fn print(
     expected: bool,
 ) {
     let mut json = Vec::new();
+    let mut fragments = Vec::new();
     let (mut verified, mut failed_claims, mut failed_files, mut unreadable) = (0, 0, 0, 0);
     for (name, outcome) in outcomes {
         match outcome {
@@ -51,6 +55,7 @@ pub fn print(
                     Style::Json => json.push(report_json::render(r)),
                     Style::Markdown => emit(&report_appendix::markdown(r)),
                     Style::Latex => emit(&report_appendix::latex(r)),
+                    Style::LatexDocument => fragments.push(report_appendix::latex(r)),
                     Style::Text => crate::say!("{}", report_text::render(r)),
                 }
             }
@@ -81,6 +86,7 @@ pub fn print(
                 outcomes.len()
             );
         }
+        Style::LatexDocument => emit(&report_appendix::latex_document(&fragments)),
         Style::Markdown | Style::Latex => {}
     }
 }

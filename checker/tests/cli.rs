@@ -90,14 +90,67 @@ fn appendix_reports() {
     let path = format!("{}/stair-tower-p2.cert.json", certificates());
     let (code, md, _) = tubecheck(&["--report", "md", &path]);
     assert_eq!(code, 0);
-    assert!(md.contains("| ✓ | ord_U(F − G) = 2 | torsion_order |"), "{md}");
+    assert!(md.contains("1. ✓ ord_U(F − G) = 2 *(torsion_order; witness terms:"), "{md}");
     assert!(md.contains("Scope:") && md.contains("--expect"));
+    // The witnesses written out: the homotopy as x ↦ Σ m·w, the dual in the factored form.
+    assert!(md.contains("homotopy H with U^2·(F + G) = ∂H + H∂:\n      - `o ↦ "), "{md}");
+    assert!(md.contains("dual witness y(ψ) = Σ_x c_x(ψ(x)): y = 1 on U·(F + G)") && md.contains("- `c_o = "), "{md}");
+    assert!(md.contains("basis in which ∂ is in normal form"), "{md}");
+    // A fragment to \input by default: no preamble, tables apart, grading names in text font.
     let (code, tex, _) = tubecheck(&["--report", "tex", &path]);
     assert_eq!(code, 0);
-    assert!(
-        tex.starts_with("\\documentclass") && tex.contains("$\\operatorname{ord}_{U}(\\mathrm{F} - \\mathrm{G}) = 2$")
-    );
-    assert!(tex.contains("$\\tau(\\mathrm{K}) = 2$") && tex.trim_end().ends_with("\\end{document}"));
+    assert!(!tex.contains("\\documentclass") && !tex.contains("\\begin{document}"), "{tex}");
+    assert!(tex.contains("$\\operatorname{ord}_{U}(\\mathrm{F} - \\mathrm{G}) = 2$"), "{tex}");
+    assert!(tex.contains("$\\tau(\\mathrm{K}) = 2$ (Alexander grading $\\textnormal{alexander}$)"), "{tex}");
+    assert!(tex.contains("\\text{gradings } (\\textnormal{maslov}, \\textnormal{alexander})"), "{tex}");
+    assert!(tex.matches("\\end{tabular}\n\\par\\medskip").count() == 2, "each table in a paragraph of its own");
+    assert!(tex.contains("\\item[] $\\mathrm{o} \\mapsto "), "{tex}");
+    assert!(tex.contains("\\item[] $c_{\\mathrm{o}} = "), "{tex}");
+    // --standalone: one document around every file's fragment.
+    let other = format!("{}/tower.cert.json", certificates());
+    let (code, doc, _) = tubecheck(&["--report", "tex", "--standalone", &path, &other]);
+    assert_eq!(code, 0);
+    assert!(doc.starts_with("\\documentclass") && doc.trim_end().ends_with("\\end{document}"));
+    assert_eq!(doc.matches("\\documentclass").count(), 1);
+    assert_eq!(doc.matches("\\subsection*{Machine-checked certificate}").count(), 2);
+    compiles(&doc);
+}
+
+/// Beyond the size limit a witness shows its first rows and counts the rest.
+#[test]
+fn appendix_witnesses_are_cut_with_counts() {
+    let path = format!("{}/stair-tower-p5.cert.json", certificates());
+    let (code, md, _) = tubecheck(&["--report", "md", &path]);
+    assert_eq!(code, 0);
+    assert!(md.contains("more rows (") && md.contains("terms in all; the certificate holds every one)"), "{md}");
+    // No witness shows more than 12 rows.
+    let mut run = 0;
+    for line in md.lines() {
+        run = if line.starts_with("      - `") { run + 1 } else { 0 };
+        assert!(run <= 12, "{md}");
+    }
+    let (_, tex, _) = tubecheck(&["--report", "tex", "--standalone", &path]);
+    assert!(tex.contains("\\dots{} ") && tex.contains("more rows"), "{tex}");
+    compiles(&tex);
+}
+
+/// pdflatex compiles a standalone appendix, where it is installed (CI installs it).
+fn compiles(doc: &str) {
+    if Command::new("pdflatex").arg("--version").output().is_err() {
+        assert!(std::env::var("CI").is_err(), "CI must install pdflatex (texlive-latex-base)");
+        eprintln!("pdflatex is not installed: the compilation check is skipped here");
+        return;
+    }
+    let dir = std::env::temp_dir().join(format!("tubecheck-tex-{}-{}", std::process::id(), doc.len()));
+    std::fs::create_dir_all(&dir).unwrap();
+    std::fs::write(dir.join("a.tex"), doc).unwrap();
+    let out = Command::new("pdflatex")
+        .args(["-interaction=nonstopmode", "-halt-on-error", "a.tex"])
+        .current_dir(&dir)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stdout));
+    assert!(dir.join("a.pdf").exists());
 }
 
 /// `tubecheck … | head -1` in a CI script: the reader leaves early. The checker must neither

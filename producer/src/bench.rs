@@ -239,8 +239,8 @@ pub fn synthetic_problem(
 /// The reduced case: C = T(p,q)^⊗3 over `F2[U,V]` and one goal about φ = id_C or U·V·id_C.
 pub fn reduced_problem(case: Case, (p, q): (u32, u32)) -> Result<Problem, String> {
     let goal = match case {
-        Case::ReducedUv => r#"not_null_homotopic {"times":["U*V",{"id":"C"}]}"#,
-        _ => r#"not_null_homotopic {"id":"C"}"#,
+        Case::ReducedUv => "not_null_homotopic U*V·id_C",
+        _ => "not_null_homotopic id_C",
     };
     let complexes = [format!("T = staircase torus_knot {p} {q}"), "A = tensor T T".into(), "C = tensor A T".into()];
     crate::text_format::from_command_line("F2[U,V]", &complexes, &[goal.to_string()])

@@ -7,6 +7,25 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 use tubecheck::say;
 
+/// The goal lines of the text format, each with an example (shown by `prove`, `check-input`
+/// and `build --help`; the README's table says the same). A macro, so `concat!` can join it.
+macro_rules! goals_help {
+    () => {
+        "Goals of the text format (one a line; all proved in examples/goals.problem.txt):
+  goal torsion_order F G U surfaces          ord_U(F − G); options: surfaces, order K, max_order N
+  goal homotopic F G times U^3               U^3·F ≃ U^3·G (times optional)
+  goal distinct F G times U^2                U^2·F, U^2·G not homotopic (times optional)
+  goal null_homotopic U^3·(F + G)            the map is ∂H + H∂
+  goal not_null_homotopic (U^2·(F + G))∘id_P no homotopy exists (a dual witness)
+  goal equivalent K K2 f g                   f: K → K2, g: K2 → K mutually inverse equivalences
+  goal homology K                            H_*(K) over F2 or F2[U]
+  goal tau T                                 τ(T); also: tau T alexander GRADING
+  goal torsion_order_of_complex K U          the largest k with F2[U]/(U^k) in H_*(K)
+Map expressions: F, id_C, F + G (F - G is the same over F2), F∘G (ASCII F @ G: F after G),
+U^2·F (or U^2 F), parentheses; a multiple binds tightest, then ∘, then +."
+    };
+}
+
 #[derive(Parser)]
 #[command(
     name = "tubecert",
@@ -29,7 +48,7 @@ struct Cli {
 enum Command {
     /// Prove the goals of a problem file and write a certificate.
     #[command(
-        after_help = "Example:\n  tubecert prove certificates/disk-pair-p2.problem.json -o /tmp/p2.cert.json\n  tubecheck /tmp/p2.cert.json\n\nExit codes: 0 all goals proved as stated; 3 a goal is false and its opposite was proved (certificate still written); 2 bad input."
+        after_help = concat!("Example:\n  tubecert prove certificates/disk-pair-p2.problem.json -o /tmp/p2.cert.json\n  tubecheck /tmp/p2.cert.json\n\nExit codes: 0 all goals proved as stated; 3 a goal is false and its opposite was proved (certificate still written); 2 bad input.\n\n", goals_help!())
     )]
     Prove {
         problem: PathBuf,
@@ -41,7 +60,7 @@ enum Command {
         emit_reduction: bool,
     },
     /// Validate a problem file only (exit 0 if valid, 2 with every error otherwise).
-    #[command(after_help = "Example:\n  tubecert check-input my.problem.json")]
+    #[command(after_help = concat!("Example:\n  tubecert check-input my.problem.json\n\n", goals_help!()))]
     CheckInput { problem: PathBuf },
     /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
     #[command(
@@ -91,7 +110,7 @@ enum Command {
     /// Build explicit complexes from constructions given on the command line; writes a problem
     /// file (text or JSON) ready for `prove`.
     #[command(
-        after_help = "Each --complex is one text-format definition NAME = CONSTRUCTION, in order:\n  staircase torus_knot P Q | staircase alexander A… | tensor A B | dual A | shift A (…)\n  | direct_sum A B | quotient V of staircase …\nEach --goal is one text-format goal (tau K, homology K, torsion_order_of_complex K U, …).\n\nExample:\n  tubecert build --ring 'F2[U]' --complex 'T = staircase torus_knot 3 4' --complex 'M = dual T' \\\n    --complex 'S = tensor T M' --goal 'tau S' -o sum.problem.txt\n  tubecert prove sum.problem.txt"
+        after_help = concat!("Each --complex is one text-format definition NAME = CONSTRUCTION, in order:\n  staircase torus_knot P Q | staircase alexander A… | tensor A B | dual A | shift A (…)\n  | direct_sum A B | quotient V of staircase …\nGenerated names and gradings: staircase x0 … x2n; tensor x⊗y at gr(x) + gr(y); dual: same\nnames, gradings negated; direct_sum A.x, B.y (README: \"Where generated complexes sit\").\nEach --goal is one text-format goal line without the word goal (below).\n\nExample:\n  tubecert build --ring 'F2[U]' --complex 'T = staircase torus_knot 3 4' --complex 'M = dual T' \\\n    --complex 'S = tensor T M' --goal 'tau S' -o sum.problem.txt\n  tubecert prove sum.problem.txt\n\n", goals_help!())
     )]
     Build {
         /// F2, F2[U] (Maslov, Alexander; the minus version) or F2[U,V] (gr_U, gr_V).
@@ -121,7 +140,7 @@ enum Command {
     },
     /// Draw a complex as an SVG picture, optionally highlighting a claim's witness.
     #[command(
-        after_help = "Example:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png"
+        after_help = "To scale: over F2[U,V] the plane of the two filtration levels (an arrow x → U^a·V^b·y goes a\nunits left and b down: U arrows horizontal, V arrows vertical, mixed monomials diagonal); over\nF2[U] or F2 the lattice of the gradings (Alexander across, Maslov up). Generators at one point are\nstacked and named together; a legend explains colours and the highlighted witness.\n\nExample:\n  tubecert draw certificates/stair-tower-p3.cert.json --complex K --highlight 1 -o k.svg\n  rsvg-convert k.svg -o k.png"
     )]
     Draw {
         /// A problem file or a certificate.
@@ -131,6 +150,10 @@ enum Command {
         /// Claim number (1-based) whose witness support is highlighted.
         #[arg(long)]
         highlight: Option<usize>,
+        /// Above this many generators, draw a summary (generators counted per cell, arrows
+        /// counted by kind) instead of every generator.
+        #[arg(long, default_value_t = tubecert::draw::DEFAULT_MAX_GENERATORS)]
+        max_generators: usize,
         #[arg(short, long)]
         output: PathBuf,
     },
@@ -335,10 +358,13 @@ fn run() -> ExitCode {
                 Err(errs) => report_errors(&errs),
             }
         }
-        Command::Draw { file, complex, highlight, output } => {
-            match tubecert::draw::draw_file(&file, &complex, highlight) {
-                Ok(svg) => match std::fs::write(&output, svg) {
+        Command::Draw { file, complex, highlight, max_generators, output } => {
+            match tubecert::draw::draw_file(&file, &complex, highlight, max_generators) {
+                Ok(drawing) => match std::fs::write(&output, drawing.svg) {
                     Ok(()) => {
+                        if let Some(note) = drawing.note {
+                            eprintln!("note: {note}");
+                        }
                         say!("wrote {}", output.display());
                         ExitCode::SUCCESS
                     }

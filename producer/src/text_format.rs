@@ -28,7 +28,8 @@
 //! goal homology K
 //! ```
 //! Other goals: `equivalent C D f g`, `tau K [alexander NAME]`, `torsion_order_of_complex K U`,
-//! `null_homotopic EXPR` / `not_null_homotopic EXPR` with EXPR in the JSON notation.
+//! `null_homotopic EXPR` / `not_null_homotopic EXPR` with EXPR in the statements' notation
+//! (`U^2·(F + G)`, `(U·F)∘id_O`; see [`map_expression`]); JSON there is still read.
 //! It converts both ways with the JSON problem format ([`parse`], [`render`]).
 
 use serde_json::{json, Map, Value};
@@ -562,12 +563,167 @@ fn goal(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
             body.insert("maps".into(), json!([w(4), w(5)]));
         }
         "null_homotopic" | "not_null_homotopic" => {
-            let e: Value = serde_json::from_str(w(2)).or_else(|_| Ok::<_, ()>(json!(w(2)))).expect("infallible");
+            need(3, "\"goal null_homotopic EXPRESSION\", e.g. \"U^2·(F + G)\"")?;
+            // A JSON expression (as older files wrote it) stays readable.
+            let e = match serde_json::from_str::<Value>(w(2)) {
+                Ok(v) if w(2).starts_with(['{', '[']) => v,
+                _ => map_expression(line, c(2), &line.text[c(2) - 1..])?,
+            };
             body.insert("map".into(), e);
         }
         other => return Err(line.err(c(1), "torsion_order, homotopic, distinct, homology, equivalent, tau, torsion_order_of_complex, null_homotopic or not_null_homotopic", other)),
     }
     Ok(json!({ w(1): body }))
+}
+
+/// The text notation of a map expression, the notation statements are written in:
+/// `F`, `id_C`, `F + G` (also `F - G` or `F − G`: over F2 the same map), `F∘G` (ASCII `F @ G`;
+/// F after G), `U^2·F` (or `U^2 F`, like a term), parentheses to group: `U·(F + G)`,
+/// `(U·F)∘G`. A multiple binds tightest, then composition, then sums. Returns the JSON form
+/// of the goal (`{"sum": …}`, `{"compose": [outer, …, inner]}`, `{"times": [m, e]}`, `{"id": C}`).
+fn map_expression(line: &Line, col: usize, text: &str) -> Result<Value, String> {
+    #[derive(Clone, PartialEq)]
+    enum Tok {
+        Word(String),
+        Open,
+        Close,
+        Plus,
+        After,
+        Times,
+    }
+    // Tokens with their columns (1-based, in the line).
+    let mut toks: Vec<(usize, Tok)> = Vec::new();
+    let mut chars = text.char_indices().peekable();
+    while let Some(&(i, ch)) = chars.peek() {
+        let at = col + text[..i].chars().count();
+        let single = match ch {
+            // `(x)` inside a word spells ⊗ (read below); a '(' that starts a token opens a group.
+            '(' => Some(Tok::Open),
+            ')' => Some(Tok::Close),
+            '+' | '-' | '−' => Some(Tok::Plus),
+            '∘' | '@' => Some(Tok::After),
+            '·' => Some(Tok::Times),
+            c if c.is_whitespace() => {
+                chars.next();
+                continue;
+            }
+            _ => None,
+        };
+        if let Some(t) = single {
+            toks.push((at, t));
+            chars.next();
+            continue;
+        }
+        // A word: up to blank space or an operator; `(x)` right after a letter is part of it (⊗).
+        let mut end = i;
+        while end < text.len() {
+            let c = text[end..].chars().next().expect("inside the text");
+            if text[end..].starts_with(crate::problem::ASCII_TENSOR) && end > i {
+                end += crate::problem::ASCII_TENSOR.len();
+                continue;
+            }
+            if c.is_whitespace() || "()+-−∘@·".contains(c) {
+                break;
+            }
+            end += c.len_utf8();
+        }
+        toks.push((at, Tok::Word(text[i..end].to_string())));
+        while chars.peek().is_some_and(|&(k, _)| k < end) {
+            chars.next();
+        }
+    }
+    let end_col = col + text.chars().count();
+    struct P<'a> {
+        toks: Vec<(usize, Tok)>,
+        k: usize,
+        line: &'a Line<'a>,
+        end_col: usize,
+    }
+    impl P<'_> {
+        fn peek(&self) -> Option<&Tok> {
+            self.toks.get(self.k).map(|t| &t.1)
+        }
+        fn fail(&self, expected: &str) -> String {
+            let (c, found) = match self.toks.get(self.k) {
+                Some((c, Tok::Word(w))) => (*c, w.clone()),
+                Some((c, t)) => (
+                    *c,
+                    match t {
+                        Tok::Open => "(",
+                        Tok::Close => ")",
+                        Tok::Plus => "+",
+                        Tok::After => "∘",
+                        _ => "·",
+                    }
+                    .to_string(),
+                ),
+                None => (self.end_col, String::new()),
+            };
+            self.line.err(c, expected, &found)
+        }
+        fn sum(&mut self) -> Result<Value, String> {
+            let mut parts = vec![self.composition()?];
+            while self.peek() == Some(&Tok::Plus) {
+                self.k += 1;
+                parts.push(self.composition()?);
+            }
+            Ok(if parts.len() == 1 { parts.pop().expect("one part") } else { json!({ "sum": parts }) })
+        }
+        fn composition(&mut self) -> Result<Value, String> {
+            let mut parts = vec![self.factor()?];
+            while self.peek() == Some(&Tok::After) {
+                self.k += 1;
+                parts.push(self.factor()?);
+            }
+            Ok(if parts.len() == 1 { parts.pop().expect("one part") } else { json!({ "compose": parts }) })
+        }
+        fn factor(&mut self) -> Result<Value, String> {
+            match self.peek().cloned() {
+                Some(Tok::Open) => {
+                    self.k += 1;
+                    let e = self.sum()?;
+                    if self.peek() != Some(&Tok::Close) {
+                        return Err(self.fail("')' or an operator (+, ∘, ·)"));
+                    }
+                    self.k += 1;
+                    Ok(e)
+                }
+                Some(Tok::Word(w)) => {
+                    self.k += 1;
+                    match self.peek() {
+                        // A monomial times what follows: `U^2·F`, `U^2 F`, `U (F + G)`.
+                        Some(Tok::Times) => {
+                            self.k += 1;
+                            Ok(json!({"times": [w, self.factor()?]}))
+                        }
+                        Some(Tok::Word(_) | Tok::Open) => Ok(json!({"times": [w, self.factor()?]})),
+                        _ => Ok(match w.strip_prefix("id_") {
+                            Some(c) if !c.is_empty() => json!({ "id": c }),
+                            _ => json!(w),
+                        }),
+                    }
+                }
+                _ => Err(self.fail("a map name, id_COMPLEX, a monomial or '('")),
+            }
+        }
+    }
+    let mut p = P { toks, k: 0, line, end_col };
+    let e = p.sum()?;
+    if p.k < p.toks.len() {
+        return Err(p.fail("an operator (+, ∘ or @, ·) or the end of the line"));
+    }
+    Ok(e)
+}
+
+/// The text form of a map expression (the statements' notation), or its JSON when the text
+/// would not read back as the same expression (e.g. a sum of one part, which validation refuses
+/// with its own message).
+fn map_expression_text(e: &Value) -> String {
+    let text = tubecert_format::MapExpr::from_value(e).ok().map(|m| tubecert_format::statement::render_expr(&m));
+    match text {
+        Some(t) if map_expression(&Line { no: 0, text: &t }, 1, &t).as_ref() == Ok(e) => t,
+        _ => e.to_string(),
+    }
 }
 
 fn grading_text(v: &Value) -> String {
@@ -683,7 +839,7 @@ pub fn render(p: &Value) -> Result<String, String> {
             }
             "torsion_order_of_complex" => line += &format!(" {} {}", s("complex"), s("variable")),
             "equivalent" => line += &format!(" {} {}", pair("complexes"), pair("maps")),
-            _ => line += &format!(" {}", b["map"]),
+            _ => line += &format!(" {}", map_expression_text(&b["map"])),
         }
         out.push(line);
     }
@@ -745,6 +901,108 @@ mod tests {
         assert!(e[0].contains("quotient VARIABLE… of CONSTRUCTION"), "{e:?}");
         let explicit = json!({"quotient": [{"generators": {"x": [0, 0]}, "differential": []}, "V"]});
         assert!(construction_text(&explicit).unwrap_err().contains("keep it in JSON"));
+    }
+
+    fn goal_map(line: &str) -> Result<Value, Vec<String>> {
+        let head = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\n";
+        parse(&format!("{head}goal {line}\n"))
+            .map(|v| v["goals"][0].as_object().unwrap().values().next().unwrap()["map"].clone())
+    }
+
+    #[test]
+    fn map_expressions_have_a_text_notation() {
+        assert_eq!(goal_map("null_homotopic F").unwrap(), json!("F"));
+        assert_eq!(goal_map("null_homotopic id_K").unwrap(), json!({"id": "K"}));
+        assert_eq!(goal_map("null_homotopic F + G").unwrap(), json!({"sum": ["F", "G"]}));
+        // Over F2 a difference is a sum.
+        assert_eq!(goal_map("null_homotopic F − G - H").unwrap(), json!({"sum": ["F", "G", "H"]}));
+        assert_eq!(goal_map("not_null_homotopic F∘G").unwrap(), json!({"compose": ["F", "G"]}));
+        assert_eq!(goal_map("not_null_homotopic F @ G @ id_K").unwrap(), json!({"compose": ["F", "G", {"id": "K"}]}));
+        let scaled = json!({"times": ["U^2", {"sum": ["F", "G"]}]});
+        assert_eq!(goal_map("null_homotopic U^2·(F + G)").unwrap(), scaled);
+        assert_eq!(goal_map("null_homotopic U^2 (F + G)").unwrap(), scaled);
+        // A multiple binds tightest, then composition, then sums.
+        assert_eq!(
+            goal_map("null_homotopic U F∘G + id_K").unwrap(),
+            json!({"sum": [{"compose": [{"times": ["U", "F"]}, "G"]}, {"id": "K"}]})
+        );
+        assert_eq!(goal_map("null_homotopic U·V·F").unwrap(), json!({"times": ["U", {"times": ["V", "F"]}]}));
+        assert_eq!(goal_map("null_homotopic U*V F").unwrap(), json!({"times": ["U*V", "F"]}));
+        // `(x)` inside a name spells ⊗ as everywhere in the text format.
+        assert_eq!(goal_map("null_homotopic f(x)g + h").unwrap(), json!({"sum": ["f(x)g", "h"]}));
+        // JSON, as older files wrote it, is still read.
+        assert_eq!(goal_map(r#"null_homotopic {"sum": ["F", "G"]}"#).unwrap(), json!({"sum": ["F", "G"]}));
+        // Errors name the line and the column.
+        assert_eq!(goal_map("null_homotopic (F + G").unwrap_err()[0], "5:21: expected a closing ')', found \"(F + G\"");
+        assert_eq!(
+            goal_map("null_homotopic ((F + G)∘H").unwrap_err()[0],
+            "5:31: expected ')' or an operator (+, ∘, ·), found end of line"
+        );
+        assert_eq!(
+            goal_map("null_homotopic F + + G").unwrap_err()[0],
+            "5:25: expected a map name, id_COMPLEX, a monomial or '(', found \"+\""
+        );
+        assert_eq!(
+            goal_map("null_homotopic F G)").unwrap_err()[0],
+            "5:24: expected an operator (+, ∘ or @, ·) or the end of the line, found \")\""
+        );
+        assert!(goal_map("null_homotopic").unwrap_err()[0].contains("goal null_homotopic EXPRESSION"));
+    }
+
+    #[test]
+    fn map_expressions_print_and_read_back() {
+        let cases = [
+            json!("F"),
+            json!({"id": "K"}),
+            json!({"sum": ["F", "G"]}),
+            json!({"sum": ["F", {"sum": ["G", "H"]}]}),
+            json!({"compose": ["F", "G", "H"]}),
+            json!({"compose": [{"compose": ["F", "G"]}, "H"]}),
+            json!({"compose": [{"times": ["U", "F"]}, "G"]}),
+            json!({"times": ["U^2", {"compose": ["F", "G"]}]}),
+            json!({"times": ["U^2*V", {"sum": ["F", {"id": "K"}]}]}),
+            json!({"times": ["U", {"times": ["V", "F"]}]}),
+            json!({"compose": [{"sum": ["F", "G"]}, {"id": "K"}, {"times": ["U", {"sum": ["x⊗y", "G"]}]}]}),
+        ];
+        for e in cases {
+            let text = map_expression_text(&e);
+            assert!(!text.starts_with(['{', '"']), "{e} printed as JSON: {text}");
+            assert_eq!(goal_map(&format!("null_homotopic {text}")).unwrap(), e, "{text}");
+        }
+        assert_eq!(map_expression_text(&json!({"times": ["U^2", {"sum": ["F", "G"]}]})), "U^2·(F + G)");
+        // What the text cannot say exactly stays JSON, so the file still reads back the same.
+        assert_eq!(map_expression_text(&json!({"sum": ["F"]})), r#"{"sum":["F"]}"#);
+        // A whole problem round-trips with its expression goals in text.
+        let v =
+            parse(&format!("{EXAMPLE}goal null_homotopic U^2·(F + G)\ngoal not_null_homotopic (U·F)∘id_O\n")).unwrap();
+        let text = render(&v).unwrap();
+        assert!(text.contains("goal null_homotopic U^2·(F + G)\ngoal not_null_homotopic (U·F)∘id_O"), "{text}");
+        assert_eq!(parse(&text).unwrap(), v);
+    }
+
+    proptest::proptest! {
+        #[test]
+        fn random_expressions_round_trip(e in expression()) {
+            let text = map_expression_text(&e);
+            proptest::prop_assert!(!text.starts_with('{'), "{} printed as JSON", e);
+            proptest::prop_assert_eq!(goal_map(&format!("null_homotopic {text}")).unwrap(), e);
+        }
+    }
+
+    fn expression() -> impl proptest::strategy::Strategy<Value = Value> {
+        use proptest::prelude::*;
+        let leaf = prop_oneof![
+            prop::sample::select(vec!["F", "G", "h_1", "x⊗y", "f'"]).prop_map(|n| json!(n)),
+            prop::sample::select(vec!["K", "C.x"]).prop_map(|c| json!({ "id": c })),
+        ];
+        leaf.prop_recursive(4, 24, 3, |inner| {
+            prop_oneof![
+                prop::collection::vec(inner.clone(), 2..4).prop_map(|v| json!({ "sum": v })),
+                prop::collection::vec(inner.clone(), 2..4).prop_map(|v| json!({ "compose": v })),
+                (prop::sample::select(vec!["U", "U^2", "V", "U*V^3"]), inner)
+                    .prop_map(|(m, e)| json!({"times": [m, e]})),
+            ]
+        })
     }
 
     #[test]

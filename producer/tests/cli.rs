@@ -39,7 +39,7 @@ fn the_issue_example_reports_order_two() {
     let (code, out, err) = tubecert(&["prove", &p, "-o", &out_path.to_string_lossy()]);
     assert_eq!(code, 0, "{out}{err}");
     assert!(out.contains("ord_U(F − G) = 2"));
-    assert!(out.contains("stay distinct after 1 stabilization"));
+    assert!(out.contains("stay distinct through 1 stabilization;"), "{out}");
     let report = tubecheck::check_bytes("t", &std::fs::read(out_path).unwrap()).unwrap();
     assert!(report.ok());
 }
@@ -200,9 +200,15 @@ fn draw_writes_an_svg_with_every_generator_and_the_highlight() {
     let (code, _, err) = tubecert(&["draw", &cert, "--complex", "K", "--highlight", "1", "-o", &svg.to_string_lossy()]);
     assert_eq!(code, 0, "{err}");
     let text = std::fs::read_to_string(&svg).unwrap();
-    assert_eq!(text.matches("<circle").count(), 21, "T(2,7) ⊗ tower: 7 × 3 generators");
-    assert_eq!(text.matches("#f5a623").count(), 2, "the witness of ord_U touches two generators of K");
-    assert!(text.contains("x6⊗a"));
+    // T(2,7) ⊗ tower: 7 × 3 generators, each named in a label (x_i⊗a and x_i⊗z share a point).
+    for i in 0..7 {
+        for g in ["a", "b", "z"] {
+            assert!(text.contains(&format!("x{i}⊗{g}")), "x{i}⊗{g} is not named");
+        }
+    }
+    assert_eq!(text.matches("2× ").count(), 7, "seven points hold two generators each");
+    assert_eq!(text.matches("font-weight=\"bold\">x").count(), 2, "the witness of ord_U touches two generators of K");
+    assert!(text.contains("orange: generators in the support of the witness of claim 1"));
     // Rendered to PNG by a standard converter where one is installed (CI installs librsvg2-bin).
     if std::process::Command::new("rsvg-convert").arg("--version").output().is_ok() {
         let png = dir().join("k.png");
@@ -223,7 +229,8 @@ fn diff_exit_codes() {
     assert_eq!(tubecert(&["diff", &c("box-uv.cert.json"), &c("box-uv.cert.json")]).0, 0);
     let (code, out, _) = tubecert(&["diff", &c("disk-pair-p1.cert.json"), &c("disk-pair-p2.cert.json")]);
     assert_eq!(code, 1);
-    assert!(out.contains("ord_U(F − G) = [-1-]{+2+}"), "{out}");
+    assert!(out.contains("ord_U(F − G) = ⟦1 ⇒ 2⟧"), "{out}");
+    assert!(out.contains(tubecert::diff::NOTATION), "{out}");
     assert_eq!(tubecert(&["diff", &c("box-uv.cert.json"), "/nonexistent.json"]).0, 2);
 }
 
@@ -445,4 +452,45 @@ fn family_parameters_do_not_overflow() {
     // −p for the most negative p has no 64-bit value.
     assert!(tubecert::family::eval("-p", "p", i64::MIN).is_err());
     assert_eq!(tubecert::family::eval("-p", "p", 5), Ok(-5));
+}
+
+/// The README's goal table: each example is a line of `examples/goals.problem.txt`, which
+/// proves as stated, and is shown by `prove --help`; and the README's table of where the
+/// staircase of T(3,4) sits is what `build` writes.
+#[test]
+fn every_goal_form_is_documented_and_proved() {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let goals = std::fs::read_to_string(root.join("examples/goals.problem.txt")).unwrap();
+    let (_, help, _) = tubecert(&["prove", "--help"]);
+    let examples: Vec<&str> = readme
+        .lines()
+        .filter_map(|l| l.strip_prefix("| `")?.split("` | `").nth(1)?.split('`').next())
+        .filter(|e| e.starts_with("goal "))
+        .collect();
+    let forms = ["torsion_order", "homotopic", "distinct", "null_homotopic", "not_null_homotopic", "equivalent"];
+    for form in forms.iter().chain(&["homology", "tau", "torsion_order_of_complex"]) {
+        assert!(examples.iter().any(|e| e.split(' ').nth(1) == Some(form)), "no README example of {form}");
+    }
+    for e in &examples {
+        assert!(goals.lines().any(|l| l == *e), "README example `{e}` is not in examples/goals.problem.txt");
+        assert!(help.contains(e), "README example `{e}` is not in prove --help");
+    }
+    let out = dir().join("goals.cert.json");
+    let (code, stdout, err) =
+        tubecert(&["prove", &root.join("examples/goals.problem.txt").to_string_lossy(), "-o", &out.to_string_lossy()]);
+    assert_eq!(code, 0, "{stdout}{err}");
+    assert_eq!(stdout.matches('✓').count(), 10, "{stdout}");
+    // The staircase table: | x1 | (−1, −5) | (−1, 2) | (−1, 2) | … as build writes it.
+    let number = |t: &str| t.trim().replace('−', "-");
+    for (ring, column) in [("F2[U,V]", 1), ("F2[U]", 2), ("F2", 3)] {
+        let (code, text, err) =
+            tubecert(&["build", "--ring", ring, "--complex", "T = staircase torus_knot 3 4", "--to", "text"]);
+        assert_eq!(code, 0, "{err}");
+        for i in 0..5 {
+            let row = readme.lines().find(|l| l.starts_with(&format!("| x{i} | ("))).unwrap();
+            let cell = number(row.split('|').nth(column + 1).unwrap());
+            assert!(text.contains(&format!("  x{i} {cell}\n")), "{ring}: x{i} {cell} is not in\n{text}");
+        }
+    }
 }
