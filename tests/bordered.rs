@@ -263,10 +263,13 @@ fn refusals_say_what_is_missing() {
     assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-1, 1, 3"), "{e}");
     let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
     assert!(e.contains("only Q = 1 is reachable"), "{e}");
-    // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified: x1⊗x1 has two
-    // horizontal arrows.
-    let e = run(problem(json!({"K": {"cable": {"companion": {"tensor": [t23, t23]}, "p": 1, "q": 1}}}), json!({})));
-    assert!(e.contains("simultaneously horizontally and vertically simplified") && e.contains("A.11"), "{e}");
+    // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified, but the producer
+    // finds a basis that is (tests/bordered_agreement.rs); for T(3,5) ⊗ mirror T(3,4) its
+    // search finds none, and says so.
+    let (t35, t34) = (json!({"staircase": {"torus_knot": [3, 5]}}), json!({"staircase": {"torus_knot": [3, 4]}}));
+    let src = json!({"tensor": [t35, {"dual": t34}]});
+    let e = run(problem(json!({"K": {"cable": {"companion": src, "p": 1, "q": 1}}}), json!({})));
+    assert!(e.contains("no simultaneously simplified basis was found") && e.contains("A.11"), "{e}");
     // A diagonal arrow (a mixed monomial).
     let diag = json!({"generators": {"a": [0, 0], "b": [-1, -1], "c": [-2, -2]}, "differential": [["b", "U*V", "a"]]});
     let e = run(problem(json!({"K": {"cable": {"companion": diag, "p": 1, "q": 1}}}), json!({})));

@@ -432,3 +432,87 @@ fn complement_grading_rules_agree_on_a_grid() {
     assert!(accepted >= 1, "the unmoved certificate is among the grid");
     assert!(bad.is_empty(), "{}", bad.join("\n"));
 }
+
+/// Tensor products (connected sums) as companions: the producer carries each to a
+/// simultaneously simplified basis, and the certificate shows the new complex and the two
+/// changes of basis (`homotopy_equivalence` over F2[U,V], both homotopies zero). Then `cable 1
+/// Q` equals `quotient V` of the source as written, by homology with gradings, at several
+/// framings; τ is additive (OS 2003) and odd under mirroring, so K # mirror K has τ = 0.
+#[test]
+fn tensor_product_companions_are_carried_to_a_simplified_basis() {
+    let (t23, t25, t34) = (source("T23"), source("T25"), source("T34"));
+    for (what, src, tau) in [
+        ("T23 # T23", json!({"tensor": [t23, t23]}), 2),
+        ("T23 # T25", json!({"tensor": [t23, t25]}), 3),
+        ("T34 # mirror T34", json!({"tensor": [t34, {"dual": t34}]}), 0),
+        ("T23 # mirror T23", json!({"tensor": [t23, {"dual": t23}]}), 0),
+        ("T23 # T23 # T23", json!({"tensor": [{"tensor": [t23, t23]}, t23]}), 3),
+        ("mirror (T23 # T25)", json!({"dual": {"tensor": [t23, t25]}}), -3),
+    ] {
+        for t in framings(tau) {
+            let c = certificate(&pairing_problem(&src, t));
+            assert!(checker_accepts(&c), "{what}, t = {t}: the checker refuses the producer's certificate");
+            oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
+            let body = &c["body"];
+            let claims = body["claims"].as_array().unwrap();
+            let eq = claims.iter().find(|x| x["kind"] == "homotopy_equivalence").expect("a change of basis");
+            let comp = claims.iter().find(|x| x["kind"] == "complement").unwrap();
+            assert_eq!(comp["complex"], json!("N.companion.simplified"), "{what}");
+            assert_eq!(eq["maps"], json!(["N.companion.to_simplified", "N.companion.from_simplified"]), "{what}");
+            assert_eq!(comp["tau"], json!(tau), "{what}");
+            let hx = homology_of(body, "X");
+            assert_eq!(hx, homology_of(body, "K"), "{what}, t = {t}");
+            assert_eq!(hx, homology_of(body, "Q"), "{what}, t = {t}: cable 1 (t+1) against quotient V");
+            assert_eq!(hx, quotient_homology(body, "N.companion", false), "{what}, t = {t}: C/(V) as written");
+            assert_eq!(hx.0, vec![(-2 * tau, -tau)], "{what}, t = {t}");
+        }
+    }
+}
+
+/// A change of basis in a certificate is checked: a term of either map removed, or of the new
+/// complex's differential, and both deciders refuse.
+#[test]
+fn changes_of_basis_are_checked_by_both_deciders() {
+    let t23 = source("T23");
+    let c = certificate(&pairing_problem(&json!({"tensor": [t23, t23]}), 3));
+    for (section, name) in [
+        ("full_maps", "N.companion.to_simplified"),
+        ("full_maps", "N.companion.from_simplified"),
+        ("full_complexes", "N.companion.simplified"),
+    ] {
+        let list = if section == "full_maps" { "terms" } else { "differential" };
+        let n = c["body"]["bordered"][section][name][list].as_array().unwrap().len();
+        for i in 0..n {
+            let mut body = c["body"].clone();
+            body["bordered"][section][name][list].as_array_mut().unwrap().remove(i);
+            let Some(m) = reseal(&c, body) else { continue };
+            assert!(!checker_accepts(&m), "{section} {name}: term {i} removed, the checker accepts");
+            assert!(oracle_accepts(&m["body"]).is_err(), "{section} {name}: term {i} removed, the oracle accepts");
+        }
+    }
+}
+
+/// The demo's bordered workflow (examples/cabled-pair.template.json): cables of an invented
+/// companion and of the unknot, the maps id ⊠ f and id ⊠ f2 between them, and ord_U(F − G) = p
+/// with both witnesses, in one certificate; both deciders accept it and refuse its mutations
+/// alike.
+#[test]
+fn cabled_maps_of_the_demo_carry_their_torsion_order() {
+    let mut certs = Vec::new();
+    for (stem, bytes) in tubecert::demo::cabled_problems() {
+        let p: i64 = stem.trim_start_matches("cabled-pair-p").parse().unwrap();
+        let c = certificate(&serde_json::from_slice(&bytes).unwrap());
+        assert!(checker_accepts(&c), "{stem}");
+        oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{stem}: {e}"));
+        let claims = c["body"]["claims"].as_array().unwrap();
+        let kinds: Vec<&str> = claims.iter().map(|x| x["kind"].as_str().unwrap()).collect();
+        for k in ["box_tensor_map", "type_d_morphism", "torsion_order", "null_homotopic", "not_null_homotopic"] {
+            assert!(kinds.contains(&k), "{stem}: no {k} claim in {kinds:?}");
+        }
+        let ord = claims.iter().find(|x| x["kind"] == "torsion_order").unwrap();
+        assert_eq!(ord["order"], json!(p), "{stem}");
+        certs.push((stem, c));
+    }
+    let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0xCAB1E);
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}

@@ -1459,7 +1459,11 @@ pub mod cert {
     pub fn read_bordered(body: &Value, version: u32) -> R<Option<Bordered>> {
         let Some(b) = body.get("bordered") else { return Ok(None) };
         let what = "bordered";
-        only(b, &["full_ring", "full_complexes", "type_a_modules", "type_d_morphisms", "type_d_structures"], what)?;
+        only(
+            b,
+            &["full_ring", "full_complexes", "full_maps", "type_a_modules", "type_d_morphisms", "type_d_structures"],
+            what,
+        )?;
         let ring: Value = serde_json::from_str(FULL_RING).unwrap();
         if member(b, "full_ring", what)? != &ring {
             return Err("bordered.full_ring is not F2[U,V] with (gr_U, gr_V)".into());
@@ -1521,6 +1525,17 @@ pub mod cert {
                 .all(|(_, cf, _)| coefficient(cf, &["U", "V"]).is_ok_and(|m| m.len() == 1));
             out.full_single.insert(k.clone(), single);
             out.full.insert(k.clone(), uv);
+        }
+        // Maps between full complexes (checked as chain maps by the oracle of tests/lib.rs): their
+        // names share the namespace, and none is named like a map of the body or `id_…`.
+        if let Some(m) = b.get("full_maps") {
+            let body_maps = obj(member(body, "maps", "body")?, "maps")?;
+            for k in obj(m, "full_maps")?.keys() {
+                if k.starts_with("id_") || body_maps.contains_key(k) {
+                    return Err(format!("the full map name {k} is id_… or a map of the body"));
+                }
+                fresh(k)?;
+            }
         }
         for (k, s) in obj(member(b, "type_d_structures", what)?, what)? {
             fresh(k)?;

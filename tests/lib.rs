@@ -624,25 +624,10 @@ pub mod oracle {
         }
     }
 
-    /// Does every implicit check and every claim of the body hold (the format version written)?
-    pub fn holds(body: &Body) -> bool {
-        holds_in(body, tubecert_format::CERTIFICATE_VERSION)
-    }
-
-    /// Does every implicit check and every claim of a body of format `version` hold?
-    pub fn holds_in(body: &Body, version: u32) -> bool {
-        // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
-        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap(), version).is_err() {
-            return false;
-        }
-        // Numbers first, read by the oracle's own reader in the body's ring.
-        let _ring = super::numbers::in_ring(&body.ring.variables);
-        if !super::numbers::readable(body) || !crate::wording::names_legal(body) {
-            return false;
-        }
-        let vars = &body.ring.variables;
-        let var_deg: Vec<Vec<i64>> = vars.iter().map(|v| body.ring.variable_degrees[v].clone()).collect();
-        let w = World { body, var_deg, delta: body.ring.differential_degree.clone() };
+    /// ∂∂ = 0 and homogeneity of every complex of the world's body; every map homogeneous
+    /// between declared complexes and a chain map.
+    fn objects_hold(w: &World) -> bool {
+        let body = w.body;
         for (name, c) in body.complexes.iter() {
             if !w.homogeneous(&c.differential, name, name, &w.delta) {
                 return false;
@@ -668,11 +653,73 @@ pub mod oracle {
                 return false;
             }
         }
+        true
+    }
+
+    /// Does every implicit check and every claim of the body hold (the format version written)?
+    pub fn holds(body: &Body) -> bool {
+        holds_in(body, tubecert_format::CERTIFICATE_VERSION)
+    }
+
+    /// Does every implicit check and every claim of a body of format `version` hold?
+    pub fn holds_in(body: &Body, version: u32) -> bool {
+        // Bordered objects (full complexes, structures, modules, morphisms) have implicit checks.
+        if crate::bordered_oracle::cert::read_bordered(&serde_json::to_value(body).unwrap(), version).is_err() {
+            return false;
+        }
+        // Numbers first, read by the oracle's own reader in the body's ring.
+        let _ring = super::numbers::in_ring(&body.ring.variables);
+        if !super::numbers::readable(body) || !crate::wording::names_legal(body) {
+            return false;
+        }
+        let vars = &body.ring.variables;
+        let var_deg: Vec<Vec<i64>> = vars.iter().map(|v| body.ring.variable_degrees[v].clone()).collect();
+        let w = World { body, var_deg, delta: body.ring.differential_degree.clone() };
+        if !objects_hold(&w) {
+            return false;
+        }
+        // The full complexes and the maps between them (changes of basis), over F2[U,V].
+        let full_body = body.bordered.as_ref().map(|b| Body {
+            bordered: None,
+            ring: b.full_ring.clone(),
+            complexes: b.full_complexes.clone(),
+            maps: b.full_maps.clone(),
+            claims: Vec::new(),
+            provenance: body.provenance.clone(),
+        });
+        let full = full_body.as_ref().map(|fb| World {
+            body: fb,
+            var_deg: vec![vec![-2, 0], vec![0, -2]],
+            delta: vec![-1, -1],
+        });
+        if full.as_ref().is_some_and(|f| !objects_hold(f)) {
+            return false;
+        }
         body.claims.iter().all(|claim| {
             if crate::wording::statement(claim, &body.ring, version).as_deref() != Some(claim.statement()) {
                 return false;
             }
             match claim {
+                Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
+                    // Over F2[U,V] when the maps are full maps, else over the body's ring.
+                    let w = match &full {
+                        Some(fw) if fw.body.maps.contains_key(f) => fw,
+                        _ => &w,
+                    };
+                    let (Some(fm), Some(gm)) = (w.body.maps.get(f), w.body.maps.get(g)) else { return false };
+                    let opposite = fm.degree.iter().zip(&gm.degree).all(|(a, b)| a + b == 0);
+                    let round = |a: &str, b: &str, on: &str| {
+                        MapExpr::Sum(vec![
+                            MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]),
+                            MapExpr::Id(on.into()),
+                        ])
+                    };
+                    fm.to == gm.from
+                        && gm.to == fm.from
+                        && opposite
+                        && w.null_homotopic(&round(f, g, &fm.from), &witness.source_homotopy)
+                        && w.null_homotopic(&round(g, f, &fm.to), &witness.target_homotopy)
+                }
                 Claim::NullHomotopic { map, witness, .. } => w.null_homotopic(map, &witness.homotopy),
                 Claim::NotNullHomotopic { map, witness, .. } => w.not_null(map, &witness.dual),
                 Claim::TorsionOrder { maps: [f, g], variable, order, witness, .. } => {

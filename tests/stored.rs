@@ -44,6 +44,10 @@ fn demo_problems_are_the_stored_ones() {
         let path = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join(format!("../certificates/{stem}.problem.json"));
         assert_eq!(tubecert::demo::problem_bytes(&p), std::fs::read(&path).unwrap(), "{stem}");
     }
+    for (stem, bytes) in tubecert::demo::cabled_problems() {
+        let path = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join(format!("../certificates/{stem}.problem.json"));
+        assert_eq!(bytes, std::fs::read(&path).unwrap(), "{stem}");
+    }
 }
 
 #[test]

@@ -372,7 +372,7 @@ impl Objects {
         if b.full_ring != full_ring() {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
         }
-        let full = crate::load::load(&b.full_ring, &b.full_complexes, &UniqueMap::default())?;
+        let full = crate::load::load(&b.full_ring, &b.full_complexes, &b.full_maps)?;
         let structures: Result<BTreeMap<String, TypeD>, String> =
             b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?))).collect();
         let modules: Result<BTreeMap<String, TypeA>, String> =

@@ -6,7 +6,14 @@
 //! - `box-uv`: over `F2[U,V]`, a square ∂a = U^2·b + V·c, ∂b = V·d, ∂c = U^2·d beside a free
 //!   generator, with ord_U = 2 and ord_V = 1 for a pair of maps;
 //! - `ext-class`: over `F2[U]`, two maps that agree on homology but are not homotopic (the
-//!   difference lives in Ext, so only the dual witness can tell them apart).
+//!   difference lives in Ext, so only the dual witness can tell them apart);
+//! - `cabled-pair-p{1..4}` (from `examples/cabled-pair.template.json`): the whole bordered
+//!   workflow. An invented companion C over `F2[U,V]` (a point z beside a square of side p:
+//!   a → U^p·b + V^p·c, b → V^p·d, c → U^p·d) and the unknot; their complements at framing −1
+//!   (LOT Thm 11.26); their cables `cable 1 0` (the core pattern ⊠ the complement); two type D
+//!   morphisms f, f2 from the unknot's complement to C's (f2 differs from f by o ↦ d and
+//!   γ1 ↦ ρ23·κp); the maps id ⊠ f and id ⊠ f2 between the cables; and ord_U(F − G) = p with
+//!   its two witnesses and the surfaces reading.
 
 use crate::problem::{Goal, Problem, PROBLEM_FORMAT};
 use std::path::Path;
@@ -140,6 +147,23 @@ pub fn demo_problems() -> Vec<(String, Problem)> {
     out
 }
 
+/// The bordered workflow's template (see the module documentation).
+pub const CABLED_PAIR_TEMPLATE: &str = include_str!("../../examples/cabled-pair.template.json");
+
+/// The written problems of the bordered workflow, p = 1 … 4: (file stem, problem file bytes).
+/// They are kept as written (with their bordered sections), not as typed problems.
+pub fn cabled_problems() -> Vec<(String, Vec<u8>)> {
+    let template: serde_json::Value = serde_json::from_str(CABLED_PAIR_TEMPLATE).expect("the template is JSON");
+    (1..=4)
+        .map(|p| {
+            let v = crate::family::instantiate(&template, "p", p).expect("the template instantiates");
+            let mut b = serde_json::to_vec_pretty(&v).expect("JSON serializes");
+            b.push(b'\n');
+            (format!("cabled-pair-p{p}"), b)
+        })
+        .collect()
+}
+
 /// Pretty JSON for a problem file (deterministic: maps are ordered).
 pub fn problem_bytes(p: &Problem) -> Vec<u8> {
     let mut b = serde_json::to_vec_pretty(p).expect("problems serialize");
@@ -151,10 +175,15 @@ pub fn problem_bytes(p: &Problem) -> Vec<u8> {
 pub fn write_demo(dir: &Path) -> Result<Vec<String>, String> {
     std::fs::create_dir_all(dir).map_err(|e| format!("{}: {e}", dir.display()))?;
     let mut lines = Vec::new();
-    for (stem, p) in demo_problems() {
-        let bytes = problem_bytes(&p);
+    let typed = demo_problems().into_iter().map(|(stem, p)| (stem, problem_bytes(&p), Some(p)));
+    let written = cabled_problems().into_iter().map(|(stem, b)| (stem, b, None));
+    for (stem, bytes, p) in typed.chain(written) {
         let ppath = dir.join(format!("{stem}.problem.json"));
         std::fs::write(&ppath, &bytes).map_err(|e| format!("{}: {e}", ppath.display()))?;
+        let p = match p {
+            Some(p) => p,
+            None => crate::problem::parse_problem(&bytes, &stem).map_err(|e| format!("{stem}: {}", e.join("; ")))?,
+        };
         let ctx = crate::validate::validate(&p).map_err(|e| format!("{stem}: {}", e.join("; ")))?;
         let proved = crate::prove::prove(p, &ctx, &bytes)?;
         if !proved.all_as_stated {

@@ -2,7 +2,7 @@
 //! products, and the serde model of type D structures, type A modules and type D morphisms
 //! (certificate format version 2; layout in DEVELOPERS.md, "Bordered objects: layout").
 
-use crate::model::{ComplexSpec, Grading, Ring, Term, UniqueMap};
+use crate::model::{ComplexSpec, Grading, MapSpec, Ring, Term, UniqueMap};
 use serde::{Deserialize, Serialize};
 
 /// An element of A(T²) in a term: the idempotent of the context (`"1"`), or the Reeb element
@@ -59,7 +59,7 @@ impl Alg {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct DGenerator {
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub grading: Option<Grading>,
     pub idempotent: u8,
 }
@@ -71,7 +71,7 @@ pub struct TypeDSpec {
     pub differential: Vec<Term>,
     pub generators: UniqueMap<DGenerator>,
     /// Version 3: the grading of the generator of the periodic domains (P_D = its powers).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub period: Option<Grading>,
 }
 
@@ -103,7 +103,7 @@ pub struct TypeASpec {
     pub generators: UniqueMap<AGenerator>,
     pub operations: Vec<Family>,
     /// Version 3: the grading of the generator of the periodic domains (P_A = its powers).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default, skip_serializing_if = "Option::is_none", deserialize_with = "crate::model::present")]
     pub period: Option<Grading>,
 }
 
@@ -121,10 +121,17 @@ pub struct MorphismSpec {
 #[serde(deny_unknown_fields)]
 pub struct Bordered {
     pub full_complexes: UniqueMap<ComplexSpec>,
+    /// Maps between full complexes (a change of basis and its inverse), absent when empty.
+    #[serde(default, skip_serializing_if = "no_maps")]
+    pub full_maps: UniqueMap<MapSpec>,
     pub full_ring: Ring,
     pub type_a_modules: UniqueMap<TypeASpec>,
     pub type_d_morphisms: UniqueMap<MorphismSpec>,
     pub type_d_structures: UniqueMap<TypeDSpec>,
+}
+
+fn no_maps(m: &UniqueMap<MapSpec>) -> bool {
+    m.is_empty()
 }
 
 /// `F2[U,V]` with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1).

@@ -224,7 +224,7 @@ impl<'de> Deserialize<'de> for UniqueKeys {
 /// An optional field that, when written, holds a value: `null` is refused, as in the JSON
 /// Schema (RFC 8785 would hash `"dual": null`, unlike an absent field, so reading it as absent
 /// would make the hash differ from the file's).
-fn present<'de, D: Deserializer<'de>, T: Deserialize<'de>>(d: D) -> Result<Option<T>, D::Error> {
+pub(crate) fn present<'de, D: Deserializer<'de>, T: Deserialize<'de>>(d: D) -> Result<Option<T>, D::Error> {
     T::deserialize(d).map(Some)
 }
 
@@ -441,8 +441,8 @@ pub struct Provenance {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
-    /// Version 2 only: complexes over `F2[U,V]` and the bordered objects.
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    /// Version 2 only: complexes over `F2[U,V]` and the bordered objects (`null` is refused).
+    #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
     pub bordered: Option<crate::bordered::Bordered>,
     pub ring: Ring,
     pub complexes: UniqueMap<ComplexSpec>,

@@ -5,6 +5,7 @@
 //! records the claims that go with them.
 
 pub mod diagram;
+pub mod simplify;
 
 use serde_json::Value;
 use std::cell::Cell;
@@ -12,7 +13,7 @@ use std::collections::BTreeMap;
 use tubecert_format::bordered::{
     full_ring, is_minus_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
 };
-use tubecert_format::{Claim, ComplexSpec, Grading, MapSpec, Ring, UniqueMap};
+use tubecert_format::{Claim, ComplexSpec, EquivalenceWitness, Grading, MapSpec, Ring, UniqueMap};
 use tubecheck::bordered::{self as checked, Budget, Failure};
 
 /// Work allowed for one construction (the checker's budget is proportional to the file).
@@ -22,6 +23,8 @@ const BUDGET: u64 = 1 << 32;
 #[derive(Default, Debug, Clone)]
 pub struct Built {
     pub full: BTreeMap<String, ComplexSpec>,
+    /// Maps between full complexes: a change of basis and its inverse.
+    pub full_maps: BTreeMap<String, MapSpec>,
     pub structures: BTreeMap<String, TypeDSpec>,
     pub modules: BTreeMap<String, TypeASpec>,
     pub morphisms: BTreeMap<String, MorphismSpec>,
@@ -51,6 +54,7 @@ impl Built {
         claims.append(&mut self.claims);
         let section = Bordered {
             full_complexes: UniqueMap(self.full),
+            full_maps: UniqueMap(self.full_maps),
             full_ring: full_ring(),
             type_a_modules: UniqueMap(self.modules),
             type_d_morphisms: UniqueMap(self.morphisms),
@@ -314,7 +318,12 @@ fn complement_entry(name: &str, arg: &Value, defs: &BTreeMap<String, Value>, out
 }
 
 /// Builds the complement of an inline source with framing t under `name`, the source under
-/// `cname`; returns τ.
+/// `cname`; returns τ. A source whose basis as written is not simultaneously horizontally and
+/// vertically simplified is carried to one that is when the search finds it: the new complex
+/// `cname.simplified` (same generator names, each now standing for a combination), the changes
+/// of basis `cname.to_simplified` and `cname.from_simplified` with their `homotopy_equivalence`
+/// claim (mutually inverse: both homotopies are zero), and the complement is that of the new
+/// complex.
 fn add_complement(
     name: &str,
     cname: &str,
@@ -325,16 +334,34 @@ fn add_complement(
 ) -> Result<i64, String> {
     let c = inline_source(&full_ring(), src, defs, 0).map_err(|e| format!("source: {e}"))?;
     let cname = cname.to_string();
-    let (d, tau) = complement_of(&cname, &c, t)?;
-    out.full.insert(cname.clone(), c);
+    let n = c.generators.len();
+    let limit = 10_000 + 8 * n.saturating_mul(n);
+    let s = simplify::simplify(&c, limit).map_err(|why| {
+        format!("complex {cname}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)")
+    })?;
+    let complex = if s.changes == 0 {
+        cname.clone()
+    } else {
+        let (sname, f, g) =
+            (format!("{cname}.simplified"), format!("{cname}.to_simplified"), format!("{cname}.from_simplified"));
+        let to = |mut m: MapSpec, from: &str, to: &str| {
+            (m.from, m.to) = (from.to_string(), to.to_string());
+            m
+        };
+        out.full_maps.insert(f.clone(), to(s.forward, &cname, &sname));
+        out.full_maps.insert(g.clone(), to(s.backward, &sname, &cname));
+        out.full.insert(sname.clone(), s.complex);
+        out.claims.push(Claim::HomotopyEquivalence {
+            maps: [f, g],
+            statement: String::new(),
+            witness: EquivalenceWitness { source_homotopy: Vec::new(), target_homotopy: Vec::new() },
+        });
+        sname
+    };
+    out.full.insert(cname, c);
+    let (d, tau) = complement_of(&complex, &out.full[&complex], t)?;
     out.structures.insert(name.to_string(), d);
-    out.claims.push(Claim::Complement {
-        complex: cname,
-        framing: t,
-        statement: String::new(),
-        structure: name.into(),
-        tau,
-    });
+    out.claims.push(Claim::Complement { complex, framing: t, statement: String::new(), structure: name.into(), tau });
     Ok(tau)
 }
 
@@ -416,10 +443,18 @@ pub fn box_tensor_map_entry(
     let mor = out.morphisms.get(&f).ok_or(format!("type D morphism \"{f}\" is not declared"))?;
     let get = |s: &str| out.structures.get(s).ok_or(format!("type D structure \"{s}\" is not declared"));
     let (n, n2) = (get(&mor.from)?, get(&mor.to)?);
+    // M ⊠ s: a complex declared {"box_tensor": [M, s]}, or a cable K whose complement is s
+    // (`K.complement`) and whose pattern module is M's (the same module, under K's name).
     let find = |s: &str| -> Result<(&str, &ComplexSpec), String> {
         let want = serde_json::json!({"box_tensor": [m, s]});
-        let (k, _) =
-            defs.iter().find(|(_, v)| **v == want).ok_or(format!("box_tensor_map: declare a complex {want} first"))?;
+        let cable = |k: &str, v: &Value| {
+            v.get("cable").is_some()
+                && s == format!("{k}.complement")
+                && out.modules.get(&format!("{k}.pattern")).is_some_and(|p| p == module)
+        };
+        let (k, _) = defs.iter().find(|(k, v)| **v == want || cable(k, v)).ok_or(format!(
+            "box_tensor_map: declare a complex {want} first, or a cable whose complement is {s} and whose pattern is {m}"
+        ))?;
         Ok((k.as_str(), built.get(k).ok_or(format!("complex {k} was not built"))?))
     };
     let (map, longest) = box_tensor_map(module, mor, n, n2, find(&mor.from)?, find(&mor.to)?)?;
