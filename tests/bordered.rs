@@ -379,8 +379,10 @@ fn refusals_say_what_is_missing() {
         tubecert::problem::parse_problem(&bytes, "p").unwrap_err().join("\n")
     };
     let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+    let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 4}}}), json!({})));
+    assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-1, 1, 3"), "{e}");
     let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 3}}}), json!({})));
-    assert!(e.contains("only p = 1"), "{e}");
+    assert!(e.contains("only Q = 1 is reachable"), "{e}");
     // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified, but the producer
     // finds a basis that is (tests/bordered_agreement.rs); for T(3,5) ⊗ mirror T(3,4) its
     // search finds none, and says so.

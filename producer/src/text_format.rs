@@ -431,7 +431,7 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
             }
             _ => return Err(line.err(c(1), "cable P Q of CONSTRUCTION", w(1))),
         },
-        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase … | cable 1 Q of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
+        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase … | cable P Q of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
     })
 }
 

@@ -1,9 +1,10 @@
 //! Bordered constructions: the core pattern module, type D structures of knot complements
-//! (LOT Thm 11.26), box tensor products M ⊠ N and maps id_M ⊠ f, and `cable 1 Q`. The
+//! (LOT Thm 11.26), box tensor products M ⊠ N and maps id_M ⊠ f, and `cable P Q`. The
 //! arithmetic is the checker's own (`tubecheck::bordered`), so what is built here is exactly
 //! what the checker recomputes; this module only resolves names, renders explicit objects and
 //! records the claims that go with them.
 
+pub mod diagram;
 pub mod simplify;
 
 use serde_json::Value;
@@ -89,14 +90,28 @@ pub fn core_module() -> TypeASpec {
     }
 }
 
-/// The module of the (p, 1) cable pattern; p = 1 only, for now.
+/// The module of the (p, 1) cable pattern: p = 1 the core (`core_module`), p ≥ 2 computed from
+/// its genus-one diagram (`diagram::cable_module`).
 pub fn cable_pattern(p: i64) -> Result<TypeASpec, String> {
-    if p != 1 {
-        return Err(format!(
-            "the (p,1) cable pattern with p = {p} is not available: only p = 1 (the core of the solid torus, whose pairing gives back the companion's own minus complex, for every q) is reachable so far"
-        ));
+    match p {
+        1 => Ok(core_module()),
+        2..=12 => Ok(diagram::cable_module(p as usize)?.module),
+        _ => Err(format!("the (p, 1) cable pattern is built for 1 ≤ p ≤ 12, not p = {p}")),
     }
-    Ok(core_module())
+}
+
+/// `{"beta": ["E1", "S1", …], "w": [SIDE, K]}`: the module of a genus-one doubly pointed
+/// bordered diagram (layout in `diagram`).
+fn diagram_module(v: &Value) -> Result<TypeASpec, String> {
+    let usage = "diagram takes {\"beta\": [crossings such as \"E1\", \"S1\", \"N2\"], \"w\": [\"top\" | \"bottom\" | \"left\" | \"right\", interval]}";
+    let o = v.as_object().filter(|o| o.len() == 2).ok_or(usage)?;
+    let beta: Vec<String> = o.get("beta").and_then(|b| serde_json::from_value(b.clone()).ok()).ok_or(usage)?;
+    let w: (String, usize) = o.get("w").and_then(|b| serde_json::from_value(b.clone()).ok()).ok_or(usage)?;
+    let d = diagram::Diagram::read(&diagram::DiagramSpec { beta, w }).map_err(|e| format!("diagram: {e}"))?;
+    // Enumerate to twice the number of crossings and six more: the families of the diagrams
+    // tried have fixed parts of at most that length.
+    let len = 2 * d.crossings() + 6;
+    Ok(diagram::module(&d, len).map_err(|e| format!("diagram: {e}"))?.module)
 }
 
 /// A source complex over `ring` written inline: explicit, `staircase`, or `tensor` / `dual` /
@@ -268,14 +283,15 @@ pub fn resolve_sections(
         }
     }
     for (name, v) in modules {
-        let r = match v.get("cable_pattern") {
-            Some(arg) => arg
+        let r = match (v.get("cable_pattern"), v.get("diagram")) {
+            (Some(arg), _) => arg
                 .get("p")
                 .and_then(Value::as_i64)
-                .ok_or("cable_pattern takes {\"p\": 1}".to_string())
+                .ok_or("cable_pattern takes {\"p\": P}, P ≥ 1".to_string())
                 .and_then(cable_pattern),
-            None => serde_json::from_value::<TypeASpec>(v.clone()).map_err(|e| {
-                format!("expected {{generators, operations}} or {{\"cable_pattern\": {{\"p\": 1}}}}: {e}")
+            (None, Some(arg)) => diagram_module(arg),
+            (None, None) => serde_json::from_value::<TypeASpec>(v.clone()).map_err(|e| {
+                format!("expected {{generators, operations, period}}, {{\"cable_pattern\": {{\"p\": P}}}} or {{\"diagram\": …}}: {e}")
             }),
         };
         match r {
@@ -374,9 +390,10 @@ fn note_longest(out: &mut Built, m: &str, len: usize) {
     *e = (*e).max(len);
 }
 
-/// `{"cable": {"companion": SOURCE, "p": 1, "q": Q}}`: the core pattern ⊠ the complement of
-/// SOURCE with framing t = q − 1 (the (p, 1) pattern with framing t gives the (p, pt + 1) cable,
-/// memory), stored as `K.pattern`, `K.complement`, `K.companion`.
+/// `{"cable": {"companion": SOURCE, "p": P, "q": Q}}`: the (P, 1) pattern ⊠ the complement of
+/// SOURCE with framing t = (Q − 1)/P (the (p, 1) pattern with framing t gives the (p, pt + 1)
+/// cable, memory; the tests check it against torus knots and L-space cables), stored as
+/// `K.pattern`, `K.complement`, `K.companion`; Q ≢ 1 mod P is refused.
 pub fn cable(
     name: &str,
     arg: &Value,
@@ -393,8 +410,26 @@ pub fn cable(
     if arg.as_object().is_some_and(|o| o.len() != 3) {
         return Err("cable takes exactly {\"companion\", \"p\", \"q\"}".into());
     }
-    let pattern = cable_pattern(p).map_err(|e| format!("cable {p} {q}: {e}"))?;
+    if p < 1 {
+        return Err(format!("cable {p} {q}: P must be at least 1"));
+    }
+    // The (p, 1) pattern with framing t of the complement gives the (p, pt + 1) cable.
     let t = q.checked_sub(1).ok_or("cable: q out of range")?;
+    if t % p != 0 {
+        return Err(format!(
+            "cable {p} {q}: only the (P, PN + 1) cables are reachable (the (P, 1) pattern with framing N), so Q must be ≡ 1 mod P: for P = {p}, Q = …, {}, {}, {}, …",
+            1 - p,
+            1,
+            1 + p
+        ));
+    }
+    let t = t / p;
+    if p > 1 && t != 0 {
+        return Err(format!(
+            "cable {p} {q}: for P ≥ 2 only Q = 1 is reachable so far (the (P, 1) pattern at framing 0): the absolute gradings of the pattern module's pairing at other framings are not yet established; reachable are (1, Q) for every Q and (P, 1) for every P ≥ 1"
+        ));
+    }
+    let pattern = cable_pattern(p).map_err(|e| format!("cable {p} {q}: {e}"))?;
     let (mn, nn) = (format!("{name}.pattern"), format!("{name}.complement"));
     add_complement(&nn, &format!("{name}.companion"), src, t, defs, out)?;
     out.modules.insert(mn.clone(), pattern);

@@ -1,0 +1,234 @@
+//! Pattern modules from genus-one diagrams (producer: `tubecert::bordered::diagram`), re-checked
+//! by the independent oracle of `bordered_oracle` (its own A∞ arithmetic, no checker code), and
+//! the cables they give.
+
+use tubecert_tests::bordered_oracle::{torus, Family, FamilyModule};
+
+/// The oracle's reading of a module computed by the producer (gradings are not used here).
+fn oracle_module(p: usize) -> FamilyModule {
+    let spec = tubecert::bordered::diagram::cable_module(p).unwrap().module;
+    let mut m = FamilyModule::default();
+    for (g, gen) in spec.generators.iter() {
+        m.idem.insert(g.clone(), gen.idempotent);
+        m.gr.insert(g.clone(), (0, 0));
+    }
+    let word = |w: &[String]| -> Vec<torus::Alg> { w.iter().map(|a| torus::parse_reeb(a).unwrap()).collect() };
+    for f in &spec.operations {
+        m.families.push(Family {
+            from: f.from.clone(),
+            prefix: word(&f.prefix),
+            repeat: word(&f.repeat),
+            suffix: word(&f.suffix),
+            a: f.power[0],
+            b: f.power[1],
+            to: f.to.clone(),
+        });
+    }
+    m
+}
+
+// The A∞ relations of a right type A module over A(T²) (LOT = Lipshitz–Ozsváth–Thurston,
+// Bordered Heegaard Floer homology, Mem. AMS 2018, §2.1) for the (p, 1) cable patterns,
+// p = 1 … 5: every composable word up to length 7 by brute force and every candidate word up
+// to length 20 (the oracle's own enumeration).
+#[test]
+fn cable_pattern_modules_satisfy_the_a_infinity_relations_by_the_oracle() {
+    for p in 1..=5 {
+        let m = oracle_module(p);
+        m.check_idempotents().unwrap();
+        m.check_ainf_up_to(20).unwrap_or_else(|e| panic!("p = {p}: {e}"));
+    }
+}
+
+// Mutations the oracle must see: a family moved to another target or given one more U.
+#[test]
+fn the_oracle_rejects_mutated_pattern_modules() {
+    let m = oracle_module(3);
+    for k in 0..m.families.len() {
+        let mut bad = m.clone();
+        bad.families[k].b += 1;
+        assert!(bad.check_ainf_up_to(12).is_err(), "family {k} with one more U passes");
+    }
+}
+
+mod cables {
+    use serde_json::{json, Value};
+    use std::collections::BTreeMap;
+    use tubecert_format::{Body, Claim};
+    use tubecert_tests::{minus_ring, prove_value, seal};
+
+    /// A Laurent polynomial in t: exponent → coefficient.
+    type Poly = BTreeMap<i64, i64>;
+
+    fn mul(a: &Poly, b: &Poly) -> Poly {
+        let mut out = Poly::new();
+        for (i, x) in a {
+            for (j, y) in b {
+                *out.entry(i + j).or_default() += x * y;
+            }
+        }
+        out.retain(|_, c| *c != 0);
+        out
+    }
+
+    /// Δ of the torus knot T(p, q), symmetrized: t^{−(p−1)(|q|−1)/2}(t^{p|q|} − 1)(t − 1) /
+    /// ((t^p − 1)(t^{|q|} − 1)) (the conventions sheet); 1 for |q| = 1.
+    fn torus_alexander(p: i64, q: i64) -> Poly {
+        let q = q.abs();
+        // Coefficients of (t^{pq} − 1)(t − 1), then exact division by t^p − 1 and t^q − 1.
+        let mut num = vec![0i64; (p * q + 2) as usize];
+        num[0] += 1;
+        num[1] -= 1;
+        num[(p * q) as usize] -= 1;
+        num[(p * q + 1) as usize] += 1;
+        for d in [p, q] {
+            // Divide by t^d − 1: c_k = −(n_k) + c_{k−d} … from the bottom: n = c·(t^d − 1).
+            let d = d as usize;
+            let mut c = vec![0i64; num.len() - d];
+            for k in 0..c.len() {
+                c[k] = -num[k] + if k >= d { c[k - d] } else { 0 };
+            }
+            num = c;
+        }
+        let shift = (p - 1) * (q - 1) / 2;
+        num.iter().enumerate().filter(|(_, c)| **c != 0).map(|(k, c)| (k as i64 - shift, *c)).collect()
+    }
+
+    fn substitute_power(a: &Poly, p: i64) -> Poly {
+        a.iter().map(|(k, c)| (k * p, *c)).collect()
+    }
+
+    /// The certificate body of `cable p q of SOURCE` with a τ goal, all claims checked.
+    fn cable(src: &Value, p: i64, q: i64) -> Body {
+        let problem = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(),
+            "complexes": {"K": {"cable": {"companion": src, "p": p, "q": q}}},
+            "goals": [{"tau": {"complex": "K"}}, {"homology": {"complex": "K"}}]});
+        let body = prove_value(&problem).certificate.body;
+        let r = tubecheck::check_bytes("test", &seal(body.clone())).unwrap();
+        for c in r.claims {
+            assert!(c.outcome.is_ok(), "cable {p} {q}: {} fails: {:?}", c.kind, c.outcome);
+        }
+        body
+    }
+
+    fn tau_of(b: &Body) -> i64 {
+        b.claims.iter().find_map(|c| if let Claim::Tau { tau, .. } = c { Some(*tau) } else { None }).unwrap()
+    }
+
+    /// Σ (−1)^M t^A over the generators of the cable's complex: the graded Euler characteristic
+    /// of its hat homology.
+    fn euler(b: &Body) -> Poly {
+        let mut out = Poly::new();
+        for g in b.complexes["K"].generators.values() {
+            *out.entry(g[1]).or_default() += if g[0].rem_euclid(2) == 0 { 1 } else { -1 };
+        }
+        out.retain(|_, c| *c != 0);
+        out
+    }
+
+    /// (name, source, τ, ε, Δ) of the companions: the unknot (ε = 0), T(2,3) and T(3,4)
+    /// (L-space knots with τ > 0, ε = 1), the mirror of T(2,3) (ε = −1).
+    fn companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
+        let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
+        vec![
+            ("unknot", json!({"staircase": {"alexander": [0]}}), 0, 0, torus_alexander(2, 1)),
+            ("T(2,3)", t23.clone(), 1, 1, torus_alexander(2, 3)),
+            ("mirror T(2,3)", json!({"dual": t23}), -1, -1, torus_alexander(2, 3)),
+            ("T(3,4)", json!({"staircase": {"torus_knot": [3, 4]}}), 3, 1, torus_alexander(3, 4)),
+        ]
+    }
+
+    // τ of cables, Hom 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable
+    // knots", J. Topology): ε(K) = 1: τ(K_{p,q}) = pτ(K) + (p−1)(q−1)/2; ε(K) = −1:
+    // pτ(K) + (p−1)(q+1)/2; ε(K) = 0: τ(T(p,q)) (τ(T(p,q)) = (p−1)(q−1)/2 for q > 0,
+    // Ozsváth–Szabó 2003, and τ(mirror) = −τ). And the graded Euler characteristic of the
+    // cable's hat homology is Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula for satellites), which
+    // tests every generator's (Maslov, Alexander) grading read from the double coset.
+    #[test]
+    fn tau_and_alexander_polynomials_of_cables() {
+        for (name, src, tau, eps, delta) in companions() {
+            // Q = 1 only: the reachable cables for P ≥ 2 (see `cable`).
+            for p in 2..=4i64 {
+                {
+                    let q = 1i64;
+                    let b = cable(&src, p, q);
+                    let want = match eps {
+                        1 => p * tau + (p - 1) * (q - 1) / 2,
+                        -1 => p * tau + (p - 1) * (q + 1) / 2,
+                        _ if q > 0 => (p - 1) * (q - 1) / 2,
+                        _ => (p - 1) * (q + 1) / 2,
+                    };
+                    assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
+                    let seifert = mul(&substitute_power(&delta, p), &torus_alexander(p, q));
+                    assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
+                }
+            }
+        }
+    }
+
+    /// The raw pairing (P, 1) pattern ⊠ complement at framing n (the (p, pn + 1) cable) by the
+    /// producer's library: its hat rank (U = 0) over F2, and its rank over F2[U, U⁻¹] (towers).
+    fn raw_ranks(src: &Value, p: usize, n: i64) -> (usize, usize) {
+        use tubecert::bordered as b;
+        let full = tubecert_format::bordered::full_ring();
+        let c = b::inline_source(&full, src, &Default::default(), 0).unwrap();
+        let (d, _) = b::complement_of("C", &c, n).unwrap();
+        let m = b::diagram::cable_module(p).unwrap().module;
+        let (k, _) = b::box_tensor(&m, &d).unwrap();
+        let names: Vec<&String> = k.generators.keys().collect();
+        let at = |x: &String| names.iter().position(|y| *y == x).unwrap();
+        let rank = |keep: &dyn Fn(&str) -> bool| {
+            let mut rows = vec![vec![false; names.len()]; names.len()];
+            for [a, pw, b] in &k.differential {
+                if keep(pw) {
+                    rows[at(a)][at(b)] ^= true;
+                }
+            }
+            let mut r = 0;
+            for col in 0..names.len() {
+                if let Some(i) = (r..names.len()).find(|&i| rows[i][col]) {
+                    rows.swap(r, i);
+                    let pivot = rows[r].clone();
+                    for (i2, row) in rows.iter_mut().enumerate() {
+                        if i2 != r && row[col] {
+                            row.iter_mut().zip(&pivot).for_each(|(x, y)| *x ^= *y);
+                        }
+                    }
+                    r += 1;
+                }
+            }
+            names.len() - 2 * r
+        };
+        // Over F2[U, U⁻¹] every power of U is a unit: the rank of ∂ with all terms, for a
+        // complex whose U-powers are homogeneous, equals the rank over F2 with U = 1.
+        (rank(&|pw: &str| pw == "1"), rank(&|_: &str| true))
+    }
+
+    // L-space cables: K_{p,q} is an L-space knot when K is one and q ≥ p(2g(K) − 1) (Hedden 2009,
+    // "On knot Floer homology and cabling II"; Hom 2011); an L-space knot's hat homology has rank
+    // the number of terms of its Alexander polynomial (Ozsváth–Szabó 2005), and HFK^- has one
+    // tower F2[U]. The cables of the unknot are the torus knots T(p, q): L-space knots for
+    // q > 0, mirrors of them for q < 0 (same rank). Ranks of the raw pairing at every framing.
+    #[test]
+    fn l_space_cables_have_the_rank_of_their_alexander_polynomial() {
+        for (name, src, _, eps, delta) in companions() {
+            let g = delta.keys().max().copied().unwrap_or(0);
+            for p in 2..=4i64 {
+                for n in -2..=2i64 {
+                    let q = p * n + 1;
+                    let l_space = match eps {
+                        0 => true,
+                        1 => q >= p * (2 * g - 1),
+                        _ => -q >= p * (2 * g - 1),
+                    };
+                    let (hat, towers) = raw_ranks(&src, p as usize, n);
+                    assert_eq!(towers, 1, "towers of the ({p},{q}) cable of {name}");
+                    if l_space {
+                        let terms = mul(&substitute_power(&delta, p), &torus_alexander(p, q)).len();
+                        assert_eq!(hat, terms, "hat rank of the ({p},{q}) cable of {name}");
+                    }
+                }
+            }
+        }
+    }
+}
