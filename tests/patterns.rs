@@ -172,7 +172,7 @@ mod cables {
         use tubecert::bordered as b;
         let full = tubecert_format::bordered::full_ring();
         let c = b::inline_source(&full, src, &Default::default(), 0).unwrap();
-        let (d, _) = b::complement_of("C", &c, n).unwrap();
+        let (d, _, _) = b::complement_of("C", &c, n).unwrap();
         let m = b::diagram::cable_module(p).unwrap().module;
         let (k, _) = b::box_tensor(&m, &d).unwrap();
         let names: Vec<&String> = k.generators.keys().collect();
