@@ -41,6 +41,34 @@ fn companions() -> Vec<(String, Value)> {
     out.push(("unknot".into(), json!({"staircase": {"alexander": [0]}})));
     out.push(("staircase 4 3 0 -3 -4".into(), json!({"staircase": {"alexander": [4, 3, 0, -3, -4]}})));
     out.push(("shifted dual".into(), json!({"dual": {"staircase": {"alexander": [4, 3, 0, -3, -4]}}})));
+    // ξ0 = η0 beside acyclic squares (the figure-eight's shape, τ = 0): LOT Thm 11.26's structure
+    // has a cycle for t ≥ 0 and the complement is its bounded model. The second has a diagonal
+    // arrow a2 → UV·d1 (homogeneous, ∂∂ = 0), which enters neither C/(U) nor C/(V).
+    let square = |k: i64, m: i64| {
+        let n = |g: &str| format!("{g}{k}");
+        (
+            [(n("a"), [m, m]), (n("b"), [m + 1, m - 1]), (n("c"), [m - 1, m + 1]), (n("d"), [m, m])],
+            [
+                [n("a"), "U".into(), n("b")],
+                [n("a"), "V".into(), n("c")],
+                [n("b"), "V".into(), n("d")],
+                [n("c"), "U".into(), n("d")],
+            ],
+        )
+    };
+    let (mut gens, mut d) = (serde_json::Map::new(), Vec::new());
+    gens.insert("x".into(), json!([0, 0]));
+    for (k, m) in [(1, 0), (2, -1)] {
+        let (g, t) = square(k, m);
+        g.into_iter().for_each(|(n, gr)| drop(gens.insert(n, json!(gr))));
+        d.extend(t.map(|t| json!(t)));
+        let one = json!({"generators": gens.clone(), "differential": d.clone()});
+        if k == 1 {
+            out.push(("point beside a square".into(), one));
+        }
+    }
+    d.push(json!(["a2", "U*V", "d1"]));
+    out.push(("point beside two squares and a diagonal arrow".into(), json!({"generators": gens, "differential": d})));
     // Pieces with no arrow between them: a box a → U·b, a → V·c, b → V·d, c → U·d beside a
     // staircase. The unknot plus a box is the figure-eight's complex (recalled from memory).
     let square = json!({"generators": {"a": [0, 0], "b": [1, -1], "c": [-1, 1], "d": [0, 0]},
@@ -119,8 +147,12 @@ fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_frami
             let n = &body.bordered.as_ref().unwrap().type_d_structures["N"];
             let gammas = n.generators.keys().filter(|g| g.starts_with("gamma")).count() as i64;
             assert_eq!(gammas, (t - t2).abs(), "{name}, t = {t}");
+            // ξ0 = η0 (the unknot here) and t ≥ 2τ: the bounded model, ξ0 →ρ12 ξ0 or
+            // ξ0 →ρ123 γ1 split through the cancelling pair pair.x →1 pair.y.
+            let split = (name == "unknot" || name == "figure-eight" || name.starts_with("point")) && t >= t2;
+            assert_eq!(n.generators.contains_key("pair.x"), split, "{name}, t = {t}");
             let rho12 = n.differential.iter().filter(|d| d[1] == "rho12").count();
-            assert_eq!(rho12, usize::from(t == t2), "{name}, t = {t}");
+            assert_eq!(rho12, usize::from(t == t2 && !split), "{name}, t = {t}");
             // ι_0 generators are C's basis, ι_1 ones one per power of U or V in ∂ plus the chain.
             let iota0 = n.generators.values().filter(|g| g.idempotent == 0).count();
             let c = &body.bordered.as_ref().unwrap().full_complexes["N.companion"];
@@ -182,8 +214,7 @@ fn mutations_of_delta_m_and_the_box_tensor_are_rejected() {
     // The D relation itself: ρ1 then ρ2 composes to ρ12 ≠ 0.
     let mut b = body.clone();
     let n = b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap();
-    n.differential.push(["lambda1.x1.x0".into(), "rho2".into(), "x2".into()]);
-    n.differential.push(["x0".into(), "rho1".into(), "lambda1.x1.x0".into()]);
+    n.differential.push(["x2".into(), "rho1".into(), "lambda1.x1.x0".into()]);
     assert!(failed_kinds(b).contains(&"type_d_structure".to_string()));
     // The module's operation: a wrong power of U breaks the A∞ relations and the box tensor.
     for power in [[0, 1], [1, 0], [2, 1], [1, 2]] {
@@ -230,8 +261,8 @@ fn restate(b: &mut Body) {
 }
 
 #[test]
-fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_harmless() {
-    // y0 →ρ3 y1 with a ρ23 loop at y1: ρ3 ρ23 ρ23 … is a prefix of the core's inputs forever.
+fn a_pairing_with_no_bounded_side_is_refused() {
+    // y0 →ρ3 y1 with a ρ23 loop at y1, paired with the core (operations of every length).
     let n = json!({"generators": {"y0": {"grading": [0, 0, 0, 0], "idempotent": 0}, "y1": {"idempotent": 1}},
         "differential": [["y0", "rho3", "y1"], ["y1", "rho23", "y1"]], "period": [1, 2, 0, 0]});
     let p = problem(
@@ -240,10 +271,10 @@ fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_ha
     );
     let bytes = serde_json::to_vec(&p).unwrap();
     let err = tubecert::problem::parse_problem(&bytes, "loop").unwrap_err().join("\n");
-    assert!(err.contains("infinite sum") && err.contains("y1 → y1 ("), "{err}");
-    // The unknot (ξ0 = η0, τ = 0): a ρ12 loop at t = 0, a cycle ξ0 →ρ123 γ1 → … →ρ2 ξ0 for t > 0.
-    // Every input of the core starts with ρ3, so the walk never enters them: the box tensor
-    // product is the unknot's complex, one generator.
+    assert!(err.contains("neither side is bounded") && err.contains("LOT §2.4"), "{err}");
+    // The unknot (ξ0 = η0, τ = 0): a ρ12 loop at t = 0, a cycle ξ0 →ρ123 γ1 → … →ρ2 ξ0 for
+    // t > 0 in LOT Thm 11.26's structure; the cable pairs with the bounded model and gives the
+    // unknot's complex, one generator.
     for q in [1, 2, 4] {
         let body = body_of(&problem(
             json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
@@ -252,6 +283,95 @@ fn a_cycle_that_can_continue_an_input_is_refused_and_harmless_ones_are_proved_ha
         assert!(failed_kinds(body.clone()).is_empty());
         assert_eq!(body.complexes["K"].generators.len(), 1);
     }
+}
+
+/// The certificate body with K.complement's cancelling pair cancelled back (ξ0 →ρ1 pair.y,
+/// pair.x →1 pair.y, pair.x →b z become ξ0 →ρ1·b z), no bounded_model, statements re-rendered:
+/// LOT Thm 11.26's own structure, as the producer wrote it before bounded models.
+fn unsplit(body: &Body) -> Body {
+    let mut b = body.clone();
+    let n = b.bordered.as_mut().unwrap().type_d_structures.0.get_mut("K.complement").unwrap();
+    let find = |to: &str| n.differential.iter().find(|t| t[2] == to && t[0] != "pair.x").unwrap().clone();
+    let xi = find("pair.y")[0].clone();
+    let out = n.differential.iter().find(|t| t[0] == "pair.x" && t[1] != "1").unwrap().clone();
+    let merged = if out[1] == "rho2" { "rho12" } else { "rho123" };
+    n.differential.retain(|t| !t[0].starts_with("pair.") && !t[2].starts_with("pair."));
+    n.differential.push([xi, merged.into(), out[2].clone()]);
+    n.differential.sort();
+    n.generators.0.retain(|g, _| !g.starts_with("pair."));
+    for c in &mut b.claims {
+        if let Claim::Complement { bounded_model, .. } = c {
+            *bounded_model = None;
+        }
+    }
+    restate(&mut b);
+    b
+}
+
+#[test]
+fn an_unbounded_structure_is_refused_even_where_every_term_vanishes() {
+    // The unknot at t = 0 and t = 2: LOT Thm 11.26's structure has the loop x0 →ρ12 x0 or the
+    // cycle x0 →ρ123 γ1 →ρ23 γ2 →ρ2 x0. The core's words all start with ρ3, so the walk dies at
+    // once and the old checker accepted X = one generator; but an unbounded pairing can be wrong
+    // (the surgery solid torus with the unknot's complement at t = 0 gives rank 0, not the 2 of
+    // HF-hat(S¹×S²): the oracle's test), so the pairing is refused, and the producer pairs with
+    // the bounded model instead.
+    for (q, loop_terms) in
+        [(1, vec![["x0", "rho12", "x0"]]), (3, vec![["x0", "rho123", "gamma1"], ["gamma2", "rho2", "x0"]])]
+    {
+        let body = body_of(&problem(
+            json!({"K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": 1, "q": q}}}),
+            json!({}),
+        ));
+        assert_eq!(
+            body.bordered.as_ref().unwrap().full_complexes["K.companion"].generators.keys().collect::<Vec<_>>(),
+            ["x0"]
+        );
+        assert!(failed_kinds(body.clone()).is_empty());
+        assert!(body.claims.iter().any(|c| matches!(c, Claim::Complement { bounded_model: Some(true), .. })));
+        let old = unsplit(&body);
+        let d = &old.bordered.as_ref().unwrap().type_d_structures["K.complement"].differential;
+        assert!(loop_terms.iter().all(|t| d.contains(&t.map(String::from))), "{d:?}");
+        let e = outcomes(old.clone()).unwrap_err();
+        assert!(e.contains("neither side is bounded"), "{e}");
+        // Its complement claim alone (LOT Thm 11.26's structure itself) still verifies.
+        let mut alone = old;
+        alone.claims.retain(|c| c.kind() != "box_tensor");
+        assert!(failed_kinds(alone).is_empty());
+    }
+}
+
+#[test]
+fn a_module_checked_on_too_short_words_is_refused() {
+    // A horizontal arrow U^7 uses m_9(x, ρ3, ρ23^6, ρ2) = U^7·x: a word of length k = 8. ∂∂ = 0 on
+    // the pairing rests on the A∞ relations on words of length ≤ 2k = 16; the old checker took
+    // any stated length (8: the relations up to 8 hold, so the type_a_module claim itself is true).
+    let body = body_of(&problem(
+        json!({"K": {"cable": {"companion": {"staircase": {"alexander": [7, 0, -7]}}, "p": 1, "q": 2}}}),
+        json!({}),
+    ));
+    assert!(failed_kinds(body.clone()).is_empty());
+    for (l, ok) in [(8, false), (15, false), (16, true)] {
+        let mut b = body.clone();
+        for c in &mut b.claims {
+            if let Claim::TypeAModule { max_length, .. } = c {
+                *max_length = l;
+            }
+        }
+        restate(&mut b);
+        match outcomes(b) {
+            Ok(o) => assert!(ok && o.iter().all(|c| c.1.is_ok()), "L = {l}"),
+            Err(e) => assert!(
+                !ok && e.contains("length 8") && e.contains("≤ 16") && e.contains(&format!("up to {l}")),
+                "L = {l}: {e}"
+            ),
+        }
+    }
+    // Without any type_a_module claim the pairing is refused too.
+    let mut b = body.clone();
+    b.claims.retain(|c| c.kind() != "type_a_module");
+    let e = outcomes(b).unwrap_err();
+    assert!(e.contains("no type_a_module claim"), "{e}");
 }
 
 #[test]
@@ -275,10 +395,10 @@ fn refusals_say_what_is_missing() {
     let src = json!({"tensor": [t35, {"dual": t34}]});
     let e = run(problem(json!({"K": {"cable": {"companion": src, "p": 1, "q": 1}}}), json!({})));
     assert!(e.contains("no simultaneously simplified basis was found") && e.contains("A.11"), "{e}");
-    // A diagonal arrow (a mixed monomial).
-    let diag = json!({"generators": {"a": [0, 0], "b": [-1, -1], "c": [-2, -2]}, "differential": [["b", "U*V", "a"]]});
-    let e = run(problem(json!({"K": {"cable": {"companion": diag, "p": 1, "q": 1}}}), json!({})));
-    assert!(e.contains("not a pure power"), "{e}");
+    // A unit coefficient (a basis that is not reduced).
+    let unit = json!({"generators": {"a": [0, 0], "b": [-1, -1], "c": [-2, -2]}, "differential": [["b", "1", "c"]]});
+    let e = run(problem(json!({"K": {"cable": {"companion": unit, "p": 1, "q": 1}}}), json!({})));
+    assert!(e.contains("reduced"), "{e}");
     // ∂∂ ≠ 0 in an inline source is refused even though V = 0 would hide the bad terms.
     let bad = json!({"generators": {"a": [0, 0], "b": [-1, 1], "c": [-2, 2]},
         "differential": [["a", "V", "b"], ["b", "V", "c"]]});

@@ -240,7 +240,7 @@ mod cables {
             let c = bd::inline_source(&full, &src, &Default::default(), 0).unwrap();
             for p in 1..=4usize {
                 for t in -3..=3i64 {
-                    let (d, _) = bd::complement_of("C", &c, t).unwrap();
+                    let (d, _, _) = bd::complement_of("C", &c, t).unwrap();
                     let m = bd::cable_pattern(p as i64).unwrap();
                     let (ma, nd) =
                         (ck::read_module("M", &m, true).unwrap(), ck::read_structure("N", &d, true).unwrap());
@@ -267,7 +267,7 @@ mod cables {
         use tubecert::bordered as b;
         let full = tubecert_format::bordered::full_ring();
         let c = b::inline_source(&full, src, &Default::default(), 0).unwrap();
-        let (d, _) = b::complement_of("C", &c, n).unwrap();
+        let (d, _, _) = b::complement_of("C", &c, n).unwrap();
         let m = b::diagram::cable_module(p).unwrap().module;
         let (k, _) = b::box_tensor(&m, &d).unwrap();
         let names: Vec<&String> = k.generators.keys().collect();

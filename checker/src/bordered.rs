@@ -83,6 +83,8 @@ pub struct Objects {
     pub modules: BTreeMap<String, TypeA>,
     pub morphisms: BTreeMap<String, Morphism>,
     pub budget: Budget,
+    /// The longest word length L a `type_a_module` claim states for each module.
+    pub lengths: BTreeMap<String, u32>,
     /// Version 3 (gradings in the grading group).
     pub group: bool,
 }
@@ -367,7 +369,7 @@ impl TypeA {
 
 impl Objects {
     /// `version` ≥ 3: gradings are elements of the grading group.
-    pub fn load(b: &Bordered, items: u64, version: u32) -> Result<Objects, Vec<String>> {
+    pub fn load(b: &Bordered, items: u64, version: u32, claims: &[Claim]) -> Result<Objects, Vec<String>> {
         let group = version >= 3;
         if b.full_ring != full_ring() {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
@@ -384,8 +386,15 @@ impl Objects {
             modules,
             morphisms: BTreeMap::new(),
             budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)),
+            lengths: BTreeMap::new(),
             group,
         };
+        for c in claims {
+            if let Claim::TypeAModule { module, max_length, .. } = c {
+                let l = o.lengths.entry(module.clone()).or_default();
+                *l = (*l).max(*max_length);
+            }
+        }
         for (n, f) in b.type_d_morphisms.iter() {
             let side = |s: &String| {
                 o.structures
@@ -551,11 +560,42 @@ type Step = (Alg, u32, bool);
 /// A node on the walked path: (node, positions in the input word, its steps, the next to try).
 type Frame = (u32, u64, Vec<Step>, usize);
 
+/// Which side of a pairing is bounded (LOT §2.4: M ⊠ N is defined, and agrees with the
+/// derived tensor product, only when one side is): "structure" when the δ-graph on nodes
+/// 0..n (`steps`, ι-steps included) has no directed cycle (checked by peeling off nodes with
+/// nothing left pointing into them), else "module" when every family of M is a single
+/// operation; else the pairing is refused. Either way every walk below is finite.
+fn bounded(o: &Budget, m: &TypeA, n: u32, steps: &dyn Fn(u32) -> Vec<Step>) -> Result<&'static str, Failure> {
+    let edges: Vec<Vec<Step>> = (0..n).map(steps).collect();
+    o.spend(n as u64 + edges.iter().map(|e| e.len() as u64).sum::<u64>(), "box tensor")?;
+    let mut into = vec![0u32; n as usize];
+    edges.iter().flatten().for_each(|s| into[s.1 as usize] += 1);
+    let mut ready: Vec<u32> = (0..n).filter(|&y| into[y as usize] == 0).collect();
+    let mut peeled = 0;
+    while let Some(y) = ready.pop() {
+        peeled += 1;
+        for s in &edges[y as usize] {
+            into[s.1 as usize] -= 1;
+            if into[s.1 as usize] == 0 {
+                ready.push(s.1);
+            }
+        }
+    }
+    if peeled == n {
+        Ok("structure")
+    } else if m.families.iter().all(|f| f.repeat == 0) {
+        Ok("module")
+    } else {
+        Err(Failure::Refused("neither side is bounded: the type D structure's δ¹ has a directed cycle and the module has operations of every length (a repeated block); the box tensor product is defined only when one side is bounded (LOT §2.4) — pair with a bounded model".into()))
+    }
+}
+
 /// Terms (module output, node, U-power) of Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths
 /// from `start` given by `steps` (node → (a, node′, whether the path may end after this
 /// step)); `end_at_start`: the empty path counts (the box tensor's m_1 ⊗ id). A path is
-/// followed only while its word is a prefix of a family's word; a cycle of (node, position)
-/// would make the sum infinite and is refused.
+/// followed only while its word is a prefix of a family's word. Finite because `bounded`
+/// held: no cycle of nodes, or every family's word has a fixed length; the budget bounds it
+/// all the same.
 fn paths(
     o: &Budget,
     m: &TypeA,
@@ -563,7 +603,6 @@ fn paths(
     start: u32,
     end_at_start: bool,
     steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>,
-    names: &dyn Fn(u32) -> String,
 ) -> Result<Vec<(u32, u32, u32)>, Failure> {
     let mut out = Vec::new();
     // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
@@ -574,20 +613,11 @@ fn paths(
     }
     for f in m.families.iter().filter(|f| f.from == x) {
         // Depth-first; a frame is (node, positions, its steps, the next step to try). The work
-        // of entering a node (its steps, the cycle test along the path) is spent before it is done.
+        // of entering a node (its steps) is spent before it is done.
         let mut path: Vec<Frame> = Vec::new();
         let mut enter = |y: u32, mask: u64, can_end: bool, path: &mut Vec<_>| -> Result<(), Failure> {
             let next = steps(y);
-            o.spend(1 + (f.pattern.len() + next.len() + path.len()) as u64, "box tensor")?;
-            if let Some(first) = path.iter().position(|p: &Frame| (p.0, p.1) == (y, mask)) {
-                let cycle: Vec<String> = path[first..].iter().map(|p| names(p.0)).chain([names(y)]).collect();
-                return Err(Failure::Refused(format!(
-                    "an infinite sum: the cycle {} (from {}) can be followed forever while its word stays a prefix of an input of m from {}",
-                    cycle.join(" → "),
-                    names(start),
-                    m.names[x as usize]
-                )));
-            }
+            o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
             if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
                 o.1.set(o.1.get().max(path.len()));
                 out.push((f.to, y, p));
@@ -721,7 +751,7 @@ fn rows(
 ) -> Result<Vec<Vec<(String, u32)>>, Failure> {
     let mut out = Vec::new();
     for (x, y, _, _) in gens {
-        let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps, node)?
+        let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps)?
             .into_iter()
             .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], node(y2)), p))
             .collect();
@@ -733,16 +763,23 @@ fn rows(
     Ok(out)
 }
 
-/// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)).
-pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<(Vec<Generator>, Rows), Failure> {
+/// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)),
+/// and the bounded side.
+pub fn tensor_complex(
+    o: &Budget,
+    m: &TypeA,
+    n: &TypeD,
+    symmetric: bool,
+) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
     if let Some(e) = m.defects.first().or(n.defects.first()) {
         return Err(e.clone().into());
     }
     let gens = generators(m, n, symmetric)?;
     let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
+    let side = bounded(o, m, n.names.len() as u32, &steps)?;
     let node = |y: u32| n.names[y as usize].clone();
     let rows = rows(o, m, &gens, true, &steps, &node)?;
-    Ok((gens, rows))
+    Ok((gens, rows, side))
 }
 
 /// id_M ⊠ f: M ⊠ N → M ⊠ N′, over paths of δ¹-steps in N, one f-step, δ¹-steps in N′.
@@ -753,7 +790,7 @@ pub fn tensor_map(
     n: &TypeD,
     n2: &TypeD,
     symmetric: bool,
-) -> Result<(Vec<Generator>, Rows), Failure> {
+) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }
@@ -768,17 +805,24 @@ pub fn tensor_map(
             n2.delta[(y - k) as usize].iter().map(|&(a, y2)| (a, y2 + k, true)).collect()
         }
     };
+    let side = bounded(o, m, k + n2.names.len() as u32, &steps)?;
     let node = |y: u32| if y < k { n.names[y as usize].clone() } else { n2.names[(y - k) as usize].clone() };
     let rows = rows(o, m, &gens, false, &steps, &node)?;
-    Ok((gens, rows))
+    Ok((gens, rows, side))
 }
 
 /// The type D structure of LOT Thm 11.26 for a complex C over `F2[U,V]` in a simultaneously
-/// simplified basis and framing t, and τ = A(ξ_0). `group` (version 3): ξ with C-grading
-/// (M, A) = (gr_U, (gr_U − gr_V)/2) gets (M − 3A/2; 0, −A; 0), each chain of ι_1 generators
-/// the gradings its arrows force from the ξ it starts at, and the period is the grading
-/// (t/2 + ½; 1, t; 0) of the periodic domain (derived in DEVELOPERS.md, "Gradings").
-pub fn complement(c: &Complex, t: i64, group: bool) -> Result<(TypeDSpec, i64), String> {
+/// simplified basis and framing t, τ = A(ξ_0), and whether it was made bounded. `group`
+/// (version 3): ξ with C-grading (M, A) = (gr_U, (gr_U − gr_V)/2) gets (M − 3A/2; 0, −A; 0),
+/// each chain of ι_1 generators the gradings its arrows force from the ξ it starts at, and the
+/// period is the grading (t/2 + ½; 1, t; 0) of the periodic domain (derived in DEVELOPERS.md,
+/// "Gradings"). With `bounded`, where ξ_0 = η_0 and t ≥ 2τ (the only case with a cycle) the
+/// arrow ξ_0 →ρ12 ξ_0 (t = 2τ) or ξ_0 →ρ123 γ1 (t > 2τ) is split through a new cancelling pair
+/// x →1 y: ξ_0 →ρ1 y, x →ρ2 ξ_0 (or x →ρ23 γ1). Cancelling x →1 y gives the arrow back
+/// (ρ1ρ2 = ρ12, ρ1ρ23 = ρ123), so the two are homotopy equivalent (the cancellation lemma,
+/// LOT §2); the D relation holds since ρ2ρ1 = ρ23ρ23 = ρ23ρ2 = 0, and the new graph has no
+/// cycle. Gradings: gr(y) = gr(ρ1)⁻¹·λ⁻¹·gr(ξ_0), gr(x) = λ·gr(y), which leaves γ1's as it was.
+pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(TypeDSpec, i64, bool), String> {
     let refuse = |why: String| {
         format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
     };
@@ -788,17 +832,18 @@ pub fn complement(c: &Complex, t: i64, group: bool) -> Result<(TypeDSpec, i64), 
     for (a, row) in c.d.rows.iter().enumerate() {
         for &(b, m) in row {
             let [u, v] = m.0;
+            // A diagonal term U^i·V^j (i, j ≥ 1) vanishes in both C/(U) and C/(V), whose
+            // arrows are all LOT Thm 11.26 reads: it does not enter the structure.
             let (kind, count) = match (u, v) {
-                (u, 0) if u > 0 => ("lambda", &mut horizontal),
-                (0, v) if v > 0 => ("kappa", &mut vertical),
-                _ => {
+                (0, 0) => {
                     return Err(refuse(format!(
-                        "∂{} has the term {}·{}, not a pure power U^ℓ or V^ℓ with ℓ ≥ 1",
-                        c.names[a],
-                        m.render(&["U".into(), "V".into()]),
-                        c.names[b as usize]
+                        "∂{} has the term {} with coefficient 1 (not reduced)",
+                        c.names[a], c.names[b as usize]
                     )))
                 }
+                (_, 0) => ("lambda", &mut horizontal),
+                (0, _) => ("kappa", &mut vertical),
+                _ => continue,
             };
             count[a] += 1;
             count[b as usize] += 1;
@@ -886,31 +931,39 @@ pub fn complement(c: &Complex, t: i64, group: bool) -> Result<(TypeDSpec, i64), 
         return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
     }
     let names: Vec<String> = (1..=m).map(|k| format!("gamma{k}")).collect();
-    let first = match t.cmp(&(2 * tau)) {
-        std::cmp::Ordering::Less => {
-            term(xn, "rho1", &names[0]);
-            term(en, "rho3", &names[m as usize - 1]);
-            Alg::Reeb(1, 1)
+    let split = bounded && xi0 == eta0 && t >= 2 * tau;
+    let first = if t < 2 * tau {
+        term(xn, "rho1", &names[0]);
+        term(en, "rho3", &names[m as usize - 1]);
+        Alg::Reeb(1, 1)
+    } else {
+        let (a, b, to) = if m == 0 { (Alg::Reeb(1, 2), "rho2", en) } else { (Alg::Reeb(1, 3), "rho23", &names[0]) };
+        if split {
+            term(xn, "rho1", "pair.y");
+            term("pair.x", "1", "pair.y");
+            term("pair.x", b, to);
+            let y = gr_mul(gr_mul(gr_pow(gr_alg(Alg::Reeb(1, 1)), -1), gr_pow(LAMBDA, -1)), gr0[xi0]);
+            for (g, gr) in [("pair.x", gr_mul(LAMBDA, y)), ("pair.y", y)] {
+                let grading = if group { Some(written(gr)?) } else { None };
+                gens.push((g.to_string(), DGenerator { grading, idempotent: 1 }));
+            }
+        } else {
+            term(xn, a.name(), to);
         }
-        std::cmp::Ordering::Equal => {
-            term(xn, "rho12", en);
-            Alg::Reeb(1, 2)
-        }
-        std::cmp::Ordering::Greater => {
-            term(xn, "rho123", &names[0]);
+        if m > 0 {
             term(&names[m as usize - 1], "rho2", en);
-            Alg::Reeb(1, 3)
         }
+        a
     };
     chain(&mut gens, names, t < 2 * tau, (first, gr0[xi0]), &mut term)?;
     let count = gens.len();
     let generators = UniqueMap(gens.into_iter().collect());
     if generators.len() != count {
-        return Err(format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…); rename it", c.name));
+        return Err(format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…, pair.x, pair.y); rename it", c.name));
     }
     terms.sort();
     let period = if group { Some(written([t as i128 + 1, 2, 2 * t as i128, 0])?) } else { None };
-    Ok((TypeDSpec { differential: terms, generators, period }, tau))
+    Ok((TypeDSpec { differential: terms, generators, period }, tau, split))
 }
 
 /// A grading element as written, within the bounds every grading obeys.
@@ -919,6 +972,22 @@ fn written(g: Gr) -> Result<Grading, String> {
         .map(|&x| i64::try_from(x).ok().filter(|&x| tubecert_format::limits::grading_in_bounds(x)))
         .collect::<Option<Grading>>()
         .ok_or_else(|| format!("a grading {g:?} (doubled) is beyond ±2^31"))
+}
+
+/// The pairing just walked gave terms on input words of length ≤ k (`budget.1`); the relations
+/// that ∂∂ = 0 (or the chain-map property) of M ⊠ N rest on are those on δ-path words with a
+/// non-zero term: concatenations of two such words or one with an adjacent pair multiplied,
+/// so of length ≤ 2k. A `type_a_module` claim of M must state at least that length.
+fn covered(o: &Objects, module: &str) -> Result<(), Failure> {
+    let k = o.budget.1.get();
+    match o.lengths.get(module) {
+        Some(&l) if l as usize >= 2 * k => Ok(()),
+        l => Err(Failure::Refused(format!(
+            "the pairing uses operations of {module} on input words of length {k}, so its A∞ relations are needed on words of length ≤ {}, but {}",
+            2 * k,
+            l.map_or("no type_a_module claim checks them".into(), |l| format!("its type_a_module claim checks them only up to {l}"))
+        ))),
+    }
 }
 
 /// Checks one bordered claim; `None` for the other kinds.
@@ -956,9 +1025,12 @@ pub fn check(
             Claim::BoxTensor { complex, module, structure, .. } => {
                 minus()?;
                 let c = &ctx.complexes[ctx.complex_named(complex)?];
-                let (gens, rows) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
+                o.budget.1.set(0);
+                let (gens, rows, side) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
+                covered(o, module)?;
                 compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
                 facts.insert("generators".into(), serde_json::json!(gens.len()));
+                facts.insert("bounded".into(), serde_json::json!(side));
             }
             Claim::BoxTensorMap { map, module, morphism, .. } => {
                 minus()?;
@@ -970,13 +1042,19 @@ pub fn check(
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
                 let gens2 = generators(m, n2, version >= 4)?;
                 compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
-                let (gens, rows) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
+                o.budget.1.set(0);
+                let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
+                covered(o, module)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
+                facts.insert("bounded".into(), serde_json::json!(side));
             }
-            Claim::Complement { structure, complex, framing, tau, .. } => {
+            Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => {
                 let c = &o.full.complexes[o.full.complex_named(complex)?];
                 o.budget.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
-                let (want, found_tau) = complement(c, *framing, o.group)?;
+                let (want, found_tau, split) = complement(c, *framing, o.group, *bounded_model == Some(true))?;
+                if *bounded_model != split.then_some(true) {
+                    return Err(format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {})", if split { "it is not written" } else { "it is not needed" }).into());
+                }
                 let given = spec.type_d_structures.get(structure).ok_or_else(|| format!("type D structure \"{structure}\" is not declared"))?;
                 if found_tau != *tau {
                     return Err(format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}").into());

@@ -435,10 +435,12 @@ fn tex_claim(c: &Claim, vars: &[String], gradings: &[String]) -> String {
         Claim::BoxTensorMap { map, module, morphism, .. } => {
             format!("${} = \\mathrm{{id}}_{{{}}} \\boxtimes {}$", tex_name(map), tex_name(module), tex_name(morphism))
         }
-        Claim::Complement { structure, complex, framing, tau, .. } => format!(
-            "${}$ is $\\widehat{{CFD}}$ of the complement of the knot with complex ${}$, framing ${framing}$ (LOT Thm 11.26), $\\tau = {tau}$",
+        Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => format!(
+            "${}$ {} $\\widehat{{CFD}}$ of the complement of the knot with complex ${}$, framing ${framing}$ (LOT Thm 11.26{}), $\\tau = {tau}$",
             tex_name(structure),
-            tex_name(complex)
+            if bounded_model.is_some() { "is homotopy equivalent to" } else { "is" },
+            tex_name(complex),
+            if bounded_model.is_some() { "; its bounded model by the cancellation lemma, LOT \\S 2" } else { "" }
         ),
     }
 }

@@ -450,7 +450,7 @@ pub fn check_body(
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
     let b = body.bordered.as_ref();
-    let mut objects = b.map(|b| Objects::load(b, written_items(body), version)).transpose()?;
+    let mut objects = b.map(|b| Objects::load(b, written_items(body), version, &body.claims)).transpose()?;
     if let Some(b) = b {
         let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
         // Full maps share the namespace, and are never named like a map of the body.

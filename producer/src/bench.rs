@@ -249,13 +249,14 @@ pub fn reduced_problem(case: Case, (p, q): (u32, u32)) -> Result<Problem, String
         .map_err(|e| e.join("; "))
 }
 
-/// Runs `tubecert bench-check FILE` in a child process; returns (plain parse, check) times.
-fn measure_in_child(cert: &[u8]) -> Result<(Duration, Duration), String> {
-    let path = std::env::temp_dir().join(format!("tubecert-bench-{}.cert.json", std::process::id()));
-    std::fs::write(&path, cert).map_err(|e| e.to_string())?;
-    let exe = std::env::current_exe().map_err(|e| e.to_string())?;
-    let out = std::process::Command::new(exe).arg("bench-check").arg(&path).output().map_err(|e| e.to_string());
-    let _ = std::fs::remove_file(&path);
+/// Runs `tubecert bench-check FILE` in a child process, then removes the file; returns
+/// (plain parse, check) times.
+fn measure_in_child(path: &std::path::Path) -> Result<(Duration, Duration), String> {
+    let exe = std::env::current_exe().map_err(|e| e.to_string());
+    let out = exe.and_then(|exe| {
+        std::process::Command::new(exe).arg("bench-check").arg(path).output().map_err(|e| e.to_string())
+    });
+    let _ = std::fs::remove_file(path);
     let out = out?;
     let text = String::from_utf8_lossy(&out.stdout);
     let nums: Vec<f64> = text.split_whitespace().filter_map(|x| x.parse().ok()).collect();
@@ -314,20 +315,6 @@ pub fn run(o: &Options, out: Option<&std::path::Path>) -> Result<(String, String
     times.push(("validate", t.elapsed()));
     let proved = crate::prove::prove(parsed, &ctx, &bytes)?;
     times.extend(proved.timings.iter().cloned());
-    let t = Instant::now();
-    let cert = crate::canonical_writer::file_bytes(&proved.certificate)?;
-    if let Some(dir) = out {
-        std::fs::create_dir_all(dir).map_err(|e| e.to_string())?;
-        let stem = match o.case {
-            Case::Inflated => format!("bench-{}", o.generators),
-            _ => format!("bench-{:?}", o.case).to_lowercase(),
-        };
-        std::fs::write(dir.join(format!("{stem}.problem.json")), &bytes).map_err(|e| e.to_string())?;
-        std::fs::write(dir.join(format!("{stem}.cert.json")), &cert).map_err(|e| e.to_string())?;
-    }
-    times.push(("write", t.elapsed()));
-    let producer_peak = peak_memory(); // before the checker runs in this process
-    let total: Duration = times.iter().map(|t| t.1).sum();
     let claims = &proved.certificate.body.claims;
     let answer_ok = match o.case {
         Case::Inflated => {
@@ -342,10 +329,28 @@ pub fn run(o: &Options, out: Option<&std::path::Path>) -> Result<(String, String
         };
         return Err(format!("bench: expected {expected}, got {:?}", claims.first().map(|c| c.statement())));
     }
+    let cert = &proved.file;
+    if let Some(dir) = out {
+        std::fs::create_dir_all(dir).map_err(|e| e.to_string())?;
+        let stem = match o.case {
+            Case::Inflated => format!("bench-{}", o.generators),
+            _ => format!("bench-{:?}", o.case).to_lowercase(),
+        };
+        std::fs::write(dir.join(format!("{stem}.problem.json")), &bytes).map_err(|e| e.to_string())?;
+        std::fs::write(dir.join(format!("{stem}.cert.json")), cert).map_err(|e| e.to_string())?;
+    }
+    // Written as `prove` writes it, to the file the checker's child process reads.
+    let t = Instant::now();
+    let cert_path = std::env::temp_dir().join(format!("tubecert-bench-{}.cert.json", std::process::id()));
+    std::fs::write(&cert_path, &proved.file).map_err(|e| format!("{}: {e}", cert_path.display()))?;
+    times.push(("write", t.elapsed()));
+    let producer_peak = peak_memory(); // before the checker runs in this process
+    let total: Duration = times.iter().map(|t| t.1).sum();
     // The checker's cost next to a plain parse, measured in a fresh process (as a referee runs
     // it), best of five each, so that neither inherits this process's heap.
+    let cert_bytes = cert.len();
     drop(proved);
-    let (parse_only, check) = measure_in_child(&cert)?;
+    let (parse_only, check) = measure_in_child(&cert_path)?;
     let secs = |d: Duration| format!("{:.3}", d.as_secs_f64());
     let mut header = vec!["source_gens", "generators", "arrows"];
     let size = |c: &str| ctx.complexes[ctx.complex_index[c]].names.len().to_string();
@@ -354,11 +359,14 @@ pub fn run(o: &Options, out: Option<&std::path::Path>) -> Result<(String, String
         header.push(name);
         row.push(secs(*d));
     }
-    header.extend(["total", "peak_MiB", "cert_bytes", "check_s", "cert_parse_s", "check/parse"]);
+    // `check-input` does exactly the parse and validation `prove` starts with.
+    let input: Duration = times.iter().filter(|t| t.0 == "parse" || t.0 == "validate").map(|t| t.1).sum();
+    header.extend(["total", "prove/check_input", "peak_MiB", "cert_bytes", "check_s", "cert_parse_s", "check/parse"]);
     row.extend([
         secs(total),
+        format!("{:.2}", total.as_secs_f64() / input.as_secs_f64().max(1e-9)),
         format!("{:.0}", producer_peak as f64 / (1 << 20) as f64),
-        cert.len().to_string(),
+        cert_bytes.to_string(),
         secs(check),
         secs(parse_only),
         format!("{:.2}", check.as_secs_f64() / parse_only.as_secs_f64().max(1e-9)),

@@ -1,6 +1,7 @@
 //! RFC 8785 canonical JSON written straight from any `Serialize` value, without building a
-//! `serde_json::Value` tree first: object members are buffered per object and sorted by the
-//! UTF-16 code units of their names, everything else is streamed. Gives the same bytes as
+//! `serde_json::Value` tree first: everything is streamed into one buffer, and an object whose
+//! members arrived out of order (by the UTF-16 code units of their names) is rearranged in
+//! place when it ends. Gives the same bytes as
 //! `tubecert_format::canonical::write_canonical` (tested), at a fraction of the memory for
 //! certificates of millions of terms. Producer-side only: the checker keeps the simpler path.
 
@@ -24,23 +25,36 @@ impl ser::Error for Error {
 /// The canonical bytes of a value.
 pub fn to_canonical<T: Serialize + ?Sized>(value: &T) -> Result<Vec<u8>, String> {
     let mut out = Vec::new();
-    value.serialize(Writer { out: &mut out }).map_err(|e| e.0)?;
+    append_canonical(value, &mut out)?;
     Ok(out)
+}
+
+/// Appends the canonical bytes of a value to `out`.
+pub fn append_canonical<T: Serialize + ?Sized>(value: &T, out: &mut Vec<u8>) -> Result<(), String> {
+    value.serialize(Writer { out }).map_err(|e| e.0)
 }
 
 struct Writer<'a> {
     out: &'a mut Vec<u8>,
 }
 
+/// A JSON string as RFC 8785 writes it: serde_json's escaping is exactly RFC 8785's; a string
+/// with nothing to escape (no `"`, `\` or control character) is copied as it is.
 fn string(out: &mut Vec<u8>, s: &str) {
-    serde_json::to_writer(out, s).expect("writing to a Vec cannot fail");
+    if s.bytes().all(|b| b >= 0x20 && b != b'"' && b != b'\\') {
+        out.push(b'"');
+        out.extend_from_slice(s.as_bytes());
+        out.push(b'"');
+    } else {
+        serde_json::to_writer(out, s).expect("writing to a Vec cannot fail");
+    }
 }
 
 fn integer(out: &mut Vec<u8>, v: i128) -> Result<(), Error> {
     if v.unsigned_abs() > 1 << 53 {
         return Err(Error(format!("number {v} is not an integer within ±2^53")));
     }
-    out.extend_from_slice(v.to_string().as_bytes());
+    std::io::Write::write_fmt(out, format_args!("{v}")).expect("writing to a Vec cannot fail");
     Ok(())
 }
 
@@ -51,41 +65,59 @@ pub struct Seq<'a> {
     in_object: bool,
 }
 
-/// Members of one object, sorted when it ends.
+/// An object being written: its members go straight to `out`, each remembered with its name
+/// and where its `"name":value` text lies, and are put in canonical order when it ends.
 pub struct Object<'a> {
     out: &'a mut Vec<u8>,
-    members: Vec<(String, Vec<u8>)>,
+    /// Where the members begin (just after the `{`).
+    start: usize,
+    members: Vec<(String, usize, usize)>,
     key: Option<String>,
-    /// For `{"variant": {...}}`: the outer name.
-    wrap: Option<&'static str>,
+    /// For `{"variant": {...}}`: close the outer object too.
+    wrapped: bool,
 }
 
-impl Object<'_> {
+fn utf16_order(a: &str, b: &str) -> std::cmp::Ordering {
+    a.encode_utf16().cmp(b.encode_utf16())
+}
+
+impl<'a> Object<'a> {
+    fn open(out: &'a mut Vec<u8>, wrap: Option<&str>) -> Object<'a> {
+        if let Some(w) = wrap {
+            out.push(b'{');
+            string(out, w);
+            out.push(b':');
+        }
+        out.push(b'{');
+        Object { start: out.len(), out, members: Vec::new(), key: None, wrapped: wrap.is_some() }
+    }
+
     fn member<T: Serialize + ?Sized>(&mut self, key: String, value: &T) -> Result<(), Error> {
-        let mut buf = Vec::new();
-        value.serialize(Writer { out: &mut buf })?;
-        self.members.push((key, buf));
+        if !self.members.is_empty() {
+            self.out.push(b',');
+        }
+        let begin = self.out.len();
+        string(self.out, &key);
+        self.out.push(b':');
+        value.serialize(Writer { out: &mut *self.out })?;
+        self.members.push((key, begin, self.out.len()));
         Ok(())
     }
 
     fn finish(mut self) -> Result<(), Error> {
-        self.members.sort_by(|a, b| a.0.encode_utf16().cmp(b.0.encode_utf16()));
-        if let Some(w) = self.wrap {
-            self.out.push(b'{');
-            string(self.out, w);
-            self.out.push(b':');
-        }
-        self.out.push(b'{');
-        for (i, (k, v)) in self.members.iter().enumerate() {
-            if i > 0 {
-                self.out.push(b',');
+        let in_order = self.members.windows(2).all(|w| utf16_order(&w[0].0, &w[1].0).is_le());
+        if !in_order {
+            let text = self.out.split_off(self.start);
+            self.members.sort_by(|a, b| utf16_order(&a.0, &b.0));
+            for (i, (_, begin, end)) in self.members.iter().enumerate() {
+                if i > 0 {
+                    self.out.push(b',');
+                }
+                self.out.extend_from_slice(&text[begin - self.start..end - self.start]);
             }
-            string(self.out, k);
-            self.out.push(b':');
-            self.out.extend_from_slice(v);
         }
         self.out.push(b'}');
-        if self.wrap.is_some() {
+        if self.wrapped {
             self.out.push(b'}');
         }
         Ok(())
@@ -162,7 +194,7 @@ impl<'a> ser::Serializer for Writer<'a> {
         variant: &'static str,
         v: &T,
     ) -> Result<(), Error> {
-        let mut o = Object { out: self.out, members: Vec::new(), key: None, wrap: None };
+        let mut o = Object::open(self.out, None);
         o.member(variant.to_string(), v)?;
         o.finish()
     }
@@ -189,7 +221,7 @@ impl<'a> ser::Serializer for Writer<'a> {
         Ok(Seq { out: self.out, first: true, in_object: true })
     }
     fn serialize_map(self, _: Option<usize>) -> Result<Object<'a>, Error> {
-        Ok(Object { out: self.out, members: Vec::new(), key: None, wrap: None })
+        Ok(Object::open(self.out, None))
     }
     fn serialize_struct(self, _: &'static str, _: usize) -> Result<Object<'a>, Error> {
         self.serialize_map(None)
@@ -201,7 +233,7 @@ impl<'a> ser::Serializer for Writer<'a> {
         variant: &'static str,
         _: usize,
     ) -> Result<Object<'a>, Error> {
-        Ok(Object { out: self.out, members: Vec::new(), key: None, wrap: Some(variant) })
+        Ok(Object::open(self.out, Some(variant)))
     }
 }
 
@@ -283,24 +315,52 @@ impl ser::SerializeStructVariant for Object<'_> {
     }
 }
 
-/// Wraps a body with the SHA-256 of its canonical form.
-pub fn seal(body: tubecert_format::Body) -> Result<tubecert_format::Certificate, String> {
-    seal_sized(body).map(|(c, _)| c)
+/// How a certificate file begins: its members in sorted order start with `body`.
+const FILE_START: &[u8] = b"{\"body\":";
+
+/// A certificate file begun: `{"body":` and the body's canonical bytes, so that the hash is
+/// taken of [`body_of`] and the file finished by [`finish_file`] without writing the body twice.
+pub fn start_file(body: &tubecert_format::Body) -> Result<Vec<u8>, String> {
+    let mut file = FILE_START.to_vec();
+    append_canonical(body, &mut file)?;
+    Ok(file)
 }
 
-/// [`seal`], and the size of the canonical body: a lower bound on the file's size, hence on
-/// the work the checker allows it (`limits::work_limit`).
-pub fn seal_sized(body: tubecert_format::Body) -> Result<(tubecert_format::Certificate, u64), String> {
-    let canonical = to_canonical(&body)?;
-    let sha256 = tubecert_format::canonical::sha256_hex(&canonical);
-    let size = canonical.len() as u64;
-    let certificate = tubecert_format::Certificate {
+/// The canonical body inside a file begun by [`start_file`].
+pub fn body_of(file: &[u8]) -> &[u8] {
+    &file[FILE_START.len()..]
+}
+
+/// Finishes a file begun by [`start_file`] for `cert` (whose body it holds): the other members
+/// in sorted order and a newline, the same bytes as [`file_bytes`] (tested).
+pub fn finish_file(mut file: Vec<u8>, cert: &tubecert_format::Certificate) -> Result<Vec<u8>, String> {
+    #[derive(serde::Serialize)]
+    struct Rest<'a> {
+        format: &'a str,
+        sha256: &'a str,
+        version: u32,
+    }
+    let rest = to_canonical(&Rest { format: &cert.format, sha256: &cert.sha256, version: cert.version })?;
+    file.push(b',');
+    file.extend_from_slice(&rest[1..]);
+    file.push(b'\n');
+    Ok(file)
+}
+
+/// The certificate of a body whose canonical form has SHA-256 `sha256`.
+pub fn certificate(body: tubecert_format::Body, sha256: String) -> tubecert_format::Certificate {
+    tubecert_format::Certificate {
         format: tubecert_format::CERTIFICATE_FORMAT.into(),
         version: tubecert_format::CERTIFICATE_VERSION,
         sha256,
         body,
-    };
-    Ok((certificate, size))
+    }
+}
+
+/// Wraps a body with the SHA-256 of its canonical form.
+pub fn seal(body: tubecert_format::Body) -> Result<tubecert_format::Certificate, String> {
+    let sha256 = tubecert_format::canonical::sha256_hex(&to_canonical(&body)?);
+    Ok(certificate(body, sha256))
 }
 
 /// A certificate file's bytes: its canonical form and a newline, so the same body always
@@ -319,7 +379,11 @@ mod tests {
         for (_, p) in crate::demo::demo_problems() {
             let bytes = crate::demo::problem_bytes(&p);
             let ctx = crate::validate::validate(&p).unwrap();
-            let cert = crate::prove::prove(p, &ctx, &bytes).unwrap().certificate;
+            let proved = crate::prove::prove(p, &ctx, &bytes).unwrap();
+            assert_eq!(proved.file, file_bytes(&proved.certificate).unwrap(), "one serialization, same file");
+            let body_len = to_canonical(&proved.certificate.body).unwrap().len() as u64;
+            assert!(crate::prove::written_floor(&proved.certificate.body) <= body_len, "a lower bound");
+            let cert = proved.certificate;
             let mut expected = Vec::new();
             tubecert_format::canonical::write_canonical(&serde_json::to_value(&cert).unwrap(), &mut expected).unwrap();
             assert_eq!(String::from_utf8(to_canonical(&cert).unwrap()).unwrap(), String::from_utf8(expected).unwrap());

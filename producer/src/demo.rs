@@ -190,8 +190,7 @@ pub fn write_demo(dir: &Path) -> Result<Vec<String>, String> {
             return Err(format!("{stem}: a demo goal came out false:\n{}", proved.lines.join("\n")));
         }
         let cpath = dir.join(format!("{stem}.cert.json"));
-        std::fs::write(&cpath, crate::canonical_writer::file_bytes(&proved.certificate)?)
-            .map_err(|e| format!("{}: {e}", cpath.display()))?;
+        std::fs::write(&cpath, &proved.file).map_err(|e| format!("{}: {e}", cpath.display()))?;
         lines.push(format!("{stem}: sha256 {}", proved.certificate.sha256));
         lines.extend(proved.lines.iter().map(|l| format!("  {l}")));
     }

@@ -238,10 +238,7 @@ pub fn run(
             std::fs::write(&path, b).map_err(|e| vec![format!("{}: {e}", path.display())])
         };
         write(out.join(format!("{member}.problem.json")), &instance)?;
-        write(
-            out.join(format!("{member}.cert.json")),
-            &crate::canonical_writer::file_bytes(&proved.certificate).map_err(|e| vec![e])?,
-        )?;
+        write(out.join(format!("{member}.cert.json")), &proved.file)?;
         let claims: Vec<&str> = proved.certificate.body.claims.iter().map(|c| c.statement()).collect();
         if rows.is_empty() {
             rows.push(format!("| {name} | claims | certificate sha256 |"));

@@ -267,9 +267,7 @@ fn run() -> ExitCode {
                 }
             };
             let out = output.unwrap_or_else(|| default_output(&problem));
-            let written = tubecert::canonical_writer::file_bytes(&proved.certificate)
-                .and_then(|b| std::fs::write(&out, b).map_err(|e| e.to_string()));
-            if let Err(e) = written {
+            if let Err(e) = std::fs::write(&out, &proved.file) {
                 eprintln!("error: cannot write {}: {e}", out.display());
                 return ExitCode::from(2);
             }

@@ -54,7 +54,7 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
     if let Some(b) = &p.bordered {
         // The bordered claims are decided by construction; a written object that breaks its
         // relations is an input error, said here rather than by the final self-check.
-        match tubecheck::bordered::Objects::load(b, 1 << 30, tubecert_format::CERTIFICATE_VERSION) {
+        match tubecheck::bordered::Objects::load(b, 1 << 30, tubecert_format::CERTIFICATE_VERSION, &p.bordered_claims) {
             Err(es) => es.into_iter().for_each(|e| errs.push(e)),
             Ok(o) => {
                 for claim in &p.bordered_claims {

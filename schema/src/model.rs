@@ -368,6 +368,9 @@ pub enum Claim {
     },
     /// A type D structure is the one LOT Thm 11.26 gives for a full complex and a framing.
     Complement {
+        /// Written (as true) when the structure is the bounded model (see `statement::render`).
+        #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
+        bounded_model: Option<bool>,
         complex: String,
         framing: i64,
         statement: String,

@@ -103,8 +103,11 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
             format!("{complex} = {module} ⊠ {structure} (box tensor product, gradings added)")
         }
         Claim::BoxTensorMap { map, module, morphism, .. } => format!("{map} = id_{module} ⊠ {morphism}"),
-        Claim::Complement { structure, complex, framing, tau, .. } => format!(
+        Claim::Complement { bounded_model: None, structure, complex, framing, tau, .. } => format!(
             "{structure} = CFD of the complement of the knot with complex {complex}, framing {framing} (LOT Thm 11.26), τ = {tau}"
+        ),
+        Claim::Complement { structure, complex, framing, tau, .. } => format!(
+            "{structure} ≃ CFD of the complement of the knot with complex {complex}, framing {framing}: the bounded model (LOT Thm 11.26's structure with ξ_0's unstable arrow split through a cancelling pair, homotopy equivalent by the cancellation lemma, LOT §2), τ = {tau}"
         ),
     }
 }
@@ -144,7 +147,7 @@ pub const SCOPE: &str = "Scope: a certificate proves algebraic identities about 
 It does not prove that they are the knot Floer complexes or the surface-induced maps of particular knots and surfaces.";
 
 /// What a certificate with bordered claims does and does not prove; printed when it has one.
-pub const BORDERED_SCOPE: &str = "Bordered claims: a box_tensor claim proves X = M ⊠ N exactly, a complement claim that N is the type D structure LOT Thm 11.26 assigns to the complex C and the framing (with C's basis simultaneously simplified), and the type_d_structure / type_a_module claims the structure relations. \
+pub const BORDERED_SCOPE: &str = "Bordered claims: a box_tensor claim proves X = M ⊠ N exactly, with one side bounded (LOT §2.4), a complement claim that N is the type D structure LOT Thm 11.26 assigns to the complex C and the framing (with C's basis simultaneously simplified), or its bounded model where that one has a cycle (homotopy equivalent by the cancellation lemma, LOT §2), and the type_d_structure / type_a_module claims the structure relations. \
 That M is the type A module of a given pattern, that C is the complex of a given knot, and the pairing theorem CFK^-(P(K)) ≃ CFA^-(P) ⊠ CFD(X_K) (LOT Thm 11.21) are the paper's to argue and cite.";
 
 #[cfg(test)]

@@ -185,12 +185,13 @@ fn validate_over(ring: &Ring, spec: &ComplexSpec) -> Result<(), String> {
     tubecheck::verify::check_complex(&ctx, 0)
 }
 
-/// The type D structure of the complement with framing t (LOT Thm 11.26), and τ.
-pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, i64), String> {
+/// The type D structure of the complement with framing t (LOT Thm 11.26, in its bounded model
+/// where that one has a cycle), τ, and whether it is the bounded model.
+pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, i64, bool), String> {
     let ctx =
         tubecheck::load::load(&full_ring(), &UniqueMap([(name.to_string(), c.clone())].into()), &UniqueMap::default())
             .map_err(|e| e.join("; "))?;
-    checked::complement(&ctx.complexes[0], t, true)
+    checked::complement(&ctx.complexes[0], t, true, true)
 }
 
 fn budget() -> Budget {
@@ -201,7 +202,7 @@ fn budget() -> Budget {
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize), String> {
     let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
-    let (gens, rows) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
     let mut differential = Vec::new();
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
         differential.extend(row.iter().map(|(t, p)| [name.clone(), power(*p), t.clone()]));
@@ -237,7 +238,7 @@ pub fn box_tensor_map(
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
-    let (gens, rows) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, gr), row) in gens.iter().zip(&rows) {
@@ -359,9 +360,16 @@ fn add_complement(
         sname
     };
     out.full.insert(cname, c);
-    let (d, tau) = complement_of(&complex, &out.full[&complex], t)?;
+    let (d, tau, split) = complement_of(&complex, &out.full[&complex], t)?;
     out.structures.insert(name.to_string(), d);
-    out.claims.push(Claim::Complement { complex, framing: t, statement: String::new(), structure: name.into(), tau });
+    out.claims.push(Claim::Complement {
+        bounded_model: split.then_some(true),
+        complex,
+        framing: t,
+        statement: String::new(),
+        structure: name.into(),
+        tau,
+    });
     Ok(tau)
 }
 

@@ -25,9 +25,10 @@ pub enum Pivots {
 
 /// The result: a new basis, its inverse, and the arrows of ∂ in it.
 pub struct NormalForm {
-    /// New basis vector t written in the old generators.
+    /// New basis vector t written in the old generators (`Units`: empty for cancelled targets).
     pub basis: Vec<Vector>,
-    /// Row t of B⁻¹: each old generator g with the coefficient of t in g.
+    /// Row t of B⁻¹: each old generator g with the coefficient of t in g (`Units`: empty for
+    /// cancelled sources).
     pub inverse_rows: Vec<Vector>,
     /// Cancelled arrows a → m·b of ∂ in the new basis.
     pub pairs: Vec<(u32, u32, Mono)>,
@@ -60,55 +61,92 @@ impl Sources {
     }
 }
 
-fn coefficient(row: &Vector, b: u32) -> Vec<Mono> {
+/// The terms of `row` into `b`.
+fn terms_into(row: &[(u32, Mono)], b: u32) -> &[(u32, Mono)] {
     let start = row.partition_point(|t| t.0 < b);
-    row[start..].iter().take_while(|t| t.0 == b).map(|t| t.1).collect()
+    let len = row[start..].iter().take_while(|t| t.0 == b).count();
+    &row[start..start + len]
 }
 
-/// `target += Σ_f f·src` for the monomials f of `factor`, by merging: both are sorted without
-/// repeats and multiplying by f keeps the order, so this gives exactly what sorting would.
-fn add_multiple(target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
-    for &f in factor {
-        let mut merged = Vec::with_capacity(target.len() + src.len());
-        let mut t = target.iter().copied().peekable();
-        for &(g, n) in src {
-            let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
-            while let Some(&x) = t.peek() {
-                if x >= term {
-                    break;
-                }
-                merged.push(x);
-                t.next();
+/// `out = old + f·src`, by merging: both are sorted without repeats and multiplying by f keeps
+/// the order, so this gives exactly what sorting would.
+fn merge_one(old: &[(u32, Mono)], f: Mono, src: &[(u32, Mono)], out: &mut Vector) -> Result<(), String> {
+    out.clear();
+    out.reserve(old.len() + src.len());
+    let mut t = old.iter().copied().peekable();
+    for &(g, n) in src {
+        let term = (g, f.checked_mul(n).ok_or_else(tubecheck::algebra::overflow)?);
+        while let Some(&x) = t.peek() {
+            if x >= term {
+                break;
             }
-            if t.peek() == Some(&term) {
-                t.next(); // 1 + 1 = 0
-            } else {
-                merged.push(term);
+            out.push(x);
+            t.next();
+        }
+        if t.peek() == Some(&term) {
+            t.next(); // 1 + 1 = 0
+        } else {
+            out.push(term);
+        }
+    }
+    out.extend(t);
+    Ok(())
+}
+
+/// Vectors reused as working space, so that adding rows allocates nothing in the common case.
+#[derive(Default)]
+struct Spare {
+    out: Vector,
+    step: Vector,
+}
+
+impl Spare {
+    /// `self.out = old + Σ_f f·src` for the monomials f of `factor`.
+    fn plus_multiple(&mut self, old: &[(u32, Mono)], factor: &[Mono], src: &Vector) -> Result<(), String> {
+        match factor.split_first() {
+            None => {
+                self.out.clear();
+                self.out.extend_from_slice(old);
+            }
+            Some((&f, rest)) => {
+                merge_one(old, f, src, &mut self.out)?;
+                for &g in rest {
+                    merge_one(&self.out, g, src, &mut self.step)?;
+                    std::mem::swap(&mut self.out, &mut self.step);
+                }
             }
         }
-        merged.extend(t);
-        *target = merged;
+        Ok(())
     }
-    Ok(())
+
+    /// `target += Σ_f f·src`.
+    fn add_multiple(&mut self, target: &mut Vector, factor: &[Mono], src: &Vector) -> Result<(), String> {
+        self.plus_multiple(target, factor, src)?;
+        std::mem::swap(target, &mut self.out);
+        Ok(())
+    }
 }
 
 /// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and
 /// `f(t, false)` for each in `old` but not in `new` (both sorted by generator).
-fn each_change(old: &Vector, new: &Vector, mut f: impl FnMut(u32, bool)) {
-    let gens = |v: &Vector| {
-        let mut g: Vec<u32> = v.iter().map(|t| t.0).collect();
-        g.dedup();
-        g
-    };
-    let (old, new) = (gens(old), gens(new));
+fn each_change(old: &[(u32, Mono)], new: &[(u32, Mono)], mut f: impl FnMut(u32, bool)) {
+    // The index after the run of terms into the generator at i; past the end, "generator" 2^32.
+    let past = |v: &[(u32, Mono)], i: usize| i + v[i..].iter().take_while(|t| t.0 == v[i].0).count();
+    let at = |v: &[(u32, Mono)], i: usize| v.get(i).map_or(1u64 << 32, |t| t.0 as u64);
     let (mut i, mut j) = (0, 0);
-    while i < old.len() || j < new.len() {
-        match (old.get(i), new.get(j)) {
-            (Some(a), Some(b)) if a == b => (i, j) = (i + 1, j + 1),
-            (Some(&a), Some(&b)) if a < b => (f(a, false), i += 1).1,
-            (Some(&a), None) => (f(a, false), i += 1).1,
-            (_, Some(&b)) => (f(b, true), j += 1).1,
-            (None, None) => break,
+    loop {
+        let (a, b) = (at(old, i), at(new, j));
+        match a.cmp(&b) {
+            std::cmp::Ordering::Equal if a == 1 << 32 => break,
+            std::cmp::Ordering::Equal => (i, j) = (past(old, i), past(new, j)),
+            std::cmp::Ordering::Less => {
+                f(a as u32, false);
+                i = past(old, i);
+            }
+            std::cmp::Ordering::Greater => {
+                f(b as u32, true);
+                j = past(new, j);
+            }
         }
     }
 }
@@ -135,7 +173,34 @@ impl<K: Ord + Copy> Candidates<K> {
     }
 }
 
+/// The monomial of the only term of `row` into `b`, if there is exactly one.
+fn only_term(row: &Vector, b: u32) -> Option<Mono> {
+    let i = row.partition_point(|t| t.0 < b);
+    let first = row.get(i).filter(|t| t.0 == b)?;
+    row.get(i + 1).is_none_or(|t| t.0 != b).then_some(first.1)
+}
+
+/// A candidate pivot a → m·b: (degree of m, fill-in cost, a, b, m) packed as
+/// (degree·2^42 + cost, a·2^32 + b, m), the same order in 24 bytes (degrees stay below 2^22; a
+/// cost past 2^42 is capped). The cost is the Markowitz count (sources of b − 1)·(terms of ∂a − 1).
+type Key = (u64, u64, Mono);
+
+fn key(a: u32, b: u32, m: Mono, row_len: usize, sources_of_b: usize) -> Key {
+    let cost = (sources_of_b.saturating_sub(1) * row_len.saturating_sub(1)) as u64;
+    ((total_degree(m) << 42) | cost.min((1 << 42) - 1), ((a as u64) << 32) | b as u64, m)
+}
+
+/// Pivots are popped smallest key first. With [`Pivots::Minimal`] every candidate of a row is
+/// pushed again whenever the row changes (a pivot refused for divisibility gets its next
+/// chance then). With [`Pivots::Units`] any order gives a valid reduction and the key only
+/// steers fill-in, so a row change pushes only the arrows that became candidates, and a popped
+/// key that has grown stale (a longer row, more sources) is pushed again with its present cost
+/// instead of being used: far fewer heap entries on dense complexes, each candidate present at
+/// least once. Only what a [`Reduction`](super::reduce::Reduction) reads is kept for `Units`:
+/// the basis vectors of cancelled targets and the inverse rows of cancelled sources are left
+/// empty.
 pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
+    let units = pivots == Pivots::Units;
     let n = c.names.len();
     let mut out: Vec<Vector> = c.d.rows.clone();
     let mut inc: Vec<Sources> = vec![Sources::default(); n];
@@ -149,58 +214,67 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let mut inverse_rows: Vec<Vector> = (0..n as u32).map(unit).collect();
     let mut done = vec![false; n];
     let mut pairs = Vec::new();
-    // Key (degree of m, fill-in cost, a, b, m) packed as (degree·2^42 + cost, a·2^32 + b, m): the
-    // same order in 24 bytes (degrees stay below 2^22; a cost past 2^42 is capped).
-    let arrows = |a: u32, row: &Vector, inc: &[Sources], into: &mut dyn FnMut((u64, u64, Mono))| {
+    // The candidates of row a, except those that were candidates of `old` already.
+    let arrows = |a: u32, row: &Vector, old: Option<&Vector>, inc: &[Sources], into: &mut dyn FnMut(Key)| {
         for (i, &(b, m)) in row.iter().enumerate() {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
-            if single && a != b && (pivots == Pivots::Minimal || m.is_one()) {
-                let cost = (inc[b as usize].len().saturating_sub(1) * row.len().saturating_sub(1)) as u64;
-                into(((total_degree(m) << 42) | cost.min((1 << 42) - 1), ((a as u64) << 32) | b as u64, m));
+            if single && a != b && (!units || m.is_one()) && old.is_none_or(|o| only_term(o, b) != Some(m)) {
+                into(key(a, b, m, row.len(), inc[b as usize].len()));
             }
         }
     };
     let mut initial = Vec::new();
     for (a, row) in out.iter().enumerate() {
-        arrows(a as u32, row, &inc, &mut |k| initial.push(k));
+        arrows(a as u32, row, None, &inc, &mut |k| initial.push(k));
     }
     initial.sort_unstable();
     let mut heap = Candidates { initial, next: 0, later: BinaryHeap::new() };
-    while let Some((_, ab, m)) = heap.pop() {
+    let (mut spare, mut others, mut factor) = (Spare::default(), Vec::new(), Vec::new());
+    while let Some((k, ab, m)) = heap.pop() {
         let (a, b) = ((ab >> 32) as u32, ab as u32);
         let (au, bu) = (a as usize, b as usize);
-        if done[au] || done[bu] || coefficient(&out[au], b) != [m] {
+        if done[au] || done[bu] || only_term(&out[au], b) != Some(m) {
             continue;
         }
-        let divides =
-            |row: &Vector, skip: Option<u32>| row.iter().all(|t| Some(t.0) == skip || t.1.checked_div(m).is_some());
-        let others: Vec<u32> = inc[bu].iter().copied().filter(|&x| x != a).collect();
-        if !divides(&out[au], None)
-            || others.iter().any(|&x| coefficient(&out[x as usize], b).iter().any(|c| c.checked_div(m).is_none()))
-        {
+        if units {
+            let now = key(a, b, m, out[au].len(), inc[bu].len());
+            if now.0 > k {
+                heap.later.push(Reverse(now));
+                continue;
+            }
+        }
+        others.clear();
+        others.extend(inc[bu].iter().copied().filter(|&x| x != a));
+        let divides = |row: &[(u32, Mono)]| row.iter().all(|t| t.1.checked_div(m).is_some());
+        if !m.is_one() && (!divides(&out[au]) || others.iter().any(|&x| !divides(terms_into(&out[x as usize], b)))) {
             continue;
         }
         // Taken out while the other rows change (a is none of them), put back below.
-        let row_a = std::mem::take(&mut out[au]);
+        let mut row_a = std::mem::take(&mut out[au]);
         let basis_a = std::mem::take(&mut basis[au]);
         let mut inverse_a = std::mem::take(&mut inverse_rows[au]);
-        for a2 in others {
+        for &a2 in &others {
             let a2u = a2 as usize;
-            let factor: Vec<Mono> =
-                coefficient(&out[a2u], b).iter().map(|c| c.checked_div(m).expect("checked")).collect();
-            let before = out[a2u].clone();
-            add_multiple(&mut out[a2u], &factor, &row_a)?;
+            factor.clear();
+            factor.extend(terms_into(&out[a2u], b).iter().map(|c| c.1.checked_div(m).expect("checked")));
+            let before = std::mem::take(&mut out[a2u]);
+            spare.plus_multiple(&before, &factor, &row_a)?;
+            let after = std::mem::replace(&mut spare.out, before);
+            let before = &spare.out;
             // Only the generators that enter or leave the row change their sources.
-            each_change(&before, &out[a2u], |t, entered| match entered {
+            each_change(before, &after, |t, entered| match entered {
                 true => inc[t as usize].insert(a2),
                 false => inc[t as usize].remove(&a2),
             });
-            arrows(a2, &out[a2u], &inc, &mut |k| heap.later.push(Reverse(k)));
-            add_multiple(&mut basis[a2u], &factor, &basis_a)?;
-            add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+            arrows(a2, &after, units.then_some(before), &inc, &mut |k| heap.later.push(Reverse(k)));
+            out[a2u] = after;
+            spare.add_multiple(&mut basis[a2u], &factor, &basis_a)?;
+            if !units {
+                spare.add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+            }
         }
         basis[au] = basis_a;
-        inverse_rows[au] = inverse_a;
+        inverse_rows[au] = if units { Vec::new() } else { inverse_a };
         // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
         for x in std::mem::take(&mut inc[au]).0 {
             out[x as usize].retain(|t| t.0 != a);
@@ -210,13 +284,17 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         let inverse_b = std::mem::take(&mut inverse_rows[bu]);
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
             let f = [c2.checked_div(m).expect("checked")];
-            add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
-            add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
+            if !units {
+                spare.add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+            }
+            spare.add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
             inc[b2 as usize].remove(&a);
         }
-        basis[bu] = basis_b;
+        basis[bu] = if units { Vec::new() } else { basis_b };
         inverse_rows[bu] = inverse_b;
-        out[au] = vec![(b, m)];
+        row_a.clear();
+        row_a.push((b, m));
+        out[au] = row_a;
         // ∂b = 0 in the new basis.
         for (t, _) in std::mem::take(&mut out[bu]) {
             inc[t as usize].remove(&b);
