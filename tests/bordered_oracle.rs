@@ -1920,6 +1920,9 @@ pub mod cert {
                 claim(body, b, c, tubecert_format::CERTIFICATE_VERSION).map_err(|e| format!("{kind}: {e}"))?;
             }
         }
+        if b.is_some() {
+            truncation_covers_pairings(body)?;
+        }
         Ok(())
     }
 }
@@ -2499,7 +2502,7 @@ mod tests {
             cert::truncation_covers_pairings(&body).unwrap();
             let mut b = body.clone();
             b["claims"][1]["max_length"] = serde_json::json!(5);
-            assert!(cert::check_body(&b).is_ok() && cert::truncation_covers_pairings(&b).is_err());
+            assert!(cert::check_body(&b).is_err() && cert::truncation_covers_pairings(&b).is_err());
             // A δ¹ term removed: the D relation may survive, the complement claim must not.
             let mut b = body.clone();
             b["bordered"]["type_d_structures"]["N"]["differential"].as_array_mut().unwrap().pop();
