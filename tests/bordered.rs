@@ -375,6 +375,28 @@ fn a_module_checked_on_too_short_words_is_refused() {
 }
 
 #[test]
+fn a_map_pairing_needs_the_relations_its_source_and_target_pairings_use() {
+    // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′, so the module under the map's name must
+    // be checked on twice the words those pairings use, not only the words of the map's walk.
+    // In the demo's p = 4 member, N (a square of side 4) feeds words of length 5 to the core
+    // module: relations up to 10 are needed; the old checker accepted 8.
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/../certificates/cabled-pair-p4.cert.json");
+    let body = serde_json::from_slice::<tubecert_format::Certificate>(&std::fs::read(path).unwrap()).unwrap().body;
+    assert!(failed_kinds(body.clone()).is_empty());
+    let mut b = body;
+    for c in &mut b.claims {
+        if let Claim::TypeAModule { module, max_length, .. } = c {
+            if module == "KO.pattern" {
+                *max_length = 8;
+            }
+        }
+    }
+    restate(&mut b);
+    let e = outcomes(b).unwrap_err();
+    assert!(e.contains("id_KO.pattern ⊠ f") && e.contains("length 5") && e.contains("≤ 10"), "{e}");
+}
+
+#[test]
 fn refusals_say_what_is_missing() {
     let run = |p: Value| {
         let bytes = serde_json::to_vec(&p).unwrap();

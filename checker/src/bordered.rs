@@ -1043,6 +1043,10 @@ pub fn check(
                 let gens2 = generators(m, n2, version >= 4)?;
                 compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
                 o.budget.1.set(0);
+                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: the words of those pairings
+                // count toward the relations this module must have been checked on, too.
+                tensor_complex(&o.budget, m, n, version >= 4)?;
+                tensor_complex(&o.budget, m, n2, version >= 4)?;
                 let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 covered(o, module)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;

@@ -462,6 +462,8 @@ pub fn box_tensor_map_entry(
         Ok((k.as_str(), built.get(k).ok_or(format!("complex {k} was not built"))?))
     };
     let (map, longest) = box_tensor_map(module, mor, n, n2, find(&mor.from)?, find(&mor.to)?)?;
+    // The checker also counts the words of M ⊠ N and M ⊠ N′ (what id_M ⊠ f maps between).
+    let longest = [n, n2].into_iter().try_fold(longest, |l, s| box_tensor(module, s).map(|(_, k)| l.max(k)))?;
     note_longest(out, &m, longest);
     out.claims.push(Claim::BoxTensorMap { map: name.into(), module: m, morphism: f, statement: String::new() });
     Ok(map)
