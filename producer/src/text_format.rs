@@ -29,7 +29,7 @@
 //! ```
 //! Other goals: `equivalent C D f g`, `tau K [alexander NAME]`, `torsion_order_of_complex K U`,
 //! `null_homotopic EXPR` / `not_null_homotopic EXPR` with EXPR in the statements' notation
-//! (`U^2·(F + G)`, `(U·F)∘id_O`; see [`map_expression`]); JSON there is still read.
+//! (`U^2·(F + G)`, `(U·F)∘id_O`; see `map_expression`); JSON there is still read.
 //! It converts both ways with the JSON problem format ([`parse`], [`render`]).
 
 use serde_json::{json, Map, Value};
