@@ -503,17 +503,21 @@ fn changes_of_basis_are_checked_by_both_deciders() {
 fn cabled_maps_of_the_demo_carry_their_torsion_order() {
     let mut certs = Vec::new();
     for (stem, bytes) in tubecert::demo::cabled_problems() {
-        let p: i64 = stem.trim_start_matches("cabled-pair-p").parse().unwrap();
+        // The square's side is the order in the first family (the square is a summand); the
+        // cable family (P = p) is checked for agreement only.
+        let side: Option<i64> = stem.strip_prefix("cabled-pair-p").map(|p| p.parse().unwrap());
         let c = certificate(&serde_json::from_slice(&bytes).unwrap());
         assert!(checker_accepts(&c), "{stem}");
         oracle_accepts(&c["body"]).unwrap_or_else(|e| panic!("{stem}: {e}"));
         let claims = c["body"]["claims"].as_array().unwrap();
         let kinds: Vec<&str> = claims.iter().map(|x| x["kind"].as_str().unwrap()).collect();
-        for k in ["box_tensor_map", "type_d_morphism", "torsion_order", "null_homotopic", "not_null_homotopic"] {
+        for k in ["box_tensor_map", "type_d_morphism", "torsion_order", "not_null_homotopic"] {
             assert!(kinds.contains(&k), "{stem}: no {k} claim in {kinds:?}");
         }
         let ord = claims.iter().find(|x| x["kind"] == "torsion_order").unwrap();
-        assert_eq!(ord["order"], json!(p), "{stem}");
+        if let Some(p) = side {
+            assert_eq!(ord["order"], json!(p), "{stem}");
+        }
         certs.push((stem, c));
     }
     let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0xCAB1E);

@@ -13,7 +13,11 @@
 //!   (LOT Thm 11.26); their cables `cable 1 0` (the core pattern ⊠ the complement); two type D
 //!   morphisms f, f2 from the unknot's complement to C's (f2 differs from f by o ↦ d and
 //!   γ1 ↦ ρ23·κp); the maps id ⊠ f and id ⊠ f2 between the cables; and ord_U(F − G) = p with
-//!   its two witnesses and the surfaces reading.
+//!   its two witnesses and the surfaces reading;
+//! - `cable-by-p{1..4}` (from `examples/cable-by-p.template.json`): the same pair with the
+//!   square's side fixed at 2 and the cable as the parameter: the (p, 1 − p) cables (the (p, 1)
+//!   pattern module from its genus-one diagram, framing −1), the same morphisms, id ⊠ f and
+//!   id ⊠ f2 between the cables, and their torsion order with the surfaces reading.
 
 use crate::problem::{Goal, Problem, PROBLEM_FORMAT};
 use std::path::Path;
@@ -147,19 +151,24 @@ pub fn demo_problems() -> Vec<(String, Problem)> {
     out
 }
 
-/// The bordered workflow's template (see the module documentation).
+/// The bordered workflow's templates (see the module documentation): the square's side as the
+/// parameter (core pattern), and the cable's P as the parameter ((P, 1 − P) cables, framing −1).
 pub const CABLED_PAIR_TEMPLATE: &str = include_str!("../../examples/cabled-pair.template.json");
+pub const CABLE_BY_P_TEMPLATE: &str = include_str!("../../examples/cable-by-p.template.json");
 
-/// The written problems of the bordered workflow, p = 1 … 4: (file stem, problem file bytes).
-/// They are kept as written (with their bordered sections), not as typed problems.
+/// The written problems of the bordered workflow, p = 1 … 4 of each template: (file stem,
+/// problem file bytes). They are kept as written (with their bordered sections), not as typed problems.
 pub fn cabled_problems() -> Vec<(String, Vec<u8>)> {
-    let template: serde_json::Value = serde_json::from_str(CABLED_PAIR_TEMPLATE).expect("the template is JSON");
-    (1..=4)
-        .map(|p| {
-            let v = crate::family::instantiate(&template, "p", p).expect("the template instantiates");
-            let mut b = serde_json::to_vec_pretty(&v).expect("JSON serializes");
-            b.push(b'\n');
-            (format!("cabled-pair-p{p}"), b)
+    [(CABLED_PAIR_TEMPLATE, "cabled-pair-p"), (CABLE_BY_P_TEMPLATE, "cable-by-p")]
+        .into_iter()
+        .flat_map(|(text, stem)| {
+            let template: serde_json::Value = serde_json::from_str(text).expect("the template is JSON");
+            (1..=4).map(move |p| {
+                let v = crate::family::instantiate(&template, "p", p).expect("the template instantiates");
+                let mut b = serde_json::to_vec_pretty(&v).expect("JSON serializes");
+                b.push(b'\n');
+                (format!("{stem}{p}"), b)
+            })
         })
         .collect()
 }
