@@ -3,19 +3,11 @@
 
 use std::process::Command;
 
-fn tubecert(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_tubecert")).args(args).output().unwrap();
-    (
-        out.status.code().unwrap(),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::tubecert;
 
 fn dir() -> std::path::PathBuf {
-    let d = std::env::temp_dir().join(format!("tubecert-draw-{}", std::process::id()));
-    std::fs::create_dir_all(&d).unwrap();
-    d
+    common::scratch("draw")
 }
 
 fn write(name: &str, text: &str) -> String {
