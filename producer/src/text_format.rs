@@ -662,20 +662,19 @@ fn map_expression(line: &Line, col: usize, text: &str) -> Result<Value, String> 
             self.line.err(c, expected, &found)
         }
         fn sum(&mut self) -> Result<Value, String> {
-            let mut parts = vec![self.composition()?];
-            while self.peek() == Some(&Tok::Plus) {
-                self.k += 1;
-                parts.push(self.composition()?);
-            }
-            Ok(if parts.len() == 1 { parts.pop().expect("one part") } else { json!({ "sum": parts }) })
+            self.chain(Tok::Plus, "sum", Self::composition)
         }
         fn composition(&mut self) -> Result<Value, String> {
-            let mut parts = vec![self.factor()?];
-            while self.peek() == Some(&Tok::After) {
+            self.chain(Tok::After, "compose", Self::factor)
+        }
+        /// `part (op part)*`: one part alone, or `{key: [parts]}` (a flat list, as the format has).
+        fn chain(&mut self, op: Tok, key: &str, part: fn(&mut Self) -> Result<Value, String>) -> Result<Value, String> {
+            let mut parts = vec![part(self)?];
+            while self.peek() == Some(&op) {
                 self.k += 1;
-                parts.push(self.factor()?);
+                parts.push(part(self)?);
             }
-            Ok(if parts.len() == 1 { parts.pop().expect("one part") } else { json!({ "compose": parts }) })
+            Ok(if parts.len() == 1 { parts.pop().expect("one part") } else { json!({ key: parts }) })
         }
         fn factor(&mut self) -> Result<Value, String> {
             match self.peek().cloned() {
