@@ -404,11 +404,13 @@ fn refusals_say_what_is_missing() {
     };
     let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
     let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": 4}}}), json!({})));
-    assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-1, 1, 3"), "{e}");
-    // Every Q ≡ 1 mod P is reachable, negative Q too.
-    for q in [3, -1, -3] {
-        let p = problem(json!({"K": {"cable": {"companion": t23, "p": 2, "q": q}}}), json!({}));
-        assert!(tubecert::problem::parse_problem(&serde_json::to_vec(&p).unwrap(), "p").is_ok(), "(2, {q})");
+    assert!(e.contains("P and Q must be coprime") && e.contains("every coprime (P, Q) with 1 ≤ P ≤ 5"), "{e}");
+    let e = run(problem(json!({"K": {"cable": {"companion": t23, "p": 7, "q": 3}}}), json!({})));
+    assert!(e.contains("Q must be ≡ 1 mod P") && e.contains("-6, 1, 8"), "{e}");
+    // Every coprime Q is reachable for P ≤ 5, negative Q too; Q ≡ 1 mod P beyond.
+    for (p, q) in [(2, 3), (2, -1), (2, -3), (3, 2), (3, -2), (5, 3), (7, -13)] {
+        let prob = problem(json!({"K": {"cable": {"companion": t23, "p": p, "q": q}}}), json!({}));
+        assert!(tubecert::problem::parse_problem(&serde_json::to_vec(&prob).unwrap(), "p").is_ok(), "({p}, {q})");
     }
     // The tensor basis of T(2,3) ⊗ T(2,3) is not simultaneously simplified, but the producer
     // finds a basis that is (tests/bordered_agreement.rs); for T(3,5) ⊗ mirror T(3,4) its

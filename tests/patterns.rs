@@ -207,6 +207,56 @@ mod cables {
         }
     }
 
+    // Cables with Q ≢ 1 mod P, from the (P, r) patterns' own diagrams (r = Q mod P in 2 … P − 1,
+    // framing n = (Q − r)/P), positive and negative Q, companions with ε = 0, 1, −1: τ from Hom
+    // 2014 (`hom_tau`), the graded Euler characteristic Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula
+    // for satellites), and the one tower F2[U] of HFK^- at (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003).
+    #[test]
+    fn tau_and_alexander_polynomials_of_cables_with_q_not_1_mod_p() {
+        let pq = [(3, 2), (3, -1), (3, 5), (3, -4), (4, 3), (4, -1), (4, -5), (5, 2), (5, -3), (5, 4), (5, -7)];
+        for (name, src, tau, eps, delta) in companions().into_iter().chain(more_companions().into_iter().take(2)) {
+            for (p, q) in pq {
+                if name != "T(2,3)" && p == 5 && q != 2 && q != -3 {
+                    continue; // P = 5: all residues on T(2,3), two on the others (time)
+                }
+                let b = cable(&src, p, q);
+                let want = hom_tau(tau, eps, p, q);
+                assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
+                let seifert = mul(&substitute_power(&delta, p), &torus_alexander(p, q));
+                assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
+                assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
+            }
+        }
+    }
+
+    // Every cable of the unknot is a torus knot: the (P, Q) cable of the unknot is T(P, Q), whose
+    // complex is the staircase of its Alexander polynomial for Q > 0 (an L-space knot,
+    // Ozsváth–Szabó 2005) and the dual of that staircase for Q < 0 (the mirror, CFK(mirror K) ≃
+    // CFK(K)^∨). Over F2[U] free complexes with equal bigraded homology are homotopy equivalent,
+    // so equal homology claims in one certificate certify it.
+    #[test]
+    fn cables_of_the_unknot_are_torus_knots() {
+        for (p, q) in [(3, 2), (3, 5), (3, -2), (4, 3), (4, -3), (5, 2), (5, 3), (5, -4)] {
+            let delta = torus_alexander(p, q);
+            let exponents: Vec<i64> = delta.keys().rev().copied().collect();
+            let stair = json!({"staircase": {"alexander": exponents}});
+            let model = if q > 0 { stair } else { json!({"dual": stair}) };
+            let problem = json!({"format": "tubecert-problem", "version": 1,
+                "ring": minus_ring(),
+                "complexes": {
+                    "K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": p, "q": q}},
+                    "S": {"quotient": [model, "V"]}},
+                "goals": [{"homology": {"complex": "K"}}, {"homology": {"complex": "S"}}]});
+            let proved = prove_value(&problem);
+            let claims = tubecert_tests::verified_claims(&proved);
+            let homology = |c: &str| {
+                let h = claims.iter().find(|x| x["kind"] == "homology" && x["complex"] == c).unwrap();
+                (h["free"].clone(), h["torsion"].clone())
+            };
+            assert_eq!(homology("K"), homology("S"), "({p},{q}) cable of the unknot against T({p},{q})");
+        }
+    }
+
     // The (P, 1) cables of the unknot, and its (2, −1) cable, are T(P, ±1) = the unknot: HFK^- is
     // one tower F2[U] in (0, 0), no torsion, χ = 1 (the other Q ≡ 1 mod P give T(P, Q), above).
     #[test]
@@ -336,6 +386,9 @@ mod cables {
         // homology claims on the cable and the staircase's V = 0 quotient, in one certificate, certify it.
         for (k, g, p, q) in
             [((2, 3), 1, 2, 3), ((2, 3), 1, 2, 5), ((2, 3), 1, 3, 4), ((2, 3), 1, 3, 7), ((3, 4), 3, 2, 11)]
+                .into_iter()
+                // Q ≢ 1 mod P, from the (P, r) patterns' own diagrams.
+                .chain([((2, 3), 1, 3, 5), ((2, 3), 1, 4, 7), ((2, 3), 1, 5, 7), ((2, 3), 1, 5, 8), ((3, 4), 3, 3, 17)])
         {
             assert!(q >= p * (2 * g - 1));
             let delta = mul(&substitute_power(&torus_alexander(k.0, k.1), p), &torus_alexander(p, q));

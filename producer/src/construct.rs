@@ -65,7 +65,7 @@ pub fn torus_knot_exponents(p: u32, q: u32) -> Result<Vec<i64>, String> {
     Ok(terms.iter().rev().map(|t| t.0).collect())
 }
 
-fn gcd(a: u32, b: u32) -> u32 {
+pub(crate) fn gcd(a: u32, b: u32) -> u32 {
     if b == 0 {
         a
     } else {

@@ -782,6 +782,157 @@ pub fn cable_diagram(p: usize) -> DiagramSpec {
     DiagramSpec { beta, w }
 }
 
+/// A rational number num/den (den > 0), for the exact positions of crossings.
+#[derive(Copy, Clone, Debug)]
+struct Q(i128, i128);
+
+impl Q {
+    fn new(num: i128, den: i128) -> Q {
+        if den < 0 {
+            Q(-num, -den)
+        } else {
+            Q(num, den)
+        }
+    }
+    fn cmp(self, o: Q) -> std::cmp::Ordering {
+        (self.0 * o.1).cmp(&(o.0 * self.1))
+    }
+    /// The value modulo m (an integer), in [0, m).
+    fn modulo(self, m: i128) -> Q {
+        Q(self.0.rem_euclid(m * self.1), self.1)
+    }
+}
+
+/// The diagram of the torus knot pattern of slope (−r, p), built by pushing (see
+/// `torus_pattern_diagram`): the straight closed curve c of direction (−r, p) through the point
+/// z = (d − e, e) next to the corner (1, 0) (units of 1/d) is cut at W = z + T·(−r, p) into
+/// c2 (z to W, inside the square) and c1 (W to z + d·(−r, p), in the universal cover); β is the
+/// horizontal circle y = h dragged along c1 by the point W: each crossing of c1 with y ≡ h
+/// becomes a finger of β that follows c1 back to W and goes around it (the finger of the
+/// crossing nearest W outermost).
+fn pushed_diagram(p: i64, r: i64, d: i64, e: i64, t: i64, h: i64) -> DiagramSpec {
+    let (p, r, d, e, t, h) = (p as i128, r as i128, d as i128, e as i128, t as i128, h as i128);
+    let (wx, wy) = (d - e - r * t, e + p * t);
+    let (ux, uy) = (-r * (d - t), p * (d - t));
+    let a = -r;
+    // Crossings of c1 with the α lines: (s along c1, arc, position along the arc mod d).
+    let mut events: Vec<(Q, Arc, Q)> = Vec::new();
+    let ks: Vec<i128> = (1 + a..=0).collect();
+    for k in ks {
+        let s = Q::new(k * d - wx, ux);
+        events.push((s, Arc::V, Q::new(wy * ux + (k * d - wx) * uy, ux).modulo(d)));
+    }
+    for k in 1..=p {
+        let s = Q::new(k * d - wy, uy);
+        events.push((s, Arc::H, Q::new(wx * uy + (k * d - wy) * ux, uy).modulo(d)));
+    }
+    events.sort_by(|x, y| x.0.cmp(y.0));
+    // Fingers: c1 meets y = h + jd at s_j; ordered along β (eastward) by x mod d.
+    let mut fingers: Vec<(Q, Q)> = Vec::new();
+    for j in 0..p + 1 {
+        let y = h + j * d;
+        if y > wy && y < p * d + e {
+            let s = Q::new(y - wy, uy);
+            fingers.push((s, Q::new(wx * uy + (y - wy) * ux, uy).modulo(d)));
+        }
+    }
+    // Nesting depth: the finger with the smallest s is the outermost.
+    let mut by_s: Vec<usize> = (0..fingers.len()).collect();
+    by_s.sort_by(|&i, &j| fingers[i].0.cmp(fingers[j].0));
+    let depth = |f: usize| (fingers.len() - by_s.iter().position(|&g| g == f).expect("finger")) as i128;
+    let mut order: Vec<usize> = (0..fingers.len()).collect();
+    order.sort_by(|&i, &j| fingers[i].1.cmp(fingers[j].1));
+    // Crossings of β in order: (arc, position, offset along the arc, direction +1/−1).
+    let left_sign = if ux > 0 { 1 } else { -1 }; // offset of c1's left side along α_V
+    let mut beta: Vec<(Arc, Q, i128, i64)> = vec![(Arc::V, Q::new(h, 1), 0, 1)];
+    let mut w_pair = None;
+    for &f in &order {
+        let (s, _) = fingers[f];
+        let on: Vec<&(Q, Arc, Q)> = events.iter().filter(|e| e.0.cmp(s).is_lt()).collect();
+        let dp = depth(f);
+        let (ldir, rdir) = if ux > 0 { (-1, 1) } else { (1, -1) };
+        let start = beta.len();
+        for e in on.iter().rev() {
+            match e.1 {
+                Arc::V => beta.push((Arc::V, e.2, left_sign * dp, ldir)),
+                Arc::H => beta.push((Arc::H, e.2, -dp, -1)),
+            }
+        }
+        let mid = beta.len();
+        for e in &on {
+            match e.1 {
+                Arc::V => beta.push((Arc::V, e.2, -left_sign * dp, rdir)),
+                Arc::H => beta.push((Arc::H, e.2, dp, 1)),
+            }
+        }
+        // The innermost finger's crossings next to W: the last of the way out, the first back.
+        if dp == 1 && mid > start {
+            w_pair = Some((mid - 1, mid));
+        }
+    }
+    // Ranks along each arc.
+    let mut rank = vec![0usize; beta.len()];
+    for arc in [Arc::V, Arc::H] {
+        let mut idx: Vec<usize> = (0..beta.len()).filter(|&i| beta[i].0 == arc).collect();
+        idx.sort_by(|&i, &j| beta[i].1.cmp(beta[j].1).then(beta[i].2.cmp(&beta[j].2)));
+        for (r, &i) in idx.iter().enumerate() {
+            rank[i] = r + 1;
+        }
+    }
+    let tokens = beta
+        .iter()
+        .zip(&rank)
+        .map(|(c, r)| {
+            let l = match (c.0, c.3 > 0) {
+                (Arc::V, true) => "E",
+                (Arc::V, false) => "W",
+                (Arc::H, true) => "N",
+                (Arc::H, false) => "S",
+            };
+            format!("{l}{r}")
+        })
+        .collect();
+    let side = match events.first().map(|e| e.1) {
+        Some(Arc::H) => "top",
+        _ if ux > 0 => "right",
+        _ => "left",
+    };
+    let interval = w_pair.map_or(0, |(i, j)| rank[i].min(rank[j]));
+    DiagramSpec { beta: tokens, w: (side.to_string(), interval) }
+}
+
+/// The largest p for which the (p, r) patterns with r ≢ 1 mod p are built (their diagrams have
+/// about p² crossings, and the enumeration of their operations grows quickly with it).
+pub const MAX_P_TORUS: usize = 5;
+
+/// The diagram of the (p, r) cable pattern, 2 ≤ r ≤ p − 1, gcd(p, r) = 1, by pushing
+/// (`pushed_diagram`): the torus knot of slope (−r, p) on the Heegaard torus, z next to the corner
+/// (1, 0) at (1 − 1/d, 1/d), W halfway up the square on the line of c, β at half W's height.
+/// Any such generic choice gives the same knot (c stays one straight closed curve missing the
+/// punctures); these numbers only fix one diagram. Derivation in DEVELOPERS.md.
+pub fn torus_pattern_diagram(p: usize, r: usize) -> Result<DiagramSpec, String> {
+    if p < 2 || r == 0 || r >= p || crate::construct::gcd(p as u32, r as u32) != 1 {
+        return Err(format!("the (p, r) torus pattern diagram needs 1 ≤ r < p with gcd(p, r) = 1, not ({p}, {r})"));
+    }
+    let (p, r) = (p as i64, r as i64);
+    let d = 1000;
+    let t = d / 2 / p;
+    Ok(pushed_diagram(p, r, d, 1, t, (1 + p * t) / 2))
+}
+
+/// The module of the (p, r) cable pattern (1 ≤ r < p, gcd(p, r) = 1, or p = r = 1): r = 1 by
+/// `cable_module`, the others from `torus_pattern_diagram` (p ≤ `MAX_P_TORUS`), enumerated up to
+/// length 2p + 8 (every family's fixed part and three of its members).
+pub fn torus_pattern_module(p: usize, r: usize) -> Result<PatternModule, String> {
+    if r == 1 || p == 1 {
+        return cable_module(p);
+    }
+    if p > MAX_P_TORUS {
+        return Err(format!("the (p, r) cable patterns with r ≢ 1 mod p are built for p ≤ {MAX_P_TORUS}, not p = {p}"));
+    }
+    module(&Diagram::read(&torus_pattern_diagram(p, r)?)?, 2 * p + 8)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -809,6 +960,21 @@ mod tests {
                 assert!(a_infinity(&bad, 24).is_err(), "p = {p}: family {k} with one more U still passes");
             }
         }
+    }
+
+    // The (p, r) patterns with r ≢ 1 mod p (their diagrams by pushing): the A∞ relations (LOT
+    // ch. 2) by the checker, and one more U on a family breaks them.
+    #[test]
+    fn torus_pattern_modules_satisfy_the_a_infinity_relations() {
+        for (p, r) in [(3, 2), (4, 3), (5, 2)] {
+            let m = torus_pattern_module(p, r).unwrap();
+            a_infinity(&m.module, 14).unwrap_or_else(|e| panic!("({p}, {r}): {e}"));
+            let mut bad = m.module.clone();
+            bad.operations[0].power[1] += 1;
+            assert!(a_infinity(&bad, 14).is_err(), "({p}, {r}): a family with one more U still passes");
+        }
+        assert!(torus_pattern_diagram(4, 2).err().unwrap().contains("gcd"));
+        assert!(torus_pattern_module(6, 5).err().unwrap().contains("p ≤ 5"));
     }
 
     // p = 1 is the core of the solid torus: the same module as `core_module` up to the name of

@@ -100,6 +100,18 @@ pub fn cable_pattern(p: i64) -> Result<TypeASpec, String> {
     }
 }
 
+/// The module of the (p, r) cable pattern, 1 ≤ r < p coprime (or p = r = 1): r = 1 by
+/// `cable_pattern`, the others from their genus-one diagrams (`diagram::torus_pattern_module`).
+pub fn torus_pattern(p: i64, r: i64) -> Result<TypeASpec, String> {
+    if r == 1 || p == 1 {
+        return cable_pattern(p);
+    }
+    if !(2..=12).contains(&p) || r < 1 || r >= p {
+        return Err(format!("the (p, r) cable pattern is built for 1 ≤ r < p ≤ 12, not ({p}, {r})"));
+    }
+    Ok(diagram::torus_pattern_module(p as usize, r as usize)?.module)
+}
+
 /// `{"beta": ["E1", "S1", …], "w": [SIDE, K]}`: the module of a genus-one doubly pointed
 /// bordered diagram (layout in `diagram`).
 fn diagram_module(v: &Value) -> Result<TypeASpec, String> {
@@ -414,18 +426,25 @@ pub fn cable(
     if p < 1 {
         return Err(format!("cable {p} {q}: P must be at least 1"));
     }
-    // The (p, 1) pattern with framing t of the complement gives the (p, pt + 1) cable.
-    let t = q.checked_sub(1).ok_or("cable: q out of range")?;
-    if t % p != 0 {
+    // The (p, r) pattern with framing t of the complement gives the (p, pt + r) cable: r = 1 for
+    // Q ≡ 1 mod P (and P = 1), else the residue of Q in 2 … P − 1.
+    let r = if p == 1 || q.rem_euclid(p) == 1 { 1 } else { q.rem_euclid(p) };
+    let max = diagram::MAX_P_TORUS as i64;
+    if p >= 2 && crate::construct::gcd(p.min(u32::MAX as i64) as u32, q.rem_euclid(p) as u32) != 1 {
         return Err(format!(
-            "cable {p} {q}: only the (P, PN + 1) cables are reachable (the (P, 1) pattern with framing N), so Q must be ≡ 1 mod P: for P = {p}, Q = …, {}, {}, {}, …",
+            "cable {p} {q}: P and Q must be coprime (the (P, Q) cable of a knot is a knot only then); reachable: every coprime (P, Q) with 1 ≤ P ≤ {max}, and Q ≡ 1 mod P for {} ≤ P ≤ 12",
+            max + 1
+        ));
+    }
+    if r != 1 && p > max {
+        return Err(format!(
+            "cable {p} {q}: for P > {max} only the (P, PN + 1) cables are reachable (the (P, 1) pattern with framing N), so Q must be ≡ 1 mod P: for P = {p}, Q = …, {}, 1, {}, …; every coprime Q is reachable for P ≤ {max}",
             1 - p,
-            1,
             1 + p
         ));
     }
-    let t = t / p;
-    let pattern = cable_pattern(p).map_err(|e| format!("cable {p} {q}: {e}"))?;
+    let t = (q - r) / p;
+    let pattern = torus_pattern(p, r).map_err(|e| format!("cable {p} {q}: {e}"))?;
     let (mn, nn) = (format!("{name}.pattern"), format!("{name}.complement"));
     add_complement(&nn, &format!("{name}.companion"), src, t, defs, out)?;
     out.modules.insert(mn.clone(), pattern);
