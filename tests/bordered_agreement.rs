@@ -538,16 +538,19 @@ fn a_wrong_operation_deep_in_a_long_family_is_found_by_both_at_the_same_length()
     let c = certificate(&problem);
     let ops = c["body"]["bordered"]["type_a_modules"]["M"]["operations"].as_array().unwrap();
     let long = ops.iter().find(|f| f["from"] == "x1" && f["to"] == "x1").expect("the (2, 1) pattern's x1 → x1 family");
-    assert_eq!((long["prefix"].clone(), long["repeat"].clone(), long["suffix"].clone(), long["power"].clone()),
-        (json!(["rho3"]), json!(["rho23"]), json!(["rho2"]), json!([2, 2])));
+    assert_eq!(
+        (long["prefix"].clone(), long["repeat"].clone(), long["suffix"].clone(), long["power"].clone()),
+        (json!(["rho3"]), json!(["rho23"]), json!(["rho2"]), json!([2, 2]))
+    );
     let mut word = vec![json!("rho3")];
     word.extend(std::iter::repeat_n(json!("rho23"), 20));
     word.push(json!("rho2"));
     for (length, holds) in [(22, true), (23, false), (40, false)] {
         let mut body = c["body"].clone();
-        body["bordered"]["type_a_modules"]["M"]["operations"].as_array_mut().unwrap().push(
-            json!({"from": "x1", "power": [0, 42], "prefix": word, "repeat": [], "suffix": [], "to": "x1"}),
-        );
+        body["bordered"]["type_a_modules"]["M"]["operations"]
+            .as_array_mut()
+            .unwrap()
+            .push(json!({"from": "x1", "power": [0, 42], "prefix": word, "repeat": [], "suffix": [], "to": "x1"}));
         body["claims"][0]["max_length"] = json!(length);
         let sealed = reseal(&c, body).unwrap();
         assert_eq!(checker_accepts(&sealed), holds, "checker, length {length}");

@@ -557,13 +557,15 @@ fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
     // its prefixes).
     let mut back: BTreeMap<usize, Vec<u64>> = BTreeMap::new();
     let mut suffix = |g: usize, i: usize| -> Result<u64, Failure> {
-        if !back.contains_key(&g) {
-            o.spend(work, "A∞ relations")?;
-            let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
-            (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
-            back.insert(g, b);
+        if let Some(b) = back.get(&g) {
+            return Ok(b[i]);
         }
-        Ok(back[&g][i])
+        o.spend(work, "A∞ relations")?;
+        let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
+        (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
+        let at = b[i];
+        back.insert(g, b);
+        Ok(at)
     };
     let merges: Vec<(usize, Alg)> = (1..k).filter_map(|j| s[j - 1].times(s[j]).map(|ab| (j - 1, ab))).collect();
     let mut acc: Vec<(u32, u64)> = Vec::new();
@@ -673,7 +675,13 @@ fn paths(
             if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
                 o.1.set(o.1.get().max(path.len()));
                 let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT);
-                out.push((f.to, y, p.ok_or_else(|| Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into()))?));
+                out.push((
+                    f.to,
+                    y,
+                    p.ok_or_else(|| {
+                        Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
+                    })?,
+                ));
             }
             path.push((y, mask, next, 0));
             Ok(())
