@@ -1,0 +1,72 @@
+//! Certificates written by a hostile author: each one is sealed with the canonical hash (as
+//! anyone can) and must not verify while its printed statement is false.
+
+use serde_json::{json, Value};
+use tubecert_format::statement::render;
+use tubecert_format::{Body, Certificate, Claim, RingInfo};
+
+const MINUS: &str = r#"{"variables": ["U"], "gradings": ["maslov", "alexander"],
+    "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]}"#;
+
+fn full_ring() -> Value {
+    json!({"variables": ["U", "V"], "gradings": ["gr_U", "gr_V"],
+           "variable_degrees": {"U": [-2, 0], "V": [0, -2]}, "differential_degree": [-1, -1]})
+}
+
+/// A body of format `version` over the minus ring with these complexes, bordered section and
+/// claims; each claim's statement is the checker's wording of its fields.
+fn body(version: u32, complexes: Value, maps: Value, bordered: Value, claims: Vec<Value>) -> Body {
+    let ring: Value = serde_json::from_str(MINUS).unwrap();
+    let info = RingInfo::new(&serde_json::from_value(ring.clone()).unwrap()).unwrap();
+    let claims: Vec<Value> = claims
+        .into_iter()
+        .map(|mut c| {
+            c["statement"] = json!("");
+            let parsed: Claim = serde_json::from_value(c.clone()).expect("claim parses");
+            c["statement"] = json!(render(&parsed, &info, version));
+            c
+        })
+        .collect();
+    serde_json::from_value(json!({
+        "ring": ring, "complexes": complexes, "maps": maps, "bordered": bordered, "claims": claims,
+        "provenance": {"producer": "hostile test", "problem_sha256": "0"}
+    }))
+    .expect("body parses")
+}
+
+/// The certificate's bytes with the canonical hash, and the checker's verdict on them:
+/// Ok(true) verified, Ok(false) a claim failed, Err refused.
+fn verdict(version: u32, body: Body) -> Result<bool, String> {
+    let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
+    let cert = Certificate { format: "tubecert-certificate".into(), version, sha256, body };
+    let r = tubecheck::check_bytes("hostile.cert.json", &serde_json::to_vec(&cert).unwrap())?;
+    for c in r.claims.iter().filter(|c| c.outcome.is_err()) {
+        eprintln!("failed: {} — {:?}", c.statement, c.outcome);
+    }
+    Ok(r.ok())
+}
+
+/// Generator names x⊗y of M ⊠ N can collide when names contain ⊗: (a⊗b, c) and (a, b⊗c) both
+/// name a⊗b⊗c. Then the complex could carry a generator the product does not have, never
+/// compared with anything: here z with ∂z = a⊗c, so H(C) has rank 2 while M ⊠ N has rank 4.
+#[test]
+fn box_tensor_generator_names_that_collide_are_refused() {
+    let gen = |i: u8| json!({"grading": [0, 0], "idempotent": i});
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"a⊗b": gen(0), "a": gen(0)}, "operations": []}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": {"c": gen(0), "b⊗c": gen(0)}, "differential": []}}
+    });
+    let complexes = json!({"C": {
+        "generators": {"a⊗b⊗c": [0, 0], "a⊗b⊗b⊗c": [0, 0], "a⊗c": [0, 0], "z": [1, 0]},
+        "differential": [["z", "1", "a⊗c"]]
+    }});
+    let claims = vec![
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+    ];
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(!matches!(v, Ok(true)), "C = M ⊠ N verified with a generator z that M ⊠ N does not have: {v:?}");
+    assert!(v.as_ref().is_err_and(|e| e.contains("a⊗b⊗c")), "{v:?}");
+}
