@@ -666,7 +666,10 @@ pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator
     let mut names: Vec<&String> = out.iter().map(|g| &g.2).collect();
     names.sort();
     if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
-        return Err(Failure::Refused(format!("two generators of the box tensor product are both named {}: rename a generator whose name contains ⊗", w[0])));
+        return Err(Failure::Refused(format!(
+            "two generators of the box tensor product are both named {}: rename a generator whose name contains ⊗",
+            w[0]
+        )));
     }
     if symmetric && m.group && n.group {
         symmetrize(&mut out)?;
