@@ -1050,13 +1050,14 @@ pub fn check(
                 let fm = &ctx.maps[i];
                 let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
-                let gens2 = generators(m, n2, version >= 4)?;
-                compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
                 o.budget.1.set(0);
-                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: the words of those pairings
+                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
+                // those complexes (differentials included), and the words of those pairings
                 // count toward the relations this module must have been checked on, too.
-                tensor_complex(&o.budget, m, n, version >= 4)?;
-                tensor_complex(&o.budget, m, n2, version >= 4)?;
+                for (c, d, dn) in [(from, n, &f.from), (to, n2, &f.to)] {
+                    let (gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
+                    compare(&format!("{what}: {} = {module} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
+                }
                 let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 covered(o, module)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;

@@ -70,3 +70,30 @@ fn box_tensor_generator_names_that_collide_are_refused() {
     assert!(!matches!(v, Ok(true)), "C = M ⊠ N verified with a generator z that M ⊠ N does not have: {v:?}");
     assert!(v.as_ref().is_err_and(|e| e.contains("a⊗b⊗c")), "{v:?}");
 }
+
+/// A stored certificate's body, as JSON to edit.
+fn stored(name: &str) -> (u32, Value) {
+    let path = format!("{}/../certificates/{name}.cert.json", env!("CARGO_MANIFEST_DIR"));
+    let cert: Value = serde_json::from_slice(&std::fs::read(path).unwrap()).unwrap();
+    (cert["version"].as_u64().unwrap() as u32, cert["body"].clone())
+}
+
+/// `F = id_M ⊠ f` says F maps M ⊠ N to M ⊠ N′; a map between complexes with the product's
+/// generators but other differentials is not that map. Here KC (the target) loses its
+/// differential and no box_tensor claim is left to notice.
+#[test]
+fn box_tensor_map_between_complexes_that_are_not_the_products_is_refused() {
+    let (version, mut b) = stored("cable-by-p1");
+    b["claims"].as_array_mut().unwrap().retain(|c| {
+        let kind = c["kind"].as_str().unwrap();
+        kind == "type_a_module" || (kind == "box_tensor_map" && c["map"] == "F")
+    });
+    assert_eq!(
+        verdict(version, serde_json::from_value(b.clone()).unwrap()),
+        Ok(true),
+        "the trimmed certificate verifies"
+    );
+    b["complexes"]["KC"]["differential"] = json!([]);
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert_eq!(v, Ok(false), "F = id ⊠ f verified with a target that is not M ⊠ N′");
+}
