@@ -341,17 +341,18 @@ impl Family {
         self.close(next)
     }
 
-    /// U-power of the output when a word of length `len` is complete at `mask`.
-    fn output(&self, mask: u64, len: usize) -> Option<u32> {
+    /// U-power of the output when a word of length `len` is complete at `mask` (in u64: a·n
+    /// can pass 2^32 on a long δ-path; a term beyond 2^20 is refused where it is used).
+    fn output(&self, mask: u64, len: usize) -> Option<u64> {
         if mask >> self.pattern.len() & 1 == 0 {
             return None;
         }
         let n = (len + self.repeat - self.pattern.len()).checked_div(self.repeat).unwrap_or(0);
-        Some(self.power[0] * n as u32 + self.power[1])
+        Some((self.power[0] as u64).saturating_mul(n as u64) + self.power[1] as u64)
     }
 
     /// m contribution on exactly the word s.
-    fn on(&self, s: &[Alg]) -> Option<u32> {
+    fn on(&self, s: &[Alg]) -> Option<u64> {
         let mask = s.iter().fold(self.start(), |m, &a| self.step(m, a));
         self.output(mask, s.len())
     }
@@ -359,8 +360,8 @@ impl Family {
 
 impl TypeA {
     /// m(x, s) as (output, U-power) terms, summed mod 2.
-    fn m(&self, x: u32, s: &[Alg]) -> Vec<(u32, u32)> {
-        let mut out: Vec<(u32, u32)> =
+    fn m(&self, x: u32, s: &[Alg]) -> Vec<(u32, u64)> {
+        let mut out: Vec<(u32, u64)> =
             self.families.iter().filter(|f| f.from == x).filter_map(|f| f.on(s).map(|p| (f.to, p))).collect();
         normalize(&mut out);
         out
@@ -528,7 +529,7 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
     }
     o.spend(candidates.iter().map(|c| (c.1.len() as u64 + 1).pow(2) * m.families.len() as u64).sum(), "A∞ relations")?;
     for (x, s) in candidates {
-        let mut acc: Vec<(u32, u32)> = Vec::new();
+        let mut acc: Vec<(u32, u64)> = Vec::new();
         for i in 0..=s.len() {
             for (y, e) in m.m(x, &s[..i]) {
                 acc.extend(m.m(y, &s[i..]).into_iter().map(|(z, e2)| (z, e + e2)));
@@ -619,8 +620,14 @@ fn paths(
             let next = steps(y);
             o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
             if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
+                if p > MAX_EXPONENT as u64 {
+                    return Err(Failure::Refused(format!(
+                        "a δ-path of length {} gives the term U^{p}, beyond the exponent bound 2^20",
+                        path.len()
+                    )));
+                }
                 o.1.set(o.1.get().max(path.len()));
-                out.push((f.to, y, p));
+                out.push((f.to, y, p as u32));
             }
             path.push((y, mask, next, 0));
             Ok(())

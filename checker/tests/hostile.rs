@@ -97,3 +97,32 @@ fn box_tensor_map_between_complexes_that_are_not_the_products_is_refused() {
     let v = verdict(version, serde_json::from_value(b).unwrap());
     assert_eq!(v, Ok(false), "F = id ⊠ f verified with a target that is not M ⊠ N′");
 }
+
+/// A family's output power a·n + b with a = 2^20 leaves u32 once a δ-path repeats the block
+/// more than 4096 times: a chain of 4100 ρ23 arrows in a bounded structure (a few hundred
+/// kilobytes). The term must be refused, not wrapped, saturated (two saturated powers would
+/// cancel mod 2) or a panic.
+#[test]
+fn a_family_power_beyond_the_exponent_bound_is_refused() {
+    let gen = |i: u8| json!({"grading": [0, 0], "idempotent": i});
+    let n = 4100;
+    let names: Vec<String> = (0..=n).map(|k| format!("y{k}")).collect();
+    let generators: serde_json::Map<String, Value> = names.iter().map(|y| (y.clone(), gen(1))).collect();
+    let differential: Vec<Value> = names.windows(2).map(|w| json!([w[0], "rho23", w[1]])).collect();
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"x": gen(1)}, "operations": [
+            {"from": "x", "power": [1 << 20, 0], "prefix": [], "repeat": ["rho23"], "suffix": [], "to": "x"}
+        ]}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": generators, "differential": differential}}
+    });
+    let cgens: serde_json::Map<String, Value> = names.iter().map(|y| (format!("x⊗{y}"), json!([0, 0]))).collect();
+    let complexes = json!({"C": {"generators": cgens, "differential": []}});
+    let claims = vec![
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+    ];
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("2^20")), "{v:?}");
+}
