@@ -126,3 +126,29 @@ fn a_family_power_beyond_the_exponent_bound_is_refused() {
     let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
     assert!(v.as_ref().is_err_and(|e| e.contains("2^20")), "{v:?}");
 }
+
+/// |M|·|N| generators x⊗y from |M| + |N| written ones: 3000 + 3000 generators (about 200
+/// kilobytes) ask for 9·10^6 named pairs. The pairs are counted against the budget before
+/// they are made, so the file is refused quickly instead of filling memory.
+#[test]
+fn a_box_tensor_product_with_too_many_generators_is_refused_before_it_is_built() {
+    let gen = json!({"grading": [0, 0], "idempotent": 0});
+    let many =
+        |p: &str| -> serde_json::Map<String, Value> { (0..3000).map(|k| (format!("{p}{k}"), gen.clone())).collect() };
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": many("x"), "operations": []}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": many("y"), "differential": []}}
+    });
+    let claims = vec![
+        json!({"kind": "type_a_module", "module": "M", "max_length": 0}),
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+    ];
+    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
+    let start = std::time::Instant::now();
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+    // Generous for a debug build on a loaded machine; building the pairs took far longer.
+    assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
+}
