@@ -1078,7 +1078,13 @@ pub fn check(
             }
             Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => {
                 let c = &o.full.complexes[o.full.complex_named(complex)?];
-                o.budget.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
+                // The structure has a chain of l generators per arrow of length l and |t − 2τ|
+                // more (|t − 2τ| ≤ |t| + max |gr_U − gr_V|): counted before they are made, each at 1/64 of an item's
+                // allowance (the structure compared with them lists them all).
+                let arrows: u64 = c.d.rows.iter().flatten().map(|(_, m)| 1 + m.0[0].max(m.0[1]) as u64).sum();
+                let alex = (0..c.names.len()).map(|x| (c.gradings[x][0] - c.gradings[x][1]).unsigned_abs()).max();
+                let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex.unwrap_or(0));
+                o.budget.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
                 let (want, found_tau, split) = complement(c, *framing, o.group, *bounded_model == Some(true))?;
                 if *bounded_model != split.then_some(true) {
                     return Err(format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {})", if split { "it is not written" } else { "it is not needed" }).into());

@@ -152,3 +152,23 @@ fn a_box_tensor_product_with_too_many_generators_is_refused_before_it_is_built()
     // Generous for a debug build on a loaded machine; building the pairs took far longer.
     assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
 }
+
+/// LOT Thm 11.26 gives an arrow U^l (or V^l) a chain of l generators: four arrows of length
+/// 2^20 in a full complex of five generators (a file of 2 KB) ask for 4·2^20 of them. The
+/// chains are counted against the budget before they are made.
+#[test]
+fn a_complement_with_long_arrows_is_refused_before_its_chains_are_built() {
+    let (version, mut b) = stored("cable-by-p1");
+    let l: i64 = 1 << 20;
+    let (u, v) = (format!("U^{l}"), format!("V^{l}"));
+    let s = 2 * l - 2;
+    b["bordered"]["full_complexes"]["KC.companion"] = json!({
+        "generators": {"a": [-s, -s], "b": [1, 1 - 2 * l], "c": [1 - 2 * l, 1], "d": [0, 0], "z": [0, 0]},
+        "differential": [["a", u, "b"], ["a", v, "c"], ["b", v, "d"], ["c", u, "d"]]
+    });
+    b["claims"].as_array_mut().unwrap().retain(|c| c["kind"] == "complement" && c["complex"] == "KC.companion");
+    let start = std::time::Instant::now();
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+    assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
+}
