@@ -654,13 +654,7 @@ pub type Generator = (u32, u32, String, Grading);
 /// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings: version 3 (Maslov,
 /// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y);
 /// `symmetric` (version 4): then normalized by `symmetrize`.
-pub fn generators(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
-    // |M|·|N| pairs from |M| + |N| written generators: counted before they are made, each at
-    // 1/64 of an item's allowance (a named pair is a few hundred bytes; a true product lists
-    // every pair in its complex, so it has far fewer pairs than written items · 64).
-    let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
-    let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
-    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
@@ -688,6 +682,16 @@ pub fn generators(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<V
         symmetrize(&mut out)?;
     }
     Ok(out)
+}
+
+/// `generators`, after counting the |M|·|N| pairs made from |M| + |N| written generators, each
+/// at 1/64 of an item's allowance (a named pair is a few hundred bytes; a true product lists
+/// every pair in its complex, so it has far fewer pairs than written items · 64).
+fn counted_generators(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
+    let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
+    let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
+    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+    generators(m, n, symmetric)
 }
 
 /// The absolute normalization of a knot's complex in S³ read from a pairing: χ = Σ(−1)^M t^A
@@ -797,7 +801,7 @@ pub fn tensor_complex(
     if let Some(e) = m.defects.first().or(n.defects.first()) {
         return Err(e.clone().into());
     }
-    let gens = generators(o, m, n, symmetric)?;
+    let gens = counted_generators(o, m, n, symmetric)?;
     let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
     let side = bounded(o, m, n.names.len() as u32, &steps)?;
     let node = |y: u32| n.names[y as usize].clone();
@@ -817,7 +821,7 @@ pub fn tensor_map(
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }
-    let gens = generators(o, m, n, symmetric)?;
+    let gens = counted_generators(o, m, n, symmetric)?;
     // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
     let k = n.names.len() as u32;
     let steps = |y: u32| -> Vec<(Alg, u32, bool)> {
