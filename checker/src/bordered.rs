@@ -504,8 +504,8 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
         l.checked_sub(fixed).map_or(0, |room| room.checked_div(f.repeat).map_or(1, |k| k + 1))
     };
     let words = |f: &Family| -> Vec<Vec<Alg>> { (0..fitting(f)).map(|n| f.word(n)).collect() };
-    let count: u64 =
-        m.families.iter().map(|f| fitting(f) as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
+    let pairs = 1 + (m.families.len() as u64).saturating_mul(l as u64 + 1);
+    let count = m.families.iter().map(|f| (fitting(f) as u64).saturating_mul(pairs)).fold(0, u64::saturating_add);
     o.spend(count.saturating_mul(l as u64 + 1), "A∞ relations")?;
     let mut candidates: BTreeSet<(u32, Vec<Alg>)> = BTreeSet::new();
     for f in &m.families {

@@ -172,3 +172,21 @@ fn a_complement_with_long_arrows_is_refused_before_its_chains_are_built() {
     assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
     assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
 }
+
+/// `max_length` is a u32: at 2^32 − 1 with two families that repeat a block, the count of
+/// words to check passes u64 (4·10^9 words per family times 2·4·10^9 pairs). It must be
+/// refused as too much work, not overflow.
+#[test]
+fn a_huge_max_length_is_refused_not_overflowed() {
+    let gen = json!({"grading": [0, 0], "idempotent": 1});
+    let family =
+        |b: u32| json!({"from": "x", "power": [0, b], "prefix": [], "repeat": ["rho23"], "suffix": [], "to": "x"});
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"x": gen}, "operations": [family(0), family(1)]}},
+        "type_d_morphisms": {}, "type_d_structures": {}
+    });
+    let claims = vec![json!({"kind": "type_a_module", "module": "M", "max_length": u32::MAX})];
+    let v = verdict(2, body(2, json!({}), json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+}
