@@ -1022,17 +1022,19 @@ pub fn check(
             Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
             Claim::TypeAModule { module, max_length, .. } => check_module(&o.budget, o.module(module)?, *max_length)?,
             Claim::TypeDMorphism { morphism, .. } => check_morphism(o, o.morphism(morphism)?)?,
-            Claim::BoxTensor { complex, module, structure, .. } => {
+            Claim::BoxTensor { complex, module, structure, witness, .. } => {
                 minus()?;
                 let c = &ctx.complexes[ctx.complex_named(complex)?];
                 o.budget.1.set(0);
-                let (gens, rows, side) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
+                let (mut gens, rows, side) =
+                    tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
                 covered(o, module)?;
+                crate::maslov::certify(&o.budget, &mut gens, &rows, witness.as_ref(), version)?;
                 compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
                 facts.insert("generators".into(), serde_json::json!(gens.len()));
                 facts.insert("bounded".into(), serde_json::json!(side));
             }
-            Claim::BoxTensorMap { map, module, morphism, .. } => {
+            Claim::BoxTensorMap { map, module, morphism, witness, .. } => {
                 minus()?;
                 let (m, f) = (o.module(module)?, o.morphism(morphism)?);
                 let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
@@ -1040,14 +1042,17 @@ pub fn check(
                 let fm = &ctx.maps[i];
                 let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
-                let gens2 = generators(m, n2, version >= 4)?;
-                compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
                 o.budget.1.set(0);
                 // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: the words of those pairings
-                // count toward the relations this module must have been checked on, too.
-                tensor_complex(&o.budget, m, n, version >= 4)?;
-                tensor_complex(&o.budget, m, n2, version >= 4)?;
-                let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
+                // count toward the relations this module must have been checked on, too; each
+                // is normalized by its own witness.
+                let (mut gens, r1, _) = tensor_complex(&o.budget, m, n, version >= 4)?;
+                let (mut gens2, r2, _) = tensor_complex(&o.budget, m, n2, version >= 4)?;
+                let w = witness.as_ref();
+                crate::maslov::certify(&o.budget, &mut gens, &r1, w.map(|w| &w.from), version)?;
+                crate::maslov::certify(&o.budget, &mut gens2, &r2, w.map(|w| &w.to), version)?;
+                compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
+                let (_, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 covered(o, module)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
                 facts.insert("bounded".into(), serde_json::json!(side));
