@@ -6,6 +6,7 @@
 
 use proptest::prelude::*;
 use serde_json::{json, Value};
+use tubecert::search::normal_form::{normal_form, Pivots};
 use tubecert_format::{Body, Claim, Term};
 use tubecert_tests::*;
 
@@ -133,8 +134,17 @@ proptest! {
         let bytes = serde_json::to_vec(&prob).unwrap();
         let p = tubecert::problem::parse_problem(&bytes, "test").unwrap();
         let ctx = tubecert::validate::validate(&p).unwrap();
-        let r = tubecert::search::reduce::Reduction::new(&ctx.complexes[0]).unwrap();
+        let r = tubecert::search::reduce::Reduction::new(&ctx.complexes[0], false).unwrap();
         let (c, small) = (&ctx.complexes[0], &r.complex);
+        // The basis and inverse rows computed on a second thread from the pivots' additions are
+        // the same vectors (so the same certificates whatever the thread count).
+        let beside = tubecert::search::reduce::Reduction::new(c, true).unwrap();
+        prop_assert_eq!((&beside.pi, &beside.iota, &beside.complex.d), (&r.pi, &r.iota, &small.d));
+        prop_assert_eq!(beside.homotopy().unwrap(), r.homotopy().unwrap());
+        for pivots in [Pivots::Minimal, Pivots::Units] {
+            let (a, b) = (normal_form(c, pivots, false).unwrap(), normal_form(c, pivots, true).unwrap());
+            prop_assert_eq!((a.basis, a.inverse_rows, a.pairs, a.survivors, a.out), (b.basis, b.inverse_rows, b.pairs, b.survivors, b.out));
+        }
         let id = |n: usize| tubecheck::algebra::SparseMap::identity(n);
         prop_assert_eq!(r.pi.after(&r.iota).unwrap(), id(small.names.len()));
         let h = r.homotopy().unwrap();
@@ -145,5 +155,21 @@ proptest! {
         // Towers with k = 0 cancel; the rest survive.
         let expected = blocks.iter().map(|b| match b { Block::Free(..) => 1, Block::Tower(_, _, 0) => 0, _ => 2 }).sum::<usize>();
         prop_assert_eq!(small.names.len(), expected);
+    }
+}
+
+/// On a complex large enough that the pivots send many batches of additions to the second
+/// thread, the normal form (both kinds of pivots) is the same vectors as computed in turn.
+#[test]
+fn normal_form_beside_matches_in_turn_across_batches() {
+    let p = tubecert::bench::synthetic_problem(6000, None, Some(9.0), 7).unwrap();
+    let ctx = tubecert::validate::validate(&p).unwrap();
+    let c = &ctx.complexes[ctx.complex_index["K"]];
+    for pivots in [Pivots::Minimal, Pivots::Units] {
+        let (a, b) = (normal_form(c, pivots, false).unwrap(), normal_form(c, pivots, true).unwrap());
+        let additions: usize = a.basis.iter().chain(&a.inverse_rows).map(Vec::len).sum();
+        assert!(additions > 3 * 4096, "{pivots:?}: too small to cross batches ({additions} terms)");
+        assert_eq!((a.basis, a.inverse_rows, a.pairs, a.survivors), (b.basis, b.inverse_rows, b.pairs, b.survivors));
+        assert_eq!(a.out, b.out);
     }
 }

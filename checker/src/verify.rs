@@ -432,6 +432,15 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
+fn claims_in_bounds(body: &tubecert_format::Body) -> Result<(), Vec<String>> {
+    let out_of_bounds: Vec<String> = body.claims.iter().filter_map(|c| numbers_in_bounds(c).err()).collect();
+    if out_of_bounds.is_empty() {
+        Ok(())
+    } else {
+        Err(out_of_bounds)
+    }
+}
+
 /// Verifies a whole body of a certificate of format `version` within `work_limit` units of
 /// work (`limits::work_limit` of the file's size): implicit object checks, then each claim. A
 /// file whose checks need more is refused (`Err`), not failed.
@@ -440,12 +449,23 @@ pub fn check_body(
     version: u32,
     work_limit: u64,
 ) -> Result<Vec<ClaimResult>, Vec<String>> {
-    use crate::bordered::{Failure, Objects};
-    let out_of_bounds: Vec<String> = body.claims.iter().filter_map(|c| numbers_in_bounds(c).err()).collect();
-    if !out_of_bounds.is_empty() {
-        return Err(out_of_bounds);
-    }
+    claims_in_bounds(body)?; // before loading: these errors come first
     let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
+    ctx.work = crate::load::Work::new(work_limit);
+    check_loaded(ctx, None, body, version)
+}
+
+/// The rest of [`check_body`], on `ctx` loaded from the body's ring, complexes and maps with
+/// its work budget set. `implicit`: [`check_objects`] of `ctx` already run within that budget
+/// (a producer runs it before its claims exist), else it is run here.
+pub fn check_loaded(
+    ctx: Context,
+    implicit: Option<Vec<ClaimResult>>,
+    body: &tubecert_format::Body,
+    version: u32,
+) -> Result<Vec<ClaimResult>, Vec<String>> {
+    use crate::bordered::{Failure, Objects};
+    claims_in_bounds(body)?;
     for (i, claim) in body.claims.iter().enumerate() {
         check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
@@ -465,11 +485,10 @@ pub fn check_body(
             )]);
         }
     }
-    ctx.work = crate::load::Work::new(work_limit);
     let refused = |ctx: &Context| ctx.work.refused().map(|e| vec![e.clone()]);
-    let mut out = check_objects(&ctx);
+    let mut out = implicit.unwrap_or_else(|| check_objects(&ctx));
     if let Some(o) = objects.as_mut() {
-        o.full.work = crate::load::Work::new(work_limit);
+        o.full.work = crate::load::Work::new(ctx.work.limit);
         out.extend(check_objects(&o.full));
         if let Some(e) = refused(&o.full) {
             return Err(e);

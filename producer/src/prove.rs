@@ -60,7 +60,7 @@ pub fn homology_witness(ctx: &Context, c: usize) -> Result<(BasisWitness, Decomp
         return Err("homology is computed over F2 or F2[U]; quotient by a variable first".into());
     }
     let cx = &ctx.complexes[c];
-    let nf = normal_form(cx, Pivots::Minimal)?;
+    let nf = normal_form(cx, Pivots::Minimal, false)?;
     let vars = &ctx.ring.variables;
     let basis = nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
     let inverse =
@@ -392,9 +392,26 @@ fn emit_reductions(
 /// A lower bound on the length of a body's canonical form: each term of a differential or a
 /// map is written as at least `["a","1","b"]`, 13 bytes.
 pub(crate) fn written_floor(body: &Body) -> u64 {
-    let terms = body.complexes.values().map(|c| c.differential.len()).sum::<usize>()
-        + body.maps.values().map(|m| m.terms.len()).sum::<usize>();
+    floor_of(&body.complexes, &body.maps)
+}
+
+fn floor_of(complexes: &UniqueMap<ComplexSpec>, maps: &UniqueMap<MapSpec>) -> u64 {
+    let terms = complexes.values().map(|c| c.differential.len()).sum::<usize>()
+        + maps.values().map(|m| m.terms.len()).sum::<usize>();
     13 * terms as u64
+}
+
+/// The self-check's first half, which needs no claim: the problem's complexes and maps (the
+/// body's, when the prover adds none) loaded by the checker's code, and its implicit checks
+/// (∂∂ = 0, chain maps) run within the budget of a lower bound of the file's size.
+type Objects = Result<(Context, Vec<tubecheck::verify::ClaimResult>), Vec<String>>;
+
+fn check_objects_of(problem: &Problem) -> Objects {
+    let mut ctx = tubecheck::load::load(&problem.ring, &problem.complexes, &problem.maps)?;
+    let limit = tubecert_format::limits::work_limit(floor_of(&problem.complexes, &problem.maps));
+    ctx.work = tubecheck::load::Work::new(limit);
+    let implicit = tubecheck::verify::check_objects(&ctx);
+    Ok((ctx, implicit))
 }
 
 /// Proves every goal of a validated problem. `problem_bytes` is hashed into the provenance.
@@ -409,18 +426,30 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
         lines.push(format!("✓ {}", b.add(claim)));
     }
     let mut all = true;
+    // With a second thread, the first half of the self-check and the problem's hash run beside
+    // the search; not when the body gets objects the problem lacks (reductions emitted) or
+    // bordered objects (their checks read the claims): then the whole check runs at the end.
+    let early = options.threads > 1 && !options.emit_reduction && problem.bordered.is_none();
     let start = Instant::now();
-    for (i, goal) in problem.goals.iter().enumerate() {
-        let (held, line) = b.goal(goal).map_err(|e| format!("goal {}: {e}", i + 1))?;
-        all &= held;
-        lines.push(if held {
-            format!("✓ {line}")
-        } else {
-            format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1)
+    let (searched, beside, waited) = std::thread::scope(|s| {
+        let beside = early.then(|| s.spawn(|| (check_objects_of(&problem), sha256_hex(problem_bytes))));
+        let searched = problem.goals.iter().enumerate().try_for_each(|(i, goal)| {
+            let (held, line) = b.goal(goal).map_err(|e| format!("goal {}: {e}", i + 1))?;
+            all &= held;
+            lines.push(if held {
+                format!("✓ {line}")
+            } else {
+                format!("✗ goal {} is false; proved the opposite instead:\n  ✓ {line}", i + 1)
+            });
+            Ok::<(), String>(())
         });
-    }
+        let search_time = start.elapsed();
+        let beside = beside.map(|h| h.join().unwrap_or_else(|p| std::panic::resume_unwind(p)));
+        (searched, beside, start.elapsed() - search_time)
+    });
+    searched?;
     let (reduce, transport) = (b.solver.reduce_time.get(), b.solver.transport_time.get());
-    let solve = start.elapsed().saturating_sub(reduce + transport);
+    let solve = start.elapsed().saturating_sub(reduce + transport + waited);
     let (mut complexes, mut maps) = (problem.complexes, problem.maps);
     if options.emit_reduction {
         let emitted = emit_reductions(&mut b, &mut complexes, &mut maps)?;
@@ -431,16 +460,17 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     }
     let Builder { claims, solver, .. } = b;
     drop(solver); // the reductions are not needed any more: free them before the self-check
+    let (objects, problem_sha256) = match beside {
+        Some((objects, sha)) => (Some(objects), sha),
+        None => (None, sha256_hex(problem_bytes)),
+    };
     let body = Body {
         bordered: problem.bordered,
         ring: problem.ring,
         complexes,
         maps,
         claims,
-        provenance: Provenance {
-            producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")),
-            problem_sha256: sha256_hex(problem_bytes),
-        },
+        provenance: Provenance { producer: format!("tubecert {}", env!("CARGO_PKG_VERSION")), problem_sha256 },
     };
     // The body is written and hashed beside the self-check when there is a second thread. The
     // checker allows a file work in proportion to its size, known only once the body is
@@ -460,7 +490,13 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     let (sealed, early, self_check) = if options.threads > 1 {
         std::thread::scope(|s| {
             let sealing = s.spawn(seal);
-            let early = check(written_floor(&body));
+            let early = match objects {
+                Some(Ok((octx, implicit))) => {
+                    tubecheck::verify::check_loaded(octx, Some(implicit), &body, CERTIFICATE_VERSION)
+                }
+                Some(Err(e)) => Err(e),
+                None => check(written_floor(&body)),
+            };
             let self_check = start.elapsed();
             (sealing.join().unwrap_or_else(|p| std::panic::resume_unwind(p)), Some(early), self_check)
         })
@@ -483,7 +519,8 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
             bad.outcome.as_ref().expect_err("is_err")
         ));
     }
-    let self_check = self_check + start.elapsed();
+    // The wait for the first half, if the search finished before it, counts as self-check.
+    let self_check = self_check + start.elapsed() + waited;
     let certificate = crate::canonical_writer::certificate(body, sha256);
     let file = crate::canonical_writer::finish_file(file, &certificate)?;
     let timings = vec![

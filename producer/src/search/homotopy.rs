@@ -203,22 +203,25 @@ impl<'a> Solver<'a> {
             return Ok(r.clone());
         }
         let start = Instant::now();
-        let r = Rc::new(Reduction::new(&self.ctx.complexes[c])?);
+        let r = Rc::new(Reduction::new(&self.ctx.complexes[c], self.parallel)?);
         self.reduce_time.set(self.reduce_time.get() + start.elapsed());
         self.reductions.borrow_mut().insert(c, r.clone());
         Ok(r)
     }
 
-    /// Reduces two complexes at once, on the machine's two cores when both are new: the
-    /// source and target of a map are independent blocks.
+    /// Reduces two complexes at once, on the machine's two cores when both are new and of
+    /// comparable size (a quarter of the larger at least): the source and target of a map are
+    /// independent blocks. Otherwise each reduction uses both cores in turn.
     fn reduction_pair(&self, c: usize, d: usize) -> Result<(Rc<Reduction>, Rc<Reduction>), String> {
         let known = |i: usize| self.reductions.borrow().contains_key(&i);
-        if self.parallel && c != d && !known(c) && !known(d) {
+        let size = |i: usize| self.ctx.complexes[i].names.len();
+        let comparable = 4 * size(c).min(size(d)) >= size(c).max(size(d));
+        if self.parallel && c != d && !known(c) && !known(d) && comparable {
             let start = Instant::now();
             let complexes = &self.ctx.complexes;
             let (rc, rd) = std::thread::scope(|s| {
-                let other = s.spawn(|| Reduction::new(&complexes[d]));
-                (Reduction::new(&complexes[c]), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
+                let other = s.spawn(|| Reduction::new(&complexes[d], false));
+                (Reduction::new(&complexes[c], false), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
             });
             self.reduce_time.set(self.reduce_time.get() + start.elapsed());
             let mut cache = self.reductions.borrow_mut();

@@ -127,6 +127,68 @@ impl Spare {
     }
 }
 
+/// One addition to the basis vectors or the inverse rows, which choosing pivots never reads:
+/// `rows[target] += f·rows[source]` (target ≠ source), or `rows[target]` emptied (a vector no
+/// later addition reads, dropped to save memory).
+#[derive(Clone, Copy)]
+enum Add {
+    Basis(u32, Mono, u32),
+    Inverse(u32, Mono, u32),
+    ClearBasis(u32),
+    ClearInverse(u32),
+}
+
+/// The basis vectors and inverse rows, changed only by [`Add`]s applied in the order the
+/// pivots make them: here, or on a second thread that receives them in batches (the same
+/// vectors either way).
+struct Additions {
+    basis: Vec<Vector>,
+    inverse_rows: Vec<Vector>,
+    spare: Spare,
+}
+
+impl Additions {
+    fn apply(&mut self, add: Add) -> Result<(), String> {
+        let (rows, target, f, source) = match add {
+            Add::Basis(t, f, s) => (&mut self.basis, t, f, s),
+            Add::Inverse(t, f, s) => (&mut self.inverse_rows, t, f, s),
+            Add::ClearBasis(t) | Add::ClearInverse(t) => {
+                let rows = if matches!(add, Add::ClearBasis(_)) { &mut self.basis } else { &mut self.inverse_rows };
+                rows[t as usize] = Vec::new();
+                return Ok(());
+            }
+        };
+        let src = std::mem::take(&mut rows[source as usize]);
+        let done = self.spare.add_multiple(&mut rows[target as usize], &[f], &src);
+        rows[source as usize] = src;
+        done
+    }
+}
+
+/// Where the pivot loop sends its [`Add`]s.
+enum Sink {
+    Here(Additions),
+    Beside { batch: Vec<Add>, send: std::sync::mpsc::Sender<Vec<Add>> },
+}
+
+const BATCH: usize = 4096;
+
+impl Sink {
+    fn add(&mut self, add: Add) -> Result<(), String> {
+        match self {
+            Sink::Here(a) => a.apply(add),
+            Sink::Beside { batch, send } => {
+                batch.push(add);
+                if batch.len() == BATCH {
+                    // A closed channel means the other side failed; its error is reported at join.
+                    let _ = send.send(std::mem::replace(batch, Vec::with_capacity(BATCH)));
+                }
+                Ok(())
+            }
+        }
+    }
+}
+
 /// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and
 /// `f(t, false)` for each in `old` but not in `new` (both sorted by generator).
 fn each_change(old: &[(u32, Mono)], new: &[(u32, Mono)], mut f: impl FnMut(u32, bool)) {
@@ -198,8 +260,50 @@ fn key(a: u32, b: u32, m: Mono, row_len: usize, sources_of_b: usize) -> Key {
 /// instead of being used: far fewer heap entries on dense complexes, each candidate present at
 /// least once. Only what a [`Reduction`](super::reduce::Reduction) reads is kept for `Units`:
 /// the basis vectors of cancelled targets and the inverse rows of cancelled sources are left
-/// empty.
-pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
+/// empty. With `beside`, the basis vectors and inverse rows are computed on a second thread
+/// from the additions the pivots make, in the same order (the same result).
+pub fn normal_form(c: &Complex, pivots: Pivots, beside: bool) -> Result<NormalForm, String> {
+    let n = c.names.len();
+    let unit = |t: u32| vec![(t, Mono::ONE)];
+    let start = || Additions {
+        basis: (0..n as u32).map(unit).collect(),
+        inverse_rows: (0..n as u32).map(unit).collect(),
+        spare: Spare::default(),
+    };
+    if !beside {
+        let mut sink = Sink::Here(start());
+        let (pairs, survivors, out) = pivot(c, pivots, &mut sink)?;
+        let Sink::Here(Additions { basis, inverse_rows, .. }) = sink else { unreachable!("made here") };
+        return Ok(NormalForm { basis, inverse_rows, pairs, survivors, out });
+    }
+    let (send, receive) = std::sync::mpsc::channel::<Vec<Add>>();
+    std::thread::scope(|s| {
+        let other = s.spawn(move || {
+            let mut additions = start();
+            for batch in receive {
+                batch.into_iter().try_for_each(|a| additions.apply(a))?;
+            }
+            Ok::<_, String>((additions.basis, additions.inverse_rows))
+        });
+        let mut sink = Sink::Beside { batch: Vec::with_capacity(BATCH), send };
+        let pivoted = pivot(c, pivots, &mut sink);
+        if let Sink::Beside { batch, send } = sink {
+            let _ = send.send(batch);
+        } // the channel closes here, and the other side finishes
+        let (basis, inverse_rows) = other.join().unwrap_or_else(|p| std::panic::resume_unwind(p))?;
+        let (pairs, survivors, out) = pivoted?;
+        Ok(NormalForm { basis, inverse_rows, pairs, survivors, out })
+    })
+}
+
+/// The pivot loop of [`normal_form`]: returns (pairs, survivors, ∂ among survivors), the
+/// additions to the basis and inverse rows going to `sink`.
+#[allow(clippy::type_complexity)]
+fn pivot(
+    c: &Complex,
+    pivots: Pivots,
+    sink: &mut Sink,
+) -> Result<(Vec<(u32, u32, Mono)>, Vec<u32>, Vec<Vector>), String> {
     let units = pivots == Pivots::Units;
     let n = c.names.len();
     let mut out: Vec<Vector> = c.d.rows.clone();
@@ -209,9 +313,6 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             inc[b as usize].insert(a as u32);
         }
     }
-    let unit = |t: u32| vec![(t, Mono::ONE)];
-    let mut basis: Vec<Vector> = (0..n as u32).map(unit).collect();
-    let mut inverse_rows: Vec<Vector> = (0..n as u32).map(unit).collect();
     let mut done = vec![false; n];
     let mut pairs = Vec::new();
     // The candidates of row a, except those that were candidates of `old` already.
@@ -251,8 +352,6 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
         }
         // Taken out while the other rows change (a is none of them), put back below.
         let mut row_a = std::mem::take(&mut out[au]);
-        let basis_a = std::mem::take(&mut basis[au]);
-        let mut inverse_a = std::mem::take(&mut inverse_rows[au]);
         for &a2 in &others {
             let a2u = a2 as usize;
             factor.clear();
@@ -268,30 +367,34 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
             });
             arrows(a2, &after, units.then_some(before), &inc, &mut |k| heap.later.push(Reverse(k)));
             out[a2u] = after;
-            spare.add_multiple(&mut basis[a2u], &factor, &basis_a)?;
+            for &f in &factor {
+                sink.add(Add::Basis(a2, f, a))?;
+            }
             if !units {
-                spare.add_multiple(&mut inverse_a, &factor, &inverse_rows[a2u])?;
+                for &f in &factor {
+                    sink.add(Add::Inverse(a, f, a2))?;
+                }
             }
         }
-        basis[au] = basis_a;
-        inverse_rows[au] = if units { Vec::new() } else { inverse_a };
+        if units {
+            sink.add(Add::ClearInverse(a))?;
+        }
         // Nothing hits a any more (∂∂ = 0 forces the true row of a to vanish).
         for x in std::mem::take(&mut inc[au]).0 {
             out[x as usize].retain(|t| t.0 != a);
         }
         // b ← b + Σ (c''/m)·b'' absorbs the rest of ∂a.
-        let mut basis_b = std::mem::take(&mut basis[bu]);
-        let inverse_b = std::mem::take(&mut inverse_rows[bu]);
         for &(b2, c2) in row_a.iter().filter(|t| t.0 != b) {
-            let f = [c2.checked_div(m).expect("checked")];
+            let f = c2.checked_div(m).expect("checked");
             if !units {
-                spare.add_multiple(&mut basis_b, &f, &basis[b2 as usize])?;
+                sink.add(Add::Basis(b, f, b2))?;
             }
-            spare.add_multiple(&mut inverse_rows[b2 as usize], &f, &inverse_b)?;
+            sink.add(Add::Inverse(b2, f, b))?;
             inc[b2 as usize].remove(&a);
         }
-        basis[bu] = if units { Vec::new() } else { basis_b };
-        inverse_rows[bu] = inverse_b;
+        if units {
+            sink.add(Add::ClearBasis(b))?;
+        }
         row_a.clear();
         row_a.push((b, m));
         out[au] = row_a;
@@ -311,5 +414,5 @@ pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     for (a, _, _) in &pairs {
         out[*a as usize].clear();
     }
-    Ok(NormalForm { basis, inverse_rows, pairs, survivors, out })
+    Ok((pairs, survivors, out))
 }

@@ -28,8 +28,9 @@ pub struct Reduction {
 }
 
 impl Reduction {
-    pub fn new(c: &Complex) -> Result<Reduction, String> {
-        let nf = normal_form(c, Pivots::Units)?;
+    /// With `beside`, part of the work runs on a second thread (the same result).
+    pub fn new(c: &Complex, beside: bool) -> Result<Reduction, String> {
+        let nf = normal_form(c, Pivots::Units, beside)?;
         let n = c.names.len();
         let mut expr: Vec<Vector> = vec![Vec::new(); n];
         for (t, row) in nf.inverse_rows.iter().enumerate() {
