@@ -27,7 +27,7 @@ pub fn hat_witness(gens: &[Generator], rows: &Rows) -> Result<HatWitness, String
     let gz: Vec<Vec<i64>> = gens.iter().map(|g| vec![g.3[0] - 2 * g.3[1]]).collect();
     let gradings = Gradings::new(1, gz.iter().map(|g| g.as_slice()));
     let hat = Complex { name: "X/(U − 1)".into(), names, index, gradings, d: SparseMap { rows: d }, defects: vec![] };
-    let r = Reduction::new(&hat)?;
+    let r = Reduction::new(&hat, false)?;
     if r.survivors.len() != 1 {
         return Err(format!(
             "the box tensor product at U = 1 has homology of rank {}, not 1 (HF-hat(S³) ≅ F2): not the complex of a knot in S³, so its Maslov grading cannot be normalized",
