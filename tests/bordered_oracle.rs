@@ -2601,6 +2601,8 @@ mod tests {
             .collect();
         let id_terms: Vec<serde_json::Value> = n.idem.keys().map(|g| json!([g, "1", g])).collect();
         let idmap: Vec<serde_json::Value> = x.keys().map(|g| json!([g, "1", g])).collect();
+        // At U = 1, ∂x1 = x0 and ∂x3 = x2: x4 survives, and nothing reaches it (gr_V(x4) = 0).
+        let hat = json!({"cocycle": ["x⊗x4"], "cycle": ["x⊗x4"]});
         json!({
             "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"],
                      "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
@@ -2620,8 +2622,9 @@ mod tests {
                 {"kind": "type_d_structure", "statement": "", "structure": "N"},
                 {"kind": "type_a_module", "statement": "", "module": "M", "max_length": 10},
                 {"kind": "type_d_morphism", "statement": "", "morphism": "f"},
-                {"kind": "box_tensor", "statement": "", "complex": "X", "module": "M", "structure": "N"},
-                {"kind": "box_tensor_map", "statement": "", "map": "I", "module": "M", "morphism": "f"},
+                {"kind": "box_tensor", "statement": "", "complex": "X", "module": "M", "structure": "N", "witness": hat},
+                {"kind": "box_tensor_map", "statement": "", "map": "I", "module": "M", "morphism": "f",
+                 "witness": {"from": hat, "to": hat}},
                 {"kind": "complement", "statement": "", "complex": "C", "framing": t, "structure": "N", "tau": 3}
             ]
         })
@@ -2644,6 +2647,10 @@ mod tests {
             // Another framing claimed.
             let mut b = body.clone();
             b["claims"][5]["framing"] = serde_json::json!(t + 1);
+            assert!(cert::check_body(&b).is_err());
+            // The Maslov witness: x⊗x0 is hit by ∂(x⊗x1), so it is no cycle's pairing partner.
+            let mut b = body.clone();
+            b["claims"][3]["witness"]["cocycle"] = serde_json::json!(["x⊗x0", "x⊗x4"]);
             assert!(cert::check_body(&b).is_err());
             // A term of the box tensor product changed.
             let mut b = body.clone();
