@@ -110,7 +110,7 @@ enum Command {
     /// Build explicit complexes from constructions given on the command line; writes a problem
     /// file (text or JSON) ready for `prove`.
     #[command(
-        after_help = concat!("Each --complex is one text-format definition NAME = CONSTRUCTION, in order:\n  staircase torus_knot P Q | staircase alexander A… | tensor A B | dual A | shift A (…)\n  | direct_sum A B | quotient V of staircase …\nGenerated names and gradings: staircase x0 … x2n; tensor x⊗y at gr(x) + gr(y); dual: same\nnames, gradings negated; direct_sum A.x, B.y (README: \"Where generated complexes sit\").\nEach --goal is one text-format goal line without the word goal (below).\n\nExample:\n  tubecert build --ring 'F2[U]' --complex 'T = staircase torus_knot 3 4' --complex 'M = dual T' \\\n    --complex 'S = tensor T M' --goal 'tau S' -o sum.problem.txt\n  tubecert prove sum.problem.txt\n\n", goals_help!())
+        after_help = concat!("Each --complex is one text-format definition NAME = CONSTRUCTION, in order:\n  staircase torus_knot P Q | staircase alexander A… | tensor A B | dual A | shift A (…)\n  | direct_sum A B | quotient V of staircase … | cable P Q of staircase …\nGenerated names and gradings: staircase x0 … x2n; tensor x⊗y at gr(x) + gr(y); dual: same\nnames, gradings negated; direct_sum A.x, B.y (README: \"Where generated complexes sit\").\nEach --goal is one text-format goal line without the word goal (below).\n\nExample:\n  tubecert build --ring 'F2[U]' --complex 'T = staircase torus_knot 3 4' --complex 'M = dual T' \\\n    --complex 'S = tensor T M' --goal 'tau S' -o sum.problem.txt\n  tubecert prove sum.problem.txt\n\n", goals_help!())
     )]
     Build {
         /// F2, F2[U] (Maslov, Alexander; the minus version) or F2[U,V] (gr_U, gr_V).

@@ -30,9 +30,14 @@
 //! Other goals: `equivalent C D f g`, `tau K [alexander NAME]`, `torsion_order_of_complex K U`,
 //! `null_homotopic EXPR` / `not_null_homotopic EXPR` with EXPR in the statements' notation
 //! (`U^2·(F + G)`, `(U·F)∘id_O`; see `map_expression`); JSON there is still read.
+//! Bordered objects (`type_d_structure`, `type_a_module`, `type_d_morphism`, `box_tensor`,
+//! `box_tensor_map`) and sources over `F2[U,V]` (`complex C over F2[U,V]`) are read and written
+//! in `bordered`.
 //! It converts both ways with the JSON problem format ([`parse`], [`render`]).
 
 use serde_json::{json, Map, Value};
+
+mod bordered;
 
 struct Line<'a> {
     no: usize,
@@ -148,7 +153,8 @@ impl SourceLines {
     /// `FILE:LINE: message` when the message names something of this file, else `FILE: message`.
     pub fn locate(&self, file: &str, message: &str) -> String {
         let term = self.terms.iter().find_map(|(what, lines)| {
-            let rest = message.strip_prefix(what.as_str())?.strip_prefix(", term ")?;
+            let rest = message.strip_prefix(what.as_str())?;
+            let rest = rest.strip_prefix(", term ").or_else(|| rest.strip_prefix(", operation "))?;
             let digits = rest.len() - rest.trim_start_matches(|c: char| c.is_ascii_digit()).len();
             lines.get(rest[..digits].parse::<usize>().ok()?.checked_sub(1)?)
         });
@@ -170,9 +176,14 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
     let mut errs = Vec::new();
     let (mut variables, mut gradings) = (Vec::<String>::new(), Vec::<String>::new());
     let (mut var_degrees, mut complexes, mut maps, mut goals) = (Map::new(), Map::new(), Map::new(), Vec::new());
+    // Bordered sections, and complexes over F2[U,V] written to stand as sources (with their lines).
+    let (mut structures, mut modules, mut morphisms) = (Map::new(), Map::new(), Map::new());
+    let mut sources: std::collections::BTreeMap<String, Value> = Default::default();
+    let mut source_lines: std::collections::BTreeMap<String, usize> = Default::default();
     let mut diff_degree = Value::Null;
     let mut header = Header::default();
-    // The block that indented lines belong to: ("complex"|"map", name).
+    // The block that indented lines belong to: ("complex"|"source"|"map"|"type_d_structure"|
+    // "type_a_module"|"type_d_morphism", name).
     let mut block: Option<(&str, String)> = None;
     for (i, raw) in src.lines().enumerate() {
         let text = raw.split('#').next().unwrap_or("");
@@ -193,28 +204,59 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                         word(0),
                     ));
                 };
-                let target = if *kind == "complex" { &mut complexes } else { &mut maps };
-                let entry = target.get_mut(name).expect("block exists");
+                if let Some(body) = match *kind {
+                    "type_d_structure" => structures.get_mut(name).map(bordered::Body::Structure),
+                    "type_a_module" => modules.get_mut(name).map(bordered::Body::Module),
+                    "type_d_morphism" => morphisms.get_mut(name).map(bordered::Body::Morphism),
+                    _ => None,
+                } {
+                    let obj = match *kind {
+                        "type_d_structure" => format!("type D structure {name}"),
+                        "type_a_module" => format!("type A module {name}"),
+                        _ => format!("type D morphism {name}"),
+                    };
+                    let (terms, generator) = bordered::body_line(&line, &toks, &obj, body)?;
+                    let what = match *kind {
+                        "type_d_structure" => format!("{obj}, δ¹"),
+                        _ => obj.clone(),
+                    };
+                    lines.terms.entry(what).or_default().extend(std::iter::repeat_n(line.no, terms));
+                    if let Some(g) = generator {
+                        lines.places.insert(format!("{obj}, generator \"{g}\""), line.no);
+                    }
+                    return Ok(());
+                }
+                let (entry, what, explicit) = match *kind {
+                    "complex" => (
+                        complexes.get_mut(name).expect("block exists"),
+                        format!("complex {name}"),
+                        "a term or generator of an explicit complex (this one is a construction)",
+                    ),
+                    "source" => (
+                        sources.get_mut(name).expect("block exists"),
+                        format!("complex {name}"),
+                        "a term or generator of an explicit complex (this source is a construction)",
+                    ),
+                    _ => (
+                        maps.get_mut(name).expect("block exists"),
+                        format!("map {name}"),
+                        "a term of an explicit map (this one is a construction)",
+                    ),
+                };
+                let complex = *kind != "map";
                 if let Some(arrow) = text.find("->") {
                     let from = text[..arrow].trim();
-                    let key = if *kind == "complex" { "differential" } else { "terms" };
-                    let what = if *kind == "complex" {
-                        format!("complex {name}, differential")
-                    } else {
-                        format!("map {name}")
-                    };
+                    let (key, what) =
+                        if complex { ("differential", format!("{what}, differential")) } else { ("terms", what) };
+                    let list = entry[key].as_array_mut().ok_or_else(|| line.err(col(0), explicit, from))?;
                     for (c, t) in targets(&line, arrow + 3, &text[arrow + 2..])? {
                         lines.terms.entry(what.clone()).or_default().push(line.no);
-                        entry[key]
-                            .as_array_mut()
-                            .ok_or_else(|| line.err(col(0), "a term of an explicit object", from))?
-                            .push(json!([from, c, t]));
+                        list.push(json!([from, c, t]));
                     }
-                } else if *kind == "complex" && toks.len() == 2 {
+                } else if complex && toks.len() == 2 {
                     let g = grading(&line, col(1), word(1))?;
-                    let gens = entry["generators"]
-                        .as_object_mut()
-                        .ok_or_else(|| line.err(col(0), "a generator of an explicit complex", word(0)))?;
+                    let gens =
+                        entry["generators"].as_object_mut().ok_or_else(|| line.err(col(0), explicit, word(0)))?;
                     lines.places.insert(format!("complex {name}, generator \"{}\"", word(0)), line.no);
                     if gens.insert(word(0).to_string(), g).is_some() {
                         return Err(format!("{}:{}: generator \"{}\" declared twice", line.no, col(0), word(0)));
@@ -222,11 +264,7 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                 } else {
                     return Err(line.err(
                         col(0),
-                        if *kind == "complex" {
-                            "\"NAME (gradings)\" or \"FROM -> TERMS\""
-                        } else {
-                            "\"FROM -> TERMS\""
-                        },
+                        if complex { "\"NAME (gradings)\" or \"FROM -> TERMS\"" } else { "\"FROM -> TERMS\"" },
                         text.trim(),
                     ));
                 }
@@ -254,24 +292,47 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                     if name.is_empty() {
                         return Err(line.err(col(1), "a complex name", ""));
                     }
-                    let def = if word(2) == "=" {
-                        construction(&line, &toks[3..])?
-                    } else {
+                    // `complex C over F2[U,V]`: a source, inlined where it is used.
+                    let over = word(2) == "over";
+                    if over && (word(3) != "F2[U,V]" || !(toks.len() == 4 || word(4) == "=")) {
+                        return Err(line.err(
+                            col(3),
+                            "\"complex NAME over F2[U,V]\" (a source, with gradings (gr_U, gr_V)) or \"… over F2[U,V] = CONSTRUCTION\"",
+                            word(3),
+                        ));
+                    }
+                    let eq = if over { 4 } else { 2 };
+                    let def = if word(eq) == "=" {
+                        construction(&line, &toks[eq + 1..])?
+                    } else if toks.len() == eq {
                         json!({"generators": {}, "differential": []})
+                    } else {
+                        return Err(line.err(col(eq), "\"=\" or the end of the line", word(eq)));
                     };
-                    lines.places.insert(format!("complex {name}"), line.no);
-                    if complexes.insert(name.clone(), def).is_some() {
+                    if complexes.contains_key(&name) || sources.contains_key(&name) {
                         return Err(format!("{}:{}: complex \"{name}\" declared twice", line.no, col(1)));
                     }
-                    block = Some(("complex", name));
+                    lines.places.insert(format!("complex {name}"), line.no);
+                    if over {
+                        source_lines.insert(name.clone(), line.no);
+                        sources.insert(name.clone(), def);
+                        block = Some(("source", name));
+                    } else {
+                        complexes.insert(name.clone(), def);
+                        block = Some(("complex", name));
+                    }
                 }
                 "map" => {
                     let name = word(1).to_string();
                     let def = if word(2) == "=" {
-                        if word(3) != "tensor_maps" || toks.len() != 6 {
-                            return Err(line.err(col(3), "\"tensor_maps F G\"", word(3)));
+                        if !matches!(word(3), "tensor_maps" | "box_tensor_map") || toks.len() != 6 {
+                            return Err(line.err(
+                                col(3),
+                                "\"tensor_maps F G\" or \"box_tensor_map MODULE MORPHISM\"",
+                                word(3),
+                            ));
                         }
-                        json!({"tensor_maps": [word(4), word(5)]})
+                        json!({ word(3): [word(4), word(5)] })
                     } else {
                         if word(2) != ":" || word(4) != "->" || word(6) != "degree" {
                             return Err(line.err(
@@ -288,11 +349,68 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
                     }
                     block = Some(("map", name));
                 }
+                "type_d_structure" | "type_a_module" | "type_d_morphism" => {
+                    let kind: &'static str = match word(0) {
+                        "type_d_structure" => "type_d_structure",
+                        "type_a_module" => "type_a_module",
+                        _ => "type_d_morphism",
+                    };
+                    let name = word(1).to_string();
+                    if name.is_empty() {
+                        return Err(line.err(col(1), &format!("a name for the {}", kind.replace('_', " ")), ""));
+                    }
+                    let (label, def) = match kind {
+                        "type_d_structure" => (
+                            format!("type D structure {name}"),
+                            if word(2) == "=" {
+                                bordered::structure_construction(&line, &toks[3..])?
+                            } else if toks.len() == 2 {
+                                json!({"generators": {}, "differential": []})
+                            } else {
+                                return Err(line.err(col(2), "\"=\" or the end of the line", word(2)));
+                            },
+                        ),
+                        "type_a_module" => (
+                            format!("type A module {name}"),
+                            if word(2) == "=" {
+                                bordered::module_construction(&line, &toks[3..])?
+                            } else if toks.len() == 2 {
+                                json!({"generators": {}, "operations": []})
+                            } else {
+                                return Err(line.err(col(2), "\"=\" or the end of the line", word(2)));
+                            },
+                        ),
+                        _ => {
+                            if word(2) != ":" || word(4) != "->" || toks.len() != 6 {
+                                return Err(line.err(
+                                    col(2),
+                                    "\"type_d_morphism NAME : FROM -> TO\" (FROM, TO type D structures)",
+                                    &text[col(2).min(text.len() + 1) - 1..],
+                                ));
+                            }
+                            (format!("type D morphism {name}"), json!({"from": word(3), "to": word(5), "terms": []}))
+                        }
+                    };
+                    let section = match kind {
+                        "type_d_structure" => &mut structures,
+                        "type_a_module" => &mut modules,
+                        _ => &mut morphisms,
+                    };
+                    if section.insert(name.clone(), def).is_some() {
+                        return Err(format!("{}:{}: {label} declared twice", line.no, col(1)));
+                    }
+                    lines.places.insert(label, line.no);
+                    block = Some((kind, name));
+                }
                 "goal" => {
                     goals.push(goal(&line, &toks)?);
                     lines.places.insert(format!("goal {}", goals.len()), line.no);
                 }
-                other => return Err(line.err(col(0), "ring, gradings, degree, complex, map or goal", other)),
+                other => return Err(line.err(
+                    col(0),
+                    "ring, gradings, degree, complex, map, type_d_structure, type_a_module, type_d_morphism or goal",
+                    other,
+                )),
             }
             Ok(())
         })();
@@ -304,14 +422,39 @@ pub fn parse_located(src: &str) -> Result<(Value, SourceLines), Vec<String>> {
         header.complete(src.lines().count() + 1, "the end of the file", &variables, gradings.len());
     }
     errs.extend(header.errs);
+    // Sources are written inline where they stand, as the JSON form has them.
+    for (name, v) in complexes.iter_mut() {
+        if let Err(e) = bordered::inline_sources(v, &sources, false, 0) {
+            errs.push(format!("{}:1: complex {name}: {e}", lines.places[&format!("complex {name}")]));
+        }
+    }
+    for (name, v) in structures.iter_mut() {
+        if let Err(e) = bordered::inline_sources(v, &sources, false, 0) {
+            errs.push(format!("{}:1: type D structure {name}: {e}", lines.places[&format!("type D structure {name}")]));
+        }
+    }
+    for (name, v) in &sources {
+        if let Err(e) = bordered::inline_sources(&mut v.clone(), &sources, true, 0) {
+            errs.push(format!("{}:1: complex {name}: {e}", source_lines[name]));
+        }
+    }
+    // Explicit sources and bordered objects: checked here, where their lines are known.
+    errs.extend(bordered::check_written(&sources, &structures, &morphisms, &lines));
     if !errs.is_empty() {
         return Err(errs);
     }
-    let problem = json!({
+    let mut problem = json!({
         "format": "tubecert-problem", "version": 1,
         "ring": {"variables": variables, "gradings": gradings, "variable_degrees": var_degrees, "differential_degree": diff_degree},
         "complexes": complexes, "maps": maps, "goals": goals
     });
+    for (key, section) in
+        [("type_d_structures", structures), ("type_a_modules", modules), ("type_d_morphisms", morphisms)]
+    {
+        if !section.is_empty() {
+            problem[key] = Value::Object(section);
+        }
+    }
     Ok((problem, lines))
 }
 
@@ -411,13 +554,13 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
     Ok(match w(0) {
         "staircase" if w(1) == "torus_knot" && toks.len() == 4 => json!({"staircase": {"torus_knot": ints(2)?}}),
         "staircase" if w(1) == "alexander" => json!({"staircase": {"alexander": ints(2)?}}),
-        "tensor" | "direct_sum" if toks.len() == 3 => json!({ w(0): [w(1), w(2)] }),
+        "tensor" | "direct_sum" | "box_tensor" if toks.len() == 3 => json!({ w(0): [w(1), w(2)] }),
         "dual" | "cone" if toks.len() == 2 => json!({ w(0): w(1) }),
         "shift" if toks.len() == 3 => json!({"shift": [w(1), grading(line, c(2), w(2))?]}),
         // The source lives over the larger ring, so it is written inline after `of`.
         "quotient" => match toks.iter().position(|t| t.1 == "of") {
             Some(k) if k >= 2 => {
-                let mut args = vec![construction(line, &toks[k + 1..])?];
+                let mut args = vec![source(line, &toks[k + 1..])?];
                 args.extend(toks[1..k].iter().map(|t| json!(t.1)));
                 json!({ "quotient": args })
             }
@@ -427,12 +570,23 @@ fn construction(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> 
         "cable" => match (toks.get(3).map(|t| t.1.as_str()), toks.len() > 4) {
             (Some("of"), true) => {
                 let int = |k: usize| w(k).parse::<i64>().map_err(|_| line.err(c(k), "an integer", w(k)));
-                json!({"cable": {"companion": construction(line, &toks[4..])?, "p": int(1)?, "q": int(2)?}})
+                json!({"cable": {"companion": source(line, &toks[4..])?, "p": int(1)?, "q": int(2)?}})
             }
             _ => return Err(line.err(c(1), "cable P Q of CONSTRUCTION", w(1))),
         },
-        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of staircase … | cable P Q of staircase …", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
+        _ => return Err(line.err(c(0), "staircase torus_knot P Q | staircase alexander A… | tensor A B | direct_sum A B | dual A | shift A (…) | cone F | quotient V of SOURCE | cable P Q of SOURCE | box_tensor MODULE STRUCTURE", &toks.iter().map(|t| t.1.as_str()).collect::<Vec<_>>().join(" "))),
     })
+}
+
+/// What follows `of`: a construction, or one name (a complex of the problem, rebuilt over the
+/// larger ring, or a source declared `complex NAME over F2[U,V]`, inlined after reading).
+fn source(line: &Line, toks: &[(usize, String)]) -> Result<Value, String> {
+    const KEYWORDS: [&str; 10] =
+        ["staircase", "tensor", "direct_sum", "dual", "shift", "cone", "quotient", "cable", "box_tensor", "of"];
+    match toks {
+        [(_, name)] if !KEYWORDS.contains(&name.as_str()) => Ok(json!(name)),
+        _ => construction(line, toks),
+    }
 }
 
 /// The ring declaration lines of the conventions the constructions use: `F2[U,V]` with
@@ -483,20 +637,13 @@ fn construction_text(c: &Value) -> Result<String, String> {
             (_, Some(e)) => format!("alexander {}", numbers(e)),
             _ => return Err("staircase of what?".into()),
         },
-        ("shift", a) => format!("{} {}", a[0].as_str().unwrap_or(""), grading_text(&a[1])),
-        ("quotient", Value::Array(a)) if !a.is_empty() => {
-            let source = construction_text(&a[0])
-                .map_err(|_| "a quotient of a complex written out in full has no text form; keep it in JSON")?;
-            let vars: Vec<&str> = a[1..].iter().filter_map(|x| x.as_str()).collect();
-            format!("{} of {source}", vars.join(" "))
-        }
-        ("cable", a) => {
-            let source = construction_text(&a["companion"])
-                .map_err(|_| "a cable of a complex written out in full has no text form; keep it in JSON")?;
-            format!("{} {} of {source}", a["p"], a["q"])
+        ("shift", a) => {
+            format!("{} {}", a[0].as_str().ok_or("the shifted complex is not a name")?, grading_text(&a[1]))
         }
         (_, Value::String(s)) => s.clone(),
-        (_, Value::Array(a)) => a.iter().filter_map(|x| x.as_str()).collect::<Vec<_>>().join(" "),
+        (_, Value::Array(a)) => {
+            a.iter().map(|x| x.as_str().ok_or("an argument is not a name")).collect::<Result<Vec<_>, _>>()?.join(" ")
+        }
         _ => return Err("unknown construction".into()),
     };
     Ok(format!("{op} {args}"))
@@ -771,7 +918,15 @@ pub fn render(p: &Value) -> Result<String, String> {
         out.push(format!("degree {v} {}", grading_text(&ring["variable_degrees"][v])));
     }
     out.push(format!("degree d {}", grading_text(&ring["differential_degree"])));
-    for (name, c) in p["complexes"].as_object().into_iter().flatten() {
+    // Names in use: sources written out of constructions get new ones.
+    let section = |k: &str| p[k].as_object().into_iter().flatten();
+    let mut taken: std::collections::BTreeSet<String> =
+        ["complexes", "maps", "type_d_structures", "type_a_modules", "type_d_morphisms"]
+            .iter()
+            .flat_map(|k| section(k).map(|(n, _)| n.clone()))
+            .collect();
+    let mut seen = Vec::new();
+    for (name, c) in section("complexes") {
         out.push(String::new());
         if let Some(gens) = c.get("generators").and_then(|g| g.as_object()) {
             out.push(format!("complex {name}"));
@@ -779,16 +934,30 @@ pub fn render(p: &Value) -> Result<String, String> {
             out.extend(terms_text(&c["differential"]));
             continue;
         }
-        out.push(format!("complex {name} = {}", construction_text(c).map_err(|e| format!("complex {name}: {e}"))?));
+        let mut sources = Vec::new();
+        let text = bordered::Render { taken: &mut taken, out: &mut sources, seen: &mut seen }
+            .construction(c, name)
+            .map_err(|e| format!("complex {name}: {e}"))?;
+        out.extend(sources.into_iter().skip_while(String::is_empty));
+        if out.last().is_some_and(|l| !l.is_empty()) {
+            out.push(String::new());
+        }
+        out.push(format!("complex {name} = {text}"));
     }
-    for (name, m) in p["maps"].as_object().into_iter().flatten() {
+    let mut r = bordered::Render { taken: &mut taken, out: &mut out, seen: &mut seen };
+    for (name, v) in section("type_d_structures") {
+        r.structure(name, v).map_err(|e| format!("type D structure {name}: {e}"))?;
+    }
+    for (name, v) in section("type_a_modules") {
+        r.module(name, v).map_err(|e| format!("type A module {name}: {e}"))?;
+    }
+    for (name, v) in section("type_d_morphisms") {
+        r.morphism(name, v);
+    }
+    for (name, m) in section("maps") {
         out.push(String::new());
-        if let Some(tm) = m.get("tensor_maps") {
-            out.push(format!(
-                "map {name} = tensor_maps {} {}",
-                tm[0].as_str().unwrap_or(""),
-                tm[1].as_str().unwrap_or("")
-            ));
+        if let Some((op, tm)) = ["tensor_maps", "box_tensor_map"].iter().find_map(|k| Some((k, m.get(*k)?))) {
+            out.push(format!("map {name} = {op} {} {}", tm[0].as_str().unwrap_or(""), tm[1].as_str().unwrap_or("")));
             continue;
         }
         out.push(format!(
@@ -898,8 +1067,15 @@ mod tests {
         assert_eq!(p.complexes["Q"].generators.len(), 5);
         let e = parse("ring F2[U]\ncomplex Q = quotient V staircase torus_knot 3 4\n").unwrap_err();
         assert!(e[0].contains("quotient VARIABLE… of CONSTRUCTION"), "{e:?}");
-        let explicit = json!({"quotient": [{"generators": {"x": [0, 0]}, "differential": []}, "V"]});
-        assert!(construction_text(&explicit).unwrap_err().contains("keep it in JSON"));
+        // A source written out in full is written as a block of its own, over F2[U,V].
+        let mut explicit = v.clone();
+        explicit["complexes"]["Q"] = json!({"quotient": [{"generators": {"x": [0, 0]}, "differential": []}, "V"]});
+        let text = render(&explicit).unwrap();
+        assert!(
+            text.contains("complex Q.source over F2[U,V]\n  x (0, 0)\n\ncomplex Q = quotient V of Q.source"),
+            "{text}"
+        );
+        assert_eq!(parse(&text).unwrap(), explicit);
     }
 
     fn goal_map(line: &str) -> Result<Value, Vec<String>> {

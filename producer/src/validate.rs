@@ -63,7 +63,19 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                     )) =
                         tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim, tubecert_format::CERTIFICATE_VERSION)
                     {
-                        errs.push(format!("{}: {e}", claim.statement()));
+                        // Said of the object, so that a text problem's message points at its line.
+                        use tubecert_format::Claim::{TypeAModule, TypeDMorphism, TypeDStructure};
+                        let object = match claim {
+                            TypeDStructure { structure, .. } => Some(format!("type D structure {structure}")),
+                            TypeAModule { module, .. } => Some(format!("type A module {module}")),
+                            TypeDMorphism { morphism, .. } => Some(format!("type D morphism {morphism}")),
+                            _ => None,
+                        };
+                        errs.push(match object {
+                            Some(o) if e.starts_with(&o) => e,
+                            Some(o) => format!("{o}: {e} ({})", claim.statement()),
+                            None => format!("{}: {e}", claim.statement()),
+                        });
                     }
                 }
             }
