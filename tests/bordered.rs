@@ -717,3 +717,30 @@ fn cables_of_companions_with_long_steps_prove_and_verify() {
         assert!(length >= 2 * step, "step {step}, p = {p}: relations up to {length}");
     }
 }
+
+// Names may contain ⊗, so two pairs can spell one x⊗y: module generators x, x⊗p and structure
+// generators p⊗q, q give x⊗p⊗q twice. A complex with that name once and an arbitrary `junk`
+// generator in place of the other has as many generators as M ⊠ N and holds every name the
+// pairing spells, yet is not M ⊠ N: the checker must refuse it.
+#[test]
+fn a_box_tensor_name_spelled_by_two_pairs_is_not_accepted() {
+    let g = json!({"grading": [0, 0, 0, 0], "idempotent": 0});
+    let complex =
+        json!({"generators": {"x⊗p⊗q": [0, 0], "x⊗q": [0, 0], "x⊗p⊗p⊗q": [0, 0], "junk": [0, 0]}, "differential": []});
+    let mut body = serde_json::to_value(body_of(&problem(json!({}), json!({})))).unwrap();
+    body["complexes"] = json!({"X": complex});
+    body["bordered"] = json!({"full_ring": {"variables": ["U", "V"], "gradings": ["gr_U", "gr_V"],
+                "variable_degrees": {"U": [-2, 0], "V": [0, -2]}, "differential_degree": [-1, -1]},
+            "full_complexes": {}, "type_d_morphisms": {},
+            "type_a_modules": {"M": {"generators": {"x": g, "x⊗p": g}, "operations": [], "period": [3, 0, 2, 2]}},
+            "type_d_structures": {"N": {"generators": {"p⊗q": g, "q": g}, "differential": [], "period": [1, 2, 0, 0]}}});
+    body["claims"] = json!([{"kind": "type_a_module", "module": "M", "max_length": 0, "statement": ""},
+                   {"kind": "box_tensor", "complex": "X", "module": "M", "structure": "N", "statement": ""}]);
+    let mut body: Body = serde_json::from_value(body).unwrap();
+    restate(&mut body);
+    let out = outcomes(body).unwrap();
+    let of = |kind: &str| out.iter().find(|c| c.0 == kind).unwrap_or_else(|| panic!("{out:?}")).1.clone();
+    assert!(of("type_a_module").is_ok(), "{out:?}");
+    let e = of("box_tensor").unwrap_err();
+    assert!(e.contains("each spelled once"), "{e}");
+}

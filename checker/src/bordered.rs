@@ -438,30 +438,12 @@ impl Objects {
     }
 }
 
-/// Σ over pairs y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″.
-fn composite(first: &[(Alg, u32)], second: &[Vec<(Alg, u32)>], out: &mut Vec<(Alg, u32)>) {
-    for &(a, y1) in first {
-        out.extend(second[y1 as usize].iter().filter_map(|&(b, y2)| a.times(b).map(|c| (c, y2))));
-    }
-}
-
-fn show(v: &[(Alg, u32)], names: &[String]) -> String {
-    v.iter().map(|(a, y)| format!("{}⊗{}", a.name(), names[*y as usize])).collect::<Vec<_>>().join(" + ")
-}
-
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0.
 pub fn check_structure(d: &TypeD) -> Result<(), String> {
     if let Some(e) = d.defects.first() {
         return Err(e.clone());
     }
-    for (y, row) in d.delta.iter().enumerate() {
-        let mut acc = Vec::new();
-        composite(row, &d.delta, &mut acc);
-        normalize(&mut acc);
-        if !acc.is_empty() {
-            return Err(format!("(μ ⊗ id)(id ⊗ δ¹)δ¹({}) = {} ≠ 0", d.names[y], show(&acc, &d.names)));
-        }
-    }
+    vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", d, &d.names, &[(&d.delta, &d.delta)])?;
     // Version 3: a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
         for &(a, y2) in row {
@@ -482,13 +464,23 @@ fn check_morphism(o: &Objects, f: &Morphism) -> Result<(), Failure> {
     if let Some(e) = f.defects.first() {
         return Err(e.clone().into());
     }
-    for y in 0..n.names.len() {
+    Ok(vanishes("∂f", n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?)
+}
+
+/// For each generator y of `d`: Σ over the pairs (first, second) of the composites y →a y′ →b y″
+/// (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0 (`names`: those of the y″).
+fn vanishes(what: &str, d: &TypeD, names: &[String], pairs: &[(&Arrows, &Arrows)]) -> Result<(), String> {
+    for y in 0..d.names.len() {
         let mut acc = Vec::new();
-        composite(&f.terms[y], &n2.delta, &mut acc);
-        composite(&n.delta[y], &f.terms, &mut acc);
+        for (first, second) in pairs {
+            for &(a, y1) in &first[y] {
+                acc.extend(second[y1 as usize].iter().filter_map(|&(b, y2)| a.times(b).map(|c| (c, y2))));
+            }
+        }
         normalize(&mut acc);
         if !acc.is_empty() {
-            return Err(format!("∂f({}) = {} ≠ 0", n.names[y], show(&acc, &n2.names)).into());
+            let terms: Vec<String> = acc.iter().map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
+            return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")));
         }
     }
     Ok(())
@@ -780,10 +772,12 @@ fn compare(
     rows: &[Vec<(String, u32)>],
     actual: &[crate::algebra::Vector],
 ) -> Result<(), Failure> {
-    let names: Vec<&String> = gens.iter().map(|g| &g.2).collect();
-    if from.names.len() != gens.len() || names.iter().any(|n| from.index.get(n).is_none()) {
+    // Distinct names too: names may contain ⊗, so x⊗y can be spelled by two pairs.
+    let names: std::collections::BTreeSet<&String> = gens.iter().map(|g| &g.2).collect();
+    if names.len() != gens.len() || from.names.len() != gens.len() || names.iter().any(|n| from.index.get(n).is_none())
+    {
         return Err(format!(
-            "{what}: {} does not have exactly the generators x⊗y of the box tensor product",
+            "{what}: {} does not have exactly the generators x⊗y of the box tensor product (each spelled once)",
             from.name
         )
         .into());
