@@ -120,9 +120,22 @@ fn framings(tau: i64) -> Vec<i64> {
     vec![2 * tau - 3, 2 * tau - 1, 2 * tau, 2 * tau + 1, 2 * tau + 4]
 }
 
+/// H_*(X/(U − 1)) of a complex of the body by degree of M − 2A (the oracle's ranks): for the
+/// complex of a knot in S³, HF-hat(S³) = F2 in degree 0 (Ozsváth–Szabó 2004), i.e. [(0, 1)].
+fn hat_homology_of(body: &Value, name: &str) -> Vec<(i64, usize)> {
+    let (gr, d) = minus_of(body, name);
+    cert::hat_homology(&gr, &d).unwrap()
+}
+
 /// The homology over `F2[U]` with (Maslov, Alexander) gradings of a complex of the body, by the
 /// oracle's own cancellation.
 fn homology_of(body: &Value, name: &str) -> bo::Homology {
+    let (gr, d) = minus_of(body, name);
+    bo::homology(&gr, &d).unwrap()
+}
+
+/// A complex of the body over `F2[U]`: gradings and ∂.
+fn minus_of(body: &Value, name: &str) -> (BTreeMap<String, (i64, i64)>, bo::UComplex) {
     let c = &body["complexes"][name];
     let gr: BTreeMap<String, (i64, i64)> = c["generators"]
         .as_object()
@@ -136,7 +149,7 @@ fn homology_of(body: &Value, name: &str) -> bo::Homology {
             bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), (i, t[2].as_str().unwrap().to_string()));
         }
     }
-    bo::homology(&gr, &d).unwrap()
+    (gr, d)
 }
 
 /// The homology of C/(V) for the full complex C of the body, computed by the oracle; with
@@ -204,6 +217,7 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
             assert_eq!(hx, quotient_homology(body, full, true), "{what}, t = {t}: C/(U) of the certificate's C");
             // HFK^- = F2[U] ⊕ torsion with the tower at (−2τ, −τ) (conventions sheet).
             assert_eq!(hx.0, vec![(-2 * tau, -tau)], "{what}, t = {t}");
+            assert_eq!(hat_homology_of(body, "X"), vec![(0, 1)], "{what}, t = {t}: HF-hat(S³)");
         }
     }
 }
@@ -514,6 +528,11 @@ fn cabled_maps_of_the_demo_carry_their_torsion_order() {
         for k in ["box_tensor_map", "type_d_morphism", "torsion_order", "not_null_homotopic"] {
             assert!(kinds.contains(&k), "{stem}: no {k} claim in {kinds:?}");
         }
+        // Every box tensor product of the demo: HF-hat(S³) = F2 in degree 0 once normalized.
+        for x in claims.iter().filter(|x| x["kind"] == "box_tensor") {
+            let name = x["complex"].as_str().unwrap();
+            assert_eq!(hat_homology_of(&c["body"], name), vec![(0, 1)], "{stem}: {name}");
+        }
         let ord = claims.iter().find(|x| x["kind"] == "torsion_order").unwrap();
         if let Some(p) = side {
             assert_eq!(ord["order"], json!(p), "{stem}");
@@ -522,6 +541,130 @@ fn cabled_maps_of_the_demo_carry_their_torsion_order() {
     }
     let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0xCAB1E);
     assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+/// ∂ of a complex of the body at U = 1 (each term U^n·y counted as y, mod 2), and M − 2A.
+fn hat_of(body: &Value, name: &str) -> (BTreeMap<String, Vec<String>>, BTreeMap<String, i64>) {
+    let c = &body["complexes"][name];
+    let gens = c["generators"].as_object().unwrap();
+    let deg = gens.iter().map(|(g, v)| (g.clone(), v[0].as_i64().unwrap() - 2 * v[1].as_i64().unwrap())).collect();
+    let mut d: BTreeMap<String, std::collections::BTreeSet<String>> =
+        gens.keys().map(|g| (g.clone(), Default::default())).collect();
+    for t in c["differential"].as_array().unwrap() {
+        bo::toggle(d.get_mut(t[0].as_str().unwrap()).unwrap(), t[2].as_str().unwrap().to_string());
+    }
+    (d.into_iter().map(|(g, s)| (g, s.into_iter().collect())).collect(), deg)
+}
+
+/// Toggles a name in a witness list (a set of generators, kept sorted).
+fn toggled(list: &Value, g: &str) -> Value {
+    let mut s: std::collections::BTreeSet<String> =
+        list.as_array().unwrap().iter().map(|v| v.as_str().unwrap().to_string()).collect();
+    bo::toggle(&mut s, g.to_string());
+    json!(s)
+}
+
+/// Both verdicts on a mutated body (statements re-rendered, hash recomputed): true when both
+/// accept, false when both refuse, a panic when they disagree.
+fn both(c: &Value, body: Value, what: &str) -> bool {
+    let sealed = reseal(c, body).unwrap_or_else(|| panic!("{what}: no longer the typed shape"));
+    let (checker, ours) = (checker_accepts(&sealed), oracle_accepts(&sealed["body"]));
+    assert_eq!(checker, ours.is_ok(), "{what}: the checker says {checker}, the oracle {ours:?}");
+    checker
+}
+
+#[test]
+fn wrong_maslov_witnesses_and_moved_maslov_gradings_are_refused_by_both() {
+    // DEVELOPERS.md, Gradings ("Maslov, certified"): X/(U − 1) is CF-hat(S³), whose homology is
+    // F2 in degree M − 2A = 0 (Ozsváth–Szabó 2004). T(3,4) at framing 2: several degrees.
+    let c = certificate(&pairing_problem(&source("T34"), 2));
+    assert!(both(&c, c["body"].clone(), "the producer's certificate"));
+    let claims = c["body"]["claims"].as_array().unwrap();
+    let k = claims.iter().position(|x| x["kind"] == "box_tensor" && x["complex"] == "X").unwrap();
+    let w = claims[k]["witness"].clone();
+    let (hat, deg) = hat_of(&c["body"], "X");
+    let cycle: Vec<&str> = w["cycle"].as_array().unwrap().iter().map(|v| v.as_str().unwrap()).collect();
+    let d = deg[cycle[0]];
+    let with = |key: &str, v: Value| {
+        let mut body = c["body"].clone();
+        body["claims"][k]["witness"][key] = v;
+        body
+    };
+    // c + g with ∂g ≠ 0: not a cycle.
+    let g = hat.iter().find(|(g, b)| !b.is_empty() && !cycle.contains(&g.as_str())).unwrap().0;
+    assert!(!both(&c, with("cycle", toggled(&w["cycle"], g)), "c + g, ∂g ≠ 0"));
+    // c* + t with t in some ∂g: not a cocycle.
+    let t = &hat.values().find(|b| !b.is_empty()).unwrap()[0];
+    assert!(!both(&c, with("cocycle", toggled(&w["cocycle"], t)), "c* + t"));
+    // ⟨c*, c⟩ = 0.
+    assert!(!both(&c, with("cocycle", json!([])), "c* = 0"));
+    // c + ∂g with ∂g ≠ 0 in another degree: still a cycle paired to 1, but not homogeneous.
+    let (g, b) = hat.iter().find(|(g, b)| !b.is_empty() && deg[*g] - 1 != d).expect("a boundary in another degree");
+    let mut mixed = w["cycle"].clone();
+    b.iter().for_each(|t| mixed = toggled(&mixed, t));
+    assert!(!both(&c, with("cycle", mixed), &format!("c + ∂{g}")));
+    // A boundary in place of the cycle: homogeneous and a cycle, but zero in homology.
+    assert!(!both(&c, with("cycle", json!(b)), &format!("∂{g} as the cycle")));
+    // A generator that does not exist, or one named twice.
+    assert!(!both(&c, with("cycle", json!([cycle.clone(), vec!["nobody"]].concat())), "an unknown name"));
+    assert!(!both(&c, with("cycle", json!([cycle.clone(), vec![cycle[0]]].concat())), "a repeated name"));
+    // No witness: version 5 needs one.
+    let mut body = c["body"].clone();
+    body["claims"][k].as_object_mut().unwrap().remove("witness");
+    assert!(!both(&c, body, "no witness"));
+    // Every Maslov grading of X moved by 2 (Alexander kept): Σ(−1)^M t^A stays symmetric, so
+    // only the witness's degree can tell, and it does.
+    let mut body = c["body"].clone();
+    for v in body["complexes"]["X"]["generators"].as_object_mut().unwrap().values_mut() {
+        v[0] = json!(v[0].as_i64().unwrap() + 2);
+    }
+    assert!(!both(&c, body, "gradings moved by (2, 0)"));
+}
+
+#[test]
+fn wrong_witnesses_of_a_box_tensor_map_are_refused_by_both() {
+    let dir = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../certificates/cable-by-p2.cert.json");
+    let c: Value = serde_json::from_slice(&std::fs::read(dir).unwrap()).unwrap();
+    assert!(both(&c, c["body"].clone(), "the stored certificate"));
+    let k = c["body"]["claims"].as_array().unwrap().iter().position(|x| x["kind"] == "box_tensor_map").unwrap();
+    for side in ["from", "to"] {
+        let mut body = c["body"].clone();
+        body["claims"][k]["witness"][side]["cocycle"] = json!([]);
+        assert!(!both(&c, body, &format!("{side}: c* = 0")));
+    }
+    // The source's and the target's witnesses exchanged: each is a set of generators of the
+    // other complex (or not a cycle there).
+    let mut body = c["body"].clone();
+    let w = body["claims"][k]["witness"].clone();
+    body["claims"][k]["witness"] = json!({"from": w["to"], "to": w["from"]});
+    assert!(!both(&c, body, "from and to exchanged"));
+}
+
+#[test]
+fn a_pattern_whose_raw_maslov_reading_is_off_by_one_is_normalized_by_its_witness() {
+    // The core with gr(x) = λ instead of 1: λ is central, so every operation stays homogeneous,
+    // and LOT's reading of x⊗ξ moves by (1, 0) — not a multiple of gr(U) = (−2, −1), so the
+    // symmetry of Σ(−1)^M t^A cannot see it. The witness must bring back the core's gradings:
+    // the pairing is CFK^-(K) itself (LOT Thm 11.21), i.e. the V = 0 quotient of the companion.
+    let core = json!({"generators": {"x": {"grading": [2, 0, 0, 0], "idempotent": 0}}, "period": [3, 0, 2, 2],
+        "operations": [{"from": "x", "power": [1, 1], "prefix": ["rho3"], "repeat": ["rho23"], "suffix": ["rho2"], "to": "x"}]});
+    for (what, src, tau) in companions().into_iter().step_by(2) {
+        for t in [2 * tau - 1, 2 * tau + 1] {
+            let mut problem = pairing_problem(&src, t);
+            problem["type_a_modules"]["M"] = core.clone();
+            problem["complexes"].as_object_mut().unwrap().remove("K");
+            let c = certificate(&problem);
+            assert!(both(&c, c["body"].clone(), &format!("{what}, t = {t}")));
+            let (x, q) = (&c["body"]["complexes"]["X"]["generators"], &c["body"]["complexes"]["Q"]["generators"]);
+            for (g, gr) in x.as_object().unwrap() {
+                assert_eq!(gr, &q[g.strip_prefix("x⊗").unwrap()], "{what}, t = {t}: {g}");
+            }
+            assert_eq!(homology_of(&c["body"], "X"), homology_of(&c["body"], "Q"), "{what}, t = {t}");
+            // HFK^- = F2[U] ⊕ torsion with the tower at (−2τ, −τ) (conventions sheet).
+            assert_eq!(homology_of(&c["body"], "X").0, vec![(-2 * tau, -tau)], "{what}, t = {t}");
+            assert_eq!(hat_homology_of(&c["body"], "X"), vec![(0, 1)], "{what}, t = {t}: HF-hat(S³)");
+        }
+    }
 }
 
 /// A wrong operation deep in a long family — the (2, 1) pattern's m(x1, ρ3, ρ23^20, ρ2) =

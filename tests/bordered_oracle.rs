@@ -1669,6 +1669,91 @@ pub mod cert {
         Ok(())
     }
 
+    /// H_*(X/(U − 1)) over F2, graded by M − 2A (U keeps it): (degree, rank) for each degree
+    /// where it is not zero, the rank in degree k being dim C_k − rank ∂_k − rank ∂_(k+1) (ranks
+    /// by elimination). For the complex of a knot in S³ it is CF-hat(S³) with basepoint z, whose
+    /// homology is F2 in degree 0 (Ozsváth–Szabó 2004, "Holomorphic disks and topological
+    /// invariants for closed three-manifolds").
+    pub fn hat_homology(gr: &BTreeMap<String, (i64, i64)>, d: &UComplex) -> R<Vec<(i64, usize)>> {
+        let deg = |g: &str| gr.get(g).map(|&(m, a)| m - 2 * a).ok_or(format!("{g} is not a generator"));
+        let mut by_degree: BTreeMap<i64, Vec<BTreeSet<&str>>> = BTreeMap::new();
+        for g in gr.keys() {
+            let mut b = BTreeSet::new();
+            for (_, t) in d.get(g).into_iter().flatten() {
+                toggle(&mut b, t.as_str());
+            }
+            if let Some(t) = b.iter().find(|t| deg(t) != Ok(deg(g).unwrap_or(0) - 1)) {
+                return Err(format!("∂{g} at U = 1 reaches {t}, not one degree of M − 2A lower"));
+            }
+            by_degree.entry(deg(g)?).or_default().push(b);
+        }
+        let rank = |rows: &[BTreeSet<&str>]| {
+            let mut pivots: BTreeMap<&str, BTreeSet<&str>> = BTreeMap::new();
+            for r in rows {
+                let mut r = r.clone();
+                while let Some(p) = r.last().copied() {
+                    match pivots.get(p) {
+                        Some(q) => r = r.symmetric_difference(q).copied().collect(),
+                        None => {
+                            pivots.insert(p, r);
+                            break;
+                        }
+                    }
+                }
+            }
+            pivots.len()
+        };
+        let ranks: BTreeMap<i64, usize> = by_degree.iter().map(|(k, rows)| (*k, rank(rows))).collect();
+        Ok(by_degree
+            .iter()
+            .map(|(k, rows)| (*k, rows.len() - ranks[k] - ranks.get(&(k + 1)).copied().unwrap_or(0)))
+            .filter(|h| h.1 > 0)
+            .collect())
+    }
+
+    /// Version 5: the Maslov normalization by its witness, checked here in two ways of our own.
+    /// The witness must be what it says — a set of generators of one degree of M − 2A with no
+    /// boundary at U = 1, a set whose count on every boundary is even, an odd overlap — and the
+    /// homology computed above must be non-zero in that degree k0 (what a valid witness shows).
+    /// M then moves by −k0. (That the homology is F2, as for a knot in S³, is what makes k0
+    /// the degree 0 of HF-hat(S³); the checker does not verify it, nor does this arm: the
+    /// tests assert it of the producer's certificates with `hat_homology`.)
+    fn maslov_shift(gr: &mut BTreeMap<String, (i64, i64)>, d: &UComplex, witness: &Value) -> R<()> {
+        let homology = hat_homology(gr, d)?;
+        let deg = |g: &str| gr.get(g).map(|&(m, a)| m - 2 * a).ok_or(format!("{g} is not a generator"));
+        let mut hat: BTreeMap<&str, BTreeSet<&str>> = gr.keys().map(|g| (g.as_str(), BTreeSet::new())).collect();
+        for (g, e) in d {
+            for (_, t) in e {
+                toggle(hat.get_mut(g.as_str()).ok_or(format!("{g} is not a generator"))?, t.as_str());
+            }
+        }
+        only(witness, &["cocycle", "cycle"], "witness")?;
+        let set = |k: &str| -> R<BTreeSet<&str>> {
+            let names: R<Vec<&str>> = arr(member(witness, k, "witness")?, k)?.iter().map(|v| text(v, k)).collect();
+            let names = names?;
+            let set: BTreeSet<&str> = names.iter().copied().collect();
+            match set.len() == names.len() && set.iter().all(|g| hat.contains_key(g)) {
+                true => Ok(set),
+                false => Err(format!("the witness's {k} repeats a name or names no generator")),
+            }
+        };
+        let (c, dual) = (set("cycle")?, set("cocycle")?);
+        let k0 = deg(c.first().ok_or("the witness's cycle is empty")?)?;
+        let mut boundary = BTreeSet::new();
+        c.iter().flat_map(|g| &hat[g]).for_each(|t| toggle(&mut boundary, *t));
+        if !boundary.is_empty() || c.iter().any(|g| deg(g) != Ok(k0)) {
+            return Err(format!("the witness's cycle is not a cycle of X/(U − 1) in degree {k0}"));
+        }
+        if hat.values().any(|b| b.intersection(&dual).count() % 2 == 1) || c.intersection(&dual).count() % 2 == 0 {
+            return Err("the witness's cocycle is not a cocycle, or pairs with the cycle to 0".into());
+        }
+        if !homology.iter().any(|h| h.0 == k0) {
+            return Err(format!("H_*(X/(U − 1)) is 0 in degree {k0}, yet the witness says otherwise"));
+        }
+        gr.values_mut().for_each(|v| v.0 -= k0);
+        Ok(())
+    }
+
     fn same(ours: &UComplex, theirs: &UComplex, what: &str) -> R<()> {
         let empty = UElem::new();
         for g in ours.keys().chain(theirs.keys()) {
@@ -1710,20 +1795,26 @@ pub mod cert {
                 check_morphism(f, &b.structures[from], &b.structures[to])
             }
             "box_tensor" => {
-                only(c, &["complex", "kind", "module", "statement", "structure"], kind)?;
+                only(c, &["complex", "kind", "module", "statement", "structure", "witness"], kind)?;
                 let m = b.modules.get(name("module")?).ok_or("no such module")?;
                 let n = b.structures.get(name("structure")?).ok_or("no such structure")?;
                 if !n.is_bounded() && !m.is_bounded() {
                     return Err("neither the structure nor the module is bounded".into());
                 }
                 let (gr, d) = minus_complex(body, name("complex")?)?;
-                if tensor_generators(m, n, version)? != gr {
+                let (mut want, ours) = (tensor_generators(m, n, version)?, box_tensor(m, n)?);
+                match (version >= 5, c.get("witness")) {
+                    (true, Some(w)) => maslov_shift(&mut want, &ours, w)?,
+                    (false, None) => {}
+                    _ => return Err("the witness is written exactly from version 5 on".into()),
+                }
+                if want != gr {
                     return Err("generators or gradings differ from x⊗y with gr(x) + gr(y)".into());
                 }
-                same(&box_tensor(m, n)?, &d, "∂")
+                same(&ours, &d, "∂")
             }
             "box_tensor_map" => {
-                only(c, &["kind", "map", "module", "morphism", "statement"], kind)?;
+                only(c, &["kind", "map", "module", "morphism", "statement", "witness"], kind)?;
                 let m = b.modules.get(name("module")?).ok_or("no such module")?;
                 let (from, to, f) = b.morphisms.get(name("morphism")?).ok_or("no such morphism")?;
                 let structures_bounded = b.structures[from].is_bounded() && b.structures[to].is_bounded();
@@ -1733,10 +1824,17 @@ pub mod cert {
                 let map_name = name("map")?;
                 let map = body.get("maps").and_then(|x| x.get(map_name)).ok_or("no such map")?;
                 let (cf, ct) = (text(member(map, "from", "map")?, "map")?, text(member(map, "to", "map")?, "map")?);
-                // id_M ⊠ f goes from M ⊠ N to M ⊠ N′: both complexes are those products.
-                for (cx, n) in [(cf, &b.structures[from]), (ct, &b.structures[to])] {
+                // id_M ⊠ f goes from M ⊠ N to M ⊠ N′: both complexes are those products, each
+                // graded with its own Maslov witness (version 5).
+                for (cx, n, side) in [(cf, &b.structures[from], "from"), (ct, &b.structures[to], "to")] {
                     let (gr, d) = minus_complex(body, cx)?;
-                    if tensor_generators(m, n, version)? != gr {
+                    let mut want = tensor_generators(m, n, version)?;
+                    match (version >= 5, c.get("witness")) {
+                        (true, Some(w)) => maslov_shift(&mut want, &box_tensor(m, n)?, member(w, side, "witness")?)?,
+                        (false, None) => {}
+                        _ => return Err("the witness is written exactly from version 5 on".into()),
+                    }
+                    if want != gr {
                         return Err(format!(
                             "complex {cx} does not have the generators and gradings of the box tensor product"
                         ));
@@ -1872,6 +1970,14 @@ pub mod cert {
                 let m = f("morphism")?;
                 format!("{m} is a type D morphism with ∂{m} = 0")
             }
+            "box_tensor" if version >= 5 => {
+                let x = f("complex")?;
+                format!(
+                    "{x} = {} ⊠ {} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group, then shifted by s·(2, 1) with the one s making Σ(−1)^M t^A symmetric under t ↔ t⁻¹, and in M alone so that a witnessed cycle of {x}/(U − 1), non-zero in homology, has M − 2A = 0, the degree of HF-hat(S³) ≅ F2)",
+                    f("module")?,
+                    f("structure")?
+                )
+            }
             "box_tensor" if version >= 4 => format!(
                 "{} = {} ⊠ {} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group, then shifted by s·(2, 1) with the one s making Σ(−1)^M t^A symmetric under t ↔ t⁻¹)",
                 f("complex")?,
@@ -1889,6 +1995,12 @@ pub mod cert {
                 f("complex")?,
                 f("module")?,
                 f("structure")?
+            ),
+            "box_tensor_map" if version >= 5 => format!(
+                "{} = id_{} ⊠ {} (source and target graded as box tensor products, each with its own witnessed cycle in degree M − 2A = 0)",
+                f("map")?,
+                f("module")?,
+                f("morphism")?
             ),
             "box_tensor_map" => format!("{} = id_{} ⊠ {}", f("map")?, f("module")?, f("morphism")?),
             "complement" if c.get("bounded_model").is_some() => format!(
@@ -1985,7 +2097,7 @@ pub mod mutation {
     /// One random mutation of a bordered object or claim.
     pub fn mutate(rng: &mut Rng, body: &mut Value) -> &'static str {
         let b = &mut body["bordered"];
-        match rng.below(8) {
+        match rng.below(9) {
             0..=2 => {
                 let names = keys(&b["type_d_structures"]);
                 let Some(i) = pick(rng, names.len()) else { return "none" };
@@ -2062,6 +2174,28 @@ pub mod mutation {
                 let (field, by) = [("framing", 1), ("framing", -1), ("tau", 1), ("tau", -1)][rng.below(4) as usize];
                 c[field] = json!(c[field].as_i64().unwrap() + by);
                 "change a framing or τ"
+            }
+            7 => {
+                // A name toggled in the Maslov witness of a box tensor product: a generator of
+                // the complex, or a name that is none.
+                let claims = body["claims"].as_array().unwrap();
+                let idx: Vec<usize> = (0..claims.len())
+                    .filter(|&i| claims[i]["kind"] == "box_tensor" && claims[i].get("witness").is_some())
+                    .collect();
+                let Some(i) = pick(rng, idx.len()) else { return "none" };
+                let complex = claims[idx[i]]["complex"].as_str().unwrap().to_string();
+                let mut gens = keys(&body["complexes"][&complex]["generators"]);
+                gens.push("nobody".into());
+                let g = json!(gens[rng.below(gens.len() as u64) as usize]);
+                let part = ["cycle", "cocycle"][rng.below(2) as usize];
+                let list = body["claims"][idx[i]]["witness"][part].as_array_mut().unwrap();
+                match list.iter().position(|v| *v == g) {
+                    Some(k) => {
+                        list.remove(k);
+                    }
+                    None => list.push(g),
+                }
+                "toggle a name in a Maslov witness"
             }
             _ => {
                 // A term of a box tensor product or of a map id ⊠ f.
@@ -2470,6 +2604,8 @@ mod tests {
             .collect();
         let id_terms: Vec<serde_json::Value> = n.idem.keys().map(|g| json!([g, "1", g])).collect();
         let idmap: Vec<serde_json::Value> = x.keys().map(|g| json!([g, "1", g])).collect();
+        // At U = 1, ∂x1 = x0 and ∂x3 = x2: x4 survives, and nothing reaches it (gr_V(x4) = 0).
+        let hat = json!({"cocycle": ["x⊗x4"], "cycle": ["x⊗x4"]});
         json!({
             "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"],
                      "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
@@ -2489,8 +2625,9 @@ mod tests {
                 {"kind": "type_d_structure", "statement": "", "structure": "N"},
                 {"kind": "type_a_module", "statement": "", "module": "M", "max_length": 10},
                 {"kind": "type_d_morphism", "statement": "", "morphism": "f"},
-                {"kind": "box_tensor", "statement": "", "complex": "X", "module": "M", "structure": "N"},
-                {"kind": "box_tensor_map", "statement": "", "map": "I", "module": "M", "morphism": "f"},
+                {"kind": "box_tensor", "statement": "", "complex": "X", "module": "M", "structure": "N", "witness": hat},
+                {"kind": "box_tensor_map", "statement": "", "map": "I", "module": "M", "morphism": "f",
+                 "witness": {"from": hat, "to": hat}},
                 {"kind": "complement", "statement": "", "complex": "C", "framing": t, "structure": "N", "tau": 3}
             ]
         })
@@ -2513,6 +2650,10 @@ mod tests {
             // Another framing claimed.
             let mut b = body.clone();
             b["claims"][5]["framing"] = serde_json::json!(t + 1);
+            assert!(cert::check_body(&b).is_err());
+            // The Maslov witness: x⊗x0 is hit by ∂(x⊗x1), so it is no cycle's pairing partner.
+            let mut b = body.clone();
+            b["claims"][3]["witness"]["cocycle"] = serde_json::json!(["x⊗x0", "x⊗x4"]);
             assert!(cert::check_body(&b).is_err());
             // A term of the box tensor product changed.
             let mut b = body.clone();

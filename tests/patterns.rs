@@ -319,7 +319,7 @@ mod cables {
         let c = b::inline_source(&full, src, &Default::default(), 0).unwrap();
         let (d, _, _) = b::complement_of("C", &c, n).unwrap();
         let m = b::diagram::cable_module(p).unwrap().module;
-        let (k, _) = b::box_tensor(&m, &d).unwrap();
+        let (k, _, _) = b::box_tensor(&m, &d).unwrap();
         let names: Vec<&String> = k.generators.keys().collect();
         let at = |x: &String| names.iter().position(|y| *y == x).unwrap();
         let rank = |keep: &dyn Fn(&str) -> bool| {

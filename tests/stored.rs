@@ -66,6 +66,29 @@ fn version_1_fixtures_stay_verifiable() {
 }
 
 #[test]
+fn version_4_certificates_verify_and_say_their_maslov_normalization_was_a_convention() {
+    // Frozen copies of stored certificates as format version 4 wrote them (box tensor products
+    // normalized by the symmetric Euler characteristic alone): still accepted, with version 4's
+    // wording, and the report says the Maslov part was not certified.
+    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("fixtures/v4");
+    let mut n = 0;
+    for entry in std::fs::read_dir(dir).unwrap() {
+        let path = entry.unwrap().path();
+        let bytes = std::fs::read(&path).unwrap();
+        assert!(String::from_utf8_lossy(&bytes).contains("\"version\":4"), "{}", path.display());
+        let report = tubecheck::check_bytes(&path.to_string_lossy(), &bytes).unwrap();
+        assert!(report.ok(), "{}", tubecheck::report_text::render(&report));
+        let caveat = "[format version 4: the Maslov normalization is by convention, not certified]";
+        for c in report.claims.iter().filter(|c| c.kind.starts_with("box_tensor")) {
+            assert!(c.statement.ends_with(caveat), "{}", c.statement);
+        }
+        assert!(report.claims.iter().filter(|c| c.statement.contains(caveat)).count() >= 2);
+        n += 1;
+    }
+    assert!(n >= 2);
+}
+
+#[test]
 fn the_same_problem_gives_identical_bytes_across_processes_and_thread_counts() {
     // Separate runs of the command line: each process seeds its hash maps differently, so any
     // dependence on hash-map order would show. The problem maps one inflated complex into

@@ -1097,17 +1097,19 @@ pub fn check(
             Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
             Claim::TypeAModule { module, max_length, .. } => check_module(&o.budget, o.module(module)?, *max_length)?,
             Claim::TypeDMorphism { morphism, .. } => check_morphism(o, o.morphism(morphism)?)?,
-            Claim::BoxTensor { complex, module, structure, .. } => {
+            Claim::BoxTensor { complex, module, structure, witness, .. } => {
                 minus()?;
                 let c = &ctx.complexes[ctx.complex_named(complex)?];
                 o.budget.1.set(0);
-                let (gens, rows, side) = tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
+                let (mut gens, rows, side) =
+                    tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
                 covered(o, module)?;
+                crate::maslov::certify(&o.budget, &mut gens, &rows, witness.as_ref(), version)?;
                 compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
                 facts.insert("generators".into(), serde_json::json!(gens.len()));
                 facts.insert("bounded".into(), serde_json::json!(side));
             }
-            Claim::BoxTensorMap { map, module, morphism, .. } => {
+            Claim::BoxTensorMap { map, module, morphism, witness, .. } => {
                 minus()?;
                 let (m, f) = (o.module(module)?, o.morphism(morphism)?);
                 let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
@@ -1117,15 +1119,19 @@ pub fn check(
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
                 o.budget.1.set(0);
                 // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
-                // those complexes (differentials included), and the words of those pairings
-                // count toward the relations this module must have been checked on, too.
-                for (c, d, dn) in [(from, n, &f.from), (to, n2, &f.to)] {
-                    let (gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
+                // those complexes (differentials included, each graded with its own Maslov
+                // witness), and the words of those pairings count toward the relations this module
+                // must have been checked on, too.
+                let (w, mut normalized) = (witness.as_ref(), Vec::new());
+                for (c, d, dn, w) in [(from, n, &f.from, w.map(|w| &w.from)), (to, n2, &f.to, w.map(|w| &w.to))] {
+                    let (mut gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
+                    crate::maslov::certify(&o.budget, &mut gens, &rows, w, version)?;
                     compare(&format!("{what}: {} = {module} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
+                    normalized.push(gens);
                 }
-                let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
+                let (_, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 covered(o, module)?;
-                compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
+                compare(&what, from, to, &normalized[0], &rows, &fm.m.rows)?;
                 facts.insert("bounded".into(), serde_json::json!(side));
             }
             Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => {

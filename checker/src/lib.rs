@@ -6,12 +6,14 @@
 //! - [`load`]: from the data model to indexed objects, with precise errors;
 //! - [`verify`]: one check per claim kind;
 //! - [`bordered`]: the bordered claims (type D structures, type A modules, box tensor products);
+//! - [`maslov`]: the certified Maslov normalization of a box tensor product;
 //! - [`report_text`] / [`report_json`]: presentation of verified results (not trusted code).
 #![forbid(unsafe_code)]
 
 pub mod algebra;
 pub mod bordered;
 pub mod load;
+pub mod maslov;
 pub mod report_appendix;
 pub mod report_cli;
 pub mod report_json;

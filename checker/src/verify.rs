@@ -513,7 +513,7 @@ pub fn check_loaded(
         out.push(ClaimResult {
             kind: claim.kind().into(),
             // What the fields say: a statement that differs is not shown as if it were checked.
-            statement: render(claim, &ctx.ring, version),
+            statement: render(claim, &ctx.ring, version) + tubecert_format::statement::caveat(claim, version),
             implicit: false,
             outcome,
         });

@@ -263,6 +263,24 @@ pub struct BasisWitness {
     pub inverse: Vec<Term>,
 }
 
+/// Witness of the absolute Maslov grading of a box tensor product X (version 5): a cycle of
+/// X/(U − 1), homogeneous in M − 2A, and a cocycle pairing with it to 1, each written as the
+/// set of generators it sums (see `tubecheck::maslov`).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct HatWitness {
+    pub cocycle: Vec<String>,
+    pub cycle: Vec<String>,
+}
+
+/// The witnesses of the source (M ⊠ N) and target (M ⊠ N′) of id_M ⊠ f (version 5).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct MapHatWitness {
+    pub from: HatWitness,
+    pub to: HatWitness,
+}
+
 /// Witness of a torsion order: the homotopy for v^k·(F+G), the dual for v^(k−1)·(F+G).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -358,6 +376,9 @@ pub enum Claim {
         module: String,
         statement: String,
         structure: String,
+        /// Version 5 (required there, absent before): the Maslov normalization's witness.
+        #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
+        witness: Option<HatWitness>,
     },
     /// A map of the body equals id_M ⊠ f.
     BoxTensorMap {
@@ -365,6 +386,9 @@ pub enum Claim {
         module: String,
         morphism: String,
         statement: String,
+        /// Version 5 (required there, absent before): the witnesses of its source and target.
+        #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
+        witness: Option<MapHatWitness>,
     },
     /// A type D structure is the one LOT Thm 11.26 gives for a full complex and a framing.
     Complement {
@@ -461,8 +485,11 @@ pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
 /// of LOT's grading group (`period` members, four-entry gradings); version-2 bordered sections
 /// are still read with version 2's rule (gradings added). Version 4 normalizes the gradings of
 /// a box tensor product by the symmetry of its graded Euler characteristic (version-3
-/// certificates keep version 3's reading and wording).
-pub const CERTIFICATE_VERSION: u32 = 4;
+/// certificates keep version 3's reading and wording). Version 5 certifies the Maslov part of
+/// that normalization (`witness` of `box_tensor` and `box_tensor_map`: HF-hat(S³) ≅ F2 in
+/// degree 0); version-4 certificates are read as before, and reported as normalized by
+/// convention.
+pub const CERTIFICATE_VERSION: u32 = 5;
 
 /// A certificate file: `{"format", "version", "sha256", "body"}`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]

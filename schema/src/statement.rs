@@ -93,6 +93,9 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
             "{module} is a strictly unital type A module over A(T²) with coefficients in F2[U] (A∞ relations on every input word of length ≤ {max_length})"
         ),
         Claim::TypeDMorphism { morphism, .. } => format!("{morphism} is a type D morphism with ∂{morphism} = 0"),
+        Claim::BoxTensor { complex, module, structure, .. } if version >= 5 => format!(
+            "{complex} = {module} ⊠ {structure} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group, then shifted by s·(2, 1) with the one s making Σ(−1)^M t^A symmetric under t ↔ t⁻¹, and in M alone so that a witnessed cycle of {complex}/(U − 1), non-zero in homology, has M − 2A = 0, the degree of HF-hat(S³) ≅ F2)"
+        ),
         Claim::BoxTensor { complex, module, structure, .. } if version >= 4 => format!(
             "{complex} = {module} ⊠ {structure} (box tensor product, (Maslov, Alexander) read from gr(x)·gr(y) in LOT's grading group, then shifted by s·(2, 1) with the one s making Σ(−1)^M t^A symmetric under t ↔ t⁻¹)"
         ),
@@ -102,6 +105,9 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
         Claim::BoxTensor { complex, module, structure, .. } => {
             format!("{complex} = {module} ⊠ {structure} (box tensor product, gradings added)")
         }
+        Claim::BoxTensorMap { map, module, morphism, .. } if version >= 5 => format!(
+            "{map} = id_{module} ⊠ {morphism} (source and target graded as box tensor products, each with its own witnessed cycle in degree M − 2A = 0)"
+        ),
         Claim::BoxTensorMap { map, module, morphism, .. } => format!("{map} = id_{module} ⊠ {morphism}"),
         Claim::Complement { bounded_model: None, structure, complex, framing, tau, .. } => format!(
             "{structure} = CFD of the complement of the knot with complex {complex}, framing {framing} (LOT Thm 11.26), τ = {tau}"
@@ -109,6 +115,17 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
         Claim::Complement { structure, complex, framing, tau, .. } => format!(
             "{structure} ≃ CFD of the complement of the knot with complex {complex}, framing {framing}: the bounded model (LOT Thm 11.26's structure with ξ_0's unstable arrow split through a cancelling pair, homotopy equivalent by the cancellation lemma, LOT §2), τ = {tau}"
         ),
+    }
+}
+
+/// What a claim's wording leaves out and a report must say: a version-4 box tensor product's
+/// Maslov normalization was a convention (version 5 certifies it).
+pub fn caveat(claim: &Claim, version: u32) -> &'static str {
+    match claim {
+        Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } if version == 4 => {
+            " [format version 4: the Maslov normalization is by convention, not certified]"
+        }
+        _ => "",
     }
 }
 

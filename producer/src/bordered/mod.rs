@@ -5,6 +5,7 @@
 //! records the claims that go with them.
 
 pub mod diagram;
+pub mod maslov;
 pub mod simplify;
 
 use serde_json::Value;
@@ -13,7 +14,9 @@ use std::collections::BTreeMap;
 use tubecert_format::bordered::{
     full_ring, is_minus_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
 };
-use tubecert_format::{Claim, ComplexSpec, EquivalenceWitness, Grading, MapSpec, Ring, UniqueMap};
+use tubecert_format::{
+    Claim, ComplexSpec, EquivalenceWitness, Grading, HatWitness, MapHatWitness, MapSpec, Ring, UniqueMap,
+};
 use tubecheck::bordered::{self as checked, Budget, Failure};
 
 /// Work allowed for one construction (the checker's budget is proportional to the file).
@@ -210,18 +213,22 @@ fn budget() -> Budget {
     Budget(Cell::new(BUDGET), Cell::new(0))
 }
 
-/// The complex M ⊠ N, and the longest input word it used.
-pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize), String> {
+/// The complex M ⊠ N, the longest input word it used, and the witness of its Maslov
+/// normalization (applied by the checker's own function).
+pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize, HatWitness), String> {
     let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
-    let (gens, rows, _) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
+    let (mut gens, rows, _) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
+    let w = maslov::hat_witness(&gens, &rows)?;
+    let version = tubecert_format::CERTIFICATE_VERSION;
+    tubecheck::maslov::certify(&b, &mut gens, &rows, Some(&w), version).map_err(failure)?;
     let mut differential = Vec::new();
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
         differential.extend(row.iter().map(|(t, p)| [name.clone(), power(*p), t.clone()]));
     }
     differential.sort();
     let generators = UniqueMap(gens.into_iter().map(|g| (g.2, g.3)).collect());
-    Ok((ComplexSpec { generators, differential }, b.1.get()))
+    Ok((ComplexSpec { generators, differential }, b.1.get(), w))
 }
 
 fn power(p: u32) -> String {
@@ -253,7 +260,9 @@ pub fn box_tensor_map(
     let (gens, rows, _) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
-    for ((_, _, name, gr), row) in gens.iter().zip(&rows) {
+    for ((_, _, name, _), row) in gens.iter().zip(&rows) {
+        // Gradings as the complexes have them (each normalized by its own witness).
+        let gr = from.1.generators.get(name).ok_or(format!("{name} is not a generator of {}", from.0))?;
         for (t, p) in row {
             // deg f = gr(target) + p·deg U − gr(source); the chain-map check confirms it for every term.
             let gt = to.1.generators.get(t).ok_or(format!("{t} is not a generator of {}", to.0))?;
@@ -391,9 +400,16 @@ pub fn box_tensor_complex(name: &str, arg: &Value, out: &mut Built) -> Result<Co
         serde_json::from_value(arg.clone()).map_err(|_| "box_tensor takes [MODULE, STRUCTURE]")?;
     let module = out.modules.get(&m).ok_or(format!("type A module \"{m}\" is not declared"))?;
     let structure = out.structures.get(&n).ok_or(format!("type D structure \"{n}\" is not declared"))?;
-    let (c, longest) = box_tensor(module, structure)?;
+    let (c, longest, w) = box_tensor(module, structure)?;
     note_longest(out, &m, longest);
-    out.claims.push(Claim::BoxTensor { complex: name.into(), module: m, statement: String::new(), structure: n });
+    let witness = Some(w);
+    out.claims.push(Claim::BoxTensor {
+        complex: name.into(),
+        module: m,
+        statement: String::new(),
+        structure: n,
+        witness,
+    });
     Ok(c)
 }
 
@@ -482,8 +498,16 @@ pub fn box_tensor_map_entry(
     };
     let (map, longest) = box_tensor_map(module, mor, n, n2, find(&mor.from)?, find(&mor.to)?)?;
     // The checker also counts the words of M ⊠ N and M ⊠ N′ (what id_M ⊠ f maps between).
-    let longest = [n, n2].into_iter().try_fold(longest, |l, s| box_tensor(module, s).map(|(_, k)| l.max(k)))?;
-    note_longest(out, &m, longest);
-    out.claims.push(Claim::BoxTensorMap { map: name.into(), module: m, morphism: f, statement: String::new() });
+    // The same construction as the complexes: the same witnesses of their normalizations.
+    let ((_, k1, from), (_, k2, to)) = (box_tensor(module, n)?, box_tensor(module, n2)?);
+    note_longest(out, &m, longest.max(k1).max(k2));
+    let witness = Some(MapHatWitness { from, to });
+    out.claims.push(Claim::BoxTensorMap {
+        map: name.into(),
+        module: m,
+        morphism: f,
+        statement: String::new(),
+        witness,
+    });
     Ok(map)
 }
