@@ -680,3 +680,26 @@ fn a_box_tensor_product_without_a_symmetric_euler_characteristic_is_refused() {
     let e = tubecert::problem::parse_problem(&serde_json::to_vec(&p).unwrap(), "p").unwrap_err().join("\n");
     assert!(e.contains("symmetric under t ↔ t⁻¹"), "{e}");
 }
+
+// A companion with long steps (the staircase of t^16 − 1 + t^−16, steps U^16 and V^16; and one
+// with steps of 30): the pairing uses module words of length about 18 (32), so the module's
+// relations are certified on words up to twice that. The A∞ check enumerates only the words
+// made of the operations' own words, each checked in time linear in its length; checking every
+// candidate by its splits (quadratic per word) exceeded these files' work budgets. τ by Hom
+// 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable knots"): ε = 1 for a
+// staircase, so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
+#[test]
+fn cables_of_companions_with_long_steps_prove_and_verify() {
+    for (step, p) in [(16, 3), (30, 2)] {
+        let src = json!({"staircase": {"alexander": [step, 0, -step]}});
+        let proved = prove_value(&problem(
+            json!({"K": {"cable": {"companion": src, "p": p, "q": 1}}}),
+            json!({"goals": [{"tau": {"complex": "K"}}]}),
+        ));
+        let claims = tubecert_tests::verified_claims(&proved);
+        let tau = claims.iter().find(|c| c["kind"] == "tau").unwrap()["tau"].as_i64().unwrap();
+        assert_eq!(tau, p * step, "step {step}, p = {p}");
+        let length = claims.iter().find(|c| c["kind"] == "type_a_module").unwrap()["max_length"].as_i64().unwrap();
+        assert!(length >= 2 * step, "step {step}, p = {p}: relations up to {length}");
+    }
+}

@@ -523,3 +523,37 @@ fn cabled_maps_of_the_demo_carry_their_torsion_order() {
     let bad = campaign(&certs, tubecert_tests::cases(40) as usize, 0xCAB1E);
     assert!(bad.is_empty(), "{}", bad.join("\n"));
 }
+
+/// A wrong operation deep in a long family — the (2, 1) pattern's m(x1, ρ3, ρ23^20, ρ2) =
+/// U^42·x1 cancelled by a single entry, which keeps every family homogeneous — is seen by no
+/// relation on words of length ≤ 22 (the word itself has no second operation or product inside
+/// it: ρ3ρ23 = ρ23ρ23 = ρ23ρ2 = 0) and by the relation on ρ3ρ23^aρ2·ρ3ρ23^bρ2, a + b = 19, of
+/// length 23 (one ρ23 split as ρ2ρ3): m∘m gives U^{2a+2}·U^{2b+2}·x1 = U^42·x1 and the merged
+/// term is gone. Checker (candidate words from the operations) and oracle (its own candidates,
+/// and every word up to length 7) must both find exactly that threshold.
+#[test]
+fn a_wrong_operation_deep_in_a_long_family_is_found_by_both_at_the_same_length() {
+    let problem = json!({"format": "tubecert-problem", "version": 1, "ring": minus_ring(), "complexes": {},
+        "type_a_modules": {"M": {"cable_pattern": {"p": 2}}}, "goals": []});
+    let c = certificate(&problem);
+    let ops = c["body"]["bordered"]["type_a_modules"]["M"]["operations"].as_array().unwrap();
+    let long = ops.iter().find(|f| f["from"] == "x1" && f["to"] == "x1").expect("the (2, 1) pattern's x1 → x1 family");
+    assert_eq!(
+        (long["prefix"].clone(), long["repeat"].clone(), long["suffix"].clone(), long["power"].clone()),
+        (json!(["rho3"]), json!(["rho23"]), json!(["rho2"]), json!([2, 2]))
+    );
+    let mut word = vec![json!("rho3")];
+    word.extend(std::iter::repeat_n(json!("rho23"), 20));
+    word.push(json!("rho2"));
+    for (length, holds) in [(22, true), (23, false), (40, false)] {
+        let mut body = c["body"].clone();
+        body["bordered"]["type_a_modules"]["M"]["operations"]
+            .as_array_mut()
+            .unwrap()
+            .push(json!({"from": "x1", "power": [0, 42], "prefix": word, "repeat": [], "suffix": [], "to": "x1"}));
+        body["claims"][0]["max_length"] = json!(length);
+        let sealed = reseal(&c, body).unwrap();
+        assert_eq!(checker_accepts(&sealed), holds, "checker, length {length}");
+        assert_eq!(oracle_accepts(&sealed["body"]).is_ok(), holds, "oracle, length {length}");
+    }
+}

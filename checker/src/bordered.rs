@@ -7,7 +7,7 @@
 use crate::algebra::normalize;
 use crate::load::{Complex, Context};
 use std::cell::Cell;
-use std::collections::{BTreeMap, BTreeSet};
+use std::collections::BTreeMap;
 use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeDSpec};
 use tubecert_format::limits::MAX_EXPONENT;
 use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
@@ -57,6 +57,8 @@ pub struct Family {
     pub repeat: usize,
     pub power: [u32; 2],
     pub to: u32,
+    /// For each letter of the pattern, the positions holding it (a bit each).
+    pub holds: Vec<(Alg, u64)>,
 }
 
 pub struct TypeA {
@@ -66,6 +68,8 @@ pub struct TypeA {
     pub group: bool,
     pub period: Gr,
     pub families: Vec<Family>,
+    /// For each generator, the indices of the families from it.
+    pub out: Vec<Vec<usize>>,
     pub defects: Vec<String>,
 }
 
@@ -255,6 +259,7 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, grou
         group,
         period: period_ok(&spec.period, group, &format!("type A module {name}"))?,
         families: vec![],
+        out: vec![vec![]; spec.generators.len()],
         defects: vec![],
     };
     for (g, gen) in spec.generators.iter() {
@@ -277,8 +282,16 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, grou
         if pattern.len() > 60 || (f.repeat.is_empty() && f.power[0] != 0) || f.power.iter().any(|&p| p > MAX_EXPONENT) {
             return Err(at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block"));
         }
+        let mut holds: Vec<(Alg, u64)> = Vec::new();
+        for (k, &a) in pattern.iter().enumerate() {
+            match holds.iter_mut().find(|h| h.0 == a) {
+                Some(h) => h.1 |= 1 << k,
+                None => holds.push((a, 1 << k)),
+            }
+        }
         let fam = Family {
             from: find(&f.from)?,
+            holds,
             pattern,
             prefix: f.prefix.len(),
             repeat: f.repeat.len(),
@@ -299,6 +312,7 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, grou
                 m.defects.push(at(&format!("the output {} is not in ι{i}", f.to)));
             }
         }
+        m.out[fam.from as usize].push(m.families.len());
         m.families.push(fam);
     }
     let mut sorted: Vec<_> = spec.operations.iter().collect();
@@ -318,8 +332,8 @@ impl Family {
         w
     }
 
-    /// The positions of the pattern reachable after reading `mask`'s words, closed under the
-    /// junction: after the prefix and after each repeated block one may repeat or go on.
+    /// A set of pattern positions closed under the junction: after the prefix and after each
+    /// repeated block one may repeat or go on, so those two positions are one state.
     fn close(&self, mask: u64) -> u64 {
         let (j1, j2) = (self.prefix, self.prefix + self.repeat);
         if mask & (1 << j1 | 1 << j2) != 0 {
@@ -333,37 +347,41 @@ impl Family {
         self.close(1)
     }
 
-    /// The positions after reading `a` (0: the word read is no prefix of the family).
+    /// The positions from which the empty rest completes a word.
+    fn end(&self) -> u64 {
+        self.close(1 << self.pattern.len())
+    }
+
+    /// The positions of the pattern holding `a`.
+    fn holding(&self, a: Alg) -> u64 {
+        self.holds.iter().find(|h| h.0 == a).map_or(0, |h| h.1)
+    }
+
+    /// The positions after reading `a` from `mask` (0: the word read is no prefix of the family).
     fn step(&self, mask: u64, a: Alg) -> u64 {
-        let next = (0..self.pattern.len())
-            .filter(|&k| mask >> k & 1 == 1 && self.pattern[k] == a)
-            .fold(0, |m, k| m | 1 << (k + 1));
-        self.close(next)
+        self.close((mask & self.holding(a)) << 1)
+    }
+
+    /// The positions before `a` from which `a` leads into `mask` (reading backward).
+    fn back(&self, mask: u64, a: Alg) -> u64 {
+        self.close(mask >> 1 & self.holding(a))
     }
 
     /// U-power of the output when a word of length `len` is complete at `mask`.
-    fn output(&self, mask: u64, len: usize) -> Option<u32> {
-        if mask >> self.pattern.len() & 1 == 0 {
-            return None;
-        }
+    fn output(&self, mask: u64, len: usize) -> Option<u64> {
+        (mask & self.end() != 0).then(|| self.power_at(len))
+    }
+
+    /// U-power of the output on the family's word of length `len`.
+    fn power_at(&self, len: usize) -> u64 {
         let n = (len + self.repeat - self.pattern.len()).checked_div(self.repeat).unwrap_or(0);
-        Some(self.power[0] * n as u32 + self.power[1])
+        self.power[0] as u64 * n as u64 + self.power[1] as u64
     }
 
-    /// m contribution on exactly the word s.
-    fn on(&self, s: &[Alg]) -> Option<u32> {
-        let mask = s.iter().fold(self.start(), |m, &a| self.step(m, a));
-        self.output(mask, s.len())
-    }
-}
-
-impl TypeA {
-    /// m(x, s) as (output, U-power) terms, summed mod 2.
-    fn m(&self, x: u32, s: &[Alg]) -> Vec<(u32, u32)> {
-        let mut out: Vec<(u32, u32)> =
-            self.families.iter().filter(|f| f.from == x).filter_map(|f| f.on(s).map(|p| (f.to, p))).collect();
-        normalize(&mut out);
-        out
+    /// The number of the family's words of length ≤ `room`.
+    fn fitting(&self, room: usize) -> usize {
+        let fixed = self.pattern.len() - self.repeat;
+        room.checked_sub(fixed).map_or(0, |r| r.checked_div(self.repeat).map_or(1, |k| k + 1))
     }
 }
 
@@ -495,62 +513,98 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
             }
         }
     }
+    // Which words can carry a non-zero relation. A term m(m(x, s₁), s₂) is non-zero only if
+    // s₁ is the word of an operation from x to some y (the empty word: an m_1 term) and s₂ the
+    // word of an operation from y; a term m(x, …, a_j·a_{j+1}, …) only if the merged word is
+    // the word of an operation from x. So the relation at (x, s) is zero term by term unless
+    // s = uv with u a word of a family from x to y and v one of a family from y, or s is the
+    // word of a family from x with one input split as a product of two Reeb elements (the only
+    // splits: ρ12 = ρ1ρ2, ρ23 = ρ2ρ3, ρ123 = ρ1ρ23 = ρ12ρ3). Exactly these words of length ≤ L
+    // are checked, each with its work spent before it is written (a huge L is refused by the
+    // budget, not attempted), so the work is (number of such words) × length × families.
     let l = max_len as usize;
-    // Words of each family up to length l: n = 0, 1, … while the word fits (counted before
-    // any is written, so a huge stated length is refused, not attempted).
-    let fitting = |f: &Family| -> usize {
-        let fixed = f.pattern.len() - f.repeat;
-        l.checked_sub(fixed).map_or(0, |room| room.checked_div(f.repeat).map_or(1, |k| k + 1))
-    };
-    let words = |f: &Family| -> Vec<Vec<Alg>> { (0..fitting(f)).map(|n| f.word(n)).collect() };
-    let count: u64 =
-        m.families.iter().map(|f| fitting(f) as u64 * (1 + m.families.len() as u64 * (l as u64 + 1))).sum();
-    o.spend(count.saturating_mul(l as u64 + 1), "A∞ relations")?;
-    let mut candidates: BTreeSet<(u32, Vec<Alg>)> = BTreeSet::new();
     for f in &m.families {
-        for w in words(f) {
-            for g in m.families.iter().filter(|g| g.from == f.to) {
-                for w2 in words(g).into_iter().filter(|w2| w.len() + w2.len() <= l) {
-                    candidates.insert((f.from, [w.clone(), w2].concat()));
+        for n1 in 0..f.fitting(l) {
+            let after = &m.out[f.to as usize];
+            o.spend((f.pattern.len() + n1 * f.repeat + 1 + after.len()) as u64, "A∞ relations")?;
+            let u = f.word(n1);
+            for g in after.iter().map(|&g| &m.families[g]) {
+                for n2 in 0..g.fitting(l - u.len()) {
+                    relation(o, m, f.from, &[u.clone(), g.word(n2)].concat())?;
                 }
             }
-            for j in (0..w.len()).filter(|_| w.len() < l) {
-                // Split w[j] = a·b into two Reeb elements.
-                let Alg::Reeb(lo, hi) = w[j] else { continue };
+            for j in (0..u.len()).filter(|_| u.len() < l) {
+                let Alg::Reeb(lo, hi) = u[j] else { continue };
                 for cut in lo..hi {
-                    let mut s = w[..j].to_vec();
-                    s.extend([Alg::Reeb(lo, cut), Alg::Reeb(cut + 1, hi)]);
-                    s.extend_from_slice(&w[j + 1..]);
-                    candidates.insert((f.from, s));
+                    let split = [Alg::Reeb(lo, cut), Alg::Reeb(cut + 1, hi)];
+                    relation(o, m, f.from, &[&u[..j], &split, &u[j + 1..]].concat())?;
                 }
             }
         }
     }
-    o.spend(candidates.iter().map(|c| (c.1.len() as u64 + 1).pow(2) * m.families.len() as u64).sum(), "A∞ relations")?;
-    for (x, s) in candidates {
-        let mut acc: Vec<(u32, u32)> = Vec::new();
-        for i in 0..=s.len() {
-            for (y, e) in m.m(x, &s[..i]) {
-                acc.extend(m.m(y, &s[i..]).into_iter().map(|(z, e2)| (z, e + e2)));
+    Ok(())
+}
+
+/// The A∞ relation at (x, s): Σ_{s = s₁s₂} m(m(x, s₁), s₂) + Σ_j m(x, s₁…(s_j·s_{j+1})…s_k) = 0,
+/// in time linear in |s|: for every family the positions from which each suffix of s completes
+/// its word (read backward), and for each family from x the positions reached by each prefix,
+/// so that s₁, s₂ and each merged word are recognized by one mask test.
+fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
+    let (k, work) = (s.len(), s.len() as u64 + 1);
+    o.spend(work * 2, "A∞ relations")?;
+    // back[g][i]: the positions of family g from which s[i..] completes its word (computed,
+    // and its work spent, when first needed: for the families from x and from the outputs of
+    // its prefixes).
+    let mut back: BTreeMap<usize, Vec<u64>> = BTreeMap::new();
+    let mut suffix = |g: usize, i: usize| -> Result<u64, Failure> {
+        if let Some(b) = back.get(&g) {
+            return Ok(b[i]);
+        }
+        o.spend(work, "A∞ relations")?;
+        let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
+        (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
+        let at = b[i];
+        back.insert(g, b);
+        Ok(at)
+    };
+    let merges: Vec<(usize, Alg)> = (1..k).filter_map(|j| s[j - 1].times(s[j]).map(|ab| (j - 1, ab))).collect();
+    let mut acc: Vec<(u32, u64)> = Vec::new();
+    for &fi in &m.out[x as usize] {
+        let f = &m.families[fi];
+        // fwd[i]: the positions of f reached by s[..i].
+        o.spend(work, "A∞ relations")?;
+        let mut mk = f.start();
+        let fwd: Vec<u64> = std::iter::once(mk)
+            .chain(s.iter().map(|&a| {
+                mk = f.step(mk, a);
+                mk
+            }))
+            .collect();
+        for (i, &mk) in fwd.iter().enumerate() {
+            let Some(e) = f.output(mk, i) else { continue };
+            o.spend(m.out[f.to as usize].len() as u64, "A∞ relations")?;
+            for &gi in &m.out[f.to as usize] {
+                if suffix(gi, i)? & 1 != 0 {
+                    acc.push((m.families[gi].to, e + m.families[gi].power_at(k - i)));
+                }
             }
         }
-        for j in 0..s.len().saturating_sub(1) {
-            if let Some(ab) = s[j].times(s[j + 1]) {
-                let merged = [&s[..j], &[ab], &s[j + 2..]].concat();
-                acc.extend(m.m(x, &merged));
+        for &(j, ab) in &merges {
+            if f.step(fwd[j], ab) & suffix(fi, j + 2)? != 0 {
+                acc.push((f.to, f.power_at(k - 1)));
             }
         }
-        normalize(&mut acc);
-        if let Some(&(z, e)) = acc.first() {
-            let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
-            return Err(format!(
-                "the A∞ relation fails on ({}, {}): the term U^{e}·{} survives",
-                m.names[x as usize],
-                word.join(", "),
-                m.names[z as usize]
-            )
-            .into());
-        }
+    }
+    normalize(&mut acc);
+    if let Some(&(z, e)) = acc.first() {
+        let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
+        return Err(format!(
+            "the A∞ relation fails on ({}, {}): the term U^{e}·{} survives",
+            m.names[x as usize],
+            word.join(", "),
+            m.names[z as usize]
+        )
+        .into());
     }
     Ok(())
 }
@@ -620,7 +674,14 @@ fn paths(
             o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
             if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
                 o.1.set(o.1.get().max(path.len()));
-                out.push((f.to, y, p));
+                let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT);
+                out.push((
+                    f.to,
+                    y,
+                    p.ok_or_else(|| {
+                        Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
+                    })?,
+                ));
             }
             path.push((y, mask, next, 0));
             Ok(())
