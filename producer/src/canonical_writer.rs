@@ -326,6 +326,47 @@ pub fn start_file(body: &tubecert_format::Body) -> Result<Vec<u8>, String> {
     Ok(file)
 }
 
+/// The canonical text of a body's complexes and maps, which can be written before its claims
+/// exist (the prover writes it beside the search).
+pub struct WrittenObjects {
+    complexes: Vec<u8>,
+    maps: Vec<u8>,
+}
+
+pub fn write_objects(
+    complexes: &tubecert_format::UniqueMap<tubecert_format::ComplexSpec>,
+    maps: &tubecert_format::UniqueMap<tubecert_format::MapSpec>,
+) -> Result<WrittenObjects, String> {
+    Ok(WrittenObjects { complexes: to_canonical(complexes)?, maps: to_canonical(maps)? })
+}
+
+/// [`start_file`] for a body whose complexes and maps `written` holds (written from the same
+/// values): the other members written around them in canonical order, the same bytes (tested).
+pub fn start_file_with(body: &tubecert_format::Body, written: &WrittenObjects) -> Result<Vec<u8>, String> {
+    // Every member named, so that one added to the format cannot be left out silently.
+    let tubecert_format::Body { bordered, ring, complexes: _, maps: _, claims, provenance } = body;
+    let mut file = FILE_START.to_vec();
+    file.reserve(written.complexes.len() + written.maps.len() + 4096);
+    file.push(b'{');
+    if let Some(b) = bordered {
+        file.extend_from_slice(b"\"bordered\":");
+        append_canonical(b, &mut file)?;
+        file.push(b',');
+    }
+    file.extend_from_slice(b"\"claims\":");
+    append_canonical(claims, &mut file)?;
+    file.extend_from_slice(b",\"complexes\":");
+    file.extend_from_slice(&written.complexes);
+    file.extend_from_slice(b",\"maps\":");
+    file.extend_from_slice(&written.maps);
+    file.extend_from_slice(b",\"provenance\":");
+    append_canonical(provenance, &mut file)?;
+    file.extend_from_slice(b",\"ring\":");
+    append_canonical(ring, &mut file)?;
+    file.push(b'}');
+    Ok(file)
+}
+
 /// The canonical body inside a file begun by [`start_file`].
 pub fn body_of(file: &[u8]) -> &[u8] {
     &file[FILE_START.len()..]
@@ -387,6 +428,14 @@ mod tests {
             let mut expected = Vec::new();
             tubecert_format::canonical::write_canonical(&serde_json::to_value(&cert).unwrap(), &mut expected).unwrap();
             assert_eq!(String::from_utf8(to_canonical(&cert).unwrap()).unwrap(), String::from_utf8(expected).unwrap());
+        }
+        // Stored certificates, with and without a bordered section: the body written around
+        // its complexes and maps written first is the same bytes.
+        for name in ["cable-by-p2", "disk-pair-p2"] {
+            let path = format!("{}/../certificates/{name}.cert.json", env!("CARGO_MANIFEST_DIR"));
+            let cert: tubecert_format::Certificate = serde_json::from_slice(&std::fs::read(path).unwrap()).unwrap();
+            let written = write_objects(&cert.body.complexes, &cert.body.maps).unwrap();
+            assert_eq!(start_file_with(&cert.body, &written).unwrap(), start_file(&cert.body).unwrap(), "{name}");
         }
         // Keys whose UTF-8 and UTF-16 orders differ, and escapes.
         let v: serde_json::Value =

@@ -44,3 +44,23 @@ pub fn check_input(path: &Path) -> Result<(problem::Problem, tubecheck::load::Co
     let lines = text_format::SourceLines::of(&bytes);
     Err(errs.iter().map(|e| lines.locate(&path.display().to_string(), e)).collect())
 }
+
+/// Lowers the calling thread's scheduling priority (Linux: nice 10 for this thread only), for
+/// work beside the search whose result is needed only later: on two cores the search's
+/// sequential pivot loop then keeps a core to itself. Scheduling only; results never change.
+pub(crate) fn yield_to_search() {
+    #[cfg(target_os = "linux")]
+    {
+        extern "C" {
+            fn setpriority(
+                which: std::os::raw::c_int,
+                who: std::os::raw::c_uint,
+                prio: std::os::raw::c_int,
+            ) -> std::os::raw::c_int;
+        }
+        // PRIO_PROCESS (0) with who = 0 is the calling thread on Linux. A failure leaves the
+        // priority as it was, which is harmless.
+        // SAFETY: a plain system call with integer arguments, no memory is passed.
+        let _ = unsafe { setpriority(0, 0, 10) };
+    }
+}

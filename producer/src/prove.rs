@@ -426,13 +426,19 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
         lines.push(format!("✓ {}", b.add(claim)));
     }
     let mut all = true;
-    // With a second thread, the first half of the self-check and the problem's hash run beside
-    // the search; not when the body gets objects the problem lacks (reductions emitted) or
+    // With a second thread, the first half of the self-check, the problem's hash and the
+    // canonical text of the complexes and maps (most of the file) are done beside the search; not when the body gets objects the problem lacks (reductions emitted) or
     // bordered objects (their checks read the claims): then the whole check runs at the end.
     let early = options.threads > 1 && !options.emit_reduction && problem.bordered.is_none();
     let start = Instant::now();
     let (searched, beside, waited) = std::thread::scope(|s| {
-        let beside = early.then(|| s.spawn(|| (check_objects_of(&problem), sha256_hex(problem_bytes))));
+        let beside = early.then(|| {
+            s.spawn(|| {
+                crate::yield_to_search();
+                let written = crate::canonical_writer::write_objects(&problem.complexes, &problem.maps);
+                (check_objects_of(&problem), sha256_hex(problem_bytes), written)
+            })
+        });
         let searched = problem.goals.iter().enumerate().try_for_each(|(i, goal)| {
             let (held, line) = b.goal(goal).map_err(|e| format!("goal {}: {e}", i + 1))?;
             all &= held;
@@ -460,9 +466,9 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     }
     let Builder { claims, solver, .. } = b;
     drop(solver); // the reductions are not needed any more: free them before the self-check
-    let (objects, problem_sha256) = match beside {
-        Some((objects, sha)) => (Some(objects), sha),
-        None => (None, sha256_hex(problem_bytes)),
+    let (objects, problem_sha256, written) = match beside {
+        Some((objects, sha, written)) => (Some(objects), sha, Some(written?)),
+        None => (None, sha256_hex(problem_bytes), None),
     };
     let body = Body {
         bordered: problem.bordered,
@@ -479,7 +485,11 @@ pub fn prove_with(problem: Problem, ctx: &Context, problem_bytes: &[u8], options
     // result), and when it is not the check runs again within the exact budget.
     let start = Instant::now();
     let seal = || {
-        crate::canonical_writer::start_file(&body).map(|file| {
+        let file = match &written {
+            Some(w) => crate::canonical_writer::start_file_with(&body, w),
+            None => crate::canonical_writer::start_file(&body),
+        };
+        file.map(|file| {
             let sha256 = tubecert_format::canonical::sha256_hex(crate::canonical_writer::body_of(&file));
             (file, sha256)
         })
