@@ -1733,12 +1733,15 @@ pub mod cert {
                 let map_name = name("map")?;
                 let map = body.get("maps").and_then(|x| x.get(map_name)).ok_or("no such map")?;
                 let (cf, ct) = (text(member(map, "from", "map")?, "map")?, text(member(map, "to", "map")?, "map")?);
+                // id_M ⊠ f goes from M ⊠ N to M ⊠ N′: both complexes are those products.
                 for (cx, n) in [(cf, &b.structures[from]), (ct, &b.structures[to])] {
-                    let (gr, _) = minus_complex(body, cx)?;
-                    let want: BTreeSet<String> = tensor_generators(m, n, version)?.into_keys().collect();
-                    if gr.keys().cloned().collect::<BTreeSet<_>>() != want {
-                        return Err(format!("complex {cx} does not have the generators of the box tensor product"));
+                    let (gr, d) = minus_complex(body, cx)?;
+                    if tensor_generators(m, n, version)? != gr {
+                        return Err(format!(
+                            "complex {cx} does not have the generators and gradings of the box tensor product"
+                        ));
                     }
+                    same(&box_tensor(m, n)?, &d, &format!("∂ of {cx}"))?;
                 }
                 let mut phi = UComplex::new();
                 for (x, cf, y) in terms(member(map, "terms", "map")?, "map")? {

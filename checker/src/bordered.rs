@@ -722,10 +722,30 @@ pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator
             out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), gr));
         }
     }
+    // Names may contain ⊗: (a⊗b, c) and (a, b⊗c) would both be a⊗b⊗c, and a complex could
+    // then carry a generator the product lacks, compared with nothing.
+    let mut names: Vec<&String> = out.iter().map(|g| &g.2).collect();
+    names.sort();
+    if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
+        return Err(Failure::Refused(format!(
+            "two generators of the box tensor product are both named {}: rename a generator whose name contains ⊗",
+            w[0]
+        )));
+    }
     if symmetric && m.group && n.group {
         symmetrize(&mut out)?;
     }
     Ok(out)
+}
+
+/// `generators`, after counting the |M|·|N| pairs made from |M| + |N| written generators, each
+/// at 1/64 of an item's allowance (a named pair is a few hundred bytes; a true product lists
+/// every pair in its complex, so it has far fewer pairs than written items · 64).
+fn counted_generators(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
+    let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
+    let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
+    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+    generators(m, n, symmetric)
 }
 
 /// The absolute normalization of a knot's complex in S³ read from a pairing: χ = Σ(−1)^M t^A
@@ -835,7 +855,7 @@ pub fn tensor_complex(
     if let Some(e) = m.defects.first().or(n.defects.first()) {
         return Err(e.clone().into());
     }
-    let gens = generators(m, n, symmetric)?;
+    let gens = counted_generators(o, m, n, symmetric)?;
     let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
     let side = bounded(o, m, n.names.len() as u32, &steps)?;
     let node = |y: u32| n.names[y as usize].clone();
@@ -855,7 +875,7 @@ pub fn tensor_map(
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
         return Err(e.clone().into());
     }
-    let gens = generators(m, n, symmetric)?;
+    let gens = counted_generators(o, m, n, symmetric)?;
     // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
     let k = n.names.len() as u32;
     let steps = |y: u32| -> Vec<(Alg, u32, bool)> {
@@ -1101,13 +1121,14 @@ pub fn check(
                 let fm = &ctx.maps[i];
                 let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
                 let what = format!("{map} = id_{module} ⊠ {morphism}");
-                let gens2 = generators(m, n2, version >= 4)?;
-                compare(&what, to, to, &gens2, &vec![Vec::new(); gens2.len()], &vec![Vec::new(); to.names.len()])?;
                 o.budget.1.set(0);
-                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: the words of those pairings
+                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
+                // those complexes (differentials included), and the words of those pairings
                 // count toward the relations this module must have been checked on, too.
-                tensor_complex(&o.budget, m, n, version >= 4)?;
-                tensor_complex(&o.budget, m, n2, version >= 4)?;
+                for (c, d, dn) in [(from, n, &f.from), (to, n2, &f.to)] {
+                    let (gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
+                    compare(&format!("{what}: {} = {module} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
+                }
                 let (gens, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
                 covered(o, module)?;
                 compare(&what, from, to, &gens, &rows, &fm.m.rows)?;
@@ -1115,7 +1136,13 @@ pub fn check(
             }
             Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => {
                 let c = &o.full.complexes[o.full.complex_named(complex)?];
-                o.budget.spend(c.d.rows.iter().map(|r| r.len() as u64 + 1).sum::<u64>() + framing.unsigned_abs(), "complement")?;
+                // The structure has a chain of l generators per arrow of length l and |t − 2τ|
+                // more (≤ |t| + max |gr_U − gr_V|): counted before they are made, each at 1/64
+                // of an item's allowance (the structure compared with them lists them all).
+                let arrows: u64 = c.d.rows.iter().flatten().map(|(_, m)| 1 + m.0[0].max(m.0[1]) as u64).sum();
+                let alex = (0..c.names.len()).map(|x| (c.gradings[x][0] - c.gradings[x][1]).unsigned_abs()).max();
+                let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex.unwrap_or(0));
+                o.budget.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
                 let (want, found_tau, split) = complement(c, *framing, o.group, *bounded_model == Some(true))?;
                 if *bounded_model != split.then_some(true) {
                     return Err(format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {})", if split { "it is not written" } else { "it is not needed" }).into());
