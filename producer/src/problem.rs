@@ -136,7 +136,7 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
             _ => serde_json::from_str(text).map_err(|e| prefix(vec![json_error(&e)]))?,
         }
     } else {
-        crate::text_format::parse(text).map_err(|es| prefix(capped(es)))?
+        crate::text_format::parse_checked(text).map_err(|es| prefix(capped(es)))?
     };
     let mut w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;

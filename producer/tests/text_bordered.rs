@@ -179,6 +179,14 @@ fn families_of_every_shape_read_and_render() {
         ops("m(x, ρ_3, ρ23^k, ρ2) = U^(k+1)·x"),
         serde_json::json!([family(&["rho3"], &["rho23"], &["rho2"], [1, 1], "x")])
     );
+    assert_eq!(
+        ops("m(x, rho3, rho23^n, rho2) = U^(n + 1) · x"),
+        serde_json::json!([family(&["rho3"], &["rho23"], &["rho2"], [1, 1], "x")])
+    );
+    // A generator may be named like a subscripted m.
+    let v = parse(&format!("{head}  m_1 iota0 (0, 0, 0, 0)\n  m(m_1, rho3, rho2) = U x\n")).unwrap();
+    assert_eq!(v["type_a_modules"]["M"]["generators"]["m_1"]["idempotent"], 0);
+    assert_eq!(v["type_a_modules"]["M"]["operations"][0]["from"], "m_1");
     assert_eq!(ops("m_3(x, rho3, rho2) = U x"), serde_json::json!([family(&["rho3", "rho2"], &[], &[], [0, 1], "x")]));
     // The empty block marks the JSON form's split of a single operation into prefix and suffix.
     assert_eq!(
@@ -212,6 +220,25 @@ fn families_of_every_shape_read_and_render() {
         let text = render(&v).unwrap();
         assert!(text.contains(&format!("\n  {line}\n")), "{line} rendered as\n{text}");
     }
+}
+
+/// `convert` only reads; the checks that need the objects (idempotents, sources over F2[U,V])
+/// are made where a problem is read to be proved.
+#[test]
+fn convert_reads_what_check_input_refuses() {
+    let text = "ring F2[U]\ngradings maslov alexander\ndegree U (-2, -1)\ndegree d (-1, 0)\ntype_d_structure N\n  a iota0\n  a -> rho1 a\n";
+    let dir = common::scratch("text-bordered-convert");
+    let path = dir.join("n.problem.txt");
+    std::fs::write(&path, text).unwrap();
+    let (code, json, err) = tubecert(&["convert", &path.to_string_lossy(), "--to", "json"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(json.contains("\"rho1\""), "{json}");
+    let (code, _, err) = tubecert(&["check-input", &path.to_string_lossy()]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("n.problem.txt:7: type D structure N, δ¹, term 1 [a, rho1, a]: the idempotents do not match"),
+        "{err}"
+    );
 }
 
 /// Writes a text problem, runs `check-input`, expects exit 2 and returns stderr.

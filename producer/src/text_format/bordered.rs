@@ -91,7 +91,12 @@ pub(super) fn body_line(
         Body::Morphism(e) => (e, "morphism"),
     };
     let trimmed = text.trim_start();
-    if kind == "module" && (trimmed.starts_with("m(") || trimmed.starts_with("m_")) {
+    // `m(…)` or `m_3(…)`; a generator may still be named `m_1` (`m_1 iota0 (…)`).
+    let subscripted = trimmed
+        .strip_prefix("m_")
+        .and_then(|r| r.find('(').map(|k| &r[..k]))
+        .is_some_and(|sub| !sub.is_empty() && !sub.contains(char::is_whitespace));
+    if kind == "module" && (trimmed.starts_with("m(") || subscripted) {
         let start = text.len() - trimmed.len() + 1;
         let ops = operations(line, start, obj)?;
         let n = ops.len();
@@ -319,7 +324,7 @@ fn operations(line: &Line, start: usize, obj: &str) -> Result<Vec<Value>, String
             return Err(at(c, "an empty term on the right (a '+' too many?)".into()));
         }
         let (coef, to) = match term.rsplit_once([' ', '·', '*']) {
-            Some((coef, to)) => (coef.trim(), to.trim()),
+            Some((coef, to)) => (coef.trim().trim_end_matches(['·', '*']).trim_end(), to.trim()),
             None => ("", term),
         };
         if to.is_empty() || to.starts_with('U') && (to == "U" || to.starts_with("U^")) {
@@ -732,6 +737,65 @@ mod tests {
         }
         assert_eq!(idempotent("ι_1"), Some(1));
         assert_eq!(idempotent("iota2"), None);
+    }
+
+    proptest::proptest! {
+        /// Every explicit bordered object the JSON form can hold reads back from its text.
+        #[test]
+        fn explicit_bordered_objects_round_trip(p in problem()) {
+            let text = crate::text_format::render(&p).unwrap();
+            proptest::prop_assert_eq!(crate::text_format::parse(&text).unwrap(), p, "{}", text);
+        }
+    }
+
+    fn problem() -> impl proptest::strategy::Strategy<Value = Value> {
+        use proptest::prelude::*;
+        let names = || prop::sample::select(vec!["x", "y", "z2", "kappa1.a.b", "x⊗y", "m_1", "period", "g'"]);
+        let reeb = || prop::sample::select(vec!["rho1", "rho2", "rho3", "rho12", "rho23", "rho123"]);
+        let element = prop_oneof![Just("1"), reeb()];
+        let grading = prop::collection::vec(-9i64..9, 4);
+        let generators = prop::collection::btree_map(names(), (0u8..2, prop::option::of(grading.clone())), 1..4);
+        let terms = prop::collection::vec((names(), element, names()), 0..5);
+        let structure =
+            (generators.clone(), terms.clone(), prop::option::of(grading.clone())).prop_map(|(g, t, period)| {
+                let mut v = json!({
+                    "generators": g.into_iter().map(|(n, (i, gr))| {
+                        let mut d = json!({"idempotent": i});
+                        if let Some(gr) = gr { d["grading"] = json!(gr); }
+                        (n.to_string(), d)
+                    }).collect::<Map<String, Value>>(),
+                    "differential": t.into_iter().map(|(a, b, c)| json!([a, b, c])).collect::<Vec<_>>(),
+                });
+                if let Some(p) = period {
+                    v["period"] = json!(p);
+                }
+                v
+            });
+        let words = || prop::collection::vec(reeb(), 0..3);
+        let family =
+            (names(), words(), words(), words(), 0u32..3, 0u32..4, names()).prop_map(|(f, pre, rep, suf, a, b, to)| {
+                let a = if rep.is_empty() { 0 } else { a };
+                json!({"from": f, "prefix": pre, "repeat": rep, "suffix": suf, "power": [a, b], "to": to})
+            });
+        let module = (prop::collection::btree_map(names(), (0u8..2, grading.clone()), 1..3), prop::collection::vec(family, 0..4), prop::option::of(grading))
+            .prop_map(|(g, ops, period)| {
+                let mut v = json!({
+                    "generators": g.into_iter().map(|(n, (i, gr))| (n.to_string(), json!({"idempotent": i, "grading": gr}))).collect::<Map<String, Value>>(),
+                    "operations": ops,
+                });
+                if let Some(p) = period { v["period"] = json!(p); }
+                v
+            });
+        let morphism = terms.prop_map(|t| json!({"from": "N", "to": "N2", "terms": t.into_iter().map(|(a, b, c)| json!([a, b, c])).collect::<Vec<_>>()}));
+        (structure, module, morphism).prop_map(|(d, a, f)| json!({
+            "format": "tubecert-problem", "version": 1,
+            "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"],
+                     "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
+            "complexes": {}, "maps": {}, "goals": [],
+            "type_d_structures": {"N": d, "N2": {"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": -1}}},
+            "type_a_modules": {"M": a, "P": {"cable_pattern": {"p": 3}}},
+            "type_d_morphisms": {"f": f},
+        }))
     }
 
     #[test]
