@@ -1,9 +1,9 @@
 //! The absolute Maslov grading of a box tensor product X = M ⊠ N (format version 5), certified.
-//! X is CFK^-(K) over F2[U] (∂ counts discs with n_z = 0, U counts n_w), so X/(U − 1) is
+//! X is CFK^-(K) over F2\[U\] (∂ counts discs with n_z = 0, U counts n_w), so X/(U − 1) is
 //! CF-hat(S³) with basepoint z, graded by gr_z = M − 2A (U has gr_z-degree 0), and HF-hat(S³)
 //! ≅ F2 in degree 0 (Ozsváth–Szabó 2004, "Holomorphic disks and topological invariants for
 //! closed three-manifolds"). A cycle c of X/(U − 1) homogeneous in gr_z and a cocycle c*
-//! (c*∘∂ = 0) with ⟨c*, c⟩ = 1 show [c] ≠ 0 (c = ∂b would give ⟨c*, c⟩ = ⟨c*∘∂, b⟩ = 0), so the
+//! (c*∘∂ = 0) with ⟨c*, c⟩ = 1 show \[c\] ≠ 0 (c = ∂b would give ⟨c*, c⟩ = ⟨c*∘∂, b⟩ = 0), so the
 //! degree of c is 0: every M moves by −gr_z(c). The Alexander shift along gr(U) (`symmetrize`)
 //! keeps gr_z, so the two normalizations commute.
 
