@@ -130,7 +130,7 @@ pub fn parse(src: &str) -> Result<Value, Vec<String>> {
 }
 
 /// [`parse`], and what reading can tell of the written objects with their lines at hand: each
-/// source over F2[U,V] validated (∂∂ = 0, homogeneous) and the idempotents of every explicit
+/// source over F2\[U,V\] validated (∂∂ = 0, homogeneous) and the idempotents of every explicit
 /// δ¹ or morphism term (`bordered::check_written`). Used where a problem is read to be proved;
 /// `convert` keeps to [`parse`], which only reads.
 pub fn parse_checked(src: &str) -> Result<Value, Vec<String>> {
