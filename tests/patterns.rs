@@ -190,18 +190,23 @@ mod cables {
     // absolute (Maslov, Alexander) grading. HFK^- of a knot in S³ has one tower F2[U], generated
     // in grading (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003, τ from the tower; d(S³) = 0): on the
     // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
+    /// τ (Hom 2014, `hom_tau`), the graded Euler characteristic Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert)
+    /// and the one tower of HFK^- at (−2τ, −τ) (Ozsváth–Szabó 2003) of the (p, q) cable.
+    fn assert_cable_facts(name: &str, src: &Value, tau: i64, eps: i64, delta: &Poly, p: i64, q: i64) {
+        let b = cable(src, p, q);
+        let want = hom_tau(tau, eps, p, q);
+        assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
+        let seifert = mul(&substitute_power(delta, p), &torus_alexander(p, q));
+        assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
+        assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
+    }
+
     #[test]
     fn tau_and_alexander_polynomials_of_cables() {
         for (name, src, tau, eps, delta) in companions().into_iter().chain(more_companions()) {
             for p in 2..=3i64 {
                 for n in -2..=2i64 {
-                    let q = p * n + 1;
-                    let b = cable(&src, p, q);
-                    let want = hom_tau(tau, eps, p, q);
-                    assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
-                    let seifert = mul(&substitute_power(&delta, p), &torus_alexander(p, q));
-                    assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
-                    assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
+                    assert_cable_facts(name, &src, tau, eps, &delta, p, p * n + 1);
                 }
             }
         }
@@ -219,12 +224,7 @@ mod cables {
                 if name != "T(2,3)" && p == 5 && q != 2 && q != -3 {
                     continue; // P = 5: all residues on T(2,3), two on the others (time)
                 }
-                let b = cable(&src, p, q);
-                let want = hom_tau(tau, eps, p, q);
-                assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
-                let seifert = mul(&substitute_power(&delta, p), &torus_alexander(p, q));
-                assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
-                assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
+                assert_cable_facts(name, &src, tau, eps, &delta, p, q);
             }
         }
     }
