@@ -706,7 +706,7 @@ fn a_box_tensor_product_without_a_symmetric_euler_characteristic_is_refused() {
 // staircase, so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
 #[test]
 fn cables_of_companions_with_long_steps_prove_and_verify() {
-    for (step, p) in [(16, 3), (30, 2)] {
+    for (step, p) in [(16, 3), (30, 2), (60, 2)] {
         let src = json!({"staircase": {"alexander": [step, 0, -step]}});
         let proved = prove_value(&problem(
             json!({"K": {"cable": {"companion": src, "p": p, "q": 1}}}),

@@ -28,6 +28,9 @@ impl From<String> for Failure {
 
 /// Work units allowed per written item (generator, term, family) of the certificate.
 pub const WORK_PER_ITEM: u64 = 1 << 14;
+/// A fixed allowance, once per certificate, for A∞ relations only: a small file may certify a
+/// module on long words (a companion with one long step); nothing that builds objects gets it.
+pub const WORK_FLOOR: u64 = 1 << 32;
 
 /// For each source generator, its terms (coefficient, target).
 pub type Arrows = Vec<Vec<(Alg, u32)>>;
@@ -94,8 +97,9 @@ pub struct Objects {
 }
 
 /// Work units left: every check counts its work before doing it and refuses beyond. `longest`:
-/// the longest input word that gave a term of a box tensor product (reported).
-pub struct Budget(pub Cell<u64>, pub Cell<usize>);
+/// the longest input word that gave a term of a box tensor product (reported). The third cell:
+/// what is left of [`WORK_FLOOR`], open to A∞ relation checks only.
+pub struct Budget(pub Cell<u64>, pub Cell<usize>, pub Cell<u64>);
 
 impl Budget {
     pub fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
@@ -403,7 +407,7 @@ impl Objects {
             structures,
             modules,
             morphisms: BTreeMap::new(),
-            budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0)),
+            budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR)),
             lengths: BTreeMap::new(),
             group,
         };
@@ -1095,7 +1099,17 @@ pub fn check(
         let mut facts = BTreeMap::new();
         match claim {
             Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
-            Claim::TypeAModule { module, max_length, .. } => check_module(&o.budget, o.module(module)?, *max_length)?,
+            Claim::TypeAModule { module, max_length, .. } => {
+                // The allowance left (budget.2) joins the budget for this check only; what it
+                // does not use is kept for the next module, and the shared budget never grows.
+                let (b, before) = (&o.budget, o.budget.0.get());
+                b.0.set(before.saturating_add(b.2.get()));
+                let checked = check_module(b, o.module(module)?, *max_length);
+                let after = b.0.get();
+                b.2.set(after.saturating_sub(before));
+                b.0.set(after.min(before));
+                checked?
+            }
             Claim::TypeDMorphism { morphism, .. } => check_morphism(o, o.morphism(morphism)?)?,
             Claim::BoxTensor { complex, module, structure, witness, .. } => {
                 minus()?;

@@ -941,7 +941,7 @@ mod tests {
 
     fn a_infinity(m: &TypeASpec, len: u32) -> Result<(), String> {
         let a = checked::read_module("M", m, true)?;
-        let b = checked::Budget(Cell::new(1 << 40), Cell::new(0));
+        let b = checked::Budget(Cell::new(1 << 40), Cell::new(0), Cell::new(0));
         checked::check_module(&b, &a, len).map_err(|(checked::Failure::False(e) | checked::Failure::Refused(e))| e)
     }
 

@@ -210,7 +210,7 @@ pub fn complement_of(name: &str, c: &ComplexSpec, t: i64) -> Result<(TypeDSpec, 
 }
 
 fn budget() -> Budget {
-    Budget(Cell::new(BUDGET), Cell::new(0))
+    Budget(Cell::new(BUDGET), Cell::new(0), Cell::new(0))
 }
 
 /// The complex M ⊠ N, the longest input word it used, and the witness of its Maslov
