@@ -190,6 +190,24 @@ mod cables {
     // absolute (Maslov, Alexander) grading. HFK^- of a knot in S³ has one tower F2[U], generated
     // in grading (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003, τ from the tower; d(S³) = 0): on the
     // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
+    /// The (p, q) cable of `companion` and `model`/(V) (the V = 0 quotient of an F2[U,V] model)
+    /// have equal bigraded homology, both claims verified in one certificate.
+    fn assert_cable_homology_is(companion: &Value, p: i64, q: i64, model: Value, what: &str) {
+        let problem = json!({"format": "tubecert-problem", "version": 1,
+            "ring": minus_ring(),
+            "complexes": {
+                "K": {"cable": {"companion": companion, "p": p, "q": q}},
+                "S": {"quotient": [model, "V"]}},
+            "goals": [{"homology": {"complex": "K"}}, {"homology": {"complex": "S"}}]});
+        let proved = prove_value(&problem);
+        let claims = tubecert_tests::verified_claims(&proved);
+        let homology = |c: &str| {
+            let h = claims.iter().find(|x| x["kind"] == "homology" && x["complex"] == c).unwrap();
+            (h["free"].clone(), h["torsion"].clone())
+        };
+        assert_eq!(homology("K"), homology("S"), "{what}");
+    }
+
     /// τ (Hom 2014, `hom_tau`), the graded Euler characteristic Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert)
     /// and the one tower of HFK^- at (−2τ, −τ) (Ozsváth–Szabó 2003) of the (p, q) cable.
     fn assert_cable_facts(name: &str, src: &Value, tau: i64, eps: i64, delta: &Poly, p: i64, q: i64) {
@@ -241,19 +259,14 @@ mod cables {
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
             let stair = json!({"staircase": {"alexander": exponents}});
             let model = if q > 0 { stair } else { json!({"dual": stair}) };
-            let problem = json!({"format": "tubecert-problem", "version": 1,
-                "ring": minus_ring(),
-                "complexes": {
-                    "K": {"cable": {"companion": {"staircase": {"alexander": [0]}}, "p": p, "q": q}},
-                    "S": {"quotient": [model, "V"]}},
-                "goals": [{"homology": {"complex": "K"}}, {"homology": {"complex": "S"}}]});
-            let proved = prove_value(&problem);
-            let claims = tubecert_tests::verified_claims(&proved);
-            let homology = |c: &str| {
-                let h = claims.iter().find(|x| x["kind"] == "homology" && x["complex"] == c).unwrap();
-                (h["free"].clone(), h["torsion"].clone())
-            };
-            assert_eq!(homology("K"), homology("S"), "({p},{q}) cable of the unknot against T({p},{q})");
+            let unknot = json!({"staircase": {"alexander": [0]}});
+            assert_cable_homology_is(
+                &unknot,
+                p,
+                q,
+                model,
+                &format!("({p},{q}) cable of the unknot against T({p},{q})"),
+            );
         }
     }
 
@@ -394,19 +407,15 @@ mod cables {
             let delta = mul(&substitute_power(&torus_alexander(k.0, k.1), p), &torus_alexander(p, q));
             assert!(delta.values().all(|c| c.abs() == 1), "an L-space knot's Δ has coefficients ±1");
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
-            let problem = json!({"format": "tubecert-problem", "version": 1,
-                "ring": minus_ring(),
-                "complexes": {
-                    "K": {"cable": {"companion": {"staircase": {"torus_knot": [k.0, k.1]}}, "p": p, "q": q}},
-                    "S": {"quotient": [{"staircase": {"alexander": exponents}}, "V"]}},
-                "goals": [{"homology": {"complex": "K"}}, {"homology": {"complex": "S"}}]});
-            let proved = prove_value(&problem);
-            let claims = tubecert_tests::verified_claims(&proved);
-            let homology = |c: &str| {
-                let h = claims.iter().find(|x| x["kind"] == "homology" && x["complex"] == c).unwrap();
-                (h["free"].clone(), h["torsion"].clone())
-            };
-            assert_eq!(homology("K"), homology("S"), "({p},{q}) cable of T{k:?}: Δ exponents {exponents:?}");
+            let companion = json!({"staircase": {"torus_knot": [k.0, k.1]}});
+            let model = json!({"staircase": {"alexander": exponents}});
+            assert_cable_homology_is(
+                &companion,
+                p,
+                q,
+                model,
+                &format!("({p},{q}) cable of T{k:?}: Δ exponents {exponents:?}"),
+            );
         }
     }
 }
