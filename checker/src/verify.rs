@@ -147,7 +147,7 @@ pub struct Decomposition {
 }
 
 /// Checks a change of basis B, B⁻¹ and that B⁻¹∂B is in normal form; returns H_*. With `var`,
-/// of the quotient C/(var) (over F2[U,V], a PID).
+/// of the quotient C/(var) (over `F2[U,V]`, a PID).
 pub fn check_homology(
     ctx: &Context,
     c: usize,
