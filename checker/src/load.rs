@@ -23,10 +23,10 @@ pub struct Errors(pub Vec<String>, pub usize);
 
 impl Errors {
     pub fn push(&mut self, msg: String) {
-        if self.0.len() < MAX_REPORTED_ERRORS {
-            self.0.push(msg);
-        } else if self.0.len() == MAX_REPORTED_ERRORS {
-            self.0.push("… further errors not shown".into());
+        match self.0.len() {
+            n if n < MAX_REPORTED_ERRORS => self.0.push(msg),
+            MAX_REPORTED_ERRORS => self.0.push("… further errors not shown".into()),
+            _ => {}
         }
     }
     pub fn into_result<T>(self, value: T) -> Result<T, Vec<String>> {
@@ -226,18 +226,12 @@ pub fn read_terms(
             last_from = x.map(|i| (from.as_str(), i));
             let y = lookup(dst, to, &mut errs, pos);
             // (first monomial, the rest): a single monomial, the common case, allocates nothing.
-            let monos = if single_monomial || !coef.contains('+') {
-                parse_mono(coef, &ring.variables).map(|m| (m, Vec::new()))
-            } else {
-                parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec()))
+            let monos = match single_monomial || !coef.contains('+') {
+                true => parse_mono(coef, &ring.variables).map(|m| (m, Vec::new())),
+                false => parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec())),
             };
-            let (first, rest) = match monos {
-                Ok(m) => m,
-                Err(e) => {
-                    errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
-                    continue;
-                }
-            };
+            let monos = monos.map_err(|e| errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}")));
+            let Ok((first, rest)) = monos else { continue };
             let (Some(x), Some(y)) = (x, y) else { continue };
             let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
             for m in std::iter::once(first).chain(rest) {
@@ -334,9 +328,7 @@ pub fn load_lenient(
     let complex_names = complexes.keys().map(|n| check_name(n).map_err(|e| format!("complex {e}")));
     let map_names = maps.keys().map(|n| check_map_name(n).map_err(|e| format!("map {e}")));
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
-    if !bad.is_empty() {
-        return Err(bad);
-    }
+    Errors(bad, 0).into_result(())?;
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
     let complexes = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
     let mut ctx = Context::new(ring, complexes, Work::new(u64::MAX), errs.1);

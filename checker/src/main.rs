@@ -35,19 +35,14 @@ struct Args {
 
 /// Files to check: named files as given, folders walked in sorted order.
 fn collect(path: &Path, named: bool, out: &mut Vec<(PathBuf, bool)>) -> std::io::Result<()> {
-    if path.is_dir() {
-        let mut entries: Vec<PathBuf> =
-            std::fs::read_dir(path)?.map(|e| e.map(|e| e.path())).collect::<Result<_, _>>()?;
-        entries.sort();
-        for e in entries {
-            if e.is_dir() || e.extension().is_some_and(|x| x == "json") {
-                collect(&e, false, out)?;
-            }
-        }
-    } else {
+    if !path.is_dir() {
         out.push((path.to_path_buf(), named));
+        return Ok(());
     }
-    Ok(())
+    let mut entries: Vec<PathBuf> = std::fs::read_dir(path)?.map(|e| e.map(|e| e.path())).collect::<Result<_, _>>()?;
+    entries.sort();
+    let mut wanted = entries.iter().filter(|e| e.is_dir() || e.extension().is_some_and(|x| x == "json"));
+    wanted.try_for_each(|e| collect(e, false, out))
 }
 
 fn is_problem_file(bytes: &[u8]) -> bool {
@@ -110,11 +105,9 @@ fn main() -> ExitCode {
         eprintln!("tubecheck: no certificate found in {}: nothing was checked", paths.join(", "));
         return ExitCode::from(2);
     }
-    let missing: Vec<&String> = args
-        .expect
-        .iter()
-        .filter(|h| !outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h.trim()))))
-        .collect();
+    let verified =
+        |h: &&String| outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h.trim())));
+    let missing: Vec<&String> = args.expect.iter().filter(|h| !verified(h)).collect();
     let style = match (args.json, args.report.as_deref()) {
         (true, _) => Style::Json,
         (_, None) => Style::Text,
