@@ -56,16 +56,13 @@ impl SparseMap {
     /// The image of a vector.
     pub fn apply(&self, v: &[(u32, Mono)]) -> Result<Vector, String> {
         let mut acc = Vec::new();
-        self.apply_into(v, &mut acc)?;
-        Ok(acc)
+        self.apply_into(v, &mut acc).map(|_| acc)
     }
 
     /// The image of a vector, written into `acc` (cleared first): reuses one buffer in loops.
     pub fn apply_into(&self, v: &[(u32, Mono)], acc: &mut Vector) -> Result<(), String> {
         acc.clear();
-        for &(g, m) in v {
-            push_scaled(acc, m, &self.rows[g as usize])?;
-        }
+        v.iter().try_for_each(|&(g, m)| push_scaled(acc, m, &self.rows[g as usize]))?;
         normalize(acc);
         Ok(())
     }
@@ -76,20 +73,16 @@ impl SparseMap {
     }
 
     pub fn plus(&self, other: &SparseMap) -> SparseMap {
-        let sum = |(a, b): (&Vector, &Vector)| {
-            let mut v: Vector = a.iter().chain(b).copied().collect();
-            normalize(&mut v);
-            v
-        };
-        SparseMap { rows: self.rows.iter().zip(&other.rows).map(sum).collect() }
+        let mut rows: Vec<Vector> = self.rows.iter().zip(&other.rows).map(|(a, b)| [&a[..], b].concat()).collect();
+        rows.iter_mut().for_each(normalize);
+        SparseMap { rows }
     }
 
     pub fn times(&self, m: Mono) -> Result<SparseMap, String> {
         // Multiplying by a monomial keeps terms distinct and sorted.
-        let row = |r: &Vector| {
-            r.iter().map(|&(g, n)| Ok((g, m.checked_mul(n).ok_or_else(overflow)?))).collect::<Result<_, String>>()
-        };
-        Ok(SparseMap { rows: self.rows.iter().map(row).collect::<Result<_, _>>()? })
+        let mut out = SparseMap::zero(self.rows.len());
+        self.rows.iter().zip(&mut out.rows).try_for_each(|(r, o)| push_scaled(o, m, r))?;
+        Ok(out)
     }
 
     /// Rows and terms: the work of copying the map.

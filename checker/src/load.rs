@@ -142,7 +142,8 @@ pub struct Context {
 pub struct Work {
     pub limit: u64,
     used: AtomicU64,
-    refused: OnceLock<String>,
+    /// The first refusal, if the budget ran out.
+    pub refused: OnceLock<String>,
 }
 
 impl Work {
@@ -162,10 +163,6 @@ impl Work {
             tubecert_format::limits::WORK_BASE
         );
         Err(self.refused.get_or_init(|| msg).clone())
-    }
-    /// The first refusal, if the budget ran out.
-    pub fn refused(&self) -> Option<&String> {
-        self.refused.get()
     }
 }
 

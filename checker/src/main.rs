@@ -116,11 +116,7 @@ fn main() -> ExitCode {
         _ => Style::Latex,
     };
     report_cli::print(&outcomes, style, &missing, !args.expect.is_empty());
-    if outcomes.iter().any(|(_, o)| o.is_err()) {
-        ExitCode::from(2)
-    } else if !missing.is_empty() || outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| !r.ok())) {
-        ExitCode::from(1)
-    } else {
-        ExitCode::SUCCESS
-    }
+    let unreadable = outcomes.iter().any(|(_, o)| o.is_err());
+    let failed = !missing.is_empty() || outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| !r.ok()));
+    ExitCode::from(if unreadable { 2 } else { failed as u8 })
 }

@@ -41,9 +41,7 @@ pub fn check_complex(ctx: &Context, c: usize) -> Result<(), String> {
         let mut dd = Vec::new();
         for x in generators {
             cx.d.apply_into(&cx.d.rows[x], &mut dd)?;
-            if !dd.is_empty() {
-                return Err(format!("∂∂({}) = {} ≠ 0", cx.names[x], render_vector(ctx, c, &dd)));
-            }
+            ensure(dd.is_empty(), || format!("∂∂({}) = {} ≠ 0", cx.names[x], render_vector(ctx, c, &dd)))?;
         }
         Ok(())
     };
@@ -189,21 +187,18 @@ pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> 
     let two = r.num_vars() == 2;
     let a = if r.num_vars() == 1 { r.grading_index(alexander)? } else { 0 };
     let alex = move |g: &[i64]| if two { (g[0] - g[1]).div_euclid(2) } else { g[a] };
-    let usual = match r.num_vars() {
-        1 => r.var_degrees[0][a] == -1,
-        2 => {
-            r.gradings.len() == 2
-                && !r.gradings.iter().any(|g| g == alexander)
-                && alex(&r.var_degrees[0]) == -1
-                && alex(&r.var_degrees[1]) == 1
-                && r.differential_degree[0] == r.differential_degree[1]
+    match r.num_vars() {
+        1 if r.var_degrees[0][a] == -1 => Ok(alex),
+        2 if r.gradings.len() == 2
+            && !r.gradings.iter().any(|g| g == alexander)
+            && alex(&r.var_degrees[0]) == -1
+            && alex(&r.var_degrees[1]) == 1
+            && r.differential_degree[0] == r.differential_degree[1] =>
+        {
+            Ok(alex)
         }
-        _ => false,
-    };
-    match (r.num_vars(), usual) {
-        (_, true) => Ok(alex),
-        (0, _) => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
-        (1, _) => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
+        0 => Err("τ is read from the U-tower of the homology over F2[U] (V = 0); over F2 (the hat version) the homology has no tower: write the problem over F2[U] or F2[U,V]".into()),
+        1 => Err(format!("τ is read in the Alexander grading, which U lowers by 1; U changes \"{alexander}\" by {}: name the Alexander grading (tau K alexander NAME)", r.var_degrees[0][a])),
         _ => Err(format!("τ over F2[U,V] is read on the V = 0 quotient in A = (g_1 − g_2)/2, named \"{alexander}\": it needs two gradings, U lowering A by 1, V raising it by 1, ∂ preserving it, and a name that is not one of the ring's gradings")),
     }
 }
@@ -336,17 +331,14 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
 /// the arithmetic could not represent.
 fn claims_in_bounds(body: &Body) -> Result<(), Vec<String>> {
     use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT, MAX_GRADING_ABS};
-    let in_bounds = |claim: &Claim| {
-        let (orders, gradings): (Vec<u32>, Vec<i64>) = match claim {
-            Claim::Homology { free, torsion, .. } => (
-                torsion.iter().map(|t| t.0).collect(),
-                free.iter().chain(torsion.iter().map(|t| &t.1)).flatten().copied().collect(),
-            ),
-            Claim::TorsionOrder { order, .. } | Claim::TorsionOrderOfComplex { order, .. } => (vec![*order], vec![]),
-            Claim::Tau { tau, .. } => (vec![], vec![*tau]),
-            _ => (vec![], vec![]),
-        };
-        orders.iter().all(|&k| k <= MAX_EXPONENT) && gradings.iter().all(|&x| grading_in_bounds(x))
+    let in_bounds = |claim: &Claim| match claim {
+        Claim::Homology { free, torsion, .. } => {
+            let gradings = free.iter().chain(torsion.iter().map(|t| &t.1)).flatten();
+            torsion.iter().all(|t| t.0 <= MAX_EXPONENT) && gradings.copied().all(grading_in_bounds)
+        }
+        Claim::TorsionOrder { order, .. } | Claim::TorsionOrderOfComplex { order, .. } => *order <= MAX_EXPONENT,
+        Claim::Tau { tau, .. } => grading_in_bounds(*tau),
+        _ => true,
     };
     let limits = format!("orders at most {MAX_EXPONENT}, gradings and τ within ±{MAX_GRADING_ABS}");
     let bad = body.claims.iter().filter(|c| !in_bounds(c));
@@ -413,7 +405,7 @@ pub fn check_loaded(
             )]);
         }
     }
-    let refused = |ctx: &Context| ctx.work.refused().map_or(Ok(()), |e| Err(vec![e.clone()]));
+    let refused = |ctx: &Context| ctx.work.refused.get().map_or(Ok(()), |e| Err(vec![e.clone()]));
     let mut out = implicit.unwrap_or_else(|| check_objects(&ctx));
     if let Some(o) = objects.as_mut() {
         o.full.work = Work::new(ctx.work.limit);
