@@ -257,7 +257,7 @@ pub fn box_tensor_map(
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
-    let (gens, rows, _) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_map(&b, &ma, &nd, Some((&fm, &nd2)), true).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
