@@ -12,7 +12,7 @@ use serde_json::Value;
 use std::cell::Cell;
 use std::collections::BTreeMap;
 use tubecert_format::bordered::{
-    full_ring, is_minus_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
+    full_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
 };
 use tubecert_format::{
     Claim, ComplexSpec, EquivalenceWitness, Grading, HatWitness, MapHatWitness, MapSpec, Ring, UniqueMap,
@@ -65,6 +65,14 @@ impl Built {
         };
         Some((section, claims))
     }
+}
+
+/// The minus ring the bordered claims need: `F2[U]`, two gradings, deg U = (−2, −1), deg ∂ = (−1, 0).
+fn is_minus_ring(r: &Ring) -> bool {
+    r.variables == ["U"]
+        && r.gradings.len() == 2
+        && r.variable_degrees.get("U") == Some(&vec![-2, -1])
+        && r.differential_degree == [-1, 0]
 }
 
 fn failure(f: Failure) -> String {
