@@ -530,11 +530,11 @@ fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
     // its prefixes).
     let mut back: BTreeMap<usize, Vec<u64>> = BTreeMap::new();
     let mut suffix = |g: usize, i: usize| -> Result<u64, Failure> {
-        if !back.contains_key(&g) {
+        if let std::collections::btree_map::Entry::Vacant(e) = back.entry(g) {
             o.spend(work, "A∞ relations")?;
             let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
             (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
-            back.insert(g, b);
+            e.insert(b);
         }
         Ok(back[&g][i])
     };
