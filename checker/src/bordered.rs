@@ -669,6 +669,8 @@ fn paths(
             let next = steps(y);
             o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
             if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
+                // A term is kept until the sums mod 2 and then named: counted like a pair.
+                o.spend(WORK_PER_ITEM / 64, "box tensor terms")?;
                 o.1.set(o.1.get().max(path.len()));
                 let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT);
                 out.push((
@@ -830,14 +832,11 @@ fn rows(
 ) -> Result<Vec<Vec<(String, u32)>>, Failure> {
     let mut out = Vec::new();
     for (x, y, _, _) in gens {
-        let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps)?
-            .into_iter()
-            .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], node(y2)), p))
-            .collect();
-        terms.sort();
-        // Sums mod 2: a term reached by an even number of paths cancels.
-        let runs = terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1).map(|r| r[0].clone());
-        out.push(runs.collect());
+        let mut terms = paths(o, m, *x, *y, empty_path, steps)?;
+        terms.sort_unstable();
+        // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
+        let runs = terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
+        out.push(runs.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], node(r[0].1)), r[0].2)).collect());
     }
     Ok(out)
 }

@@ -191,3 +191,72 @@ fn a_huge_max_length_is_refused_not_overflowed() {
     let v = verdict(2, body(2, json!({}), json!({}), bordered, claims));
     assert!(!matches!(v, Ok(true)), "{v:?}");
 }
+
+/// A module with one generator (a name of 200 bytes) and the family m(x, ρ12^n) = x, paired with
+/// `structure`: the parts of a bordered section for the bombs below.
+fn rho12_pairing(structure: Value, padding: usize) -> Value {
+    let x = "x".repeat(200);
+    let mut generators = serde_json::Map::new();
+    generators.insert(x.clone(), json!({"grading": [0, 0], "idempotent": 0}));
+    // ι1 generators pair with no generator of the structure: written items, nothing more.
+    for k in 0..padding {
+        generators.insert(format!("p{k}"), json!({"grading": [0, 0], "idempotent": 1}));
+    }
+    json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": generators, "operations": [
+            {"from": x, "power": [0, 0], "prefix": [], "repeat": ["rho12"], "suffix": [], "to": x}
+        ]}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": structure}
+    })
+}
+
+fn refused_quickly(bordered: Value, what: &str) {
+    let claims = vec![
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+    ];
+    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
+    let start = std::time::Instant::now();
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{what}: {v:?}");
+    assert!(start.elapsed().as_secs() < 10, "{what}: took {:?}", start.elapsed());
+}
+
+/// A chain y0 →ρ12 y1 →ρ12 … of k generators gives ∂(x⊗y_i) = Σ_{j ≥ i} x⊗y_j: k²/2 terms, each
+/// a name of 200 bytes, from a file of 150 KB (k = 2000: 0.5 GB; k = 6000, 450 KB, passed
+/// 3 GB). The complex compared with them has one generator; the terms are counted before they
+/// are made, like the generator pairs, so the file is refused before memory fills.
+#[test]
+fn box_tensor_terms_are_counted_before_their_names_are_made() {
+    let k = 2000;
+    let names: Vec<String> = (0..k).map(|i| format!("y{i}")).collect();
+    let generators: serde_json::Map<String, Value> =
+        names.iter().map(|y| (y.clone(), json!({"grading": [0, 0], "idempotent": 0}))).collect();
+    let differential: Vec<Value> = names.windows(2).map(|w| json!([w[0], "rho12", w[1]])).collect();
+    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 0), "chain");
+}
+
+/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
+/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
+/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
+/// before they cancel are counted too, else one generator's list grows to gigabytes.
+#[test]
+fn box_tensor_terms_before_cancellation_are_counted() {
+    let d = 40;
+    let mut generators = serde_json::Map::new();
+    let mut differential = Vec::new();
+    for l in 0..=d {
+        for s in ["a", "b"] {
+            generators.insert(format!("{s}{l}"), json!({"grading": [0, 0], "idempotent": 0}));
+            if l < d {
+                differential.extend([
+                    json!([format!("{s}{l}"), "rho12", format!("a{}", l + 1)]),
+                    json!([format!("{s}{l}"), "rho12", format!("b{}", l + 1)]),
+                ]);
+            }
+        }
+    }
+    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 20_000), "layers");
+}
