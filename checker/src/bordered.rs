@@ -1101,9 +1101,10 @@ pub fn check(
             Claim::TypeAModule { module, max_length, .. } => {
                 // The allowance left (budget.2) joins the budget for this check only; what it
                 // does not use is kept for the next module, and the shared budget never grows.
-                let (b, before) = (&o.budget, o.budget.0.get());
+                // (The module is found first: an early return here would leave the allowance in.)
+                let (b, before, m) = (&o.budget, o.budget.0.get(), o.module(module)?);
                 b.0.set(before.saturating_add(b.2.get()));
-                let checked = check_module(b, o.module(module)?, *max_length);
+                let checked = check_module(b, m, *max_length);
                 let after = b.0.get();
                 b.2.set(after.saturating_sub(before));
                 b.0.set(after.min(before));
