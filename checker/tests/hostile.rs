@@ -409,3 +409,51 @@ fn a_framing_at_the_end_of_the_integers_is_refused() {
     let v = verdict(version, serde_json::from_value(b).unwrap());
     assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
 }
+
+/// M ⊠ N is a complex only when N is a type D structure: a `box_tensor` claim whose N no
+/// `type_d_structure` claim checks is refused (exit 2), as one whose M no `type_a_module`
+/// claim covers.
+#[test]
+fn a_box_tensor_product_needs_its_structure_checked() {
+    let (version, mut b) = stored("cable-by-p1");
+    b["claims"]
+        .as_array_mut()
+        .unwrap()
+        .retain(|c| c["kind"] != "type_d_structure" || c["structure"] != "KC.complement");
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert!(v.as_ref().is_err_and(|e| e.contains("KC.complement") && e.contains("type_d_structure claim")), "{v:?}");
+}
+
+/// A hub: k generators s_i →ρ3 h and h →ρ2 t_j (ρ3ρ2 = 0, so the D relation holds) has 2k
+/// arrows and k² composites to visit. 600 claims about it (80 KB) asked for 600·k² of them
+/// (k = 30,000 took 12 s a claim); they are counted against the budget first.
+fn hub(k: usize) -> Value {
+    let mut generators = serde_json::Map::new();
+    generators.insert("h".into(), json!({"grading": [0, 0], "idempotent": 1}));
+    let mut differential = Vec::new();
+    for i in 0..k {
+        for (g, term) in [("s", json!([format!("s{i}"), "rho3", "h"])), ("t", json!(["h", "rho2", format!("t{i}")]))] {
+            generators.insert(format!("{g}{i}"), json!({"grading": [0, 0], "idempotent": 0}));
+            differential.push(term);
+        }
+    }
+    json!({"generators": generators, "differential": differential})
+}
+
+#[test]
+fn the_d_relation_of_a_hub_is_counted_before_it_is_checked() {
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(), "type_a_modules": {},
+        "type_d_morphisms": {"f": {"from": "N", "to": "N", "terms": (0..3000).map(|i| json!([format!("s{i}"), "rho3", "h"])).collect::<Vec<_>>()}},
+        "type_d_structures": {"N": hub(3000)}
+    });
+    for claim in
+        [json!({"kind": "type_d_structure", "structure": "N"}), json!({"kind": "type_d_morphism", "morphism": "f"})]
+    {
+        let start = std::time::Instant::now();
+        let claims = vec![claim; 600];
+        let v = verdict(2, body(2, json!({}), json!({}), bordered.clone(), claims));
+        assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+        assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+    }
+}
