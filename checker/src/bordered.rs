@@ -467,6 +467,15 @@ fn vanishes(
     Ok(())
 }
 
+/// The composites `vanishes` visits, counted before it runs: k arrows into a generator and k
+/// out of it make k².
+fn composites(pairs: &[(&Arrows, &Arrows)]) -> u64 {
+    let visits = |(first, second): &(&Arrows, &Arrows)| -> u64 {
+        first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum()
+    };
+    pairs.iter().map(visits).sum()
+}
+
 /// The A∞ relations on every word of length ≤ L on which a term can be non-zero.
 pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> {
     if let Some(e) = m.defects.first() {
@@ -631,6 +640,8 @@ fn walk(
                 let next = steps(y);
                 o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
                 if let (true, Some(p)) = (can_end, f.output(mask, len)) {
+                    // A term is kept until the sums mod 2 and then named: counted like a pair.
+                    o.spend(WORK_PER_ITEM / 64, "box tensor terms")?;
                     o.1.set(o.1.get().max(len));
                     let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
                         Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
@@ -645,13 +656,10 @@ fn walk(
                 }
             }
         }
-        let mut terms: Vec<(String, u32)> = out
-            .into_iter()
-            .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], names[y2 as usize]), p))
-            .collect();
-        terms.sort();
-        // Sums mod 2: a term reached by an even number of paths cancels.
-        rows.push(terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1).map(|r| r[0].clone()).collect());
+        out.sort_unstable();
+        // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
+        let odd = out.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
+        rows.push(odd.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], names[r[0].1 as usize]), r[0].2)).collect());
     }
     Ok(rows)
 }
@@ -984,13 +992,18 @@ pub fn check(
         let (structure, module) = (|n: &str| get(&o.structures, "type D structure", n), |n: &str| get(&o.modules, "type A module", n));
         let mut facts = BTreeMap::new();
         match claim {
-            Claim::TypeDStructure { structure: n, .. } => check_structure(structure(n)?)?,
+            Claim::TypeDStructure { structure: n, .. } => {
+                let d = structure(n)?;
+                o.budget.spend(composites(&[(&d.delta, &d.delta)]), "the D relation")?;
+                check_structure(d)?
+            }
             Claim::TypeAModule { module: n, max_length, .. } => {
                 // The allowance left (budget.2) joins the budget for this check only; what it
                 // does not use is kept for the next module, and the shared budget never grows.
-                let (b, before) = (&o.budget, o.budget.0.get());
+                // (The module is found first: an early return here would leave the allowance in.)
+                let (b, before, m) = (&o.budget, o.budget.0.get(), module(n)?);
                 b.0.set(before.saturating_add(b.2.get()));
-                let checked = check_module(b, module(n)?, *max_length);
+                let checked = check_module(b, m, *max_length);
                 let after = b.0.get();
                 b.2.set(after.saturating_sub(before));
                 b.0.set(after.min(before));
@@ -999,7 +1012,9 @@ pub fn check(
             Claim::TypeDMorphism { morphism, .. } => {
                 let f = get(&o.morphisms, "type D morphism", morphism)?;
                 let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-                vanishes("∂f", &f.defects, n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
+                let pairs = [(&f.terms, &n2.delta), (&n.delta, &f.terms)];
+                o.budget.spend(composites(&pairs), "∂f")?;
+                vanishes("∂f", &f.defects, n, &n2.names, &pairs)?
             }
             Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
                 let c = &ctx.complexes[ctx.complex_named(complex)?];

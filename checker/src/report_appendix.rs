@@ -29,6 +29,8 @@ struct Shown {
     ok: bool,
     kind: String,
     claim: Claim,
+    /// What the checker's statement adds to the claim's wording (the format version's caveat).
+    caveat: String,
     reading: Option<String>,
     witnesses: Vec<Witness>,
 }
@@ -194,7 +196,9 @@ fn summary(r: &FileReport) -> Summary {
                     .map(str::to_string);
                 // Only what verified is written out.
                 let witnesses = if ok { witnesses(c) } else { vec![] };
-                Shown { ok, kind: c.kind().to_string(), claim: c.clone(), reading, witnesses }
+                // Names hold no spaces, so only a caveat starts with " [format version".
+                let caveat = res.statement.find(" [format version").map_or("", |i| &res.statement[i..]).to_string();
+                Shown { ok, kind: c.kind().to_string(), claim: c.clone(), caveat, reading, witnesses }
             })
             .collect(),
     }
@@ -291,9 +295,10 @@ pub fn markdown(r: &FileReport) -> String {
     for (i, c) in s.claims.iter().enumerate() {
         let status = if c.ok { "✓" } else { "✗ failed" };
         o += &format!(
-            "{}. {status} {} *({}; witness terms: {})*\n",
+            "{}. {status} {}{} *({}; witness terms: {})*\n",
             i + 1,
             c.claim.statement(),
+            c.caveat,
             c.kind,
             witness_size(&c.claim)
         );
@@ -535,8 +540,9 @@ pub fn latex(r: &FileReport) -> String {
     for c in &s.claims {
         let status = if c.ok { "" } else { " \\textbf{(FAILED)}" };
         o += &format!(
-            "\\item {}{status} \\hfill {{\\small {}; witness terms: {}}}\n",
+            "\\item {}{}{status} \\hfill {{\\small {}; witness terms: {}}}\n",
             tex_claim(&c.claim, &ring.variables, &ring.gradings),
+            tex_text(&c.caveat),
             c.kind.replace('_', "\\_"),
             witness_size(&c.claim)
         );

@@ -192,6 +192,224 @@ fn a_huge_max_length_is_refused_not_overflowed() {
     assert!(!matches!(v, Ok(true)), "{v:?}");
 }
 
+/// A module with one generator (a name of 200 bytes) and the family m(x, ρ12^n) = x, paired with
+/// `structure`: the parts of a bordered section for the bombs below.
+fn rho12_pairing(structure: Value, padding: usize) -> Value {
+    let x = "x".repeat(200);
+    let mut generators = serde_json::Map::new();
+    generators.insert(x.clone(), json!({"grading": [0, 0], "idempotent": 0}));
+    // ι1 generators pair with no generator of the structure: written items, nothing more.
+    for k in 0..padding {
+        generators.insert(format!("p{k}"), json!({"grading": [0, 0], "idempotent": 1}));
+    }
+    json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": generators, "operations": [
+            {"from": x, "power": [0, 0], "prefix": [], "repeat": ["rho12"], "suffix": [], "to": x}
+        ]}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": structure}
+    })
+}
+
+fn refused_quickly(bordered: Value, what: &str) {
+    let claims = vec![
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+    ];
+    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
+    let start = std::time::Instant::now();
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{what}: {v:?}");
+    assert!(start.elapsed().as_secs() < 10, "{what}: took {:?}", start.elapsed());
+}
+
+/// A chain y0 →ρ12 y1 →ρ12 … of k generators gives ∂(x⊗y_i) = Σ_{j ≥ i} x⊗y_j: k²/2 terms, each
+/// a name of 200 bytes, from a file of 150 KB (k = 2000: 0.5 GB; k = 6000, 450 KB, passed
+/// 3 GB). The complex compared with them has one generator; the terms are counted before they
+/// are made, like the generator pairs, so the file is refused before memory fills.
+#[test]
+fn box_tensor_terms_are_counted_before_their_names_are_made() {
+    let k = 2000;
+    let names: Vec<String> = (0..k).map(|i| format!("y{i}")).collect();
+    let generators: serde_json::Map<String, Value> =
+        names.iter().map(|y| (y.clone(), json!({"grading": [0, 0], "idempotent": 0}))).collect();
+    let differential: Vec<Value> = names.windows(2).map(|w| json!([w[0], "rho12", w[1]])).collect();
+    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 0), "chain");
+}
+
+/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
+/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
+/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
+/// before they cancel are counted too, else one generator's list grows to gigabytes.
+#[test]
+fn box_tensor_terms_before_cancellation_are_counted() {
+    let d = 40;
+    let mut generators = serde_json::Map::new();
+    let mut differential = Vec::new();
+    for l in 0..=d {
+        for s in ["a", "b"] {
+            generators.insert(format!("{s}{l}"), json!({"grading": [0, 0], "idempotent": 0}));
+            if l < d {
+                differential.extend([
+                    json!([format!("{s}{l}"), "rho12", format!("a{}", l + 1)]),
+                    json!([format!("{s}{l}"), "rho12", format!("b{}", l + 1)]),
+                ]);
+            }
+        }
+    }
+    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 20_000), "layers");
+}
+
+/// Every claim's statement rewritten in the wording of format `version` (the version is outside
+/// the hash, so anyone can restate a body for another version).
+fn restate(version: u32, b: &mut Value) {
+    let info = RingInfo::new(&serde_json::from_value(b["ring"].clone()).unwrap()).unwrap();
+    for c in b["claims"].as_array_mut().unwrap() {
+        let parsed: Claim = serde_json::from_value(c.clone()).expect("claim parses");
+        c["statement"] = json!(render(&parsed, &info, version));
+    }
+}
+
+/// The checker's report of a certificate of format `version` with this body.
+fn report(version: u32, b: Value) -> tubecheck::FileReport {
+    let body: Body = serde_json::from_value(b).unwrap();
+    let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
+    let cert = Certificate { format: "tubecert-certificate".into(), version, sha256, body };
+    tubecheck::check_bytes("hostile.cert.json", &serde_json::to_vec(&cert).unwrap()).expect("read")
+}
+
+/// cable-by-p1 with its patterns' generators moved by `shift` (doubled (j; p, q; a), central, so
+/// every operation stays homogeneous) and the products' gradings, τ witness and τ moved to match, the
+/// Maslov witnesses dropped and every statement in the wording of `version`.
+fn downgraded_cable(version: u32, shift: [i64; 4]) -> Value {
+    let (_, mut b) = stored("cable-by-p1");
+    for c in b["claims"].as_array_mut().unwrap() {
+        if c["kind"] == "box_tensor" || c["kind"] == "box_tensor_map" {
+            c.as_object_mut().unwrap().remove("witness");
+        }
+    }
+    for m in b["bordered"]["type_a_modules"].as_object_mut().unwrap().values_mut() {
+        for g in m["generators"].as_object_mut().unwrap().values_mut() {
+            for (i, d) in shift.iter().enumerate() {
+                g["grading"][i] = json!(g["grading"][i].as_i64().unwrap() + d);
+            }
+        }
+    }
+    // (Maslov, Alexander) moves by (j, a): the doubled shift halved.
+    let (dm, da) = (shift[0] / 2, shift[3] / 2);
+    let mv = |g: &mut Value| *g = json!([g[0].as_i64().unwrap() + dm, g[1].as_i64().unwrap() + da]);
+    for c in b["complexes"].as_object_mut().unwrap().values_mut() {
+        c["generators"].as_object_mut().unwrap().values_mut().for_each(mv);
+    }
+    for c in b["claims"].as_array_mut().unwrap().iter_mut().filter(|c| c["kind"] == "tau" && c["complex"] == "KC") {
+        c["witness"]["generators"].as_object_mut().unwrap().values_mut().for_each(mv);
+        c["tau"] = json!(c["tau"].as_i64().unwrap() - da);
+    }
+    restate(version, &mut b);
+    b
+}
+
+/// Format version 3 reads box tensor gradings without any normalization, so the author of the
+/// module fixes them: with the pattern moved by gr(U)^(−3) the cable's τ reads 3, and a version-3
+/// certificate verifies that. The version is outside the hash, so a version-5 certificate can be
+/// restated as version 3 to skip both normalizations; its reports must then say that the
+/// gradings are not absolute, in every format, as they say of version 4's Maslov grading.
+#[test]
+fn a_restated_version_3_certificate_says_its_box_tensor_gradings_are_not_absolute() {
+    let b = downgraded_cable(3, [-12, 0, 0, -6]);
+    assert_eq!(b["claims"].as_array().unwrap().iter().find(|c| c["kind"] == "tau").unwrap()["tau"], json!(3));
+    let r = report(3, b);
+    assert!(
+        r.ok(),
+        "version 3 reads gradings as they come: {:?}",
+        r.claims.iter().filter(|c| c.outcome.is_err()).collect::<Vec<_>>()
+    );
+    let boxes: Vec<_> = r.claims.iter().filter(|c| c.kind.starts_with("box_tensor")).collect();
+    assert_eq!(boxes.len(), 4);
+    for c in boxes {
+        assert!(c.statement.contains("[format version 3:") && c.statement.contains("not certified"), "{}", c.statement);
+    }
+    let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
+    assert_eq!(md.matches("[format version 3:").count(), 4, "{md}");
+    assert_eq!(tex.matches("[format version 3:").count(), 4, "{tex}");
+}
+
+/// Version 4's Maslov grading is a convention: with the pattern moved by λ² (Maslov only) KC's
+/// gradings all move by 2 and the symmetric Euler characteristic cannot tell. Every report must
+/// carry the caveat, the appendix formats included.
+#[test]
+fn a_restated_version_4_certificate_carries_its_caveat_into_every_report() {
+    let r = report(4, downgraded_cable(4, [4, 0, 0, 0]));
+    assert!(
+        r.ok(),
+        "version 4 reads the Maslov grading by convention: {:?}",
+        r.claims.iter().filter(|c| c.outcome.is_err()).collect::<Vec<_>>()
+    );
+    let caveat = "[format version 4: the Maslov normalization is by convention, not certified]";
+    assert_eq!(r.claims.iter().filter(|c| c.statement.ends_with(caveat)).count(), 4);
+    let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
+    assert_eq!(md.matches(caveat).count(), 4, "{md}");
+    assert_eq!(tex.matches(caveat).count(), 4, "{tex}");
+}
+
+/// The same body restated as version 5 without its witnesses fails, and with the witnesses
+/// of the unshifted certificate fails: the Maslov grading is certified there.
+#[test]
+fn a_shifted_maslov_grading_does_not_verify_in_version_5() {
+    let mut b = downgraded_cable(5, [4, 0, 0, 0]);
+    assert_eq!(verdict(5, serde_json::from_value(b.clone()).unwrap()), Ok(false));
+    let (_, genuine) = stored("cable-by-p1");
+    for (c, g) in b["claims"].as_array_mut().unwrap().iter_mut().zip(genuine["claims"].as_array().unwrap()) {
+        if let Some(w) = g.get("witness") {
+            c["witness"] = w.clone();
+        }
+    }
+    assert_eq!(verdict(5, serde_json::from_value(b).unwrap()), Ok(false));
+}
+
+/// The A∞ allowance (`WORK_FLOOR`) joins the budget for a `type_a_module` check only. A claim
+/// about a module that is not declared must not leave it there: 40 such claims (6 KB) would
+/// add 40·2^32 units for what follows, here 2^40 δ-paths of a layered structure.
+#[test]
+fn the_a_infinity_allowance_is_not_left_behind_by_a_claim_about_an_undeclared_module() {
+    let d = 40;
+    let mut generators = serde_json::Map::new();
+    let mut differential = Vec::new();
+    for l in 0..=d {
+        for s in ["a", "b"] {
+            generators.insert(format!("{s}{l}"), json!({"grading": [0, 0], "idempotent": 0}));
+            if l < d {
+                differential.extend([
+                    json!([format!("{s}{l}"), "rho12", format!("a{}", l + 1)]),
+                    json!([format!("{s}{l}"), "rho12", format!("b{}", l + 1)]),
+                ]);
+            }
+        }
+    }
+    let bordered = rho12_pairing(json!({"generators": generators, "differential": differential}), 0);
+    let mut claims: Vec<Value> =
+        (0..40).map(|_| json!({"kind": "type_a_module", "module": "Z", "max_length": 2})).collect();
+    claims.push(json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}));
+    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
+    let start = std::time::Instant::now();
+    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+    assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+}
+
+/// A framing of −2^53 (the most negative integer a file holds): nothing may overflow (a panic); the
+/// chains it asks for are counted first, so the file is refused.
+#[test]
+fn a_framing_at_the_end_of_the_integers_is_refused() {
+    let (version, mut b) = stored("cable-by-p1");
+    b["claims"].as_array_mut().unwrap().retain(|c| c["kind"] == "complement" && c["complex"] == "KC.companion");
+    b["claims"][0]["framing"] = json!(-(1i64 << 53));
+    restate(version, &mut b);
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+}
+
 /// M ⊠ N is a complex only when N is a type D structure: a `box_tensor` claim whose N no
 /// `type_d_structure` claim checks is refused (exit 2), as one whose M no `type_a_module`
 /// claim covers.
@@ -204,4 +422,38 @@ fn a_box_tensor_product_needs_its_structure_checked() {
         .retain(|c| c["kind"] != "type_d_structure" || c["structure"] != "KC.complement");
     let v = verdict(version, serde_json::from_value(b).unwrap());
     assert!(v.as_ref().is_err_and(|e| e.contains("KC.complement") && e.contains("type_d_structure claim")), "{v:?}");
+}
+
+/// A hub: k generators s_i →ρ3 h and h →ρ2 t_j (ρ3ρ2 = 0, so the D relation holds) has 2k
+/// arrows and k² composites to visit. 600 claims about it (80 KB) asked for 600·k² of them
+/// (k = 30,000 took 12 s a claim); they are counted against the budget first.
+fn hub(k: usize) -> Value {
+    let mut generators = serde_json::Map::new();
+    generators.insert("h".into(), json!({"grading": [0, 0], "idempotent": 1}));
+    let mut differential = Vec::new();
+    for i in 0..k {
+        for (g, term) in [("s", json!([format!("s{i}"), "rho3", "h"])), ("t", json!(["h", "rho2", format!("t{i}")]))] {
+            generators.insert(format!("{g}{i}"), json!({"grading": [0, 0], "idempotent": 0}));
+            differential.push(term);
+        }
+    }
+    json!({"generators": generators, "differential": differential})
+}
+
+#[test]
+fn the_d_relation_of_a_hub_is_counted_before_it_is_checked() {
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(), "type_a_modules": {},
+        "type_d_morphisms": {"f": {"from": "N", "to": "N", "terms": (0..3000).map(|i| json!([format!("s{i}"), "rho3", "h"])).collect::<Vec<_>>()}},
+        "type_d_structures": {"N": hub(3000)}
+    });
+    for claim in
+        [json!({"kind": "type_d_structure", "structure": "N"}), json!({"kind": "type_d_morphism", "morphism": "f"})]
+    {
+        let start = std::time::Instant::now();
+        let claims = vec![claim; 600];
+        let v = verdict(2, body(2, json!({}), json!({}), bordered.clone(), claims));
+        assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+        assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+    }
 }

@@ -119,12 +119,17 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
 }
 
 /// What a claim's wording leaves out and a report must say: a version-4 box tensor product's
-/// Maslov normalization was a convention (version 5 certifies it).
+/// Maslov normalization was a convention, and versions 2 and 3 normalize nothing, so the module's
+/// declared gradings fix the absolute ones (version 5 certifies both). The version is outside the
+/// hash: a later certificate can be restated as an earlier one, and is then reported as such.
 pub fn caveat(claim: &Claim, version: u32) -> &'static str {
     match claim {
-        Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } if version == 4 => {
-            " [format version 4: the Maslov normalization is by convention, not certified]"
-        }
+        Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } => match version {
+            4 => " [format version 4: the Maslov normalization is by convention, not certified]",
+            3 => " [format version 3: the gradings are not normalized; their absolute values are not certified]",
+            2 => " [format version 2: the gradings are added, not normalized; their absolute values are not certified]",
+            _ => "",
+        },
         _ => "",
     }
 }
