@@ -457,3 +457,54 @@ fn the_d_relation_of_a_hub_is_counted_before_it_is_checked() {
         assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
     }
 }
+
+/// Strict unitality: an idempotent δ¹ step is a whole path (m_2(x, ι) = x); a path with ι among
+/// two or more inputs gives nothing (m_3(x, ι, ρ12) = m_3(x, ρ12, ι) = 0). A product that adds
+/// the term such a path would give is not M ⊠ N.
+#[test]
+fn an_idempotent_step_inside_a_longer_path_gives_no_term() {
+    let gen = |i: u8| json!({"grading": [0, 0], "idempotent": i});
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"x": gen(0)}, "operations": [
+            {"from": "x", "power": [0, 1], "prefix": ["rho12"], "repeat": [], "suffix": [], "to": "x"}
+        ]}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": {"a": gen(0), "b": gen(0), "c": gen(0), "d": gen(0)},
+            "differential": [["a", "1", "b"], ["b", "rho12", "c"], ["c", "1", "d"]]}}
+    });
+    let claims = || {
+        vec![
+            json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+            json!({"kind": "type_d_structure", "structure": "N"}),
+            json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+        ]
+    };
+    let outcome = |extra: Vec<Value>| {
+        let mut d = vec![json!(["x⊗a", "1", "x⊗b"]), json!(["x⊗b", "U", "x⊗c"]), json!(["x⊗c", "1", "x⊗d"])];
+        d.extend(extra);
+        let gens = json!({"x⊗a": [0, 0], "x⊗b": [0, 0], "x⊗c": [0, 0], "x⊗d": [0, 0]});
+        let b = body(2, json!({"C": {"generators": gens, "differential": d}}), json!({}), bordered.clone(), claims());
+        let sha256 = tubecert_format::canonical::canonical_sha256(&b).unwrap();
+        let cert = Certificate { format: "tubecert-certificate".into(), version: 2, sha256, body: b };
+        let r = tubecheck::check_bytes("h.cert.json", &serde_json::to_vec(&cert).unwrap()).expect("read");
+        r.claims.iter().find(|c| c.kind == "box_tensor").unwrap().outcome.clone()
+    };
+    assert!(outcome(vec![]).is_ok(), "{:?}", outcome(vec![]));
+    for extra in [json!(["x⊗a", "U", "x⊗c"]), json!(["x⊗b", "U", "x⊗d"]), json!(["x⊗a", "U", "x⊗d"])] {
+        assert!(outcome(vec![extra.clone()]).is_err(), "{extra} accepted");
+    }
+}
+
+/// The pairing of cable-by-p1 uses words of length k; a `type_a_module` claim stating a length
+/// below 2k does not cover it, whatever else the certificate says (exit 2).
+#[test]
+fn a_module_certified_on_too_short_words_does_not_cover_the_pairing() {
+    let (version, mut b) = stored("cable-by-p1");
+    for c in b["claims"].as_array_mut().unwrap().iter_mut().filter(|c| c["kind"] == "type_a_module") {
+        c["max_length"] = json!(3);
+    }
+    restate(version, &mut b);
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert!(v.as_ref().is_err_and(|e| e.contains("only up to 3")), "{v:?}");
+}
