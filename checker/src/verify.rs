@@ -4,11 +4,12 @@
 use crate::algebra::{normalize, SparseMap};
 use crate::load::{grading_sum, in_two_halves, Context, Errors, Evaluated};
 use crate::report_terms::{compare, render_vector};
+use crate::report_text::surface_reading;
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, render_expr, surface_reading};
+use tubecert_format::statement::{render, render_expr};
 use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
@@ -513,7 +514,7 @@ pub fn check_loaded(
         out.push(ClaimResult {
             kind: claim.kind().into(),
             // What the fields say: a statement that differs is not shown as if it were checked.
-            statement: render(claim, &ctx.ring, version) + tubecert_format::statement::caveat(claim, version),
+            statement: render(claim, &ctx.ring, version) + crate::report_text::caveat(claim, version),
             implicit: false,
             outcome,
         });
