@@ -12,15 +12,14 @@ pub type Vector = Vec<(u32, Mono)>;
 /// Sorts and cancels repeated terms in pairs (addition mod 2); for any kind of term.
 pub fn normalize<T: Ord + Copy>(v: &mut Vec<T>) {
     v.sort_unstable();
+    // A stack: a term equal to the one on top cancels it (sorted, so equal terms are adjacent).
     let mut out = 0;
-    let mut i = 0;
-    while i < v.len() {
-        if i + 1 < v.len() && v[i] == v[i + 1] {
-            i += 2;
+    for i in 0..v.len() {
+        if out > 0 && v[out - 1] == v[i] {
+            out -= 1;
         } else {
             v[out] = v[i];
             out += 1;
-            i += 1;
         }
     }
     v.truncate(out);
@@ -77,27 +76,20 @@ impl SparseMap {
     }
 
     pub fn plus(&self, other: &SparseMap) -> SparseMap {
-        let rows = self
-            .rows
-            .iter()
-            .zip(&other.rows)
-            .map(|(a, b)| {
-                let mut v: Vector = a.iter().chain(b).copied().collect();
-                normalize(&mut v);
-                v
-            })
-            .collect();
-        SparseMap { rows }
+        let sum = |(a, b): (&Vector, &Vector)| {
+            let mut v: Vector = a.iter().chain(b).copied().collect();
+            normalize(&mut v);
+            v
+        };
+        SparseMap { rows: self.rows.iter().zip(&other.rows).map(sum).collect() }
     }
 
     pub fn times(&self, m: Mono) -> Result<SparseMap, String> {
-        let mut rows = Vec::with_capacity(self.rows.len());
-        for r in &self.rows {
-            let mut v = Vec::with_capacity(r.len());
-            push_scaled(&mut v, m, r)?;
-            rows.push(v); // multiplying by a monomial keeps terms distinct and sorted
-        }
-        Ok(SparseMap { rows })
+        // Multiplying by a monomial keeps terms distinct and sorted.
+        let row = |r: &Vector| {
+            r.iter().map(|&(g, n)| Ok((g, m.checked_mul(n).ok_or_else(overflow)?))).collect::<Result<_, String>>()
+        };
+        Ok(SparseMap { rows: self.rows.iter().map(row).collect::<Result<_, _>>()? })
     }
 
     /// Rows and terms: the work of copying the map.

@@ -4,12 +4,12 @@
 //! recomputed by walking δ-paths and compared exactly. Work is counted before it is done and
 //! bounded by a budget proportional to the size of the certificate.
 
-use crate::algebra::normalize;
+use crate::algebra::{normalize, Vector};
 use crate::load::{Complex, Context};
 use std::cell::Cell;
 use std::collections::BTreeMap;
-use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeDSpec};
-use tubecert_format::limits::MAX_EXPONENT;
+use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeASpec, TypeDSpec};
+use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT};
 use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
 
 /// Why a bordered claim does not verify: it is false (exit 1), or the checker refuses to
@@ -36,21 +36,28 @@ pub const WORK_FLOOR: u64 = 1 << 32;
 pub type Arrows = Vec<Vec<(Alg, u32)>>;
 /// For each generator of a box tensor product, its terms (target name, U-power).
 pub type Rows = Vec<Vec<(String, u32)>>;
+/// A box tensor product (or id ⊠ f): its generators, their rows, the bounded side.
+pub type Product = (Vec<Generator>, Rows, &'static str);
 
-/// A type D structure (or the generator set of one), indexed.
-pub struct TypeD {
+/// A type D structure or a type A module, indexed: its generators (a structure's gradings are
+/// optional), and δ¹ (a structure's, sorted) or the families of operations (a module's).
+pub struct Object {
     pub names: Vec<String>,
     pub index: BTreeMap<String, u32>,
     pub idem: Vec<u8>,
     pub grading: Vec<Option<Grading>>,
-    /// Version 3: gradings are elements of the grading group, `period` generates P_D.
+    /// Version 3: gradings are elements of the grading group, `period` generates P_D (or P_A).
     pub group: bool,
     pub period: Gr,
-    /// δ¹(y) as (coefficient, target), sorted.
-    pub delta: Vec<Vec<(Alg, u32)>>,
-    /// Terms whose idempotents do not match.
+    pub delta: Arrows,
+    pub families: Vec<Family>,
+    /// For each generator, the indices of the families from it.
+    pub out: Vec<Vec<usize>>,
+    /// Terms whose idempotents do not match (the claim fails on the first).
     pub defects: Vec<String>,
 }
+pub type TypeD = Object;
+pub type TypeA = Object;
 
 /// One family m(from, prefix, repeat^n, suffix) ∋ U^(a·n+b)·to; `pattern` = prefix ++ repeat ++ suffix.
 pub struct Family {
@@ -61,25 +68,13 @@ pub struct Family {
     pub power: [u32; 2],
     pub to: u32,
     /// For each letter of the pattern, the positions holding it (a bit each).
-    pub holds: Vec<(Alg, u64)>,
-}
-
-pub struct TypeA {
-    pub names: Vec<String>,
-    pub idem: Vec<u8>,
-    pub grading: Vec<Grading>,
-    pub group: bool,
-    pub period: Gr,
-    pub families: Vec<Family>,
-    /// For each generator, the indices of the families from it.
-    pub out: Vec<Vec<usize>>,
-    pub defects: Vec<String>,
+    pub holds: BTreeMap<Alg, u64>,
 }
 
 pub struct Morphism {
     pub from: String,
     pub to: String,
-    pub terms: Vec<Vec<(Alg, u32)>>,
+    pub terms: Arrows,
     pub defects: Vec<String>,
 }
 
@@ -90,8 +85,9 @@ pub struct Objects {
     pub modules: BTreeMap<String, TypeA>,
     pub morphisms: BTreeMap<String, Morphism>,
     pub budget: Budget,
-    /// The longest word length L a `type_a_module` claim states for each module.
-    pub lengths: BTreeMap<String, u32>,
+    /// (kind, object) of each `type_d_structure` and `type_a_module` claim, with the longest
+    /// word length L a module's claims state (0 for a structure).
+    pub claimed: BTreeMap<(&'static str, String), u32>,
     /// Version 3 (gradings in the grading group).
     pub group: bool,
 }
@@ -113,12 +109,8 @@ impl Budget {
     }
 }
 
-fn idem_ok(i: u8, what: &str) -> Result<u8, String> {
-    (i <= 1).then_some(i).ok_or_else(|| format!("{what}: idempotent {i} is not 0 or 1"))
-}
-
 fn grading_ok(g: &Grading, group: bool, what: &str) -> Result<(), String> {
-    let bounded = g.iter().all(|&x| tubecert_format::limits::grading_in_bounds(x));
+    let bounded = g.iter().all(|&x| grading_in_bounds(x));
     match group {
         false if bounded && g.len() == 2 => Ok(()),
         false => Err(format!("{what}: a version-2 grading is [Maslov, Alexander] within ±2^31")),
@@ -156,8 +148,14 @@ pub fn gr_alg(a: Alg) -> Gr {
     }
 }
 
-pub fn gr_of(g: &Grading) -> Gr {
-    [0, 1, 2, 3].map(|i| g.get(i).copied().unwrap_or(0) as i128)
+/// A written grading as an element (none: the unit).
+fn gr_of(g: Option<&Grading>) -> Gr {
+    [0, 1, 2, 3].map(|i| g.and_then(|g| g.get(i)).map_or(0, |&x| x as i128))
+}
+
+/// gr(y′) where a ⊗ y′ is a term of δ¹(y) (homogeneous: gr(a)·gr(y′) = λ⁻¹·gr(y)).
+fn after(a: Alg, g: Gr) -> Gr {
+    gr_mul(gr_mul(gr_pow(gr_alg(a), -1), gr_pow(LAMBDA, -1)), g)
 }
 
 /// Whether g is a power of the period h.
@@ -181,64 +179,77 @@ pub fn read_grading(g: Gr, ha: Gr, hd: Gr) -> Result<Grading, String> {
         return Err("the double coset needs a power of a period beyond 2^31".into());
     }
     let r = gr_mul(gr_mul(gr_pow(ha, m), g), gr_pow(hd, n));
-    let (j, a) = (r[0] / 2, r[3] / 2);
     if r[1] != 0 || r[2] != 0 || r[0] % 2 != 0 || r[3] % 2 != 0 {
         return Err(format!("the grading {g:?} (doubled) does not reduce to integral (Maslov, Alexander)"));
     }
-    written([j, a, 0, 0]).map(|g| g[..2].to_vec())
+    written([r[0] / 2, r[3] / 2, 0, 0]).map(|g| g[..2].to_vec())
 }
 
-fn period_ok(p: &Option<Grading>, group: bool, what: &str) -> Result<Gr, String> {
-    match (p, group) {
-        (None, _) => Ok([0; 4]),
-        (Some(_), false) => Err(format!("{what}: `period` is a version-3 member")),
-        (Some(g), true) => grading_ok(g, true, &format!("{what}, period")).map(|_| gr_of(g)),
+/// A grading element as written, within the bounds every grading obeys.
+fn written(g: Gr) -> Result<Grading, String> {
+    g.iter()
+        .map(|&x| i64::try_from(x).ok().filter(|&x| grading_in_bounds(x)))
+        .collect::<Option<Grading>>()
+        .ok_or_else(|| format!("a grading {g:?} (doubled) is beyond ±2^31"))
+}
+
+/// The generators (name, idempotent, grading) and period of the structure or module `what`.
+fn read_generators<'a>(
+    what: &str,
+    gens: impl Iterator<Item = (&'a String, u8, Option<&'a Grading>)>,
+    period: &Option<Grading>,
+    group: bool,
+) -> Result<Object, String> {
+    if let Some(p) = period {
+        match group {
+            false => return Err(format!("{what}: `period` is a version-3 member")),
+            true => grading_ok(p, true, &format!("{what}, period"))?,
+        }
     }
-}
-
-/// Whether a ⊗ (generator of idempotent j) may follow a generator of idempotent i.
-fn step_ok(a: Alg, i: u8, j: u8) -> bool {
-    a.idempotents().unwrap_or((i, i)) == (i, j)
-}
-
-/// Generators of a type D structure and its δ¹ (or any terms between two generator sets).
-pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<TypeD, String> {
-    let mut d = TypeD {
-        names: spec.generators.keys().cloned().collect(),
-        index: spec.generators.keys().enumerate().map(|(i, n)| (n.clone(), i as u32)).collect(),
-        idem: Vec::new(),
-        grading: Vec::new(),
-        group,
-        period: period_ok(&spec.period, group, &format!("type D structure {name}"))?,
-        delta: Vec::new(),
-        defects: Vec::new(),
-    };
-    for (g, DGenerator { grading, idempotent }) in spec.generators.iter() {
-        let what = format!("type D structure {name}, generator \"{g}\"");
+    let (names, index, idem, grading) = (vec![], BTreeMap::new(), vec![], vec![]);
+    let (delta, families, out, defects) = (vec![], vec![], vec![], vec![]);
+    let period = gr_of(period.as_ref());
+    let mut o = Object { names, index, idem, grading, group, period, delta, families, out, defects };
+    for (g, idem, grading) in gens {
+        let what = format!("{what}, generator \"{g}\"");
         tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
-        d.idem.push(idem_ok(*idempotent, &what)?);
+        if idem > 1 {
+            return Err(format!("{what}: idempotent {idem} is not 0 or 1"));
+        }
         if let Some(gr) = grading {
             grading_ok(gr, group, &what)?;
         }
-        d.grading.push(grading.clone());
+        o.index.insert(g.clone(), o.names.len() as u32);
+        o.names.push(g.clone());
+        o.idem.push(idem);
+        o.grading.push(grading.cloned());
     }
-    let (delta, defects) = read_arrows(&format!("type D structure {name}, δ¹"), &d, &d, &spec.differential)?;
-    (d.delta, d.defects) = (delta, defects);
+    o.out = vec![vec![]; o.names.len()];
+    Ok(o)
+}
+
+/// Generators of a type D structure and its δ¹.
+pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<TypeD, String> {
+    let what = format!("type D structure {name}");
+    let gens = spec.generators.iter().map(|(g, d)| (g, d.idempotent, d.grading.as_ref()));
+    let mut d = read_generators(&what, gens, &spec.period, group)?;
+    (d.delta, d.defects) = read_arrows(&format!("{what}, δ¹"), &d, &d, &spec.differential)?;
     Ok(d)
 }
 
 /// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
 /// mismatches defects (the claim fails).
-pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Result<(Arrows, Vec<String>), String> {
-    let mut rows = vec![Vec::new(); src.names.len()];
-    let mut defects = Vec::new();
+pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Result<(Arrows, Vec<String>), String> {
+    let (mut rows, mut defects) = (vec![Vec::new(); src.names.len()], Vec::new());
     for (k, [y, a, z]) in terms.iter().enumerate() {
         let at = |e: String| format!("{what}, term {} [{y}, {a}, {z}]: {e}", k + 1);
-        let find = |d: &TypeD, n: &str| {
+        let find = |d: &Object, n: &str| {
             d.index.get(n).copied().ok_or_else(|| at(format!("generator \"{n}\" is not declared")))
         };
         let (i, j, a) = (find(src, y)?, find(dst, z)?, Alg::parse(a).map_err(at)?);
-        if !step_ok(a, src.idem[i as usize], dst.idem[j as usize]) {
+        let (i0, j0) = (src.idem[i as usize], dst.idem[j as usize]);
+        // ι_i as an element starts and ends in i.
+        if a.idempotents().unwrap_or((i0, i0)) != (i0, j0) {
             defects.push(at("the idempotents do not match".into()));
         }
         rows[i as usize].push((a, j));
@@ -254,28 +265,13 @@ pub fn read_arrows(what: &str, src: &TypeD, dst: &TypeD, terms: &[Term]) -> Resu
     Ok((rows, defects))
 }
 
-pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, group: bool) -> Result<TypeA, String> {
-    let index: BTreeMap<&String, u32> = spec.generators.keys().enumerate().map(|(i, n)| (n, i as u32)).collect();
-    let mut m = TypeA {
-        names: spec.generators.keys().cloned().collect(),
-        idem: vec![],
-        grading: vec![],
-        group,
-        period: period_ok(&spec.period, group, &format!("type A module {name}"))?,
-        families: vec![],
-        out: vec![vec![]; spec.generators.len()],
-        defects: vec![],
-    };
-    for (g, gen) in spec.generators.iter() {
-        let what = format!("type A module {name}, generator \"{g}\"");
-        tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
-        m.idem.push(idem_ok(gen.idempotent, &what)?);
-        grading_ok(&gen.grading, group, &what)?;
-        m.grading.push(gen.grading.clone());
-    }
+/// Generators of a type A module and its families of operations.
+pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<TypeA, String> {
+    let what = format!("type A module {name}");
+    let gens = spec.generators.iter().map(|(g, a)| (g, a.idempotent, Some(&a.grading)));
+    let mut m = read_generators(&what, gens, &spec.period, group)?;
     for (k, f) in spec.operations.iter().enumerate() {
-        let at = |e: &str| format!("type A module {name}, operation {}: {e}", k + 1);
-        let find = |n: &String| index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
+        let at = |e: &str| format!("{what}, operation {}: {e}", k + 1);
         let mut pattern = Vec::new();
         for a in f.prefix.iter().chain(&f.repeat).chain(&f.suffix) {
             match Alg::parse(a).map_err(|e| at(&e))? {
@@ -286,62 +282,53 @@ pub fn read_module(name: &str, spec: &tubecert_format::bordered::TypeASpec, grou
         if pattern.len() > 60 || (f.repeat.is_empty() && f.power[0] != 0) || f.power.iter().any(|&p| p > MAX_EXPONENT) {
             return Err(at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block"));
         }
-        let mut holds: Vec<(Alg, u64)> = Vec::new();
+        let find =
+            |n: &String| m.index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
+        let (from, to) = (find(&f.from)?, find(&f.to)?);
+        let mut holds = BTreeMap::new();
         for (k, &a) in pattern.iter().enumerate() {
-            match holds.iter_mut().find(|h| h.0 == a) {
-                Some(h) => h.1 |= 1 << k,
-                None => holds.push((a, 1 << k)),
-            }
+            *holds.entry(a).or_insert(0) |= 1 << k;
         }
-        let fam = Family {
-            from: find(&f.from)?,
-            holds,
-            pattern,
-            prefix: f.prefix.len(),
-            repeat: f.repeat.len(),
-            power: f.power,
-            to: find(&f.to)?,
-        };
+        let (prefix, repeat) = (f.prefix.len(), f.repeat.len());
+        let fam = Family { from, pattern, prefix, repeat, power: f.power, to, holds };
         // Idempotents along the word for n = 0, 1, 2 cover every junction.
-        for n in 0..if fam.repeat > 0 { 3 } else { 1 } {
-            let (mut i, w) = (m.idem[fam.from as usize], fam.word(n));
-            for a in &w {
+        for n in 0..if repeat > 0 { 3 } else { 1 } {
+            let mut i = m.idem[from as usize];
+            for a in fam.word(n) {
                 let (l, r) = a.idempotents().expect("Reeb");
                 if l != i {
                     m.defects.push(at(&format!("{} does not start in ι{i}", a.name())));
                 }
                 i = r;
             }
-            if i != m.idem[fam.to as usize] {
+            if i != m.idem[to as usize] {
                 m.defects.push(at(&format!("the output {} is not in ι{i}", f.to)));
             }
         }
-        m.out[fam.from as usize].push(m.families.len());
+        m.out[from as usize].push(m.families.len());
         m.families.push(fam);
     }
     let mut sorted: Vec<_> = spec.operations.iter().collect();
     sorted.sort();
     if sorted.windows(2).any(|w| w[0] == w[1]) {
-        return Err(format!("type A module {name}: an operation is listed twice"));
+        return Err(format!("{what}: an operation is listed twice"));
     }
     Ok(m)
 }
 
 impl Family {
     fn word(&self, n: usize) -> Vec<Alg> {
-        let (p, r) = (&self.pattern[..self.prefix], &self.pattern[self.prefix..self.prefix + self.repeat]);
-        let mut w = p.to_vec();
-        (0..n).for_each(|_| w.extend_from_slice(r));
-        w.extend_from_slice(&self.pattern[self.prefix + self.repeat..]);
-        w
+        let (prefix, rest) = self.pattern.split_at(self.prefix);
+        let (repeat, suffix) = rest.split_at(self.repeat);
+        [prefix, &repeat.repeat(n), suffix].concat()
     }
 
     /// A set of pattern positions closed under the junction: after the prefix and after each
     /// repeated block one may repeat or go on, so those two positions are one state.
     fn close(&self, mask: u64) -> u64 {
-        let (j1, j2) = (self.prefix, self.prefix + self.repeat);
-        if mask & (1 << j1 | 1 << j2) != 0 {
-            mask | 1 << j1 | 1 << j2
+        let junction = 1 << self.prefix | 1 << (self.prefix + self.repeat);
+        if mask & junction != 0 {
+            mask | junction
         } else {
             mask
         }
@@ -351,24 +338,19 @@ impl Family {
         self.close(1)
     }
 
-    /// The positions from which the empty rest completes a word.
-    fn end(&self) -> u64 {
-        self.close(1 << self.pattern.len())
-    }
-
-    /// The positions of the pattern holding `a`.
-    fn holding(&self, a: Alg) -> u64 {
-        self.holds.iter().find(|h| h.0 == a).map_or(0, |h| h.1)
-    }
-
     /// The positions after reading `a` from `mask` (0: the word read is no prefix of the family).
     fn step(&self, mask: u64, a: Alg) -> u64 {
-        self.close((mask & self.holding(a)) << 1)
+        self.close((mask & self.holds.get(&a).unwrap_or(&0)) << 1)
     }
 
     /// The positions before `a` from which `a` leads into `mask` (reading backward).
     fn back(&self, mask: u64, a: Alg) -> u64 {
-        self.close(mask >> 1 & self.holding(a))
+        self.close(mask >> 1 & self.holds.get(&a).unwrap_or(&0))
+    }
+
+    /// The positions from which the empty rest completes a word.
+    fn end(&self) -> u64 {
+        self.close(1 << self.pattern.len())
     }
 
     /// U-power of the output when a word of length `len` is complete at `mask`.
@@ -397,83 +379,78 @@ impl Objects {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
         }
         let full = crate::load::load(&b.full_ring, &b.full_complexes, &b.full_maps)?;
-        let structures: Result<BTreeMap<String, TypeD>, String> =
-            b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?))).collect();
-        let modules: Result<BTreeMap<String, TypeA>, String> =
-            b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?))).collect();
-        let (structures, modules) = (structures.map_err(|e| vec![e])?, modules.map_err(|e| vec![e])?);
-        let mut o = Objects {
-            full,
-            structures,
-            modules,
-            morphisms: BTreeMap::new(),
-            budget: Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR)),
-            lengths: BTreeMap::new(),
-            group,
-        };
-        for c in claims {
-            if let Claim::TypeAModule { module, max_length, .. } = c {
-                let l = o.lengths.entry(module.clone()).or_default();
-                *l = (*l).max(*max_length);
-            }
-        }
+        let structures: BTreeMap<String, TypeD> = b
+            .type_d_structures
+            .iter()
+            .map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?)))
+            .collect::<Result<_, String>>()
+            .map_err(|e| vec![e])?;
+        let modules: BTreeMap<String, TypeA> = b
+            .type_a_modules
+            .iter()
+            .map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?)))
+            .collect::<Result<_, String>>()
+            .map_err(|e| vec![e])?;
+        let mut morphisms = BTreeMap::new();
         for (n, f) in b.type_d_morphisms.iter() {
             let side = |s: &String| {
-                o.structures
+                structures
                     .get(s)
                     .ok_or_else(|| vec![format!("type D morphism {n}: type D structure \"{s}\" is not declared")])
             };
-            let (src, dst) = (side(&f.from)?, side(&f.to)?);
-            let (terms, defects) =
-                read_arrows(&format!("type D morphism {n}"), src, dst, &f.terms).map_err(|e| vec![e])?;
-            o.morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
+            let what = format!("type D morphism {n}");
+            let (terms, defects) = read_arrows(&what, side(&f.from)?, side(&f.to)?, &f.terms).map_err(|e| vec![e])?;
+            morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
         }
-        Ok(o)
-    }
-
-    fn structure(&self, n: &str) -> Result<&TypeD, Failure> {
-        Ok(self.structures.get(n).ok_or_else(|| format!("type D structure \"{n}\" is not declared"))?)
-    }
-    fn module(&self, n: &str) -> Result<&TypeA, Failure> {
-        Ok(self.modules.get(n).ok_or_else(|| format!("type A module \"{n}\" is not declared"))?)
-    }
-    fn morphism(&self, n: &str) -> Result<&Morphism, Failure> {
-        Ok(self.morphisms.get(n).ok_or_else(|| format!("type D morphism \"{n}\" is not declared"))?)
+        let mut claimed = BTreeMap::new();
+        for c in claims {
+            let (name, length) = match c {
+                Claim::TypeAModule { module, max_length, .. } => (module, *max_length),
+                Claim::TypeDStructure { structure, .. } => (structure, 0),
+                _ => continue,
+            };
+            let l = claimed.entry((c.kind(), name.clone())).or_default();
+            *l = length.max(*l);
+        }
+        let budget = Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR));
+        Ok(Objects { full, structures, modules, morphisms, budget, claimed, group })
     }
 }
 
-/// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0.
+/// The object named `n` of a kind ("type D structure", …).
+fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&'a T, Failure> {
+    Ok(objects.get(n).ok_or_else(|| format!("{kind} \"{n}\" is not declared"))?)
+}
+
+/// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
 pub fn check_structure(d: &TypeD) -> Result<(), String> {
-    if let Some(e) = d.defects.first() {
-        return Err(e.clone());
-    }
-    vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", d, &d.names, &[(&d.delta, &d.delta)])?;
-    // Version 3: a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
+    vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
+    // a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
         for &(a, y2) in row {
-            if let (Some(g), Some(g2)) = (&d.grading[y], &d.grading[y2 as usize]) {
-                let e = gr_mul(gr_mul(gr_mul(gr_pow(gr_of(g), -1), LAMBDA), gr_alg(a)), gr_of(g2));
-                if !in_period(e, d.period) {
-                    return Err(format!("the term {}⊗{} of δ¹({}) is not homogeneous: gr({0})⁻¹·λ·gr(ρ)·gr({1}) = {e:?} (doubled) is not a power of the period", a.name(), d.names[y2 as usize], d.names[y]));
-                }
+            let (g, g2) = (d.grading[y].as_ref(), d.grading[y2 as usize].as_ref());
+            let e = gr_mul(gr_pow(after(a, gr_of(g)), -1), gr_of(g2));
+            if g.is_some() && g2.is_some() && !in_period(e, d.period) {
+                return Err(format!("the term {}⊗{} of δ¹({}) is not homogeneous: gr({0})⁻¹·λ·gr(ρ)·gr({1}) = {e:?} (doubled) is not a power of the period", a.name(), d.names[y2 as usize], d.names[y]));
             }
         }
     }
     Ok(())
 }
 
-/// (μ ⊗ id)(id ⊗ δ¹_N′)f + (μ ⊗ id)(id ⊗ f)δ¹_N = 0.
-fn check_morphism(o: &Objects, f: &Morphism) -> Result<(), Failure> {
-    let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
-    if let Some(e) = f.defects.first() {
-        return Err(e.clone().into());
+/// No defect, and for each generator y of `d`: Σ over the pairs (first, second) of the
+/// composites y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0
+/// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism.
+fn vanishes(
+    what: &str,
+    defects: &[String],
+    d: &TypeD,
+    names: &[String],
+    pairs: &[(&Arrows, &Arrows)],
+) -> Result<(), String> {
+    if let Some(e) = defects.first() {
+        return Err(e.clone());
     }
-    Ok(vanishes("∂f", n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?)
-}
-
-/// For each generator y of `d`: Σ over the pairs (first, second) of the composites y →a y′ →b y″
-/// (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0 (`names`: those of the y″).
-fn vanishes(what: &str, d: &TypeD, names: &[String], pairs: &[(&Arrows, &Arrows)]) -> Result<(), String> {
     for y in 0..d.names.len() {
         let mut acc = Vec::new();
         for (first, second) in pairs {
@@ -500,10 +477,10 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
     for (k, f) in m.families.iter().enumerate().filter(|_| m.group) {
         for n in 0..if f.repeat > 0 { 2 } else { 1 } {
             let w = f.word(n);
-            let g = w.iter().fold(gr_of(&m.grading[f.from as usize]), |g, &a| gr_mul(g, gr_alg(a)));
+            let g = w.iter().fold(gr_of(m.grading[f.from as usize].as_ref()), |g, &a| gr_mul(g, gr_alg(a)));
             let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
             let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
-            let e = gr_mul(g, gr_pow(gr_of(&m.grading[f.to as usize]), -1));
+            let e = gr_mul(g, gr_pow(gr_of(m.grading[f.to as usize].as_ref()), -1));
             if !in_period(e, m.period) {
                 return Err(format!("operation {} (repeated block {n} times) is not homogeneous: gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period", k + 1).into());
             }
@@ -553,15 +530,13 @@ fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
     // its prefixes).
     let mut back: BTreeMap<usize, Vec<u64>> = BTreeMap::new();
     let mut suffix = |g: usize, i: usize| -> Result<u64, Failure> {
-        if let Some(b) = back.get(&g) {
-            return Ok(b[i]);
+        if let std::collections::btree_map::Entry::Vacant(e) = back.entry(g) {
+            o.spend(work, "A∞ relations")?;
+            let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
+            (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
+            e.insert(b);
         }
-        o.spend(work, "A∞ relations")?;
-        let (f, mut b) = (&m.families[g], vec![m.families[g].end(); k + 1]);
-        (0..k).rev().for_each(|j| b[j] = f.back(b[j + 1], s[j]));
-        let at = b[i];
-        back.insert(g, b);
-        Ok(at)
+        Ok(back[&g][i])
     };
     let merges: Vec<(usize, Alg)> = (1..k).filter_map(|j| s[j - 1].times(s[j]).map(|ab| (j - 1, ab))).collect();
     let mut acc: Vec<(u32, u64)> = Vec::new();
@@ -569,13 +544,8 @@ fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
         let f = &m.families[fi];
         // fwd[i]: the positions of f reached by s[..i].
         o.spend(work, "A∞ relations")?;
-        let mut mk = f.start();
-        let fwd: Vec<u64> = std::iter::once(mk)
-            .chain(s.iter().map(|&a| {
-                mk = f.step(mk, a);
-                mk
-            }))
-            .collect();
+        let mut fwd = vec![f.start()];
+        s.iter().for_each(|&a| fwd.push(f.step(fwd[fwd.len() - 1], a)));
         for (i, &mk) in fwd.iter().enumerate() {
             let Some(e) = f.output(mk, i) else { continue };
             o.spend(m.out[f.to as usize].len() as u64, "A∞ relations")?;
@@ -594,21 +564,14 @@ fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
     normalize(&mut acc);
     if let Some(&(z, e)) = acc.first() {
         let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
-        return Err(format!(
-            "the A∞ relation fails on ({}, {}): the term U^{e}·{} survives",
-            m.names[x as usize],
-            word.join(", "),
-            m.names[z as usize]
-        )
-        .into());
+        let (x, z) = (&m.names[x as usize], &m.names[z as usize]);
+        return Err(format!("the A∞ relation fails on ({x}, {}): the term U^{e}·{z} survives", word.join(", ")).into());
     }
     Ok(())
 }
 
 /// A step of a δ-path: (coefficient, next node, whether the path may end after it).
 type Step = (Alg, u32, bool);
-/// A node on the walked path: (node, positions in the input word, its steps, the next to try).
-type Frame = (u32, u64, Vec<Step>, usize);
 
 /// Which side of a pairing is bounded (LOT §2.4: M ⊠ N is defined, and agrees with the
 /// derived tensor product, only when one side is): "structure" when the δ-graph on nodes
@@ -640,62 +603,57 @@ fn bounded(o: &Budget, m: &TypeA, n: u32, steps: &dyn Fn(u32) -> Vec<Step>) -> R
     }
 }
 
-/// Terms (module output, node, U-power) of Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths
-/// from `start` given by `steps` (node → (a, node′, whether the path may end after this
-/// step)); `end_at_start`: the empty path counts (the box tensor's m_1 ⊗ id). A path is
-/// followed only while its word is a prefix of a family's word. Finite because `bounded`
-/// held: no cycle of nodes, or every family's word has a fixed length; the budget bounds it
-/// all the same.
-fn paths(
+/// For each generator x⊗y of `gens`, the terms (target name, U-power) of
+/// Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths from y given by `steps` (node →
+/// (a, node′, whether the path may end after this step)); `empty`: the empty path counts (the
+/// box tensor's m_1 ⊗ id); `names`: those of the nodes. A path is followed only while its word
+/// is a prefix of a family's word. Finite because `bounded` held: no cycle of nodes, or every
+/// family's word has a fixed length; the budget bounds it all the same.
+fn walk(
     o: &Budget,
     m: &TypeA,
-    x: u32,
-    start: u32,
-    end_at_start: bool,
-    steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>,
-) -> Result<Vec<(u32, u32, u32)>, Failure> {
-    let mut out = Vec::new();
-    // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
-    for (_, y, end) in steps(start).into_iter().filter(|s| s.0 == Alg::One) {
-        if end {
-            out.push((x, y, 0));
-        }
-    }
-    for f in m.families.iter().filter(|f| f.from == x) {
-        // Depth-first; a frame is (node, positions, its steps, the next step to try). The work
-        // of entering a node (its steps) is spent before it is done.
-        let mut path: Vec<Frame> = Vec::new();
-        let mut enter = |y: u32, mask: u64, can_end: bool, path: &mut Vec<_>| -> Result<(), Failure> {
-            let next = steps(y);
-            o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
-            if let (true, Some(p)) = (can_end, f.output(mask, path.len())) {
-                o.1.set(o.1.get().max(path.len()));
-                let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT);
-                out.push((
-                    f.to,
-                    y,
-                    p.ok_or_else(|| {
+    gens: &[Generator],
+    empty: bool,
+    steps: &dyn Fn(u32) -> Vec<Step>,
+    names: &[String],
+) -> Result<Rows, Failure> {
+    let mut rows = Vec::new();
+    for (x, start, _, _) in gens {
+        // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
+        let mut out: Vec<(u32, u32, u32)> =
+            steps(*start).into_iter().filter(|s| s.0 == Alg::One && s.2).map(|s| (*x, s.1, 0)).collect();
+        for f in m.families.iter().filter(|f| f.from == *x) {
+            // Depth-first over (node, positions in the word, path length, whether it may end
+            // here); the work of entering a node (its steps) is spent before it is done. An
+            // idempotent step leads nowhere: no family's word holds ι.
+            let mut todo = vec![(*start, f.start(), 0, empty)];
+            while let Some((y, mask, len, can_end)) = todo.pop() {
+                let next = steps(y);
+                o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
+                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
+                    o.1.set(o.1.get().max(len));
+                    let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
                         Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
-                    })?,
-                ));
-            }
-            path.push((y, mask, next, 0));
-            Ok(())
-        };
-        enter(start, f.start(), end_at_start, &mut path)?;
-        while let Some((_, mask, next, child)) = path.last_mut() {
-            let Some(&(a, y2, end)) = next.get(*child) else {
-                path.pop();
-                continue;
-            };
-            *child += 1;
-            let mask2 = if a == Alg::One { 0 } else { f.step(*mask, a) };
-            if mask2 != 0 {
-                enter(y2, mask2, end, &mut path)?;
+                    })?;
+                    out.push((f.to, y, p));
+                }
+                for (a, y2, end) in next {
+                    let mask = f.step(mask, a);
+                    if mask != 0 {
+                        todo.push((y2, mask, len + 1, end));
+                    }
+                }
             }
         }
+        let mut terms: Vec<(String, u32)> = out
+            .into_iter()
+            .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], names[y2 as usize]), p))
+            .collect();
+        terms.sort();
+        // Sums mod 2: a term reached by an even number of paths cancels.
+        rows.push(terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1).map(|r| r[0].clone()).collect());
     }
-    Ok(out)
+    Ok(rows)
 }
 
 /// A generator x⊗y of a box tensor product: x, y, its name and grading.
@@ -708,12 +666,13 @@ pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
-            let gy =
-                n.grading[y].as_ref().ok_or_else(|| format!("generator {yn} has no grading, so {xn}⊗{yn} has none"))?;
+            let (Some(gx), Some(gy)) = (&m.grading[x], &n.grading[y]) else {
+                return Err(format!("generator {yn} has no grading, so {xn}⊗{yn} has none").into());
+            };
             let gr = match m.group && n.group {
-                true => read_grading(gr_mul(gr_of(&m.grading[x]), gr_of(gy)), m.period, n.period)
+                true => read_grading(gr_mul(gr_of(Some(gx)), gr_of(Some(gy))), m.period, n.period)
                     .map_err(|e| format!("{xn}⊗{yn}: {e}"))?,
-                false => crate::load::grading_sum(&m.grading[x], gy),
+                false => crate::load::grading_sum(gx, gy),
             };
             out.push((x as u32, y as u32, format!("{xn}⊗{yn}"), gr));
         }
@@ -732,16 +691,6 @@ pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator
         symmetrize(&mut out)?;
     }
     Ok(out)
-}
-
-/// `generators`, after counting the |M|·|N| pairs made from |M| + |N| written generators, each
-/// at 1/64 of an item's allowance (a named pair is a few hundred bytes; a true product lists
-/// every pair in its complex, so it has far fewer pairs than written items · 64).
-fn counted_generators(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
-    let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
-    let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
-    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
-    generators(m, n, symmetric)
 }
 
 /// The absolute normalization of a knot's complex in S³ read from a pairing: χ = Σ(−1)^M t^A
@@ -773,20 +722,18 @@ fn compare(
     from: &Complex,
     to: &Complex,
     gens: &[Generator],
-    rows: &[Vec<(String, u32)>],
-    actual: &[crate::algebra::Vector],
+    rows: &Rows,
+    actual: &[Vector],
 ) -> Result<(), Failure> {
-    // Distinct names too: names may contain ⊗, so x⊗y can be spelled by two pairs.
-    let names: std::collections::BTreeSet<&String> = gens.iter().map(|g| &g.2).collect();
-    if names.len() != gens.len() || from.names.len() != gens.len() || names.iter().any(|n| from.index.get(n).is_none())
-    {
+    // The names of `gens` are distinct (`generators`), so this is a bijection.
+    if from.names.len() != gens.len() || gens.iter().any(|g| from.index.get(&g.2).is_none()) {
         return Err(format!(
             "{what}: {} does not have exactly the generators x⊗y of the box tensor product (each spelled once)",
             from.name
         )
         .into());
     }
-    for (k, (_, _, name, gr)) in gens.iter().enumerate() {
+    for ((_, _, name, gr), row) in gens.iter().zip(rows) {
         let i = from.index.get(name).expect("checked") as usize;
         if from.gradings[i] != gr[..] {
             return Err(format!(
@@ -796,22 +743,20 @@ fn compare(
             .into());
         }
         let mut want = Vec::new();
-        for (t, p) in &rows[k] {
+        for (t, p) in row {
             let j = to.index.get(t).ok_or_else(|| format!("{what}: {t} is not a generator of {}", to.name))?;
             want.push((j, Mono::power(0, *p)));
         }
         normalize(&mut want);
         if want != actual[i] {
             let show = |v: &[(u32, Mono)]| {
-                v.iter()
-                    .map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize]))
-                    .collect::<Vec<_>>()
-                    .join(" + ")
+                let terms: Vec<String> =
+                    v.iter().map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize])).collect();
+                terms.join(" + ")
             };
+            let (found, expected) = (show(&actual[i]), show(&want));
             return Err(format!(
-                "{what}: on {name} the certificate has {}, the box tensor product gives {}",
-                show(&actual[i]),
-                show(&want)
+                "{what}: on {name} the certificate has {found}, the box tensor product gives {expected}"
             )
             .into());
         }
@@ -819,77 +764,47 @@ fn compare(
     Ok(())
 }
 
-/// Terms of id_M ⊠ (paths) from each generator x⊗y: (target name, U-power).
-fn rows(
-    o: &Budget,
-    m: &TypeA,
-    gens: &[Generator],
-    empty_path: bool,
-    steps: &dyn Fn(u32) -> Vec<(Alg, u32, bool)>,
-    node: &dyn Fn(u32) -> String,
-) -> Result<Vec<Vec<(String, u32)>>, Failure> {
-    let mut out = Vec::new();
-    for (x, y, _, _) in gens {
-        let mut terms: Vec<(String, u32)> = paths(o, m, *x, *y, empty_path, steps)?
-            .into_iter()
-            .map(|(x2, y2, p)| (format!("{}⊗{}", m.names[x2 as usize], node(y2)), p))
-            .collect();
-        terms.sort();
-        // Sums mod 2: a term reached by an even number of paths cancels.
-        let runs = terms.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1).map(|r| r[0].clone());
-        out.push(runs.collect());
-    }
-    Ok(out)
-}
-
 /// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)),
 /// and the bounded side.
-pub fn tensor_complex(
-    o: &Budget,
-    m: &TypeA,
-    n: &TypeD,
-    symmetric: bool,
-) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
-    if let Some(e) = m.defects.first().or(n.defects.first()) {
-        return Err(e.clone().into());
-    }
-    let gens = counted_generators(o, m, n, symmetric)?;
-    let steps = |y: u32| n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, true)).collect();
-    let side = bounded(o, m, n.names.len() as u32, &steps)?;
-    let node = |y: u32| n.names[y as usize].clone();
-    let rows = rows(o, m, &gens, true, &steps, &node)?;
-    Ok((gens, rows, side))
+pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Product, Failure> {
+    tensor_map(o, m, n, None, symmetric)
 }
 
-/// id_M ⊠ f: M ⊠ N → M ⊠ N′, over paths of δ¹-steps in N, one f-step, δ¹-steps in N′.
+/// id_M ⊠ f: M ⊠ N → M ⊠ N′ for `f` = Some((f, N′)), over paths of δ¹-steps in N, one f-step,
+/// δ¹-steps in N′ (for `f` = None, M ⊠ N: paths of δ¹-steps in N).
 pub fn tensor_map(
     o: &Budget,
     m: &TypeA,
-    f: &Morphism,
     n: &TypeD,
-    n2: &TypeD,
+    f: Option<(&Morphism, &TypeD)>,
     symmetric: bool,
-) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
-    if let Some(e) = m.defects.iter().chain(&n.defects).chain(&n2.defects).chain(&f.defects).next() {
+) -> Result<Product, Failure> {
+    let more = f.map(|(f, n2)| n2.defects.iter().chain(&f.defects));
+    if let Some(e) = m.defects.iter().chain(&n.defects).chain(more.into_iter().flatten()).next() {
         return Err(e.clone().into());
     }
-    let gens = counted_generators(o, m, n, symmetric)?;
+    // The |M|·|N| pairs made from |M| + |N| written generators, counted each at 1/64 of an
+    // item's allowance before they are made (a named pair is a few hundred bytes; a true
+    // product lists every pair in its complex, so it has far fewer pairs than written items · 64).
+    let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
+    let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
+    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+    let gens = generators(m, n, symmetric)?;
     // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
     let k = n.names.len() as u32;
-    let steps = |y: u32| -> Vec<(Alg, u32, bool)> {
-        if y < k {
-            let d = n.delta[y as usize].iter().map(|&(a, y2)| (a, y2, false));
-            d.chain(f.terms[y as usize].iter().map(|&(a, y2)| (a, y2 + k, true))).collect()
-        } else {
-            n2.delta[(y - k) as usize].iter().map(|&(a, y2)| (a, y2 + k, true)).collect()
-        }
+    let shift = |arrows: &Arrows, y: u32, by: u32, end: bool| -> Vec<Step> {
+        arrows[y as usize].iter().map(|&(a, z)| (a, z + by, end)).collect()
     };
-    let side = bounded(o, m, k + n2.names.len() as u32, &steps)?;
-    let node = |y: u32| if y < k { n.names[y as usize].clone() } else { n2.names[(y - k) as usize].clone() };
-    let rows = rows(o, m, &gens, false, &steps, &node)?;
+    let steps = |y: u32| match f {
+        None => shift(&n.delta, y, 0, true),
+        Some((f, _)) if y < k => [shift(&n.delta, y, 0, false), shift(&f.terms, y, k, true)].concat(),
+        Some((_, n2)) => shift(&n2.delta, y - k, k, true),
+    };
+    let names = [&n.names[..], f.map_or(&[][..], |(_, n2)| &n2.names[..])].concat();
+    let side = bounded(o, m, names.len() as u32, &steps)?;
+    let rows = walk(o, m, &gens, f.is_none(), &steps, &names)?;
     Ok((gens, rows, side))
 }
-
 /// The type D structure of LOT Thm 11.26 for a complex C over `F2[U,V]` in a simultaneously
 /// simplified basis and framing t, τ = A(ξ_0), and whether it was made bounded. `group`
 /// (version 3): ξ with C-grading (M, A) = (gr_U, (gr_U − gr_V)/2) gets (M − 3A/2; 0, −A; 0),
@@ -906,30 +821,28 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
         format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
     };
     let n = c.names.len();
-    let (mut horizontal, mut vertical) = (vec![0; n], vec![0; n]);
-    let mut arrows = Vec::new();
+    // Arrows of kind 0 (horizontal: U^i, chains lambda…) and 1 (vertical: V^j, chains kappa…),
+    // and how many of each kind touch each generator.
+    let (mut count, mut arrows) = ([vec![0; n], vec![0; n]], Vec::new());
     for (a, row) in c.d.rows.iter().enumerate() {
         for &(b, m) in row {
             let [u, v] = m.0;
+            if u == 0 && v == 0 {
+                let (an, bn) = (&c.names[a], &c.names[b as usize]);
+                return Err(refuse(format!("∂{an} has the term {bn} with coefficient 1 (not reduced)")));
+            }
             // A diagonal term U^i·V^j (i, j ≥ 1) vanishes in both C/(U) and C/(V), whose
             // arrows are all LOT Thm 11.26 reads: it does not enter the structure.
-            let (kind, count) = match (u, v) {
-                (0, 0) => {
-                    return Err(refuse(format!(
-                        "∂{} has the term {} with coefficient 1 (not reduced)",
-                        c.names[a], c.names[b as usize]
-                    )))
-                }
-                (_, 0) => ("lambda", &mut horizontal),
-                (0, _) => ("kappa", &mut vertical),
-                _ => continue,
-            };
-            count[a] += 1;
-            count[b as usize] += 1;
-            arrows.push((kind, a, b as usize, u.max(v)));
+            if u == 0 || v == 0 {
+                let kind = (u == 0) as usize;
+                count[kind][a] += 1;
+                count[kind][b as usize] += 1;
+                arrows.push((kind, a, b as usize, u.max(v)));
+            }
         }
     }
-    let lone = |count: &[u32], what: &str| -> Result<usize, String> {
+    let lone = |kind: usize| -> Result<usize, String> {
+        let (count, what) = (&count[kind], ["horizontal", "vertical"][kind]);
         if let Some(x) = (0..n).find(|&x| count[x] > 1) {
             return Err(refuse(format!("{} has {} {what} arrows", c.names[x], count[x])));
         }
@@ -938,73 +851,57 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
             ref xs => Err(refuse(format!("{} generators have no {what} arrow, not one", xs.len()))),
         }
     };
-    let (eta0, xi0) = (lone(&horizontal, "horizontal")?, lone(&vertical, "vertical")?);
+    let (eta0, xi0) = (lone(0)?, lone(1)?);
     let alexander = |x: usize| {
         let g = &c.gradings[x];
         ((g[0] - g[1]) % 2 == 0)
             .then_some((g[0] - g[1]) / 2)
             .ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
     };
-    let tau = alexander(xi0)?;
-    if alexander(eta0)? != -tau {
-        return Err(format!(
-            "complex {}: A(ξ_0 = {}) = {tau} but A(η_0 = {}) = {}, not −{tau}: not the complex of a knot in S^3",
-            c.name,
-            c.names[xi0],
-            c.names[eta0],
-            alexander(eta0)?
-        ));
+    let (tau, eta_a) = (alexander(xi0)?, alexander(eta0)?);
+    let (xn, en) = (&c.names[xi0], &c.names[eta0]);
+    if eta_a != -tau {
+        return Err(format!("complex {}: A(ξ_0 = {xn}) = {tau} but A(η_0 = {en}) = {eta_a}, not −{tau}: not the complex of a knot in S^3", c.name));
     }
-    let mut gens: Vec<(String, DGenerator)> = Vec::new();
-    let mut gr0 = Vec::new();
+    let (mut gens, mut terms, mut gr0) = (Vec::new(), Vec::new(), Vec::new());
     for x in 0..n {
         let (m, a) = (c.gradings[x][0], alexander(x)?);
         gr0.push([2 * m as i128 - 3 * a as i128, 0, -2 * a as i128, 0]);
         let grading = if group { written(gr0[x])? } else { vec![m, a] };
         gens.push((c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 }));
     }
-    let mut terms: Vec<Term> = Vec::new();
-    let mut term = |a: &str, r: &str, b: &str| terms.push([a.to_string(), r.to_string(), b.to_string()]);
+    let term = |a: &str, r: &str, b: &str| -> Term { [a.into(), r.into(), b.into()] };
+    let iota1 = |name: &str, g: Gr| -> Result<(String, DGenerator), String> {
+        Ok((name.into(), DGenerator { grading: if group { Some(written(g)?) } else { None }, idempotent: 1 }))
+    };
     // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered
     // from a ι_0 generator of grading `from` by an arrow ρ ⊗ c_1: gr(c_1) = gr(ρ)⁻¹·λ⁻¹·from,
     // then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up).
-    let chain = |gens: &mut Vec<(String, DGenerator)>,
-                 names: Vec<String>,
-                 down: bool,
-                 (rho, from): (Alg, Gr),
-                 term: &mut dyn FnMut(&str, &str, &str)|
-     -> Result<(), String> {
-        for w in names.windows(2) {
-            if down {
-                term(&w[1], "rho23", &w[0])
-            } else {
-                term(&w[0], "rho23", &w[1])
+    let r23 = Alg::Reeb(2, 3);
+    let chain = |gens: &mut Vec<_>, terms: &mut Vec<Term>, names: &[String], down: bool, rho: Alg, from: Gr| {
+        let mut g = after(rho, from);
+        for (k, name) in names.iter().enumerate() {
+            if k > 0 {
+                let (hi, lo) = if down { (name, &names[k - 1]) } else { (&names[k - 1], name) };
+                terms.push(term(hi, "rho23", lo));
             }
+            gens.push(iota1(name, g)?);
+            g = if down { gr_mul(gr_mul(LAMBDA, gr_alg(r23)), g) } else { after(r23, g) };
         }
-        let (back, r23) = (gr_pow(LAMBDA, -1), gr_alg(Alg::Reeb(2, 3)));
-        let mut g = gr_mul(gr_mul(gr_pow(gr_alg(rho), -1), back), from);
-        for name in names {
-            let grading = if group { Some(written(g)?) } else { None };
-            gens.push((name, DGenerator { grading, idempotent: 1 }));
-            g = if down { gr_mul(gr_mul(LAMBDA, r23), g) } else { gr_mul(gr_mul(gr_pow(r23, -1), back), g) };
-        }
-        Ok(())
+        Ok::<(), String>(())
     };
     for &(kind, a, b, l) in &arrows {
         let (an, bn) = (&c.names[a], &c.names[b]);
-        let names: Vec<String> = (1..=l).map(|k| format!("{kind}{k}.{an}.{bn}")).collect();
-        let first = if kind == "kappa" {
-            term(an, "rho1", &names[0]);
-            term(bn, "rho123", &names[l as usize - 1]);
-            Alg::Reeb(1, 1)
+        let names: Vec<String> = (1..=l).map(|k| format!("{}{k}.{an}.{bn}", ["lambda", "kappa"][kind])).collect();
+        let last = &names[l as usize - 1];
+        if kind == 1 {
+            terms.extend([term(an, "rho1", &names[0]), term(bn, "rho123", last)]);
         } else {
-            term(an, "rho3", &names[0]);
-            term(&names[l as usize - 1], "rho2", bn);
-            Alg::Reeb(3, 3)
-        };
-        chain(&mut gens, names, kind == "kappa", (first, gr0[a]), &mut term)?;
+            terms.extend([term(an, "rho3", &names[0]), term(last, "rho2", bn)]);
+        }
+        let rho = if kind == 1 { Alg::Reeb(1, 1) } else { Alg::Reeb(3, 3) };
+        chain(&mut gens, &mut terms, &names, kind == 1, rho, gr0[a])?;
     }
-    let (xn, en) = (&c.names[xi0], &c.names[eta0]);
     let m = (t - 2 * tau).unsigned_abs();
     if m > MAX_EXPONENT as u64 {
         return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
@@ -1012,29 +909,23 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
     let names: Vec<String> = (1..=m).map(|k| format!("gamma{k}")).collect();
     let split = bounded && xi0 == eta0 && t >= 2 * tau;
     let first = if t < 2 * tau {
-        term(xn, "rho1", &names[0]);
-        term(en, "rho3", &names[m as usize - 1]);
+        terms.extend([term(xn, "rho1", &names[0]), term(en, "rho3", &names[m as usize - 1])]);
         Alg::Reeb(1, 1)
     } else {
         let (a, b, to) = if m == 0 { (Alg::Reeb(1, 2), "rho2", en) } else { (Alg::Reeb(1, 3), "rho23", &names[0]) };
         if split {
-            term(xn, "rho1", "pair.y");
-            term("pair.x", "1", "pair.y");
-            term("pair.x", b, to);
-            let y = gr_mul(gr_mul(gr_pow(gr_alg(Alg::Reeb(1, 1)), -1), gr_pow(LAMBDA, -1)), gr0[xi0]);
-            for (g, gr) in [("pair.x", gr_mul(LAMBDA, y)), ("pair.y", y)] {
-                let grading = if group { Some(written(gr)?) } else { None };
-                gens.push((g.to_string(), DGenerator { grading, idempotent: 1 }));
-            }
+            terms.extend([term(xn, "rho1", "pair.y"), term("pair.x", "1", "pair.y"), term("pair.x", b, to)]);
+            let y = after(Alg::Reeb(1, 1), gr0[xi0]);
+            gens.extend([iota1("pair.x", gr_mul(LAMBDA, y))?, iota1("pair.y", y)?]);
         } else {
-            term(xn, a.name(), to);
+            terms.push(term(xn, a.name(), to));
         }
         if m > 0 {
-            term(&names[m as usize - 1], "rho2", en);
+            terms.push(term(&names[m as usize - 1], "rho2", en));
         }
         a
     };
-    chain(&mut gens, names, t < 2 * tau, (first, gr0[xi0]), &mut term)?;
+    chain(&mut gens, &mut terms, &names, t < 2 * tau, first, gr0[xi0])?;
     let count = gens.len();
     let generators = UniqueMap(gens.into_iter().collect());
     if generators.len() != count {
@@ -1045,21 +936,17 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
     Ok((TypeDSpec { differential: terms, generators, period }, tau, split))
 }
 
-/// A grading element as written, within the bounds every grading obeys.
-fn written(g: Gr) -> Result<Grading, String> {
-    g.iter()
-        .map(|&x| i64::try_from(x).ok().filter(|&x| tubecert_format::limits::grading_in_bounds(x)))
-        .collect::<Option<Grading>>()
-        .ok_or_else(|| format!("a grading {g:?} (doubled) is beyond ±2^31"))
-}
-
 /// The pairing just walked gave terms on input words of length ≤ k (`budget.1`); the relations
 /// that ∂∂ = 0 (or the chain-map property) of M ⊠ N rest on are those on δ-path words with a
 /// non-zero term: concatenations of two such words or one with an adjacent pair multiplied,
-/// so of length ≤ 2k. A `type_a_module` claim of M must state at least that length.
-fn covered(o: &Objects, module: &str) -> Result<(), Failure> {
+/// so of length ≤ 2k. A `type_a_module` claim of M must state at least that length, and (a
+/// box tensor product) a `type_d_structure` claim must check the D relation of N.
+fn covered(o: &Objects, module: &str, structure: Option<&str>) -> Result<(), Failure> {
+    if let Some(n) = structure.filter(|n| !o.claimed.contains_key(&("type_d_structure", n.to_string()))) {
+        return Err(Failure::Refused(format!("the pairing is with {n}, but no type_d_structure claim checks its D relation (δ¹∘δ¹ = 0), which the box tensor product rests on")));
+    }
     let k = o.budget.1.get();
-    match o.lengths.get(module) {
+    match o.claimed.get(&("type_a_module", module.to_string())) {
         Some(&l) if l as usize >= 2 * k => Ok(()),
         l => Err(Failure::Refused(format!(
             "the pairing uses operations of {module} on input words of length {k}, so its A∞ relations are needed on words of length ≤ {}, but {}",
@@ -1090,47 +977,46 @@ pub fn check(
         crate::verify::check_statement(ctx, claim, version)?;
         let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
         let r = &ctx.ring;
-        let is_minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
-        let minus = || {
-            (is_minus && r.gradings.len() == 2).then_some(()).ok_or_else(|| {
-                Failure::False("box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)".into())
-            })
-        };
+        let minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
+        if matches!(claim, Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. }) && !(minus && r.gradings.len() == 2) {
+            return Err(Failure::False("box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)".into()));
+        }
+        let (structure, module) = (|n: &str| get(&o.structures, "type D structure", n), |n: &str| get(&o.modules, "type A module", n));
         let mut facts = BTreeMap::new();
         match claim {
-            Claim::TypeDStructure { structure, .. } => check_structure(o.structure(structure)?)?,
-            Claim::TypeAModule { module, max_length, .. } => {
+            Claim::TypeDStructure { structure: n, .. } => check_structure(structure(n)?)?,
+            Claim::TypeAModule { module: n, max_length, .. } => {
                 // The allowance left (budget.2) joins the budget for this check only; what it
                 // does not use is kept for the next module, and the shared budget never grows.
                 let (b, before) = (&o.budget, o.budget.0.get());
                 b.0.set(before.saturating_add(b.2.get()));
-                let checked = check_module(b, o.module(module)?, *max_length);
+                let checked = check_module(b, module(n)?, *max_length);
                 let after = b.0.get();
                 b.2.set(after.saturating_sub(before));
                 b.0.set(after.min(before));
                 checked?
             }
-            Claim::TypeDMorphism { morphism, .. } => check_morphism(o, o.morphism(morphism)?)?,
-            Claim::BoxTensor { complex, module, structure, witness, .. } => {
-                minus()?;
+            Claim::TypeDMorphism { morphism, .. } => {
+                let f = get(&o.morphisms, "type D morphism", morphism)?;
+                let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
+                vanishes("∂f", &f.defects, n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
+            }
+            Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
                 let c = &ctx.complexes[ctx.complex_named(complex)?];
                 o.budget.1.set(0);
-                let (mut gens, rows, side) =
-                    tensor_complex(&o.budget, o.module(module)?, o.structure(structure)?, version >= 4)?;
-                covered(o, module)?;
+                let (mut gens, rows, side) = tensor_complex(&o.budget, module(mn)?, structure(sn)?, version >= 4)?;
+                covered(o, mn, Some(sn))?;
                 crate::maslov::certify(&o.budget, &mut gens, &rows, witness.as_ref(), version)?;
-                compare(&format!("{complex} = {module} ⊠ {structure}"), c, c, &gens, &rows, &c.d.rows)?;
+                compare(&format!("{complex} = {mn} ⊠ {sn}"), c, c, &gens, &rows, &c.d.rows)?;
                 facts.insert("generators".into(), serde_json::json!(gens.len()));
                 facts.insert("bounded".into(), serde_json::json!(side));
             }
-            Claim::BoxTensorMap { map, module, morphism, witness, .. } => {
-                minus()?;
-                let (m, f) = (o.module(module)?, o.morphism(morphism)?);
-                let (n, n2) = (o.structure(&f.from)?, o.structure(&f.to)?);
+            Claim::BoxTensorMap { map, module: mn, morphism, witness, .. } => {
+                let (m, f) = (module(mn)?, get(&o.morphisms, "type D morphism", morphism)?);
+                let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
                 let &i = ctx.map_index.get(map).ok_or_else(|| format!("map \"{map}\" is not declared"))?;
-                let fm = &ctx.maps[i];
+                let (fm, what) = (&ctx.maps[i], format!("{map} = id_{mn} ⊠ {morphism}"));
                 let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
-                let what = format!("{map} = id_{module} ⊠ {morphism}");
                 o.budget.1.set(0);
                 // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
                 // those complexes (differentials included, each graded with its own Maslov
@@ -1140,11 +1026,11 @@ pub fn check(
                 for (c, d, dn, w) in [(from, n, &f.from, w.map(|w| &w.from)), (to, n2, &f.to, w.map(|w| &w.to))] {
                     let (mut gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
                     crate::maslov::certify(&o.budget, &mut gens, &rows, w, version)?;
-                    compare(&format!("{what}: {} = {module} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
+                    compare(&format!("{what}: {} = {mn} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
                     normalized.push(gens);
                 }
-                let (_, rows, side) = tensor_map(&o.budget, m, f, n, n2, version >= 4)?;
-                covered(o, module)?;
+                let (_, rows, side) = tensor_map(&o.budget, m, n, Some((f, n2)), version >= 4)?;
+                covered(o, mn, None)?;
                 compare(&what, from, to, &normalized[0], &rows, &fm.m.rows)?;
                 facts.insert("bounded".into(), serde_json::json!(side));
             }

@@ -30,11 +30,7 @@ impl Errors {
         }
     }
     pub fn into_result<T>(self, value: T) -> Result<T, Vec<String>> {
-        if self.0.is_empty() {
-            Ok(value)
-        } else {
-            Err(self.0)
-        }
+        self.0.is_empty().then_some(value).ok_or(self.0)
     }
 }
 
@@ -51,15 +47,13 @@ enum NameKey {
 }
 
 fn name_key(s: &str) -> NameKey {
-    match s.len() {
-        n @ 0..=22 => {
-            let mut b = [0; 23];
-            b[0] = n as u8;
-            b[1..=n].copy_from_slice(s.as_bytes());
-            NameKey::Short(b)
-        }
-        _ => NameKey::Long(s.to_string()),
+    if s.len() > 22 {
+        return NameKey::Long(s.to_string());
     }
+    let mut b = [0; 23];
+    b[0] = s.len() as u8;
+    b[1..=s.len()].copy_from_slice(s.as_bytes());
+    NameKey::Short(b)
 }
 
 impl NameIndex {
@@ -82,10 +76,7 @@ pub struct Gradings {
 impl Gradings {
     /// Rows of the wrong length (already reported by the caller) are padded or cut to `width`.
     pub fn new<'a>(width: usize, rows: impl Iterator<Item = &'a [i64]>) -> Gradings {
-        let mut flat = Vec::new();
-        for r in rows {
-            flat.extend((0..width).map(|i| r.get(i).copied().unwrap_or(0)));
-        }
+        let flat = rows.flat_map(|r| (0..width).map(|i| r.get(i).copied().unwrap_or(0))).collect();
         Gradings { width, flat }
     }
     pub fn iter(&self) -> impl Iterator<Item = &[i64]> {
@@ -111,14 +102,25 @@ pub struct Complex {
     pub defects: Vec<String>,
 }
 
-#[derive(Debug)]
+impl Complex {
+    pub fn new(name: String, names: Vec<String>, gradings: Gradings, d: SparseMap) -> Complex {
+        Complex { name, index: NameIndex::new(names.iter()), names, gradings, d, defects: Vec::new() }
+    }
+}
+
+/// A declared map, or one computed from an expression (then without defects).
+#[derive(Debug, Clone)]
 pub struct Map {
     pub from: usize,
     pub to: usize,
     pub degree: Grading,
     pub m: SparseMap,
+    /// Terms that are not homogeneous of the map's degree.
     pub defects: Vec<String>,
 }
+
+/// A map computed from an expression or a witness, with its source, target and degree.
+pub type Evaluated = Map;
 
 #[derive(Debug)]
 pub struct Context {
@@ -165,18 +167,6 @@ impl Work {
     pub fn refused(&self) -> Option<&String> {
         self.refused.get()
     }
-    pub fn used(&self) -> u64 {
-        self.used.load(Relaxed)
-    }
-}
-
-/// A map computed from an expression or a witness, with its source, target and degree.
-#[derive(Debug, Clone)]
-pub struct Evaluated {
-    pub from: usize,
-    pub to: usize,
-    pub degree: Grading,
-    pub m: SparseMap,
 }
 
 pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
@@ -193,76 +183,6 @@ pub fn in_two_halves<T: Send>(n: usize, f: impl Fn(std::ops::Range<usize>) -> T 
         let second = s.spawn(|| f(n / 2..n));
         vec![f(0..n / 2), second.join().expect("the work of each half does not panic")]
     })
-}
-
-/// Resolves names and coefficients of `terms` (numbered from `offset` + 1 in messages):
-/// the triples (from, to, monomial), structural errors, non-homogeneous terms.
-#[allow(clippy::too_many_arguments, clippy::type_complexity)]
-fn resolve(
-    ring: &RingInfo,
-    src: &Complex,
-    dst: &Complex,
-    degree: &[i64],
-    terms: &[Term],
-    offset: usize,
-    what: &str,
-    single_monomial: bool,
-    hints: usize,
-) -> (Vec<(u32, u32, Mono)>, Vec<String>, Vec<String>) {
-    let (mut triples, mut errs, mut defects) = (Vec::with_capacity(terms.len()), Vec::new(), Vec::new());
-    let lookup = |c: &Complex, n: &str, errs: &mut Vec<String>, pos: usize| {
-        let found = c.index.get(n);
-        if found.is_none() && errs.len() <= MAX_REPORTED_ERRORS {
-            let hint = if errs.len() < hints { suggest(n, c.names.iter()) } else { String::new() };
-            errs.push(format!("{what}, term {pos}: generator \"{n}\" is not in complex {}{hint}", c.name));
-        }
-        found
-    };
-    let mut last_from: Option<(&str, u32)> = None; // terms come grouped by source: look up once
-    for (k, [from, coef, to]) in terms.iter().enumerate() {
-        let pos = offset + k + 1;
-        let x = match last_from {
-            Some((name, i)) if name == from => Some(i),
-            _ => lookup(src, from, &mut errs, pos),
-        };
-        last_from = x.map(|i| (from.as_str(), i));
-        let y = lookup(dst, to, &mut errs, pos);
-        // (first monomial, the rest): a single monomial, the common case, allocates nothing.
-        let monos = if single_monomial || !coef.contains('+') {
-            parse_mono(coef, &ring.variables).map(|m| (m, Vec::new()))
-        } else {
-            parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec()))
-        };
-        let (first, rest) = match monos {
-            Ok(m) => m,
-            Err(e) => {
-                if errs.len() <= MAX_REPORTED_ERRORS {
-                    errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
-                }
-                continue;
-            }
-        };
-        let (Some(x), Some(y)) = (x, y) else { continue };
-        let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
-        for m in std::iter::once(first).chain(rest) {
-            // deg(to) + deg(m) = deg(from) + degree, compared without allocating (hot loop).
-            let n = ring.gradings.len();
-            let homogeneous = [gx.len(), gy.len(), degree.len()] == [n; 3]
-                && (0..n).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
-            if !homogeneous && defects.len() < MAX_REPORTED_ERRORS {
-                let (expected, found) = (grading_sum(gx, degree), grading_sum(gy, &ring.degree(m)));
-                defects.push(format!(
-                    "{what}, term {pos} [{from}, {coef}, {to}]: not homogeneous: {} · {to} has degree {}, expected {} (degree of {from} plus {})",
-                    m.render(&ring.variables),
-                    render_grading(&found),
-                    render_grading(&expected),
-                    render_grading(&degree.to_vec())
-                ));
-            }
-            triples.push((x, y, m));
-        }
-    }
-    (triples, errs, defects)
 }
 
 /// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` of degree `degree`.
@@ -284,15 +204,64 @@ pub fn read_terms(
         errs.push(format!("{what}: {} terms, above the limit {MAX_TERMS}", terms.len()));
         return (map, Vec::new());
     }
-    // Name lookups dominate loading a large complex: two halves on the machine's two cores.
-    let hints = errs.1;
-    let parts = in_two_halves(terms.len(), |r| {
-        resolve(ring, src, dst, degree, &terms[r.clone()], r.start, what, single_monomial, hints)
-    });
+    let (n, hints) = (ring.gradings.len(), errs.1);
+    // The terms of `range`: the triples (from, to, monomial), structural errors, non-homogeneous
+    // terms. Name lookups dominate loading a large complex: two halves on the machine's two cores.
+    let resolve = |range: std::ops::Range<usize>| {
+        let (mut triples, mut errs, mut defects) = (Vec::with_capacity(range.len()), Errors(vec![], hints), vec![]);
+        let lookup = |c: &Complex, name: &str, errs: &mut Errors, pos: usize| {
+            let found = c.index.get(name);
+            if found.is_none() {
+                let hint = if errs.0.len() < errs.1 { suggest(name, c.names.iter()) } else { String::new() };
+                errs.push(format!("{what}, term {pos}: generator \"{name}\" is not in complex {}{hint}", c.name));
+            }
+            found
+        };
+        let mut last_from: Option<(&str, u32)> = None; // terms come grouped by source: look up once
+        for (pos, [from, coef, to]) in (range.start + 1..).zip(&terms[range]) {
+            let x = match last_from {
+                Some((name, i)) if name == from => Some(i),
+                _ => lookup(src, from, &mut errs, pos),
+            };
+            last_from = x.map(|i| (from.as_str(), i));
+            let y = lookup(dst, to, &mut errs, pos);
+            // (first monomial, the rest): a single monomial, the common case, allocates nothing.
+            let monos = if single_monomial || !coef.contains('+') {
+                parse_mono(coef, &ring.variables).map(|m| (m, Vec::new()))
+            } else {
+                parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec()))
+            };
+            let (first, rest) = match monos {
+                Ok(m) => m,
+                Err(e) => {
+                    errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}"));
+                    continue;
+                }
+            };
+            let (Some(x), Some(y)) = (x, y) else { continue };
+            let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
+            for m in std::iter::once(first).chain(rest) {
+                // deg(to) + deg(m) = deg(from) + degree, compared without allocating (hot loop).
+                let homogeneous = [gx.len(), gy.len(), degree.len()] == [n; 3]
+                    && (0..n).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
+                if !homogeneous && defects.len() < MAX_REPORTED_ERRORS {
+                    defects.push(format!(
+                        "{what}, term {pos} [{from}, {coef}, {to}]: not homogeneous: {} · {to} has degree {}, expected {} (degree of {from} plus {})",
+                        m.render(&ring.variables),
+                        render_grading(&grading_sum(gy, &ring.degree(m))),
+                        render_grading(&grading_sum(gx, degree)),
+                        render_grading(&degree.to_vec())
+                    ));
+                }
+                triples.push((x, y, m));
+            }
+        }
+        (triples, errs, defects)
+    };
     let mut defects = Vec::new();
-    for (triples, part_errs, part_defects) in parts {
-        errs.1 = errs.1.saturating_sub(part_errs.len());
-        part_errs.into_iter().for_each(|e| errs.push(e));
+    for (triples, part_errs, part_defects) in in_two_halves(terms.len(), resolve) {
+        errs.1 = errs.1.saturating_sub(part_errs.0.len());
+        part_errs.0.into_iter().for_each(|e| errs.push(e));
         defects.extend(part_defects);
         for (x, y, m) in triples {
             map.rows[x as usize].push((y, m));
@@ -311,45 +280,33 @@ pub fn read_terms(
 }
 
 pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut Errors) -> Complex {
-    let empty = UniqueMap::default();
+    let (empty, n) = (UniqueMap::default(), ring.gradings.len());
     let gens = if spec.generators.len() > MAX_GENERATORS {
         errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", spec.generators.len()));
         &empty // read no further
     } else {
         &spec.generators
     };
-    let mut c = Complex {
-        name: name.to_string(),
-        names: gens.keys().cloned().collect(),
-        index: NameIndex::new(gens.keys()),
-        gradings: Gradings::new(ring.gradings.len(), gens.values().map(|g| g.as_slice())),
-        d: SparseMap::zero(0),
-        defects: Vec::new(),
-    };
-    let mut well_graded = true;
+    let gradings = Gradings::new(n, gens.values().map(|g| g.as_slice()));
+    let mut c = Complex::new(name.to_string(), gens.keys().cloned().collect(), gradings, SparseMap::zero(0));
     for (g, gr) in gens.iter() {
         if let Err(e) = check_name(g) {
             errs.push(format!("complex {name}, generator {e}"));
         }
         if !gr.iter().all(|&x| grading_in_bounds(x)) {
-            well_graded = false;
             errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
-        } else if gr.len() != ring.gradings.len() {
-            well_graded = false;
+        } else if gr.len() != n {
             errs.push(format!(
-                "complex {name}, generator \"{g}\": grading {} has {} entries, expected {} ({})",
+                "complex {name}, generator \"{g}\": grading {} has {} entries, expected {n} ({})",
                 render_grading(gr),
                 gr.len(),
-                ring.gradings.len(),
                 ring.gradings.join(", ")
             ));
         }
     }
-    if well_graded {
+    if gens.values().all(|gr| gr.len() == n && gr.iter().all(|&x| grading_in_bounds(x))) {
         let what = format!("complex {name}, differential");
-        let (d, defects) = read_terms(ring, &c, &c, &ring.differential_degree, &spec.differential, &what, false, errs);
-        c.d = d;
-        c.defects = defects;
+        (c.d, c.defects) = read_terms(ring, &c, &c, &ring.differential_degree, &spec.differential, &what, false, errs);
     }
     c
 }
@@ -381,23 +338,11 @@ pub fn load_lenient(
         return Err(bad);
     }
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
-    let complexes: Vec<Complex> = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
-    let complex_index: BTreeMap<String, usize> =
-        complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
-    let mut ctx = Context {
-        ring,
-        complexes,
-        complex_index,
-        maps: Vec::new(),
-        map_index: BTreeMap::new(),
-        work: Work::new(u64::MAX),
-        hints: AtomicUsize::new(errs.1),
-    };
+    let complexes = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
+    let mut ctx = Context::new(ring, complexes, Work::new(u64::MAX), errs.1);
     for (name, spec) in maps.iter() {
         let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
-        let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else {
-            continue;
-        };
+        let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else { continue };
         if spec.degree.len() != ctx.ring.gradings.len() || !spec.degree.iter().all(|&x| grading_in_bounds(x)) {
             errs.push(format!(
                 "map {name}: degree must have {} entries within ±{MAX_GRADING_ABS}, found {}",
@@ -406,8 +351,7 @@ pub fn load_lenient(
             ));
             continue;
         }
-        let what = format!("map {name}");
-        let (c, d) = (&ctx.complexes[from], &ctx.complexes[to]);
+        let (what, c, d) = (format!("map {name}"), &ctx.complexes[from], &ctx.complexes[to]);
         errs.1 = ctx.hints.load(Relaxed);
         let (m, defects) = read_terms(&ctx.ring, c, d, &spec.degree, &spec.terms, &what, false, &mut errs);
         ctx.hints.store(errs.1, Relaxed);
@@ -418,51 +362,61 @@ pub fn load_lenient(
 }
 
 impl Context {
+    /// The context of `complexes` over `ring`, without maps.
+    fn new(ring: RingInfo, complexes: Vec<Complex>, work: Work, hints: usize) -> Context {
+        let complex_index = complexes.iter().enumerate().map(|(i, c)| (c.name.clone(), i)).collect();
+        let (maps, map_index, hints) = (Vec::new(), BTreeMap::new(), AtomicUsize::new(hints));
+        Context { ring, complexes, complex_index, maps, map_index, work, hints }
+    }
+
     /// "Did you mean" for an unknown name, while this file has suggestions left.
     pub fn hint<'a>(&self, name: &str, known: impl Iterator<Item = &'a String> + Clone) -> String {
         let left = self.hints.fetch_update(Relaxed, Relaxed, |h| h.checked_sub(1));
         left.map_or(String::new(), |_| suggest(name, known))
     }
 
+    /// The index of the complex or map `name` in `index`, or why there is none.
+    fn named(&self, kind: &str, index: &BTreeMap<String, usize>, name: &str) -> Result<usize, String> {
+        let found = index.get(name).copied();
+        found.ok_or_else(|| format!("{kind} \"{name}\" is not declared{}", self.hint(name, index.keys())))
+    }
+
     pub fn complex_named(&self, name: &str) -> Result<usize, String> {
-        let found = self.complex_index.get(name).copied();
-        found.ok_or_else(|| format!("complex \"{name}\" is not declared{}", self.hint(name, self.complex_index.keys())))
+        self.named("complex", &self.complex_index, name)
+    }
+
+    pub fn map_named(&self, name: &str) -> Result<usize, String> {
+        self.named("map", &self.map_index, name)
     }
 
     /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
     pub fn eval(&self, e: &MapExpr) -> Result<Evaluated, String> {
         match e {
             MapExpr::Named(n) => {
-                let &i = self
-                    .map_index
-                    .get(n)
-                    .ok_or_else(|| format!("map \"{n}\" is not declared{}", self.hint(n, self.map_index.keys())))?;
-                let m = &self.maps[i];
+                let m = &self.maps[self.map_named(n)?];
                 self.work.spend(m.m.size(), &format!("a copy of map {n}"))?;
-                Ok(Evaluated { from: m.from, to: m.to, degree: m.degree.clone(), m: m.m.clone() })
+                Ok(Map { defects: Vec::new(), ..m.clone() })
             }
             MapExpr::Id(c) => {
                 let c = self.complex_named(c)?;
                 let n = self.complexes[c].names.len();
                 self.work.spend(n as u64, "an identity map")?;
-                Ok(Evaluated { from: c, to: c, degree: vec![0; self.ring.gradings.len()], m: SparseMap::identity(n) })
+                let degree = vec![0; self.ring.gradings.len()];
+                Ok(Map { from: c, to: c, degree, m: SparseMap::identity(n), defects: Vec::new() })
             }
             MapExpr::Times(mono, inner) => {
                 let m = parse_mono(mono, &self.ring.variables)?;
                 let v = self.eval(inner)?;
                 self.work.spend(v.m.size(), "a multiple of a map")?;
-                Ok(Evaluated { degree: grading_sum(&v.degree, &self.ring.degree(m)), m: v.m.times(m)?, ..v })
+                Ok(Map { degree: grading_sum(&v.degree, &self.ring.degree(m)), m: v.m.times(m)?, ..v })
             }
             MapExpr::Sum(es) => {
                 let mut acc = self.eval(&es[0])?;
                 for e in &es[1..] {
                     let v = self.eval(e)?;
                     if (v.from, v.to, &v.degree) != (acc.from, acc.to, &acc.degree) {
-                        return Err(format!(
-                            "sum of maps with different source, target or degree: {} vs {}",
-                            self.signature(&acc),
-                            self.signature(&v)
-                        ));
+                        let (a, b) = (self.signature(&acc), self.signature(&v));
+                        return Err(format!("sum of maps with different source, target or degree: {a} vs {b}"));
                     }
                     self.work.spend(acc.m.size().saturating_add(v.m.size()), "a sum of maps")?;
                     acc.m = acc.m.plus(&v.m);
@@ -474,19 +428,12 @@ impl Context {
                 for e in es.iter().rev().skip(1) {
                     let outer = self.eval(e)?;
                     if outer.from != acc.to {
-                        return Err(format!(
-                            "composition {} after {}: target and source differ",
-                            self.signature(&outer),
-                            self.signature(&acc)
-                        ));
+                        let (a, b) = (self.signature(&outer), self.signature(&acc));
+                        return Err(format!("composition {a} after {b}: target and source differ"));
                     }
                     self.work.spend(outer.m.work_after(&acc.m), "a composition of maps")?;
-                    acc = Evaluated {
-                        from: acc.from,
-                        to: outer.to,
-                        degree: grading_sum(&acc.degree, &outer.degree),
-                        m: outer.m.after(&acc.m)?,
-                    };
+                    let degree = grading_sum(&acc.degree, &outer.degree);
+                    acc = Map { to: outer.to, degree, m: outer.m.after(&acc.m)?, ..acc };
                 }
                 Ok(acc)
             }
@@ -494,68 +441,31 @@ impl Context {
     }
 
     pub fn signature(&self, v: &Evaluated) -> String {
-        format!(
-            "{} → {} of degree {}",
-            self.complexes[v.from].name,
-            self.complexes[v.to].name,
-            render_grading(&v.degree)
-        )
+        let (from, to) = (&self.complexes[v.from].name, &self.complexes[v.to].name);
+        format!("{from} → {to} of degree {}", render_grading(&v.degree))
     }
-}
 
-impl Context {
-    /// Complex c with the variable `var` set to `value`: 0 gives the quotient C/(var), 1 the
-    /// localization C/(var − 1), over the ring in the other variable. Setting var to 1 keeps
-    /// only the gradings var does not change (the others stop being gradings). A context of its
-    /// own, holding just that complex, so every check on one complex applies to it unchanged.
-    pub fn specialized(&self, c: usize, var: &str, value: u32) -> Result<Context, String> {
-        let r = &self.ring;
-        let v = r.var_index(var).ok_or_else(|| format!("variable {var} is not declared"))?;
-        let keep: Vec<usize> = (0..r.gradings.len()).filter(|&i| value == 0 || r.var_degrees[v][i] == 0).collect();
-        let others: Vec<usize> = (0..r.num_vars()).filter(|&i| i != v).collect();
-        if keep.is_empty() || value > 1 {
-            return Err(format!("{var} = {value} leaves no grading"));
-        }
-        let pick = |g: &[i64]| keep.iter().map(|&i| g[i]).collect::<Grading>();
-        let ring = RingInfo {
-            variables: others.iter().map(|&i| r.variables[i].clone()).collect(),
-            gradings: keep.iter().map(|&i| r.gradings[i].clone()).collect(),
-            var_degrees: others.iter().map(|&i| pick(&r.var_degrees[i])).collect(),
-            differential_degree: pick(&r.differential_degree),
-        };
-        let relabel = |m: Mono| {
-            let mut out = Mono::ONE;
-            others.iter().enumerate().for_each(|(k, &i)| out.0[k] = m.0[i]);
-            out
+    /// Complex c with the variable `var` set to 0: the quotient C/(var), over the ring in the
+    /// other variable, with the same gradings. A context of its own, holding just that complex,
+    /// so every check on one complex applies to it unchanged (∂∂ = 0 and homogeneity are checked
+    /// on C itself).
+    pub fn quotient(&self, c: usize, var: &str) -> Result<Context, String> {
+        let v = self.ring.var_index(var).ok_or_else(|| format!("variable {var} is not declared"))?;
+        let mut ring = self.ring.clone();
+        ring.variables.remove(v);
+        ring.var_degrees.remove(v);
+        // The terms kept have exponent 0 in var, which moves to the last, unused place: the
+        // order of the terms and their distinctness are kept.
+        let relabel = |Mono(mut e): Mono| {
+            e[v..].rotate_left(1);
+            Mono(e)
         };
         let cx = &self.complexes[c];
-        let rows = cx.d.rows.iter().map(|row| {
-            let mut out: Vec<(u32, Mono)> =
-                row.iter().filter(|t| value == 1 || t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect();
-            crate::algebra::normalize(&mut out);
-            out
-        });
-        let gradings: Vec<Grading> = cx.gradings.iter().map(pick).collect();
-        let name = format!("{}/({var}{})", cx.name, if value == 1 { " − 1" } else { "" });
-        let complex = Complex {
-            name: name.clone(),
-            names: cx.names.clone(),
-            index: NameIndex::new(cx.names.iter()),
-            gradings: Gradings::new(keep.len(), gradings.iter().map(|g| g.as_slice())),
-            d: SparseMap { rows: rows.collect() },
-            defects: cx.defects.clone(),
-        };
-        let complex_index = BTreeMap::from([(name, 0)]);
+        let rows =
+            cx.d.rows.iter().map(|r| r.iter().filter(|t| t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect());
+        let d = SparseMap { rows: rows.collect() };
+        let complex = Complex::new(format!("{}/({var})", cx.name), cx.names.clone(), cx.gradings.clone(), d);
         // The quotient is no larger than the complex: its checks get the same budget again.
-        let (work, hints) = (Work::new(self.work.limit), AtomicUsize::new(0));
-        Ok(Context {
-            ring,
-            complexes: vec![complex],
-            complex_index,
-            maps: vec![],
-            map_index: BTreeMap::new(),
-            work,
-            hints,
-        })
+        Ok(Context::new(ring, vec![complex], Work::new(self.work.limit), 0))
     }
 }

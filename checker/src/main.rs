@@ -115,15 +115,12 @@ fn main() -> ExitCode {
         .iter()
         .filter(|h| !outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h.trim()))))
         .collect();
-    let style = if args.json {
-        Style::Json
-    } else {
-        match args.report.as_deref() {
-            None => Style::Text,
-            Some("md") => Style::Markdown,
-            _ if args.standalone => Style::LatexDocument,
-            _ => Style::Latex,
-        }
+    let style = match (args.json, args.report.as_deref()) {
+        (true, _) => Style::Json,
+        (_, None) => Style::Text,
+        (_, Some("md")) => Style::Markdown,
+        _ if args.standalone => Style::LatexDocument,
+        _ => Style::Latex,
     };
     report_cli::print(&outcomes, style, &missing, !args.expect.is_empty());
     if outcomes.iter().any(|(_, o)| o.is_err()) {

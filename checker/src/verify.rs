@@ -10,7 +10,9 @@ use std::collections::BTreeMap;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr};
-use tubecert_format::{BasisWitness, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
+use tubecert_format::{
+    BasisWitness, Body, Claim, ComplexSpec, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION,
+};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -145,13 +147,22 @@ pub struct Decomposition {
     pub torsion: Vec<(u32, Grading)>,
 }
 
-/// Checks a change of basis B, B⁻¹ and that B⁻¹∂B is in normal form; returns H_*.
-pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decomposition, String> {
+/// Checks a change of basis B, B⁻¹ and that B⁻¹∂B is in normal form; returns H_*. With `var`,
+/// of the quotient C/(var) (over `F2[U,V]`, a PID).
+pub fn check_homology(
+    ctx: &Context,
+    c: usize,
+    var: Option<&String>,
+    w: &BasisWitness,
+) -> Result<Decomposition, String> {
+    if let Some(v) = var {
+        return check_homology(&ctx.quotient(c, v)?, 0, None, w);
+    }
     if ctx.ring.num_vars() > 1 {
         return Err("homology claims need a PID: F2 or F2[U]".into());
     }
     let old = &ctx.complexes[c];
-    let spec = tubecert_format::ComplexSpec { generators: w.generators.clone(), differential: vec![] };
+    let spec = ComplexSpec { generators: w.generators.clone(), differential: vec![] };
     let mut errs = Errors::default();
     let zero = vec![0; ctx.ring.gradings.len()];
     let read = [w.generators.len(), w.basis.len(), w.inverse.len(), old.names.len()];
@@ -173,32 +184,21 @@ pub fn check_homology(ctx: &Context, c: usize, w: &BasisWitness) -> Result<Decom
     let db = old.d.after(&b)?;
     ctx.work.spend(binv.work_after(&db), "B⁻¹∂B")?;
     let dnew = binv.after(&db)?;
-    let n = new.names.len();
-    let (mut source, mut target) = (vec![false; n], vec![false; n]);
+    let (nf, mut target) = ("∂ in the new basis is not in normal form", vec![false; new.names.len()]);
     for (a, row) in dnew.rows.iter().enumerate() {
         match row.as_slice() {
             [] => {}
-            [(t, _)] if !target[*t as usize] => {
-                source[a] = true;
-                target[*t as usize] = true;
-            }
-            _ => return Err(format!("∂ in the new basis is not in normal form at {}", new.names[a])),
+            [(t, _)] if !target[*t as usize] => target[*t as usize] = true,
+            _ => return Err(format!("{nf} at {}", new.names[a])),
         }
     }
     let mut dec = Decomposition { free: vec![], torsion: vec![] };
     for (a, row) in dnew.rows.iter().enumerate() {
-        if source[a] && target[a] {
-            return Err(format!(
-                "∂ in the new basis is not in normal form: {} is both hit and not a cycle",
-                new.names[a]
-            ));
-        }
-        if let [(t, m)] = row.as_slice() {
-            if m.0[0] > 0 {
-                dec.torsion.push((m.0[0], new.gradings[*t as usize].to_vec()));
-            }
-        } else if !target[a] {
-            dec.free.push(new.gradings[a].to_vec());
+        match row.as_slice() {
+            [_] if target[a] => return Err(format!("{nf}: {} is both hit and not a cycle", new.names[a])),
+            [(t, m)] if m.0[0] > 0 => dec.torsion.push((m.0[0], new.gradings[*t as usize].to_vec())),
+            [] if !target[a] => dec.free.push(new.gradings[a].to_vec()),
+            _ => {}
         }
     }
     dec.free.sort();
@@ -282,51 +282,40 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
     let mut facts = BTreeMap::new();
     match claim {
         Claim::Complex { complex, .. } => check_complex(ctx, ctx.complex_named(complex)?)?,
-        Claim::ChainMap { map, .. } => {
-            let &i = ctx.map_index.get(map).ok_or_else(|| format!("map \"{map}\" is not declared"))?;
-            check_chain_map(ctx, i)?
-        }
+        Claim::ChainMap { map, .. } => check_chain_map(ctx, ctx.map_named(map)?)?,
         Claim::NullHomotopic { map, witness, .. } => check_null_homotopic(ctx, &ctx.eval(map)?, &witness.homotopy)?,
         Claim::NotNullHomotopic { map, witness, .. } => check_not_null_homotopic(ctx, &ctx.eval(map)?, &witness.dual)?,
         Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
-            let (fe, ge) = (ctx.eval(&MapExpr::Named(f.clone()))?, ctx.eval(&MapExpr::Named(g.clone()))?);
+            let named = |n: &String| MapExpr::Named(n.clone());
+            let (fe, ge) = (ctx.eval(&named(f))?, ctx.eval(&named(g))?);
             if fe.to != ge.from || ge.to != fe.from || grading_sum(&fe.degree, &ge.degree).iter().any(|&x| x != 0) {
                 return Err(format!("{f} and {g} are not maps C → D and D → C of opposite degrees"));
             }
-            let round_trip = |a: &str, b: &str, on: usize| {
-                let name = ctx.complexes[on].name.clone();
-                MapExpr::Sum(vec![
-                    MapExpr::Compose(vec![MapExpr::Named(b.into()), MapExpr::Named(a.into())]),
-                    MapExpr::Id(name),
-                ])
-            };
-            check_null_homotopic(ctx, &ctx.eval(&round_trip(f, g, fe.from))?, &witness.source_homotopy)
-                .map_err(|e| format!("g∘f + id: {e}"))?;
-            check_null_homotopic(ctx, &ctx.eval(&round_trip(g, f, fe.to))?, &witness.target_homotopy)
-                .map_err(|e| format!("f∘g + id: {e}"))?;
+            let sides =
+                [(f, g, fe.from, &witness.source_homotopy, "g∘f"), (g, f, fe.to, &witness.target_homotopy, "f∘g")];
+            for (a, b, on, h, what) in sides {
+                let id = MapExpr::Id(ctx.complexes[on].name.clone());
+                let round_trip = MapExpr::Sum(vec![MapExpr::Compose(vec![named(b), named(a)]), id]);
+                check_null_homotopic(ctx, &ctx.eval(&round_trip)?, h).map_err(|e| format!("{what} + id: {e}"))?;
+            }
         }
         Claim::Homology { complex, free, torsion, witness, .. } => {
-            let dec = check_homology(ctx, ctx.complex_named(complex)?, witness)?;
-            if (&dec.free, &dec.torsion) != (free, torsion) {
-                return Err(format!(
-                    "the basis shows free part {:?} and torsion {:?}, not what is claimed",
-                    dec.free, dec.torsion
-                ));
+            let Decomposition { free: f, torsion: t } =
+                check_homology(ctx, ctx.complex_named(complex)?, None, witness)?;
+            if (&f, &t) != (free, torsion) {
+                return Err(format!("the basis shows free part {f:?} and torsion {t:?}, not what is claimed"));
             }
-            facts.insert("free_rank".into(), json!(dec.free.len()));
-            facts.insert("free".into(), json!(dec.free));
-            facts.insert("torsion".into(), json!(dec.torsion));
+            facts.insert("free_rank".into(), json!(f.len()));
+            facts.insert("free".into(), json!(f));
+            facts.insert("torsion".into(), json!(t));
         }
         Claim::TorsionOrderOfComplex { complex, variable, order, witness, .. } => {
             let c = ctx.complex_named(complex)?;
-            // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
-            let other = vars.iter().find(|v| *v != variable).filter(|_| vars.len() == 2);
-            let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
-            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
-            if hctx.ring.variables.first() != Some(variable) {
+            if !vars.contains(variable) {
                 return Err(format!("variable {variable} is not the ring's variable"));
             }
-            let dec = check_homology(hctx, hc, witness)?;
+            // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
+            let dec = check_homology(ctx, c, vars.iter().find(|v| *v != variable), witness)?;
             let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
             if found != *order {
                 return Err(format!("the basis shows torsion order {found}, not {order}"));
@@ -336,27 +325,22 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
         Claim::Tau { complex, alexander, tau, witness, .. } => {
             let c = ctx.complex_named(complex)?;
             let alex = alexander_of(&ctx.ring, alexander)?;
-            let two = vars.len() == 2;
             // Version 1 did not name the grading: read it only where the words cannot mislead.
             let choices = ctx.ring.var_degrees.first().map_or(0, |d| d.iter().filter(|&&d| d == -1).count());
-            if !two && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1) {
+            if vars.len() < 2 && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1)
+            {
                 return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
             }
-            let quotient = if two { Some(ctx.specialized(c, &vars[1], 0)?) } else { None };
-            let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
-            let dec = check_homology(hctx, hc, witness)?;
+            let dec = check_homology(ctx, c, vars.get(1), witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
             };
-            if two && (g[0] - g[1]) % 2 != 0 {
+            if vars.len() == 2 && (g[0] - g[1]) % 2 != 0 {
                 return Err("the free generator has gr_U − gr_V odd: no Alexander grading".into());
             }
             if -alex(g) != *tau {
-                return Err(format!(
-                    "the free generator has Alexander grading {}, so τ = {}, not {tau}",
-                    alex(g),
-                    -alex(g)
-                ));
+                let a = alex(g);
+                return Err(format!("the free generator has Alexander grading {a}, so τ = {}, not {tau}", -a));
             }
             facts.insert("tau".into(), json!(tau));
         }
@@ -364,17 +348,14 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             if ctx.ring.var_index(variable).is_none() {
                 return Err(format!("variable {variable} is not declared"));
             }
-            parse_mono(variable, vars)?;
             let at = |k: u32| MapExpr::scaled_difference(f, g, variable, k);
             check_null_homotopic(ctx, &ctx.eval(&at(*order))?, &witness.homotopy)
                 .map_err(|e| format!("{} ≃ 0: {e}", render_expr(&at(*order))))?;
             match (order, &witness.dual) {
                 (0, None) => {}
                 (0, Some(_)) => return Err("order 0 takes no dual witness".into()),
-                (k, Some(y)) => {
-                    check_not_null_homotopic(ctx, &ctx.eval(&at(k - 1))?, y)
-                        .map_err(|e| format!("{} ≄ 0: {e}", render_expr(&at(k - 1))))?;
-                }
+                (k, Some(y)) => check_not_null_homotopic(ctx, &ctx.eval(&at(k - 1))?, y)
+                    .map_err(|e| format!("{} ≄ 0: {e}", render_expr(&at(k - 1))))?,
                 (_, None) => return Err("order ≥ 1 needs a dual witness for the order below".into()),
             }
             facts.insert("order".into(), json!(order));
@@ -387,43 +368,39 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
     Ok(facts)
 }
 
-/// The numbers a claim states are read under the bounds every other number is read under
+/// The numbers the claims state are read under the bounds every other number is read under
 /// (orders are exponents; gradings and τ are gradings), so no claim speaks of a number that
 /// the arithmetic could not represent.
-fn numbers_in_bounds(claim: &Claim) -> Result<(), String> {
+fn claims_in_bounds(body: &Body) -> Result<(), Vec<String>> {
     use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT, MAX_GRADING_ABS};
-    let (orders, gradings): (Vec<u32>, Vec<i64>) = match claim {
-        Claim::Homology { free, torsion, .. } => (
-            torsion.iter().map(|t| t.0).collect(),
-            free.iter().chain(torsion.iter().map(|t| &t.1)).flatten().copied().collect(),
-        ),
-        Claim::TorsionOrder { order, .. } | Claim::TorsionOrderOfComplex { order, .. } => (vec![*order], vec![]),
-        Claim::Tau { tau, .. } => (vec![], vec![*tau]),
-        _ => (vec![], vec![]),
+    let in_bounds = |claim: &Claim| {
+        let (orders, gradings): (Vec<u32>, Vec<i64>) = match claim {
+            Claim::Homology { free, torsion, .. } => (
+                torsion.iter().map(|t| t.0).collect(),
+                free.iter().chain(torsion.iter().map(|t| &t.1)).flatten().copied().collect(),
+            ),
+            Claim::TorsionOrder { order, .. } | Claim::TorsionOrderOfComplex { order, .. } => (vec![*order], vec![]),
+            Claim::Tau { tau, .. } => (vec![], vec![*tau]),
+            _ => (vec![], vec![]),
+        };
+        orders.iter().all(|&k| k <= MAX_EXPONENT) && gradings.iter().all(|&x| grading_in_bounds(x))
     };
-    if orders.iter().any(|&k| k > MAX_EXPONENT) || !gradings.iter().all(|&x| grading_in_bounds(x)) {
-        return Err(format!(
-            "claim \"{}\": a number is beyond the limits (orders at most {MAX_EXPONENT}, gradings and τ within ±{MAX_GRADING_ABS})",
-            claim.kind()
-        ));
-    }
-    Ok(())
+    let out_of_bounds: Vec<String> = body.claims.iter().filter(|c| !in_bounds(c)).map(|c| format!(
+        "claim \"{}\": a number is beyond the limits (orders at most {MAX_EXPONENT}, gradings and τ within ±{MAX_GRADING_ABS})",
+        c.kind()
+    )).collect();
+    out_of_bounds.is_empty().then_some(()).ok_or(out_of_bounds)
 }
 
 /// The implicit checks: every declared complex and map.
 pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
-    let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| ClaimResult {
-        kind: claim.kind().into(),
-        statement: render(&claim, &ctx.ring, CERTIFICATE_VERSION) + &suffix,
-        implicit: true,
-        outcome: outcome.map(|_| BTreeMap::new()),
+    let implicit = |claim: Claim, suffix: String, outcome: Result<(), String>| {
+        let statement = render(&claim, &ctx.ring, CERTIFICATE_VERSION) + &suffix;
+        ClaimResult { kind: claim.kind().into(), statement, implicit: true, outcome: outcome.map(|_| BTreeMap::new()) }
     };
     let complexes = ctx.complexes.iter().enumerate().map(|(i, c)| {
-        implicit(
-            Claim::Complex { complex: c.name.clone(), statement: String::new() },
-            String::new(),
-            check_complex(ctx, i),
-        )
+        let claim = Claim::Complex { complex: c.name.clone(), statement: String::new() };
+        implicit(claim, String::new(), check_complex(ctx, i))
     });
     let maps = ctx.map_index.iter().map(|(name, &i)| {
         let (from, to) = (&ctx.complexes[ctx.maps[i].from].name, &ctx.complexes[ctx.maps[i].to].name);
@@ -433,23 +410,10 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
     complexes.chain(maps).collect()
 }
 
-fn claims_in_bounds(body: &tubecert_format::Body) -> Result<(), Vec<String>> {
-    let out_of_bounds: Vec<String> = body.claims.iter().filter_map(|c| numbers_in_bounds(c).err()).collect();
-    if out_of_bounds.is_empty() {
-        Ok(())
-    } else {
-        Err(out_of_bounds)
-    }
-}
-
 /// Verifies a whole body of a certificate of format `version` within `work_limit` units of
 /// work (`limits::work_limit` of the file's size): implicit object checks, then each claim. A
 /// file whose checks need more is refused (`Err`), not failed.
-pub fn check_body(
-    body: &tubecert_format::Body,
-    version: u32,
-    work_limit: u64,
-) -> Result<Vec<ClaimResult>, Vec<String>> {
+pub fn check_body(body: &Body, version: u32, work_limit: u64) -> Result<Vec<ClaimResult>, Vec<String>> {
     claims_in_bounds(body)?; // before loading: these errors come first
     let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     ctx.work = crate::load::Work::new(work_limit);
@@ -462,7 +426,7 @@ pub fn check_body(
 pub fn check_loaded(
     ctx: Context,
     implicit: Option<Vec<ClaimResult>>,
-    body: &tubecert_format::Body,
+    body: &Body,
     version: u32,
 ) -> Result<Vec<ClaimResult>, Vec<String>> {
     use crate::bordered::{Failure, Objects};
@@ -524,8 +488,8 @@ pub fn check_loaded(
 
 /// The number of written items (generators, terms, families, claims) of a body: the work
 /// budget of the bordered checks is proportional to it.
-fn written_items(body: &tubecert_format::Body) -> u64 {
-    let cx = |c: &tubecert_format::ComplexSpec| c.generators.len() + c.differential.len();
+fn written_items(body: &Body) -> u64 {
+    let cx = |c: &ComplexSpec| c.generators.len() + c.differential.len();
     let mut n = body.claims.len() + body.complexes.values().map(cx).sum::<usize>();
     n += body.maps.values().map(|m| m.terms.len()).sum::<usize>();
     if let Some(b) = &body.bordered {

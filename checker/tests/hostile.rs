@@ -191,3 +191,17 @@ fn a_huge_max_length_is_refused_not_overflowed() {
     let v = verdict(2, body(2, json!({}), json!({}), bordered, claims));
     assert!(!matches!(v, Ok(true)), "{v:?}");
 }
+
+/// M ⊠ N is a complex only when N is a type D structure: a `box_tensor` claim whose N no
+/// `type_d_structure` claim checks is refused (exit 2), as one whose M no `type_a_module`
+/// claim covers.
+#[test]
+fn a_box_tensor_product_needs_its_structure_checked() {
+    let (version, mut b) = stored("cable-by-p1");
+    b["claims"]
+        .as_array_mut()
+        .unwrap()
+        .retain(|c| c["kind"] != "type_d_structure" || c["structure"] != "KC.complement");
+    let v = verdict(version, serde_json::from_value(b).unwrap());
+    assert!(v.as_ref().is_err_and(|e| e.contains("KC.complement") && e.contains("type_d_structure claim")), "{v:?}");
+}

@@ -110,7 +110,7 @@ pub fn homology_witness(ctx: &Context, c: usize) -> Result<(BasisWitness, Decomp
 pub fn tau_witness(ctx: &Context, c: usize, alexander: &str) -> Result<(BasisWitness, i64), String> {
     let name = &ctx.complexes[c].name;
     let two = ctx.ring.num_vars() == 2;
-    let quotient = if two { Some(ctx.specialized(c, &ctx.ring.variables[1], 0)?) } else { None };
+    let quotient = if two { Some(ctx.quotient(c, &ctx.ring.variables[1])?) } else { None };
     let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
     let alex = tubecheck::verify::alexander_of(&ctx.ring, alexander)?;
     let (witness, Decomposition { free, .. }) = homology_witness(hctx, hc)?;
@@ -268,7 +268,7 @@ impl Builder<'_> {
                 let c = ctx.complex_named(complex)?;
                 // Over F2[U,V]: the quotient by the other variable, as the checker reads it.
                 let other = ctx.ring.variables.iter().find(|v| *v != variable).filter(|_| ctx.ring.num_vars() == 2);
-                let quotient = other.map(|o| ctx.specialized(c, o, 0)).transpose()?;
+                let quotient = other.map(|o| ctx.quotient(c, o)).transpose()?;
                 let (hctx, hc) = quotient.as_ref().map_or((ctx, c), |q| (q, 0));
                 let (witness, Decomposition { torsion, .. }) = homology_witness(hctx, hc)?;
                 let order = torsion.iter().map(|t| t.0).max().unwrap_or(0);

@@ -144,14 +144,6 @@ pub fn full_ring() -> Ring {
     }
 }
 
-/// The minus ring the bordered claims need: `F2[U]`, two gradings, deg U = (−2, −1), deg ∂ = (−1, 0).
-pub fn is_minus_ring(r: &Ring) -> bool {
-    r.variables == ["U"]
-        && r.gradings.len() == 2
-        && r.variable_degrees.get("U") == Some(&vec![-2, -1])
-        && r.differential_degree == [-1, 0]
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -12,7 +12,7 @@ use serde_json::Value;
 use std::cell::Cell;
 use std::collections::BTreeMap;
 use tubecert_format::bordered::{
-    full_ring, is_minus_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
+    full_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
 };
 use tubecert_format::{
     Claim, ComplexSpec, EquivalenceWitness, Grading, HatWitness, MapHatWitness, MapSpec, Ring, UniqueMap,
@@ -65,6 +65,14 @@ impl Built {
         };
         Some((section, claims))
     }
+}
+
+/// The minus ring the bordered claims need: `F2[U]`, two gradings, deg U = (−2, −1), deg ∂ = (−1, 0).
+fn is_minus_ring(r: &Ring) -> bool {
+    r.variables == ["U"]
+        && r.gradings.len() == 2
+        && r.variable_degrees.get("U") == Some(&vec![-2, -1])
+        && r.differential_degree == [-1, 0]
 }
 
 fn failure(f: Failure) -> String {
@@ -257,7 +265,7 @@ pub fn box_tensor_map(
     let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
     let b = budget();
-    let (gens, rows, _) = checked::tensor_map(&b, &ma, &fm, &nd, &nd2, true).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_map(&b, &ma, &nd, Some((&fm, &nd2)), true).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
