@@ -89,7 +89,7 @@ pub struct MapSpec {
 /// A map expression: `"F"`, `{"id": C}`, `{"sum": [...]}`, `{"compose": [outer, ..., inner]}`,
 /// `{"times": [monomial, e]}`.
 /// Serialized by the derive (a name as a bare string, the rest as one-key objects); read by
-/// [`ExprVisitor`], which names what is wrong, then bounded in nesting and size.
+/// `ExprVisitor`, which names what is wrong, then bounded in nesting and size.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum MapExpr {
