@@ -265,7 +265,7 @@ fn as_version(mut body: Body, version: u32) -> Value {
     }
     let ring = tubecert_format::RingInfo::new(&body.ring).unwrap();
     for c in &mut body.claims {
-        *c.statement_mut() = tubecert_format::statement::render(c, &ring, version);
+        *tubecert::prove::statement_mut(c) = tubecert_format::statement::render(c, &ring, version);
     }
     let mut cert: Value = serde_json::from_slice(&seal(body)).unwrap();
     cert["version"] = json!(version);
@@ -281,7 +281,8 @@ fn failed_in(cert: &Value) -> Vec<String> {
 fn restate(b: &mut Body) {
     let ring = tubecert_format::RingInfo::new(&b.ring).unwrap();
     for c in &mut b.claims {
-        *c.statement_mut() = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
+        *tubecert::prove::statement_mut(c) =
+            tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
     }
 }
 

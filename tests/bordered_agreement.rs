@@ -37,7 +37,7 @@ fn reseal(cert: &Value, body: Value) -> Option<Value> {
     let ring = tubecert_format::RingInfo::new(&typed.ring).ok()?;
     for c in typed.claims.iter_mut() {
         let text = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
-        *c.statement_mut() = text;
+        *tubecert::prove::statement_mut(c) = text;
     }
     let sha = tubecert_format::canonical::canonical_sha256(&typed).ok()?;
     let mut out = cert.clone();

@@ -93,7 +93,7 @@ fn gens(body: &Body, c: &str) -> Vec<String> {
 fn restate(body: &mut Body, i: usize, version: u32) {
     if let Ok(ring) = tubecert_format::RingInfo::new(&body.ring) {
         let text = tubecert_format::statement::render(&body.claims[i], &ring, version);
-        *body.claims[i].statement_mut() = text;
+        *tubecert::prove::statement_mut(&mut body.claims[i]) = text;
     }
 }
 

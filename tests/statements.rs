@@ -343,7 +343,7 @@ fn fields(c: &Claim) -> Claim {
         }
         // Bordered claims have no witness: every field but the statement is read.
         mut bordered => {
-            *bordered.statement_mut() = st();
+            *tubecert::prove::statement_mut(&mut bordered) = st();
             bordered
         }
     }
@@ -635,13 +635,13 @@ fn tau_names_its_grading_when_the_ring_has_another() {
     // The version-1 wording "τ(T) = -2" names no grading: over this ring it is refused.
     let mut old = b.certificate.clone();
     old.version = 1;
-    *old.body.claims[0].statement_mut() = "τ(T) = -2".into();
+    *tubecert::prove::statement_mut(&mut old.body.claims[0]) = "τ(T) = -2".into();
     let bytes = serde_json::to_vec(&old).unwrap();
     let report = tubecheck::check_bytes("v1", &bytes).unwrap();
     assert!(!report.ok(), "a version-1 τ statement that names no grading verified over two candidates");
     // Nor may a version-2 statement leave it out.
     let mut short = b.certificate.clone();
-    *short.body.claims[0].statement_mut() = "τ(T) = -2".into();
+    *tubecert::prove::statement_mut(&mut short.body.claims[0]) = "τ(T) = -2".into();
     short.sha256 = tubecert_format::canonical::canonical_sha256(&short.body).unwrap();
     assert!(!tubecheck::check_bytes("v2", &serde_json::to_vec(&short).unwrap()).unwrap().ok());
 }

@@ -88,8 +88,8 @@ fn dense_compositions_many_claims_and_wide_sums_are_refused() {
 fn producer_validation_and_constructions_are_bounded() {
     let check_input = |file: &str, bytes: &[u8], limit: &str| refused("tubecert", &["check-input"], file, bytes, limit);
     check_input("hub.problem.json", &bombs::hub_problem(10_000), "limits::work_limit");
-    check_input("tower.problem.txt", &bombs::tensor_tower(5), "limits::CONSTRUCTED_BASE");
-    check_input("maps.problem.json", &bombs::tensor_maps(20_000), "limits::CONSTRUCTED_BASE");
+    check_input("tower.problem.txt", &bombs::tensor_tower(5), "construct::CONSTRUCTED_BASE");
+    check_input("maps.problem.json", &bombs::tensor_maps(20_000), "construct::CONSTRUCTED_BASE");
     let (code, text, took) = run("tubecert", &["check-input"], "goals.problem.json", &bombs::unknown_goal_names(3_000));
     assert_eq!(code, 2, "{text}");
     assert!(took < Duration::from_secs(5), "{took:?}");

@@ -6,8 +6,9 @@
 //! LaTeX: [`latex`] is a fragment to `\input` (it needs `amsmath` and `amssymb`);
 //! [`latex_document`] wraps fragments into a whole document (`--standalone`).
 
+use crate::report_text::{BORDERED_SCOPE, SCOPE};
 use crate::FileReport;
-use tubecert_format::statement::{render_expr, render_grading, ring_name, BORDERED_SCOPE, SCOPE};
+use tubecert_format::statement::{render_expr, render_grading, ring_name};
 use tubecert_format::{Claim, MapExpr, Term};
 
 /// Rows (source generators) of a witness written out; beyond, the rest are counted.

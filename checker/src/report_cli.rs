@@ -1,9 +1,9 @@
 //! What the command line prints: per-file reports in the chosen style, errors, totals.
 //! Presentation only; exit codes are decided in `main.rs` from the same outcomes.
 
+use crate::report_text::{BORDERED_SCOPE, SCOPE};
 use crate::{report_appendix, report_json, report_text, FileReport};
 use std::io::{ErrorKind, Write};
-use tubecert_format::statement::{BORDERED_SCOPE, SCOPE};
 
 /// Writes `text` to standard output. A reader that went away early (`| head -1`) is not an
 /// error: the exit code still carries the verdict, so printing just stops. Any other write

@@ -4,8 +4,12 @@
 
 use crate::algebra::{normalize, Vector};
 use crate::load::Context;
-use tubecert_format::limits::{MAX_SUGGESTED_NAME, MAX_SUGGESTION_CANDIDATES};
 use tubecert_format::Mono;
+
+/// "Did you mean": for names of at most this many characters, among at most
+/// [`MAX_SUGGESTION_CANDIDATES`] known names.
+pub const MAX_SUGGESTED_NAME: usize = 32;
+pub const MAX_SUGGESTION_CANDIDATES: usize = 10_000;
 
 /// A close known name, for "did you mean". Bounded work: only for names of at most
 /// [`MAX_SUGGESTED_NAME`] characters, among at most [`MAX_SUGGESTION_CANDIDATES`] known names
@@ -49,7 +53,7 @@ pub fn render_vector(ctx: &Context, c: usize, v: &[(u32, Mono)]) -> String {
     }
     let names = &ctx.complexes[c].names;
     let term = |&(g, m): &(u32, Mono)| {
-        if m.is_one() {
+        if m == Mono::ONE {
             names[g as usize].clone()
         } else {
             format!("{}·{}", m.render(&ctx.ring.variables), names[g as usize])

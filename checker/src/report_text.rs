@@ -82,8 +82,66 @@ pub fn render(r: &FileReport) -> String {
     s
 }
 
+/// What a claim's wording leaves out and a report must say: a version-4 box tensor product's
+/// Maslov normalization was a convention, and versions 2 and 3 normalize nothing, so the module's
+/// declared gradings fix the absolute ones (version 5 certifies both). The version is outside the
+/// hash: a later certificate can be restated as an earlier one, and is then reported as such.
+pub fn caveat(claim: &Claim, version: u32) -> &'static str {
+    match claim {
+        Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. } => match version {
+            4 => " [format version 4: the Maslov normalization is by convention, not certified]",
+            3 => " [format version 3: the gradings are not normalized; their absolute values are not certified]",
+            2 => " [format version 2: the gradings are added, not normalized; their absolute values are not certified]",
+            _ => "",
+        },
+        _ => "",
+    }
+}
+
+/// The reading of a torsion-order claim about maps induced by surfaces, printed beside the
+/// statement (not part of it, so not hashed). With ord = k: U^(k−1)·(F − G) is not
+/// null-homotopic and U^k·(F − G) is, and each stabilization multiplies an induced map by the
+/// variable, so the maps differ through k − 1 stabilizations of each surface and agree from k on.
+pub fn surface_reading(variable: &str, order: u32) -> String {
+    const WHY: &str = "a stabilization multiplies the induced map by";
+    match order {
+        0 => "the two surfaces' induced maps are homotopic: this invariant does not tell them apart".into(),
+        1 => format!(
+            "the induced maps differ, so the surfaces are distinct; once each surface is stabilized, the maps agree up to homotopy ({WHY} {variable}; Juhász–Zemke), so this invariant cannot tell the stabilized surfaces apart"
+        ),
+        k => format!(
+            "the induced maps still differ after each surface is stabilized {} time{} ({WHY} {variable}; Juhász–Zemke), so the surfaces stay distinct through {} stabilization{}; after {k} stabilizations of each the maps agree up to homotopy, so from then on this invariant cannot tell them apart",
+            k - 1,
+            if k == 2 { "" } else { "s" },
+            k - 1,
+            if k == 2 { "" } else { "s" },
+        ),
+    }
+}
+
+/// What a certificate does and does not prove; printed by every report.
+pub const SCOPE: &str = "Scope: a certificate proves algebraic identities about the complexes and maps it contains. \
+It does not prove that they are the knot Floer complexes or the surface-induced maps of particular knots and surfaces.";
+
+/// What a certificate with bordered claims does and does not prove; printed when it has one.
+pub const BORDERED_SCOPE: &str = "Bordered claims: a box_tensor claim proves X = M ⊠ N exactly, with one side bounded (LOT §2.4), a complement claim that N is the type D structure LOT Thm 11.26 assigns to the complex C and the framing (with C's basis simultaneously simplified), or its bounded model where that one has a cycle (homotopy equivalent by the cancellation lemma, LOT §2), and the type_d_structure / type_a_module claims the structure relations. \
+That M is the type A module of a given pattern, that C is the complex of a given knot, and the pairing theorem CFK^-(P(K)) ≃ CFA^-(P) ⊠ CFD(X_K) (LOT Thm 11.21) are the paper's to argue and cite.";
+
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn each_order_reads_plainly() {
+        let one = surface_reading("U", 1);
+        assert!(one.starts_with("the induced maps differ, so the surfaces are distinct;"), "{one}");
+        assert!(!one.contains("0 stabilization") && !one.contains("all this invariant"), "{one}");
+        let two = surface_reading("U", 2);
+        assert!(two.contains("stabilized 1 time (") && two.contains("through 1 stabilization;"), "{two}");
+        assert!(two.contains("after 2 stabilizations of each the maps agree"), "{two}");
+        let five = surface_reading("V", 5);
+        assert!(five.contains("stabilized 4 times (") && five.contains("by V;"), "{five}");
+        assert!(surface_reading("U", 0).contains("homotopic"));
+    }
+
     use super::*;
 
     #[test]

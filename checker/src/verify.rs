@@ -4,11 +4,12 @@
 use crate::algebra::{normalize, SparseMap};
 use crate::load::{grading_sum, in_two_halves, read_complex, read_terms, Context, Errors, Evaluated, Work};
 use crate::report_terms::{compare, render_vector};
+use crate::report_text::surface_reading;
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{caveat, render, render_expr, surface_reading};
+use tubecert_format::statement::{render, render_expr};
 use tubecert_format::{
     BasisWitness, Body, Claim, ComplexSpec, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION,
 };
@@ -426,9 +427,13 @@ pub fn check_loaded(
             Some(Err(Failure::False(e))) => Err(e),
             Some(Ok(facts)) => Ok(facts),
         };
-        // What the fields say: a statement that differs is not shown as if it were checked.
-        let statement = render(claim, &ctx.ring, version) + caveat(claim, version);
-        out.push(ClaimResult { kind: claim.kind().into(), statement, implicit: false, outcome });
+        out.push(ClaimResult {
+            kind: claim.kind().into(),
+            // What the fields say: a statement that differs is not shown as if it were checked.
+            statement: render(claim, &ctx.ring, version) + crate::report_text::caveat(claim, version),
+            implicit: false,
+            outcome,
+        });
     }
     refused(&ctx).map(|_| out)
 }

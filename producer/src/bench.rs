@@ -154,7 +154,7 @@ impl Model {
 }
 
 fn term(x: String, m: Mono, y: String) -> [String; 3] {
-    [x, if m.is_one() { "1".into() } else { format!("U^{}", m.0[0]) }, y]
+    [x, if m == Mono::ONE { "1".into() } else { format!("U^{}", m.0[0]) }, y]
 }
 
 /// The synthetic problem: maps O → K with K of about `n` generators, or, with `source_n`,

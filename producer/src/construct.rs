@@ -211,7 +211,13 @@ pub fn direct_sum(
     Ok(ComplexSpec { generators: distinct(generators)?, differential: diff })
 }
 
-/// How many generators and terms constructions may still make (`limits::CONSTRUCTED_BASE`):
+/// Generators and terms that the constructions (staircase, tensor, dual, shift, sum, cone,
+/// quotient, tensor of maps) may make in one problem: this many per generator or term written
+/// out in the problem, plus [`CONSTRUCTED_BASE`]; checked before each is built.
+pub const CONSTRUCTED_PER_ENTRY: u64 = 4;
+pub const CONSTRUCTED_BASE: u64 = 4_000_000;
+
+/// How many generators and terms constructions may still make ([`CONSTRUCTED_BASE`]):
 /// each construction counts its result's size before building it, so a few lines cannot ask
 /// for a tensor tower of 10^12 generators.
 struct Made(u64);
@@ -220,9 +226,7 @@ impl Made {
     fn take(&mut self, n: u64, what: &str) -> Result<(), String> {
         self.0 = self.0.checked_sub(n).ok_or_else(|| {
             format!(
-                "{what} would make {n} generators and terms, beyond what the constructions of this problem may make (limits::CONSTRUCTED_BASE {} + {} per generator or term written out)",
-                tubecert_format::limits::CONSTRUCTED_BASE,
-                tubecert_format::limits::CONSTRUCTED_PER_ENTRY
+                "{what} would make {n} generators and terms, beyond what the constructions of this problem may make (construct::CONSTRUCTED_BASE {CONSTRUCTED_BASE} + {CONSTRUCTED_PER_ENTRY} per generator or term written out)"
             )
         })?;
         Ok(())
@@ -277,7 +281,7 @@ pub fn resolve(
 ) -> Result<(Complexes, BTreeMap<String, MapSpec>, Built), Vec<String>> {
     // The ring's degrees enter the constructions' arithmetic (cones): checked first.
     tubecert_format::RingInfo::new(ring)?;
-    use tubecert_format::limits::{CONSTRUCTED_BASE, CONSTRUCTED_PER_ENTRY, MAX_SUGGESTIONS};
+    use tubecert_format::limits::MAX_SUGGESTIONS;
     let mut made =
         Made(CONSTRUCTED_BASE.saturating_add(CONSTRUCTED_PER_ENTRY.saturating_mul(written_entries(complexes, maps))));
     let mut done: Complexes = BTreeMap::new();

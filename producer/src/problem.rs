@@ -283,7 +283,8 @@ pub fn from_written(mut w: WrittenProblem) -> Result<Problem, Vec<String>> {
     let (bordered, mut bordered_claims) = built.finish().map_or((None, Vec::new()), |(b, c)| (Some(b), c));
     if let Ok(ring) = tubecert_format::RingInfo::new(&w.ring) {
         for c in &mut bordered_claims {
-            *c.statement_mut() = tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
+            *crate::prove::statement_mut(c) =
+                tubecert_format::statement::render(c, &ring, tubecert_format::CERTIFICATE_VERSION);
         }
     }
     Ok(Problem {

@@ -11,13 +11,14 @@ use crate::search::torsion::{torsion_order, TorsionOutcome};
 use std::time::{Duration, Instant};
 use tubecert_format::canonical::sha256_hex;
 use tubecert_format::poly::parse_mono;
-use tubecert_format::statement::{render, surface_reading};
+use tubecert_format::statement::render;
 use tubecert_format::{
     BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,
     MapSpec, Mono, Provenance, Term, TorsionWitness, UniqueMap, CERTIFICATE_VERSION,
 };
 use tubecheck::algebra::SparseMap;
 use tubecheck::load::Context;
+use tubecheck::report_text::surface_reading;
 use tubecheck::verify::Decomposition;
 
 /// What proving a problem gave.
@@ -33,6 +34,28 @@ pub struct Proved {
     /// Time per stage (reduce, solve, transport, self-check with the SHA-256 beside it, the
     /// canonical body written), for the bench.
     pub timings: Vec<(&'static str, Duration)>,
+}
+
+/// The `statement` field of any claim, to be filled in with [`render`]'s wording (the checker
+/// only reads it, so this lives here).
+pub fn statement_mut(claim: &mut Claim) -> &mut String {
+    match claim {
+        Claim::Complex { statement, .. }
+        | Claim::ChainMap { statement, .. }
+        | Claim::NullHomotopic { statement, .. }
+        | Claim::NotNullHomotopic { statement, .. }
+        | Claim::HomotopyEquivalence { statement, .. }
+        | Claim::Homology { statement, .. }
+        | Claim::TorsionOrder { statement, .. }
+        | Claim::TorsionOrderOfComplex { statement, .. }
+        | Claim::Tau { statement, .. }
+        | Claim::TypeDStructure { statement, .. }
+        | Claim::TypeAModule { statement, .. }
+        | Claim::TypeDMorphism { statement, .. }
+        | Claim::BoxTensor { statement, .. }
+        | Claim::BoxTensorMap { statement, .. }
+        | Claim::Complement { statement, .. } => statement,
+    }
 }
 
 /// Terms `[from, coefficient, to]` from triples, grouped into polynomial coefficients.
@@ -74,7 +97,7 @@ pub fn homology_witness(ctx: &Context, c: usize) -> Result<(BasisWitness, Decomp
     let mut torsion: Vec<(u32, Vec<i64>)> = nf
         .pairs
         .iter()
-        .filter(|p| !p.2.is_one())
+        .filter(|p| p.2 != tubecert_format::Mono::ONE)
         .map(|&(_, b, m)| (m.0[0], cx.gradings[b as usize].to_vec()))
         .collect();
     free.sort();
@@ -143,7 +166,7 @@ impl Builder<'_> {
 
     fn add(&mut self, mut claim: Claim) -> String {
         let text = render(&claim, &self.ctx.ring, CERTIFICATE_VERSION);
-        *claim.statement_mut() = text.clone();
+        *statement_mut(&mut claim) = text.clone();
         self.claims.push(claim);
         text
     }

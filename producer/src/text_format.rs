@@ -879,7 +879,9 @@ fn map_expression(line: &Line, col: usize, text: &str) -> Result<Value, String> 
 /// would not read back as the same expression (e.g. a sum of one part, which validation refuses
 /// with its own message).
 fn map_expression_text(e: &Value) -> String {
-    let text = tubecert_format::MapExpr::from_value(e).ok().map(|m| tubecert_format::statement::render_expr(&m));
+    let text = <tubecert_format::MapExpr as serde::Deserialize>::deserialize(e)
+        .ok()
+        .map(|m| tubecert_format::statement::render_expr(&m));
     match text {
         Some(t) if map_expression(&Line { no: 0, text: &t }, 1, &t).as_ref() == Ok(e) => t,
         _ => e.to_string(),

@@ -10,7 +10,7 @@ use tubecheck::verify::{check_chain_map, check_complex};
 
 /// The size of a problem written out in full, in bytes (about): what its work limit is
 /// measured by, as a certificate's is by its file size, so that constructions count at the
-/// size they expand to (itself bounded by `limits::CONSTRUCTED_BASE`).
+/// size they expand to (itself bounded by `construct::CONSTRUCTED_BASE`).
 pub fn written_size(p: &Problem) -> u64 {
     let term = |t: &[String; 3]| 10 + t.iter().map(|s| s.len() as u64).sum::<u64>();
     let complexes = p.complexes.iter().map(|(n, c)| {

@@ -51,11 +51,8 @@ pub fn write_canonical(value: &Value, out: &mut Vec<u8>) -> Result<(), String> {
 }
 
 /// Lower-case hex SHA-256 of the canonical form of any serializable value.
-pub fn canonical_sha256<T: serde::Serialize>(value: &T) -> Result<String, String> {
-    let v = serde_json::to_value(value).map_err(|e| e.to_string())?;
-    let mut bytes = Vec::new();
-    write_canonical(&v, &mut bytes)?;
-    Ok(sha256_hex(&bytes))
+pub fn canonical_sha256<T: serde::Serialize>(v: &T) -> Result<String, String> {
+    Ok(sha256_hex(&value(v)?))
 }
 
 /// The canonical hash of a certificate body, fast: complexes and maps (the bulk of a large

@@ -46,14 +46,6 @@ pub const WORK_BASE: u64 = 1 << 24;
 pub fn work_limit(bytes: u64) -> u64 {
     WORK_BASE.saturating_add(WORK_PER_BYTE.saturating_mul(bytes))
 }
-/// Generators and terms that the producer's constructions (staircase, tensor, dual, shift,
-/// sum, cone, quotient, tensor of maps) may make in one problem: this many per generator or
-/// term written out in the problem, plus [`CONSTRUCTED_BASE`]; checked before each is built.
-pub const CONSTRUCTED_PER_ENTRY: u64 = 4;
-pub const CONSTRUCTED_BASE: u64 = 4_000_000;
-/// "Did you mean": for names of at most this many characters, among at most
-/// [`MAX_SUGGESTION_CANDIDATES`] known names, for the first [`MAX_SUGGESTIONS`] unknown names
-/// of a file.
-pub const MAX_SUGGESTED_NAME: usize = 32;
-pub const MAX_SUGGESTION_CANDIDATES: usize = 10_000;
+/// "Did you mean" is offered for the first this many unknown names of a file (and bounded
+/// further in `tubecheck::report_terms`).
 pub const MAX_SUGGESTIONS: usize = 10;

@@ -3,9 +3,9 @@
 //! error, so the typed value is a faithful copy of the file and its canonical hash is the hash
 //! of what the file says.
 
+use crate::limits::{MAX_EXPR_DEPTH, MAX_EXPR_NODES, MAX_NAME_LEN};
 use serde::de::{self, Deserializer, MapAccess, Visitor};
 use serde::{Deserialize, Serialize};
-use serde_json::Value;
 use std::collections::BTreeMap;
 use std::fmt;
 
@@ -17,15 +17,9 @@ pub type Grading = Vec<i64>;
 pub type Term = [String; 3];
 
 /// A JSON object whose keys must be distinct (serde_json would silently keep the last).
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
 #[serde(transparent)]
 pub struct UniqueMap<V>(pub BTreeMap<String, V>);
-
-impl<V> Default for UniqueMap<V> {
-    fn default() -> Self {
-        UniqueMap(BTreeMap::new())
-    }
-}
 
 impl<V> std::ops::Deref for UniqueMap<V> {
     type Target = BTreeMap<String, V>;
@@ -36,31 +30,29 @@ impl<V> std::ops::Deref for UniqueMap<V> {
 
 impl<'de, V: Deserialize<'de>> Deserialize<'de> for UniqueMap<V> {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        struct V2<V>(std::marker::PhantomData<V>);
-        impl<'de, V: Deserialize<'de>> Visitor<'de> for V2<V> {
-            type Value = UniqueMap<V>;
-            fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-                f.write_str("an object with distinct keys")
+        d.deserialize_map(UniqueMap(BTreeMap::new()))
+    }
+}
+
+/// The map read so far is the visitor: each key is checked before its value is read.
+impl<'de, V: Deserialize<'de>> Visitor<'de> for UniqueMap<V> {
+    type Value = Self;
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("an object with distinct keys")
+    }
+    fn visit_map<A: MapAccess<'de>>(mut self, mut a: A) -> Result<Self, A::Error> {
+        while let Some(k) = a.next_key::<String>()? {
+            if k.len() > MAX_NAME_LEN {
+                let shown = &k[..k.char_indices().nth(20).map_or(k.len(), |c| c.0)];
+                return Err(de::Error::custom(format!("name \"{shown}…\" is longer than {MAX_NAME_LEN} bytes")));
             }
-            fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<Self::Value, A::Error> {
-                let mut out = BTreeMap::new();
-                while let Some(k) = a.next_key::<String>()? {
-                    if k.len() > crate::limits::MAX_NAME_LEN {
-                        return Err(de::Error::custom(format!(
-                            "name \"{}…\" is longer than {} bytes",
-                            &k[..k.char_indices().nth(20).map_or(k.len(), |c| c.0)],
-                            crate::limits::MAX_NAME_LEN
-                        )));
-                    }
-                    let v = a.next_value()?;
-                    if out.insert(k.clone(), v).is_some() {
-                        return Err(de::Error::custom(format!("duplicate name \"{k}\"")));
-                    }
-                }
-                Ok(UniqueMap(out))
+            if self.0.contains_key(&k) {
+                return Err(de::Error::custom(format!("duplicate name \"{k}\"")));
             }
+            let v = a.next_value()?;
+            self.0.insert(k, v);
         }
-        d.deserialize_map(V2(std::marker::PhantomData))
+        Ok(self)
     }
 }
 
@@ -84,7 +76,7 @@ pub struct ComplexSpec {
 }
 
 /// An R-linear map between two declared complexes, homogeneous of `degree`.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct MapSpec {
     // Fields in sorted order, so serde's output is already canonical (see canonical::body_sha256).
@@ -97,7 +89,7 @@ pub struct MapSpec {
 /// A map expression: `"F"`, `{"id": C}`, `{"sum": [...]}`, `{"compose": [outer, ..., inner]}`,
 /// `{"times": [monomial, e]}`.
 /// Serialized by the derive (a name as a bare string, the rest as one-key objects); read by
-/// [`MapExpr::from_value`], which names what is wrong and bounds the nesting.
+/// `ExprVisitor`, which names what is wrong, then bounded in nesting and size.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum MapExpr {
@@ -120,104 +112,78 @@ impl MapExpr {
         }
     }
 
-    /// Reads an expression, naming what is wrong and refusing nesting deeper than the limit.
-    pub fn from_value(v: &Value) -> Result<MapExpr, String> {
-        let e = Self::from_value_at(v, 0)?;
-        if e.size() > crate::limits::MAX_EXPR_NODES {
-            return Err(format!("map expression has more than {} parts", crate::limits::MAX_EXPR_NODES));
-        }
-        Ok(e)
-    }
-
-    /// Number of names and operations.
-    pub fn size(&self) -> usize {
-        match self {
-            MapExpr::Named(_) | MapExpr::Id(_) => 1,
-            MapExpr::Sum(es) | MapExpr::Compose(es) => 1 + es.iter().map(|e| e.size()).sum::<usize>(),
-            MapExpr::Times(_, e) => 1 + e.size(),
-        }
-    }
-
-    fn from_value_at(v: &Value, depth: usize) -> Result<MapExpr, String> {
-        if depth > crate::limits::MAX_EXPR_DEPTH {
-            return Err(format!("map expression nested deeper than {}", crate::limits::MAX_EXPR_DEPTH));
-        }
-        let list = |x: &Value, what: &str| -> Result<Vec<MapExpr>, String> {
-            let items = x.as_array().ok_or_else(|| format!("\"{what}\" takes an array of map expressions"))?;
-            // One part would print like its own part (or a bracketed one): statements must
-            // read back as one expression.
-            if items.len() < 2 {
-                return Err(format!("\"{what}\" takes at least two map expressions"));
-            }
-            items.iter().map(|i| Self::from_value_at(i, depth + 1)).collect()
+    /// Number of names and operations, and depth of nesting (0 for a name).
+    fn extent(&self) -> (usize, usize) {
+        let parts: &[MapExpr] = match self {
+            MapExpr::Named(_) | MapExpr::Id(_) => &[],
+            MapExpr::Sum(es) | MapExpr::Compose(es) => es,
+            MapExpr::Times(_, e) => std::slice::from_ref(&**e),
         };
-        match v {
-            Value::String(s) => Ok(MapExpr::Named(s.clone())),
-            Value::Object(o) if o.len() == 1 => {
-                let (k, x) = o.iter().next().expect("one entry");
-                match k.as_str() {
-                    "id" => x
-                        .as_str()
-                        .map(|c| MapExpr::Id(c.to_string()))
-                        .ok_or_else(|| "\"id\" takes a complex name".into()),
-                    "sum" => Ok(MapExpr::Sum(list(x, "sum")?)),
-                    "compose" => Ok(MapExpr::Compose(list(x, "compose")?)),
-                    "times" => match x.as_array().map(|a| a.as_slice()) {
-                        Some([Value::String(m), e]) => {
-                            Ok(MapExpr::Times(m.clone(), Box::new(Self::from_value_at(e, depth + 1)?)))
-                        }
-                        _ => Err("\"times\" takes [monomial, map expression]".into()),
-                    },
-                    other => Err(format!("unknown map operation \"{other}\" (expected id, sum, compose or times)")),
-                }
-            }
-            _ => Err(format!("expected a map name or a one-key object (id, sum, compose, times), found {v}")),
-        }
+        parts.iter().map(MapExpr::extent).fold((1, 0), |(n, d), (m, e)| (n + m, d.max(e + 1)))
     }
 }
 
+/// Each nested expression is bounded when it is read; the file's own nesting limit (serde_json's)
+/// bounds the recursion before that.
 impl<'de> Deserialize<'de> for MapExpr {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let UniqueKeys(v) = UniqueKeys::deserialize(d)?;
-        MapExpr::from_value(&v).map_err(de::Error::custom)
+        let e = d.deserialize_any(ExprVisitor)?;
+        match e.extent() {
+            (_, depth) if depth > MAX_EXPR_DEPTH => {
+                Err(de::Error::custom(format!("map expression nested deeper than {MAX_EXPR_DEPTH}")))
+            }
+            (n, _) if n > MAX_EXPR_NODES => {
+                Err(de::Error::custom(format!("map expression has more than {MAX_EXPR_NODES} parts")))
+            }
+            _ => Ok(e),
+        }
     }
 }
 
-/// A map expression's JSON, read with a repeated key refused at every depth (a `Value` would
-/// silently keep the last, and the file would say two things). Strings, arrays and objects
-/// only: anything else, `null` included, is not part of an expression.
-struct UniqueKeys(Value);
+/// Reads a map expression from the file itself (not through a `Value`, which would silently
+/// keep the last of a repeated key): an operation is an object with exactly one key.
+struct ExprVisitor;
 
-impl<'de> Deserialize<'de> for UniqueKeys {
-    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        struct V;
-        impl<'de> Visitor<'de> for V {
-            type Value = UniqueKeys;
-            fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-                f.write_str("a map expression")
+impl<'de> Visitor<'de> for ExprVisitor {
+    type Value = MapExpr;
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("a map name or a one-key object (id, sum, compose, times)")
+    }
+    fn visit_str<E: de::Error>(self, s: &str) -> Result<MapExpr, E> {
+        Ok(MapExpr::Named(s.into()))
+    }
+    fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<MapExpr, A::Error> {
+        let Some(op) = a.next_key::<String>()? else { return Err(de::Error::invalid_length(0, &self)) };
+        let e = match op.as_str() {
+            "id" => MapExpr::Id(a.next_value()?),
+            "times" => {
+                let (m, e) = a.next_value()?;
+                MapExpr::Times(m, e)
             }
-            fn visit_str<E: de::Error>(self, s: &str) -> Result<UniqueKeys, E> {
-                Ok(UniqueKeys(Value::String(s.into())))
-            }
-            fn visit_seq<A: de::SeqAccess<'de>>(self, mut a: A) -> Result<UniqueKeys, A::Error> {
-                let mut items = Vec::new();
-                while let Some(UniqueKeys(x)) = a.next_element()? {
-                    items.push(x);
+            "sum" | "compose" => {
+                let es: Vec<MapExpr> = a.next_value()?;
+                // One part would print like its own part (or a bracketed one): statements must
+                // read back as one expression.
+                if es.len() < 2 {
+                    return Err(de::Error::custom(format!("\"{op}\" takes at least two map expressions")));
                 }
-                Ok(UniqueKeys(Value::Array(items)))
-            }
-            fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<UniqueKeys, A::Error> {
-                let mut m = serde_json::Map::new();
-                while let Some(k) = a.next_key::<String>()? {
-                    let UniqueKeys(x) = a.next_value()?;
-                    if m.insert(k.clone(), x).is_some() {
-                        return Err(de::Error::custom(format!("\"{k}\" appears twice in one map expression")));
-                    }
+                if op == "sum" {
+                    MapExpr::Sum(es)
+                } else {
+                    MapExpr::Compose(es)
                 }
-                Ok(UniqueKeys(Value::Object(m)))
             }
+            _ => {
+                let e = format!("unknown map operation \"{op}\" (expected id, sum, compose or times)");
+                return Err(de::Error::custom(e));
+            }
+        };
+        match a.next_key::<String>()? {
+            Some(k) => {
+                Err(de::Error::custom(format!("a map operation is a one-key object, found \"{op}\" and \"{k}\"")))
+            }
+            None => Ok(e),
         }
-        d.deserialize_any(V)
     }
 }
 
@@ -403,56 +369,34 @@ pub enum Claim {
     },
 }
 
-/// The `statement` field of any claim (one match for both borrows).
-macro_rules! statement_of {
-    ($claim:expr) => {
-        match $claim {
-            Claim::Complex { statement, .. }
-            | Claim::ChainMap { statement, .. }
-            | Claim::NullHomotopic { statement, .. }
-            | Claim::NotNullHomotopic { statement, .. }
-            | Claim::HomotopyEquivalence { statement, .. }
-            | Claim::Homology { statement, .. }
-            | Claim::TorsionOrder { statement, .. }
-            | Claim::TorsionOrderOfComplex { statement, .. }
-            | Claim::Tau { statement, .. }
-            | Claim::TypeDStructure { statement, .. }
-            | Claim::TypeAModule { statement, .. }
-            | Claim::TypeDMorphism { statement, .. }
-            | Claim::BoxTensor { statement, .. }
-            | Claim::BoxTensorMap { statement, .. }
-            | Claim::Complement { statement, .. } => statement,
-        }
-    };
-}
-
 impl Claim {
-    pub fn kind(&self) -> &'static str {
+    /// The `kind` member (serde's tag) and the statement, in one match.
+    fn parts(&self) -> (&'static str, &str) {
         match self {
-            Claim::Complex { .. } => "complex",
-            Claim::ChainMap { .. } => "chain_map",
-            Claim::NullHomotopic { .. } => "null_homotopic",
-            Claim::NotNullHomotopic { .. } => "not_null_homotopic",
-            Claim::HomotopyEquivalence { .. } => "homotopy_equivalence",
-            Claim::Homology { .. } => "homology",
-            Claim::TorsionOrder { .. } => "torsion_order",
-            Claim::TorsionOrderOfComplex { .. } => "torsion_order_of_complex",
-            Claim::Tau { .. } => "tau",
-            Claim::TypeDStructure { .. } => "type_d_structure",
-            Claim::TypeAModule { .. } => "type_a_module",
-            Claim::TypeDMorphism { .. } => "type_d_morphism",
-            Claim::BoxTensor { .. } => "box_tensor",
-            Claim::BoxTensorMap { .. } => "box_tensor_map",
-            Claim::Complement { .. } => "complement",
+            Claim::Complex { statement, .. } => ("complex", statement),
+            Claim::ChainMap { statement, .. } => ("chain_map", statement),
+            Claim::NullHomotopic { statement, .. } => ("null_homotopic", statement),
+            Claim::NotNullHomotopic { statement, .. } => ("not_null_homotopic", statement),
+            Claim::HomotopyEquivalence { statement, .. } => ("homotopy_equivalence", statement),
+            Claim::Homology { statement, .. } => ("homology", statement),
+            Claim::TorsionOrder { statement, .. } => ("torsion_order", statement),
+            Claim::TorsionOrderOfComplex { statement, .. } => ("torsion_order_of_complex", statement),
+            Claim::Tau { statement, .. } => ("tau", statement),
+            Claim::TypeDStructure { statement, .. } => ("type_d_structure", statement),
+            Claim::TypeAModule { statement, .. } => ("type_a_module", statement),
+            Claim::TypeDMorphism { statement, .. } => ("type_d_morphism", statement),
+            Claim::BoxTensor { statement, .. } => ("box_tensor", statement),
+            Claim::BoxTensorMap { statement, .. } => ("box_tensor_map", statement),
+            Claim::Complement { statement, .. } => ("complement", statement),
         }
+    }
+
+    pub fn kind(&self) -> &'static str {
+        self.parts().0
     }
 
     pub fn statement(&self) -> &str {
-        statement_of!(self)
-    }
-
-    pub fn statement_mut(&mut self) -> &mut String {
-        statement_of!(self)
+        self.parts().1
     }
 }
 

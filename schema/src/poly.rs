@@ -23,52 +23,31 @@ impl Mono {
         m
     }
 
-    /// Product, or `None` if an exponent would pass [`MAX_EXPONENT`].
+    /// Product, or `None` if an exponent would pass [`MAX_EXPONENT`] (a sum past `u32` saturates,
+    /// so it is past the limit too).
     pub fn checked_mul(self, other: Mono) -> Option<Mono> {
-        let mut out = Mono::ONE;
-        for i in 0..MAX_VARIABLES {
-            let e = self.0[i].checked_add(other.0[i])?;
-            if e > MAX_EXPONENT {
-                return None;
-            }
-            out.0[i] = e;
-        }
-        Some(out)
+        let m = Mono(std::array::from_fn(|i| self.0[i].saturating_add(other.0[i])));
+        m.0.iter().all(|&e| e <= MAX_EXPONENT).then_some(m)
     }
 
     /// `self / other` when `other` divides `self`.
     pub fn checked_div(self, other: Mono) -> Option<Mono> {
-        let mut out = Mono::ONE;
-        for i in 0..MAX_VARIABLES {
-            out.0[i] = self.0[i].checked_sub(other.0[i])?;
-        }
-        Some(out)
-    }
-
-    pub fn is_one(self) -> bool {
-        self == Mono::ONE
+        let divides = (0..MAX_VARIABLES).all(|i| other.0[i] <= self.0[i]);
+        divides.then(|| Mono(std::array::from_fn(|i| self.0[i] - other.0[i])))
     }
 
     /// Canonical written form, e.g. `U^2*V`, or `1`.
     pub fn render(self, variables: &[String]) -> String {
         let mut s = String::new();
-        for (i, name) in variables.iter().enumerate() {
-            let e = self.0[i];
-            if e == 0 {
-                continue;
-            }
-            if !s.is_empty() {
-                s.push('*');
-            }
-            s.push_str(name);
-            if e > 1 {
-                let _ = write!(s, "^{e}");
-            }
+        for (v, e) in variables.iter().zip(self.0).filter(|f| f.1 > 0) {
+            let sep = if s.is_empty() { "" } else { "*" };
+            let _ = if e == 1 { write!(s, "{sep}{v}") } else { write!(s, "{sep}{v}^{e}") };
         }
         if s.is_empty() {
-            s.push('1');
+            "1".into()
+        } else {
+            s
         }
-        s
     }
 }
 
@@ -93,9 +72,6 @@ pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String>
 
 /// Parses a single monomial (no `+`).
 pub fn parse_mono(text: &str, variables: &[String]) -> Result<Mono, String> {
-    if text == "1" {
-        return Ok(Mono::ONE); // the common case, at once
-    }
     if text.contains('+') {
         return Err(format!("\"{text}\": expected a single monomial, found a sum"));
     }

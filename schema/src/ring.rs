@@ -67,23 +67,17 @@ impl RingInfo {
             }
         }
         check_vector("ring: differential_degree", &ring.differential_degree, m, &mut errs);
-        if errs.is_empty() {
-            if let Some(why) = infinite_piece(&var_degrees) {
-                errs.push(format!(
-                    "ring: graded pieces would be infinite-dimensional ({why}); every variable must strictly lower a fixed positive combination of the gradings"
-                ));
-            }
+        if !errs.is_empty() {
+            return Err(errs);
         }
-        if errs.is_empty() {
-            Ok(RingInfo {
-                variables: ring.variables.clone(),
-                gradings: ring.gradings.clone(),
-                var_degrees,
-                differential_degree: ring.differential_degree.clone(),
-            })
-        } else {
-            Err(errs)
+        // Only now: `infinite_piece` reads the degree vectors as of one length.
+        if let Some(why) = infinite_piece(&var_degrees) {
+            return Err(vec![format!(
+                "ring: graded pieces would be infinite-dimensional ({why}); every variable must strictly lower a fixed positive combination of the gradings"
+            )]);
         }
+        let Ring { variables, gradings, differential_degree, .. } = ring.clone();
+        Ok(RingInfo { variables, gradings, var_degrees, differential_degree })
     }
 
     pub fn num_vars(&self) -> usize {
@@ -92,13 +86,7 @@ impl RingInfo {
 
     /// Degree of a monomial (exponents are bounded, so this cannot overflow).
     pub fn degree(&self, m: Mono) -> Grading {
-        let mut g = vec![0i64; self.gradings.len()];
-        for (i, d) in self.var_degrees.iter().enumerate() {
-            for (gj, dj) in g.iter_mut().zip(d) {
-                *gj += dj * m.0[i] as i64;
-            }
-        }
-        g
+        (0..self.gradings.len()).map(|i| self.degree_at(m, i)).collect()
     }
 
     /// Component i of the degree of a monomial.

@@ -133,10 +133,10 @@ pub fn quick_dual(
     phi: &SparseMap,
     degree: &[i64],
 ) -> Result<Option<Vec<HomTerm>>, String> {
-    let reduced = |k: &Complex| k.d.rows.iter().flatten().all(|t| !t.1.is_one());
+    let reduced = |k: &Complex| k.d.rows.iter().flatten().all(|t| t.1 != Mono::ONE);
     if reduced(c) && reduced(d) {
         let constant =
-            phi.rows.iter().enumerate().find_map(|(x, r)| r.iter().find(|t| t.1.is_one()).map(|t| (x as u32, t.0)));
+            phi.rows.iter().enumerate().find_map(|(x, r)| r.iter().find(|t| t.1 == Mono::ONE).map(|t| (x as u32, t.0)));
         if let Some((x, w)) = constant {
             return Ok(Some(vec![(x, Mono::ONE, w)]));
         }

@@ -319,7 +319,7 @@ fn pivot(
     let arrows = |a: u32, row: &Vector, old: Option<&Vector>, inc: &[Sources], into: &mut dyn FnMut(Key)| {
         for (i, &(b, m)) in row.iter().enumerate() {
             let single = (i == 0 || row[i - 1].0 != b) && row.get(i + 1).is_none_or(|t| t.0 != b);
-            if single && a != b && (!units || m.is_one()) && old.is_none_or(|o| only_term(o, b) != Some(m)) {
+            if single && a != b && (!units || m == Mono::ONE) && old.is_none_or(|o| only_term(o, b) != Some(m)) {
                 into(key(a, b, m, row.len(), inc[b as usize].len()));
             }
         }
@@ -347,7 +347,7 @@ fn pivot(
         others.clear();
         others.extend(inc[bu].iter().copied().filter(|&x| x != a));
         let divides = |row: &[(u32, Mono)]| row.iter().all(|t| t.1.checked_div(m).is_some());
-        if !m.is_one() && (!divides(&out[au]) || others.iter().any(|&x| !divides(terms_into(&out[x as usize], b)))) {
+        if m != Mono::ONE && (!divides(&out[au]) || others.iter().any(|&x| !divides(terms_into(&out[x as usize], b)))) {
             continue;
         }
         // Taken out while the other rows change (a is none of them), put back below.
