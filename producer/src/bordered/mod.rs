@@ -11,9 +11,7 @@ pub mod simplify;
 use serde_json::Value;
 use std::cell::Cell;
 use std::collections::BTreeMap;
-use tubecert_format::bordered::{
-    full_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec,
-};
+use tubecert_format::bordered::{full_ring, AGenerator, Bordered, Family, MorphismSpec, TypeASpec, TypeDSpec};
 use tubecert_format::{
     Claim, ComplexSpec, EquivalenceWitness, Grading, HatWitness, MapHatWitness, MapSpec, Ring, UniqueMap,
 };
