@@ -41,6 +41,7 @@ pub type Product = (Vec<Generator>, Rows, &'static str);
 
 /// A type D structure or a type A module, indexed: its generators (a structure's gradings are
 /// optional), and δ¹ (a structure's, sorted) or the families of operations (a module's).
+#[derive(Default)]
 pub struct Object {
     pub names: Vec<String>,
     pub index: BTreeMap<String, u32>,
@@ -56,8 +57,6 @@ pub struct Object {
     /// Terms whose idempotents do not match (the claim fails on the first).
     pub defects: Vec<String>,
 }
-pub type TypeD = Object;
-pub type TypeA = Object;
 
 /// One family m(from, prefix, repeat^n, suffix) ∋ U^(a·n+b)·to; `pattern` = prefix ++ repeat ++ suffix.
 pub struct Family {
@@ -81,15 +80,13 @@ pub struct Morphism {
 /// The loaded bordered section.
 pub struct Objects {
     pub full: Context,
-    pub structures: BTreeMap<String, TypeD>,
-    pub modules: BTreeMap<String, TypeA>,
+    pub structures: BTreeMap<String, Object>,
+    pub modules: BTreeMap<String, Object>,
     pub morphisms: BTreeMap<String, Morphism>,
     pub budget: Budget,
     /// (kind, object) of each `type_d_structure` and `type_a_module` claim, with the longest
     /// word length L a module's claims state (0 for a structure).
     pub claimed: BTreeMap<(&'static str, String), u32>,
-    /// Version 3 (gradings in the grading group).
-    pub group: bool,
 }
 
 /// Work units left: every check counts its work before doing it and refuses beyond. `longest`:
@@ -99,12 +96,8 @@ pub struct Budget(pub Cell<u64>, pub Cell<usize>, pub Cell<u64>);
 
 impl Budget {
     pub fn spend(&self, units: u64, what: &str) -> Result<(), Failure> {
-        let left = self.0.get().checked_sub(units).ok_or_else(|| {
-            Failure::Refused(format!(
-                "{what}: more work than the budget ({WORK_PER_ITEM} units per written item) allows"
-            ))
-        })?;
-        self.0.set(left);
+        let why = || format!("{what}: more work than the budget ({WORK_PER_ITEM} units per written item) allows");
+        self.0.set(self.0.get().checked_sub(units).ok_or_else(|| Failure::Refused(why()))?);
         Ok(())
     }
 }
@@ -206,10 +199,7 @@ fn read_generators<'a>(
             true => grading_ok(p, true, &format!("{what}, period"))?,
         }
     }
-    let (names, index, idem, grading) = (vec![], BTreeMap::new(), vec![], vec![]);
-    let (delta, families, out, defects) = (vec![], vec![], vec![], vec![]);
-    let period = gr_of(period.as_ref());
-    let mut o = Object { names, index, idem, grading, group, period, delta, families, out, defects };
+    let mut o = Object { group, period: gr_of(period.as_ref()), ..Default::default() };
     for (g, idem, grading) in gens {
         let what = format!("{what}, generator \"{g}\"");
         tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
@@ -229,7 +219,7 @@ fn read_generators<'a>(
 }
 
 /// Generators of a type D structure and its δ¹.
-pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<TypeD, String> {
+pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<Object, String> {
     let what = format!("type D structure {name}");
     let gens = spec.generators.iter().map(|(g, d)| (g, d.idempotent, d.grading.as_ref()));
     let mut d = read_generators(&what, gens, &spec.period, group)?;
@@ -266,7 +256,7 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
 }
 
 /// Generators of a type A module and its families of operations.
-pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<TypeA, String> {
+pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, String> {
     let what = format!("type A module {name}");
     let gens = spec.generators.iter().map(|(g, a)| (g, a.idempotent, Some(&a.grading)));
     let mut m = read_generators(&what, gens, &spec.period, group)?;
@@ -379,27 +369,23 @@ impl Objects {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
         }
         let full = crate::load::load(&b.full_ring, &b.full_complexes, &b.full_maps)?;
-        let structures: BTreeMap<String, TypeD> = b
-            .type_d_structures
-            .iter()
-            .map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?)))
-            .collect::<Result<_, String>>()
-            .map_err(|e| vec![e])?;
-        let modules: BTreeMap<String, TypeA> = b
-            .type_a_modules
-            .iter()
-            .map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?)))
-            .collect::<Result<_, String>>()
-            .map_err(|e| vec![e])?;
-        let mut morphisms = BTreeMap::new();
+        let one = |e: String| vec![e];
+        let (mut structures, mut modules, mut morphisms) = (BTreeMap::new(), BTreeMap::new(), BTreeMap::new());
+        for (n, s) in b.type_d_structures.iter() {
+            structures.insert(n.clone(), read_structure(n, s, group).map_err(one)?);
+        }
+        for (n, s) in b.type_a_modules.iter() {
+            modules.insert(n.clone(), read_module(n, s, group).map_err(one)?);
+        }
         for (n, f) in b.type_d_morphisms.iter() {
             let side = |s: &String| {
                 structures
                     .get(s)
-                    .ok_or_else(|| vec![format!("type D morphism {n}: type D structure \"{s}\" is not declared")])
+                    .ok_or_else(|| format!("type D morphism {n}: type D structure \"{s}\" is not declared"))
             };
             let what = format!("type D morphism {n}");
-            let (terms, defects) = read_arrows(&what, side(&f.from)?, side(&f.to)?, &f.terms).map_err(|e| vec![e])?;
+            let (terms, defects) =
+                read_arrows(&what, side(&f.from).map_err(one)?, side(&f.to).map_err(one)?, &f.terms).map_err(one)?;
             morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
         }
         let mut claimed = BTreeMap::new();
@@ -413,7 +399,7 @@ impl Objects {
             *l = length.max(*l);
         }
         let budget = Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR));
-        Ok(Objects { full, structures, modules, morphisms, budget, claimed, group })
+        Ok(Objects { full, structures, modules, morphisms, budget, claimed })
     }
 }
 
@@ -423,7 +409,7 @@ fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&
 }
 
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
-pub fn check_structure(d: &TypeD) -> Result<(), String> {
+pub fn check_structure(d: &Object) -> Result<(), String> {
     vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
     // a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
@@ -443,12 +429,12 @@ pub fn check_structure(d: &TypeD) -> Result<(), String> {
 /// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism.
 fn vanishes(
     what: &str,
-    defects: &[String],
-    d: &TypeD,
+    bad: &[String],
+    d: &Object,
     names: &[String],
     pairs: &[(&Arrows, &Arrows)],
 ) -> Result<(), String> {
-    if let Some(e) = defects.first() {
+    if let Some(e) = bad.first() {
         return Err(e.clone());
     }
     for y in 0..d.names.len() {
@@ -477,7 +463,7 @@ fn composites(pairs: &[(&Arrows, &Arrows)]) -> u64 {
 }
 
 /// The A∞ relations on every word of length ≤ L on which a term can be non-zero.
-pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> {
+pub fn check_module(o: &Budget, m: &Object, max_len: u32) -> Result<(), Failure> {
     if let Some(e) = m.defects.first() {
         return Err(e.clone().into());
     }
@@ -531,7 +517,7 @@ pub fn check_module(o: &Budget, m: &TypeA, max_len: u32) -> Result<(), Failure> 
 /// in time linear in |s|: for every family the positions from which each suffix of s completes
 /// its word (read backward), and for each family from x the positions reached by each prefix,
 /// so that s₁, s₂ and each merged word are recognized by one mask test.
-fn relation(o: &Budget, m: &TypeA, x: u32, s: &[Alg]) -> Result<(), Failure> {
+fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
     let (k, work) = (s.len(), s.len() as u64 + 1);
     o.spend(work * 2, "A∞ relations")?;
     // back[g][i]: the positions of family g from which s[i..] completes its word (computed,
@@ -587,8 +573,8 @@ type Step = (Alg, u32, bool);
 /// 0..n (`steps`, ι-steps included) has no directed cycle (checked by peeling off nodes with
 /// nothing left pointing into them), else "module" when every family of M is a single
 /// operation; else the pairing is refused. Either way every walk below is finite.
-fn bounded(o: &Budget, m: &TypeA, n: u32, steps: &dyn Fn(u32) -> Vec<Step>) -> Result<&'static str, Failure> {
-    let edges: Vec<Vec<Step>> = (0..n).map(steps).collect();
+fn bounded(o: &Budget, m: &Object, edges: &[Vec<Step>]) -> Result<&'static str, Failure> {
+    let n = edges.len() as u32;
     o.spend(n as u64 + edges.iter().map(|e| e.len() as u64).sum::<u64>(), "box tensor")?;
     let mut into = vec![0u32; n as usize];
     edges.iter().flatten().for_each(|s| into[s.1 as usize] += 1);
@@ -612,65 +598,13 @@ fn bounded(o: &Budget, m: &TypeA, n: u32, steps: &dyn Fn(u32) -> Vec<Step>) -> R
     }
 }
 
-/// For each generator x⊗y of `gens`, the terms (target name, U-power) of
-/// Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths from y given by `steps` (node →
-/// (a, node′, whether the path may end after this step)); `empty`: the empty path counts (the
-/// box tensor's m_1 ⊗ id); `names`: those of the nodes. A path is followed only while its word
-/// is a prefix of a family's word. Finite because `bounded` held: no cycle of nodes, or every
-/// family's word has a fixed length; the budget bounds it all the same.
-fn walk(
-    o: &Budget,
-    m: &TypeA,
-    gens: &[Generator],
-    empty: bool,
-    steps: &dyn Fn(u32) -> Vec<Step>,
-    names: &[String],
-) -> Result<Rows, Failure> {
-    let mut rows = Vec::new();
-    for (x, start, _, _) in gens {
-        // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
-        let mut out: Vec<(u32, u32, u32)> =
-            steps(*start).into_iter().filter(|s| s.0 == Alg::One && s.2).map(|s| (*x, s.1, 0)).collect();
-        for f in m.families.iter().filter(|f| f.from == *x) {
-            // Depth-first over (node, positions in the word, path length, whether it may end
-            // here); the work of entering a node (its steps) is spent before it is done. An
-            // idempotent step leads nowhere: no family's word holds ι.
-            let mut todo = vec![(*start, f.start(), 0, empty)];
-            while let Some((y, mask, len, can_end)) = todo.pop() {
-                let next = steps(y);
-                o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
-                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
-                    // A term is kept until the sums mod 2 and then named: counted like a pair.
-                    o.spend(WORK_PER_ITEM / 64, "box tensor terms")?;
-                    o.1.set(o.1.get().max(len));
-                    let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
-                        Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
-                    })?;
-                    out.push((f.to, y, p));
-                }
-                for (a, y2, end) in next {
-                    let mask = f.step(mask, a);
-                    if mask != 0 {
-                        todo.push((y2, mask, len + 1, end));
-                    }
-                }
-            }
-        }
-        out.sort_unstable();
-        // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
-        let odd = out.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
-        rows.push(odd.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], names[r[0].1 as usize]), r[0].2)).collect());
-    }
-    Ok(rows)
-}
-
 /// A generator x⊗y of a box tensor product: x, y, its name and grading.
 pub type Generator = (u32, u32, String, Grading);
 
 /// Generators x⊗y of M ⊠ N (idempotents equal) with their gradings: version 3 (Maslov,
 /// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y);
 /// `symmetric` (version 4): then normalized by `symmetrize`.
-pub fn generators(m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Vec<Generator>, Failure> {
+pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generator>, Failure> {
     let mut out = Vec::new();
     for (x, xn) in m.names.iter().enumerate() {
         for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
@@ -774,7 +708,7 @@ fn compare(
 
 /// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)),
 /// and the bounded side.
-pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Result<Product, Failure> {
+pub fn tensor_complex(o: &Budget, m: &Object, n: &Object, symmetric: bool) -> Result<Product, Failure> {
     tensor_map(o, m, n, None, symmetric)
 }
 
@@ -782,9 +716,9 @@ pub fn tensor_complex(o: &Budget, m: &TypeA, n: &TypeD, symmetric: bool) -> Resu
 /// δ¹-steps in N′ (for `f` = None, M ⊠ N: paths of δ¹-steps in N).
 pub fn tensor_map(
     o: &Budget,
-    m: &TypeA,
-    n: &TypeD,
-    f: Option<(&Morphism, &TypeD)>,
+    m: &Object,
+    n: &Object,
+    f: Option<(&Morphism, &Object)>,
     symmetric: bool,
 ) -> Result<Product, Failure> {
     let more = f.map(|(f, n2)| n2.defects.iter().chain(&f.defects));
@@ -798,21 +732,62 @@ pub fn tensor_map(
     let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
     o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
     let gens = generators(m, n, symmetric)?;
-    // Nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step).
+    // The δ-graph: nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step);
+    // a step (a, node′, whether the path may end after it).
     let k = n.names.len() as u32;
-    let shift = |arrows: &Arrows, y: u32, by: u32, end: bool| -> Vec<Step> {
-        arrows[y as usize].iter().map(|&(a, z)| (a, z + by, end)).collect()
+    let shift = |arrows: &Arrows, by: u32, end: bool| -> Vec<Vec<Step>> {
+        arrows.iter().map(|r| r.iter().map(|&(a, z)| (a, z + by, end)).collect()).collect()
     };
-    let steps = |y: u32| match f {
-        None => shift(&n.delta, y, 0, true),
-        Some((f, _)) if y < k => [shift(&n.delta, y, 0, false), shift(&f.terms, y, k, true)].concat(),
-        Some((_, n2)) => shift(&n2.delta, y - k, k, true),
-    };
-    let names = [&n.names[..], f.map_or(&[][..], |(_, n2)| &n2.names[..])].concat();
-    let side = bounded(o, m, names.len() as u32, &steps)?;
-    let rows = walk(o, m, &gens, f.is_none(), &steps, &names)?;
+    let mut edges = shift(&n.delta, 0, f.is_none());
+    let mut names = n.names.clone();
+    if let Some((f, n2)) = f {
+        edges.iter_mut().zip(shift(&f.terms, k, true)).for_each(|(e, t)| e.extend(t));
+        edges.extend(shift(&n2.delta, k, true));
+        names.extend_from_slice(&n2.names);
+    }
+    let side = bounded(o, m, &edges)?;
+    // For each x⊗y, Σ_k m_{k+1}(x, a_1, …, a_k) ⊗ node over the paths from y (the empty one
+    // too for ∂: m_1 ⊗ id). A path is followed only while its word is a prefix of a family's
+    // word. Finite because `bounded` held: no cycle of nodes, or every family's word has a
+    // fixed length; the budget bounds it all the same.
+    let (mut rows, empty) = (Vec::new(), f.is_none());
+    for &(x, start, _, _) in &gens {
+        // An idempotent step is a whole path of length one: m_2(x, ι) = x (strict unitality).
+        let ends = edges[start as usize].iter().filter(|s| s.0 == Alg::One && s.2);
+        let mut out: Vec<(u32, u32, u32)> = ends.map(|s| (x, s.1, 0)).collect();
+        for f in m.families.iter().filter(|f| f.from == x) {
+            // Depth-first over (node, positions in the word, path length, whether it may end
+            // here); the work of entering a node (its steps) is spent before it is done. An
+            // idempotent step leads nowhere: no family's word holds ι.
+            let mut todo = vec![(start, f.start(), 0, empty)];
+            while let Some((y, mask, len, can_end)) = todo.pop() {
+                let next = &edges[y as usize];
+                o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
+                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
+                    // A term is kept until the sums mod 2 and then named: counted like a pair.
+                    o.spend(WORK_PER_ITEM / 64, "box tensor terms")?;
+                    o.1.set(o.1.get().max(len));
+                    let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
+                        Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
+                    })?;
+                    out.push((f.to, y, p));
+                }
+                for &(a, y2, end) in next {
+                    let mask = f.step(mask, a);
+                    if mask != 0 {
+                        todo.push((y2, mask, len + 1, end));
+                    }
+                }
+            }
+        }
+        out.sort_unstable();
+        // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
+        let odd = out.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
+        rows.push(odd.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], names[r[0].1 as usize]), r[0].2)).collect());
+    }
     Ok((gens, rows, side))
 }
+
 /// The type D structure of LOT Thm 11.26 for a complex C over `F2[U,V]` in a simultaneously
 /// simplified basis and framing t, τ = A(ξ_0), and whether it was made bounded. `group`
 /// (version 3): ξ with C-grading (M, A) = (gr_U, (gr_U − gr_V)/2) gets (M − 3A/2; 0, −A; 0),
@@ -854,17 +829,14 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
         if let Some(x) = (0..n).find(|&x| count[x] > 1) {
             return Err(refuse(format!("{} has {} {what} arrows", c.names[x], count[x])));
         }
-        match (0..n).filter(|&x| count[x] == 0).collect::<Vec<_>>()[..] {
-            [x] => Ok(x),
-            ref xs => Err(refuse(format!("{} generators have no {what} arrow, not one", xs.len()))),
-        }
+        let free: Vec<usize> = (0..n).filter(|&x| count[x] == 0).collect();
+        let why = format!("{} generators have no {what} arrow, not one", free.len());
+        (free.len() == 1).then(|| free[0]).ok_or_else(|| refuse(why))
     };
     let (eta0, xi0) = (lone(0)?, lone(1)?);
     let alexander = |x: usize| {
-        let g = &c.gradings[x];
-        ((g[0] - g[1]) % 2 == 0)
-            .then_some((g[0] - g[1]) / 2)
-            .ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
+        let d = c.gradings[x][0] - c.gradings[x][1];
+        (d % 2 == 0).then_some(d / 2).ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
     };
     let (tau, eta_a) = (alexander(xi0)?, alexander(eta0)?);
     let (xn, en) = (&c.names[xi0], &c.names[eta0]);
@@ -883,57 +855,54 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
         Ok((name.into(), DGenerator { grading: if group { Some(written(g)?) } else { None }, idempotent: 1 }))
     };
     // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered
-    // from a ι_0 generator of grading `from` by an arrow ρ ⊗ c_1: gr(c_1) = gr(ρ)⁻¹·λ⁻¹·from,
-    // then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up).
-    let r23 = Alg::Reeb(2, 3);
-    let chain = |gens: &mut Vec<_>, terms: &mut Vec<Term>, names: &[String], down: bool, rho: Alg, from: Gr| {
-        let mut g = after(rho, from);
-        for (k, name) in names.iter().enumerate() {
-            if k > 0 {
-                let (hi, lo) = if down { (name, &names[k - 1]) } else { (&names[k - 1], name) };
-                terms.push(term(hi, "rho23", lo));
-            }
-            gens.push(iota1(name, g)?);
-            g = if down { gr_mul(gr_mul(LAMBDA, gr_alg(r23)), g) } else { after(r23, g) };
-        }
-        Ok::<(), String>(())
-    };
+    // by from →ρ c_1 and left by c_ℓ →σ to (to →σ c_ℓ when `down`; from →σ to when ℓ = 0):
+    // gr(c_1) = gr(ρ)⁻¹·λ⁻¹·gr(from), then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or
+    // gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up), as their arrows force.
+    // Chains of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered by
+    // from →ρ c_1 and left by c_ℓ →σ to (to →σ c_ℓ when `down`; from →σ to when ℓ = 0):
+    // gr(c_1) = gr(ρ)⁻¹·λ⁻¹·gr(from), then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or
+    // gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up), as their arrows force.
+    let (r23, mut chains) = (Alg::Reeb(2, 3), Vec::new());
     for &(kind, a, b, l) in &arrows {
         let (an, bn) = (&c.names[a], &c.names[b]);
         let names: Vec<String> = (1..=l).map(|k| format!("{}{k}.{an}.{bn}", ["lambda", "kappa"][kind])).collect();
-        let last = &names[l as usize - 1];
-        if kind == 1 {
-            terms.extend([term(an, "rho1", &names[0]), term(bn, "rho123", last)]);
-        } else {
-            terms.extend([term(an, "rho3", &names[0]), term(last, "rho2", bn)]);
-        }
-        let rho = if kind == 1 { Alg::Reeb(1, 1) } else { Alg::Reeb(3, 3) };
-        chain(&mut gens, &mut terms, &names, kind == 1, rho, gr0[a])?;
+        let (rho, sigma) = [(Alg::Reeb(3, 3), "rho2"), (Alg::Reeb(1, 1), "rho123")][kind];
+        chains.push((an.clone(), gr0[a], rho, names, kind == 1, sigma, bn.clone()));
     }
     let m = (t - 2 * tau).unsigned_abs();
     if m > MAX_EXPONENT as u64 {
         return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
     }
-    let names: Vec<String> = (1..=m).map(|k| format!("gamma{k}")).collect();
     let split = bounded && xi0 == eta0 && t >= 2 * tau;
-    let first = if t < 2 * tau {
-        terms.extend([term(xn, "rho1", &names[0]), term(en, "rho3", &names[m as usize - 1])]);
-        Alg::Reeb(1, 1)
-    } else {
-        let (a, b, to) = if m == 0 { (Alg::Reeb(1, 2), "rho2", en) } else { (Alg::Reeb(1, 3), "rho23", &names[0]) };
-        if split {
-            terms.extend([term(xn, "rho1", "pair.y"), term("pair.x", "1", "pair.y"), term("pair.x", b, to)]);
-            let y = after(Alg::Reeb(1, 1), gr0[xi0]);
-            gens.extend([iota1("pair.x", gr_mul(LAMBDA, y))?, iota1("pair.y", y)?]);
-        } else {
-            terms.push(term(xn, a.name(), to));
-        }
-        if m > 0 {
-            terms.push(term(&names[m as usize - 1], "rho2", en));
-        }
-        a
+    let mut from = (xn.clone(), gr0[xi0]);
+    if split {
+        let x = gr_mul(LAMBDA, after(Alg::Reeb(1, 1), gr0[xi0]));
+        chains.push((xn.clone(), gr0[xi0], Alg::Reeb(1, 1), vec!["pair.y".into()], true, "1", "pair.x".into()));
+        gens.push(iota1("pair.x", x)?);
+        from = ("pair.x".into(), x);
+    }
+    let (rho, sigma) = match (t < 2 * tau, split, m) {
+        (true, ..) => (Alg::Reeb(1, 1), "rho3"),
+        (_, true, _) => (r23, "rho2"),
+        (_, _, 0) => (Alg::Reeb(1, 2), "rho12"),
+        _ => (Alg::Reeb(1, 3), "rho2"),
     };
-    chain(&mut gens, &mut terms, &names, t < 2 * tau, first, gr0[xi0])?;
+    let names = (1..=m).map(|k| format!("gamma{k}")).collect();
+    chains.push((from.0, from.1, rho, names, t < 2 * tau, sigma, en.clone()));
+    for (from, mut g, rho, names, down, sigma, to) in chains {
+        for (k, name) in names.iter().enumerate() {
+            let (hi, r, lo) = match k {
+                0 => (&from, rho, name),
+                _ if down => (name, r23, &names[k - 1]),
+                _ => (&names[k - 1], r23, name),
+            };
+            terms.push(term(hi, r.name(), lo));
+            g = if k > 0 && down { gr_mul(gr_mul(LAMBDA, gr_alg(r23)), g) } else { after(r, g) };
+            gens.push(iota1(name, g)?);
+        }
+        let last = names.last().unwrap_or(&from);
+        terms.push(if down { term(&to, sigma, last) } else { term(last, sigma, &to) });
+    }
     let count = gens.len();
     let generators = UniqueMap(gens.into_iter().collect());
     if generators.len() != count {
@@ -972,16 +941,9 @@ pub fn check(
     claim: &Claim,
     version: u32,
 ) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
-    let bordered = matches!(
-        claim,
-        Claim::TypeDStructure { .. }
-            | Claim::TypeAModule { .. }
-            | Claim::TypeDMorphism { .. }
-            | Claim::BoxTensor { .. }
-            | Claim::BoxTensorMap { .. }
-            | Claim::Complement { .. }
-    );
-    bordered.then(|| {
+    const KINDS: [&str; 6] =
+        ["type_d_structure", "type_a_module", "type_d_morphism", "box_tensor", "box_tensor_map", "complement"];
+    KINDS.contains(&claim.kind()).then(|| {
         crate::verify::check_statement(ctx, claim, version)?;
         let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
         let r = &ctx.ring;
@@ -1058,7 +1020,7 @@ pub fn check(
                 let alex = (0..c.names.len()).map(|x| (c.gradings[x][0] - c.gradings[x][1]).unsigned_abs()).max();
                 let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex.unwrap_or(0));
                 o.budget.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
-                let (want, found_tau, split) = complement(c, *framing, o.group, *bounded_model == Some(true))?;
+                let (want, found_tau, split) = complement(c, *framing, version >= 3, *bounded_model == Some(true))?;
                 if *bounded_model != split.then_some(true) {
                     return Err(format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {})", if split { "it is not written" } else { "it is not needed" }).into());
                 }
