@@ -160,29 +160,27 @@ impl<'de> Visitor<'de> for ExprVisitor {
                 let (m, e) = a.next_value()?;
                 MapExpr::Times(m, e)
             }
-            "sum" | "compose" => {
-                let es: Vec<MapExpr> = a.next_value()?;
-                // One part would print like its own part (or a bracketed one): statements must
-                // read back as one expression.
-                if es.len() < 2 {
-                    return Err(de::Error::custom(format!("\"{op}\" takes at least two map expressions")));
-                }
-                if op == "sum" {
-                    MapExpr::Sum(es)
-                } else {
-                    MapExpr::Compose(es)
-                }
-            }
+            "sum" => MapExpr::Sum(a.next_value()?),
+            "compose" => MapExpr::Compose(a.next_value()?),
             _ => {
                 let e = format!("unknown map operation \"{op}\" (expected id, sum, compose or times)");
                 return Err(de::Error::custom(e));
             }
         };
-        match a.next_key::<String>()? {
-            Some(k) => {
-                Err(de::Error::custom(format!("a map operation is a one-key object, found \"{op}\" and \"{k}\"")))
+        if let Some(k) = a.next_key::<String>()? {
+            let e = match k == op {
+                true => format!("the key \"{op}\" is written twice in one map operation"),
+                false => format!("a map operation is a one-key object, found \"{op}\" and \"{k}\""),
+            };
+            return Err(de::Error::custom(e));
+        }
+        // One part would print like its own part (or a bracketed one): statements must read
+        // back as one expression.
+        match e {
+            MapExpr::Sum(ref es) | MapExpr::Compose(ref es) if es.len() < 2 => {
+                Err(de::Error::custom(format!("\"{op}\" takes at least two map expressions")))
             }
-            None => Ok(e),
+            _ => Ok(e),
         }
     }
 }
