@@ -264,8 +264,9 @@ pub fn read_terms(
     (map, defects)
 }
 
-pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut Errors) -> Complex {
-    let (gens, n) = (&spec.generators, ring.gradings.len());
+/// The complex `name` with generators `gens` (name → grading) and differential `d`.
+pub fn read_complex(ring: &RingInfo, name: &str, gens: &UniqueMap<Grading>, d: &[Term], errs: &mut Errors) -> Complex {
+    let n = ring.gradings.len();
     if gens.len() > MAX_GENERATORS {
         errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", gens.len()));
         return Complex::new(name.into(), vec![], Gradings::default(), SparseMap::zero(0));
@@ -291,7 +292,7 @@ pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut 
     let mut c = Complex::new(name.to_string(), gens.keys().cloned().collect(), gradings, SparseMap::zero(0));
     if graded {
         let what = format!("complex {name}, differential");
-        (c.d, c.defects) = read_terms(ring, &c, &c, Some(&ring.differential_degree), &spec.differential, &what, errs);
+        (c.d, c.defects) = read_terms(ring, &c, &c, Some(&ring.differential_degree), d, &what, errs);
     }
     c
 }
@@ -321,7 +322,8 @@ pub fn load_lenient(
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
     Errors(bad, 0).into_result(())?;
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
-    let complexes = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
+    let complexes =
+        complexes.iter().map(|(n, s)| read_complex(&ring, n, &s.generators, &s.differential, &mut errs)).collect();
     let mut ctx = Context::new(ring, complexes, Work::new(u64::MAX), errs.1);
     for (name, spec) in maps.iter() {
         let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
