@@ -275,4 +275,24 @@ mod tests {
         assert!(factored_dual(&phi, &[t("x", "U \n U", "a")]).is_none());
         assert_eq!(shown("generator \"a\n✓ b\""), "generator \"a<U+000A>✓ b\"");
     }
+
+    /// A large structure is summarized: its first OBJECT_GENERATORS generators, then a count.
+    #[test]
+    fn a_large_object_is_summarized() {
+        let names: Vec<String> = (0..30).map(|k| format!("y{k:02}")).collect();
+        let g = vec![1, -1, 1, 0];
+        let o = Object {
+            name: "N",
+            side: 'D',
+            period: None,
+            generators: names.iter().map(|n| (n.as_str(), 1, Some(&g))).collect(),
+        };
+        let line = objects_line(std::slice::from_ref(&o), true, &PLAIN).unwrap();
+        assert!(line.starts_with("period and generators: h_D(N): none written; 30 generators (idempotent, grading): y00 ι1 (1/2; -1/2, 1/2; 0), "), "{line}");
+        assert!(line.contains("y23 ι1") && !line.contains("y24") && line.ends_with(", … (6 more)"), "{line}");
+        // Beside a pairing only the periods written are shown, and nothing when there are none.
+        assert_eq!(objects_line(std::slice::from_ref(&o), false, &PLAIN), None);
+        assert_eq!(group_element(&vec![11, 0, 2, 6]), "(11/2; 0, 1; 3)");
+        assert_eq!(group_element(&vec![3, -2]), "(3, -2)");
+    }
 }
