@@ -160,8 +160,7 @@ fn a_box_tensor_product_with_too_many_generators_is_refused_before_it_is_built()
         json!({"kind": "type_a_module", "module": "M", "max_length": 0}),
         json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
     ];
-    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), 20, "generator pairs");
+    pairing_refused(bordered, claims, 20, "generator pairs");
 }
 
 /// LOT Thm 11.26 gives an arrow U^l (or V^l) a chain of l generators: four arrows of length
@@ -225,8 +224,14 @@ fn refused_quickly(bordered: Value, what: &str) {
         json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
         json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
     ];
+    pairing_refused(bordered, claims, 10, what);
+}
+
+/// A version-2 body with this bordered section and these claims about a pairing into a complex C
+/// of one generator is refused for its work within `seconds`.
+fn pairing_refused(bordered: Value, claims: Vec<Value>, seconds: u64, what: &str) {
     let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), 10, what);
+    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), seconds, what);
 }
 
 /// A chain y0 →ρ12 y1 →ρ12 … of k generators gives ∂(x⊗y_i) = Σ_{j ≥ i} x⊗y_j: k²/2 terms, each
@@ -243,13 +248,9 @@ fn box_tensor_terms_are_counted_before_their_names_are_made() {
     refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 0), "chain");
 }
 
-/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
-/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
-/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
-/// before they cancel are counted too, else one generator's list grows to gigabytes.
-#[test]
-fn box_tensor_terms_before_cancellation_are_counted() {
-    let d = 40;
+/// A type D structure of d + 1 layers of two generators, each joined by ρ12 to both of the next
+/// layer: 2^d δ-paths from the first layer.
+fn layers(d: usize) -> Value {
     let mut generators = serde_json::Map::new();
     let mut differential = Vec::new();
     for l in 0..=d {
@@ -263,7 +264,16 @@ fn box_tensor_terms_before_cancellation_are_counted() {
             }
         }
     }
-    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 20_000), "layers");
+    json!({"generators": generators, "differential": differential})
+}
+
+/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
+/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
+/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
+/// before they cancel are counted too, else one generator's list grows to gigabytes.
+#[test]
+fn box_tensor_terms_before_cancellation_are_counted() {
+    refused_quickly(rho12_pairing(layers(40), 20_000), "layers");
 }
 
 /// Every claim's statement rewritten in the wording of format `version` (the version is outside
@@ -438,26 +448,11 @@ fn a_shifted_maslov_grading_does_not_verify_in_version_5() {
 /// add 40·2^32 units for what follows, here 2^40 δ-paths of a layered structure.
 #[test]
 fn the_a_infinity_allowance_is_not_left_behind_by_a_claim_about_an_undeclared_module() {
-    let d = 40;
-    let mut generators = serde_json::Map::new();
-    let mut differential = Vec::new();
-    for l in 0..=d {
-        for s in ["a", "b"] {
-            generators.insert(format!("{s}{l}"), json!({"grading": [0, 0], "idempotent": 0}));
-            if l < d {
-                differential.extend([
-                    json!([format!("{s}{l}"), "rho12", format!("a{}", l + 1)]),
-                    json!([format!("{s}{l}"), "rho12", format!("b{}", l + 1)]),
-                ]);
-            }
-        }
-    }
-    let bordered = rho12_pairing(json!({"generators": generators, "differential": differential}), 0);
+    let bordered = rho12_pairing(layers(40), 0);
     let mut claims: Vec<Value> =
         (0..40).map(|_| json!({"kind": "type_a_module", "module": "Z", "max_length": 2})).collect();
     claims.push(json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}));
-    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), 10, "undeclared module");
+    pairing_refused(bordered, claims, 10, "undeclared module");
 }
 
 /// A framing of −2^53 (the most negative integer a file holds): nothing may overflow (a panic); the
