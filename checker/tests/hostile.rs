@@ -399,7 +399,7 @@ fn a_failed_claim_is_shown_in_the_checkers_words_in_every_report() {
     let (version, mut b) = stored("disk-pair-p2");
     b["claims"][0]["statement"] = json!("ord_U(F − G) = 9, checked");
     let r = report(version, b);
-    assert!(r.claims.iter().filter(|c| !c.implicit).next().unwrap().outcome.is_err());
+    assert!(r.claims.iter().find(|c| !c.implicit).unwrap().outcome.is_err());
     let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
     let (text, json) = (tubecheck::report_text::render(&r), tubecheck::report_json::render(&r).to_string());
     for report in [&md, &tex, &text, &json] {
