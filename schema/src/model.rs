@@ -67,7 +67,7 @@ pub struct Ring {
 }
 
 /// A free complex: named generators with gradings, and the differential as sparse terms.
-/// (Fields in sorted order: see `canonical::body_sha256`.)
+/// (Fields in sorted order, so serde's output is already canonical: see [`crate::canonical`].)
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct ComplexSpec {
@@ -79,7 +79,7 @@ pub struct ComplexSpec {
 #[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct MapSpec {
-    // Fields in sorted order, so serde's output is already canonical (see canonical::body_sha256).
+    // Fields in sorted order, as in `ComplexSpec`.
     pub degree: Grading,
     pub from: String,
     pub terms: Vec<Term>,
@@ -402,22 +402,27 @@ impl Claim {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Provenance {
-    pub producer: String,
     pub problem_sha256: String,
+    pub producer: String,
 }
 
-/// The hashed part of a certificate.
+/// The hashed part of a certificate. Serde writes it in its canonical form (see
+/// [`crate::canonical`]): fields in sorted order, the parts whose own fields are not (the
+/// claims, whose `kind` comes first, and the rings) written through a sorted `Value`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
     /// Version 2 only: complexes over `F2[U,V]` and the bordered objects (`null` is refused).
     #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
+    #[serde(serialize_with = "crate::canonical::sorted")]
     pub bordered: Option<crate::bordered::Bordered>,
-    pub ring: Ring,
+    #[serde(serialize_with = "crate::canonical::sorted")]
+    pub claims: Vec<Claim>,
     pub complexes: UniqueMap<ComplexSpec>,
     pub maps: UniqueMap<MapSpec>,
-    pub claims: Vec<Claim>,
     pub provenance: Provenance,
+    #[serde(serialize_with = "crate::canonical::sorted")]
+    pub ring: Ring,
 }
 
 pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";
