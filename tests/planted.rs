@@ -141,6 +141,11 @@ proptest! {
         let beside = tubecert::search::reduce::Reduction::new(c, true).unwrap();
         prop_assert_eq!((&beside.pi, &beside.iota, &beside.complex.d), (&r.pi, &r.iota, &small.d));
         prop_assert_eq!(beside.homotopy().unwrap(), r.homotopy().unwrap());
+        // Made only where asked, from the recorded additions: the same rows.
+        let lazy = tubecert::search::reduce::Reduced::new(c).unwrap();
+        prop_assert_eq!((&lazy.pi().unwrap(), &lazy.iota().unwrap(), &lazy.complex.d), (&r.pi, &r.iota, &small.d));
+        prop_assert_eq!(lazy.homotopy().unwrap(), r.homotopy().unwrap());
+        prop_assert!(lazy_rows_agree(c, &r));
         for pivots in [Pivots::Minimal, Pivots::Units] {
             let (a, b) = (normal_form(c, pivots, false).unwrap(), normal_form(c, pivots, true).unwrap());
             prop_assert_eq!((a.basis, a.inverse_rows, a.pairs, a.survivors, a.out), (b.basis, b.inverse_rows, b.pairs, b.survivors, b.out));
@@ -158,6 +163,25 @@ proptest! {
     }
 }
 
+/// A few rows of π, ι, h and of π's transpose, each asked for alone from a fresh [`Reduced`],
+/// are the rows of the whole computation.
+fn lazy_rows_agree(c: &tubecheck::load::Complex, r: &tubecert::search::reduce::Reduction) -> bool {
+    let n = c.names.len() as u32;
+    let some = |k: u32| (0..k).map(move |i| (i * 7919 + 3) % k).take(5).collect::<Vec<u32>>();
+    let lazy = tubecert::search::reduce::Reduced::new(c).unwrap();
+    let pi = lazy.pi_for(some(n).into_iter()).unwrap();
+    let into = r.pi.incoming_to(&vec![true; r.iota.rows.len()]);
+    let survivors = r.iota.rows.len() as u32;
+    let lazy_into = if survivors == 0 { Default::default() } else { lazy.pi_into(&some(survivors)).unwrap() };
+    let iota = if survivors == 0 { None } else { Some(lazy.iota_for(some(survivors).into_iter()).unwrap()) };
+    let units: Vec<_> = some(n).iter().map(|&g| vec![(g, tubecert_format::Mono::ONE)]).collect();
+    let h = lazy.homotopy_rows(&units).unwrap();
+    some(n).iter().all(|&g| pi.rows[g as usize] == r.pi.rows[g as usize])
+        && lazy_into.iter().all(|(w, v)| into[*w as usize] == *v)
+        && iota.is_none_or(|i| some(survivors).iter().all(|&t| i.rows[t as usize] == r.iota.rows[t as usize]))
+        && units.iter().zip(&h).all(|(u, hv)| r.homotopy_of(u).unwrap() == *hv)
+}
+
 /// On a complex large enough that the pivots send many batches of additions to the second
 /// thread, the normal form (both kinds of pivots) is the same vectors as computed in turn.
 #[test]
@@ -172,4 +196,6 @@ fn normal_form_beside_matches_in_turn_across_batches() {
         assert_eq!((a.basis, a.inverse_rows, a.pairs, a.survivors), (b.basis, b.inverse_rows, b.pairs, b.survivors));
         assert_eq!(a.out, b.out);
     }
+    let r = tubecert::search::reduce::Reduction::new(c, true).unwrap();
+    assert!(lazy_rows_agree(c, &r), "rows made from the recorded additions differ");
 }

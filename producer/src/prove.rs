@@ -384,7 +384,7 @@ fn emit_reductions(
                 from: orig.name.clone(),
                 to: small.name.clone(),
                 degree: zero.clone(),
-                terms: terms_of(rows(&red.pi), &orig.names, &small.names, vars),
+                terms: terms_of(rows(&red.pi()?), &orig.names, &small.names, vars),
             },
         );
         maps.0.insert(
@@ -393,7 +393,7 @@ fn emit_reductions(
                 from: small.name.clone(),
                 to: orig.name.clone(),
                 degree: zero.clone(),
-                terms: terms_of(rows(&red.iota), &small.names, &orig.names, vars),
+                terms: terms_of(rows(&red.iota()?), &small.names, &orig.names, vars),
             },
         );
         let witness = EquivalenceWitness {

@@ -169,6 +169,8 @@ impl Additions {
 enum Sink {
     Here(Additions),
     Beside { batch: Vec<Add>, send: std::sync::mpsc::Sender<Vec<Add>> },
+    /// Recorded, for a [`Replay`].
+    Log(Vec<Add>),
 }
 
 const BATCH: usize = 4096;
@@ -177,6 +179,10 @@ impl Sink {
     fn add(&mut self, add: Add) -> Result<(), String> {
         match self {
             Sink::Here(a) => a.apply(add),
+            Sink::Log(log) => {
+                log.push(add);
+                Ok(())
+            }
             Sink::Beside { batch, send } => {
                 batch.push(add);
                 if batch.len() == BATCH {
@@ -187,6 +193,75 @@ impl Sink {
             }
         }
     }
+}
+
+/// The additions of a pivot loop with unit pivots, in their order. The basis vectors and inverse
+/// rows they give are made only for the rows or columns a question needs, each the same vector
+/// the whole computation gives: most of those vectors are never read.
+pub struct Replay {
+    adds: Vec<Add>,
+    n: usize,
+}
+
+impl Replay {
+    /// The final basis vectors (`basis`) or inverse rows of `wanted`: walking back from the end,
+    /// the additions that reach them (into a wanted row, or into a row such an addition reads
+    /// before it reads it), then those additions made in order. Returns n rows, the unwanted
+    /// ones possibly wrong or empty.
+    pub fn rows(&self, basis: bool, wanted: &[u32]) -> Result<Vec<Vector>, String> {
+        let mut live = vec![false; self.n];
+        let mut start = vec![false; self.n];
+        for &t in wanted {
+            (live[t as usize], start[t as usize]) = (true, true);
+        }
+        let mut needed = Vec::new();
+        for (i, add) in self.adds.iter().enumerate().rev() {
+            match (basis, *add) {
+                (true, Add::Basis(t, _, s)) | (false, Add::Inverse(t, _, s)) if live[t as usize] => {
+                    needed.push(i);
+                    (live[s as usize], start[s as usize]) = (true, true);
+                }
+                // Before it is emptied, the row's value reaches nothing wanted.
+                (true, Add::ClearBasis(t)) | (false, Add::ClearInverse(t)) if live[t as usize] => {
+                    needed.push(i);
+                    live[t as usize] = false;
+                }
+                _ => {}
+            }
+        }
+        let rows = (0..self.n as u32).map(|t| if start[t as usize] { vec![(t, Mono::ONE)] } else { Vec::new() });
+        let mut a = Additions { basis: Vec::new(), inverse_rows: Vec::new(), spare: Spare::default() };
+        *(if basis { &mut a.basis } else { &mut a.inverse_rows }) = rows.collect();
+        needed.iter().rev().try_for_each(|&i| a.apply(self.adds[i]))?;
+        Ok(if basis { a.basis } else { a.inverse_rows })
+    }
+
+    /// Every inverse row restricted to the generators `columns` (row operations act on each
+    /// column alone): from the unit rows of `columns`, the additions from a non-zero row.
+    pub fn columns(&self, columns: &[u32]) -> Result<Vec<Vector>, String> {
+        let mut a = Additions { basis: Vec::new(), inverse_rows: vec![Vec::new(); self.n], spare: Spare::default() };
+        for &g in columns {
+            a.inverse_rows[g as usize] = vec![(g, Mono::ONE)];
+        }
+        for &add in &self.adds {
+            match add {
+                Add::Inverse(_, _, s) if a.inverse_rows[s as usize].is_empty() => {}
+                Add::Inverse(..) | Add::ClearInverse(_) => a.apply(add)?,
+                _ => {}
+            }
+        }
+        Ok(a.inverse_rows)
+    }
+}
+
+/// The pivot loop of [`normal_form`] with [`Pivots::Units`] alone, its additions recorded:
+/// (pairs, survivors, ∂ among survivors, the additions).
+#[allow(clippy::type_complexity)]
+pub fn unit_pivots(c: &Complex) -> Result<(Vec<(u32, u32, Mono)>, Vec<u32>, Vec<Vector>, Replay), String> {
+    let mut sink = Sink::Log(Vec::new());
+    let (pairs, survivors, out) = pivot(c, Pivots::Units, &mut sink)?;
+    let Sink::Log(adds) = sink else { unreachable!("made here") };
+    Ok((pairs, survivors, out, Replay { adds, n: c.names.len() }))
 }
 
 /// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and

@@ -6,7 +6,8 @@
 //! sends each b to its a. Back in the old basis: ι(t) = B(t), π(g) = the survivor part of B⁻¹g,
 //! h(g) = Σ over cancelled pairs (a, b) of [coefficient of b in B⁻¹g]·B(a).
 
-use super::normal_form::{normal_form, Pivots};
+use super::normal_form::{normal_form, unit_pivots, Pivots, Replay};
+use std::cell::RefCell;
 use std::collections::HashMap;
 use tubecert_format::Mono;
 use tubecheck::algebra::{normalize, push_scaled, SparseMap, Vector};
@@ -38,33 +39,10 @@ impl Reduction {
                 expr[g as usize].push((t as u32, m));
             }
         }
-        let mut new_index = vec![u32::MAX; n];
-        for (i, &t) in nf.survivors.iter().enumerate() {
-            new_index[t as usize] = i as u32;
-        }
-        let remap = |v: &Vector| -> Vector {
-            let mut r: Vector = v
-                .iter()
-                .filter(|e| new_index[e.0 as usize] != u32::MAX)
-                .map(|&(t, m)| (new_index[t as usize], m))
-                .collect();
-            normalize(&mut r);
-            r
-        };
-        let names: Vec<String> = nf.survivors.iter().map(|&t| c.names[t as usize].clone()).collect();
-        let complex = Complex {
-            name: format!("{}_reduced", c.name),
-            index: tubecheck::load::NameIndex::new(names.iter()),
-            names,
-            gradings: tubecheck::load::Gradings::new(
-                c.gradings.iter().next().map_or(0, |g| g.len()),
-                nf.survivors.iter().map(|&t| &c.gradings[t as usize]),
-            ),
-            d: SparseMap { rows: nf.survivors.iter().map(|&t| remap(&nf.out[t as usize])).collect() },
-            defects: Vec::new(),
-        };
+        let new_index = new_index(n, &nf.survivors);
+        let complex = reduced_complex(c, &nf.survivors, &nf.out, &new_index);
         let iota = SparseMap { rows: nf.survivors.iter().map(|&t| nf.basis[t as usize].clone()).collect() };
-        let pi = SparseMap { rows: expr.iter().map(remap).collect() };
+        let pi = SparseMap { rows: expr.iter().map(|v| remap(&new_index, v)).collect() };
         let source_of = nf.pairs.iter().map(|&(a, b, _)| (b, a)).collect();
         Ok(Reduction { complex, survivors: nf.survivors, iota, pi, expr, basis: nf.basis, source_of })
     }
@@ -97,5 +75,180 @@ impl Reduction {
         let rows =
             (0..self.expr.len() as u32).map(|g| self.homotopy_of(&[(g, Mono::ONE)])).collect::<Result<_, _>>()?;
         Ok(SparseMap { rows })
+    }
+}
+
+/// The index in C′ of each generator of C (u32::MAX for the cancelled ones).
+fn new_index(n: usize, survivors: &[u32]) -> Vec<u32> {
+    let mut new_index = vec![u32::MAX; n];
+    for (i, &t) in survivors.iter().enumerate() {
+        new_index[t as usize] = i as u32;
+    }
+    new_index
+}
+
+/// A vector in the new basis restricted to the survivors, numbered as in C′.
+fn remap(new_index: &[u32], v: &Vector) -> Vector {
+    let mut r: Vector =
+        v.iter().filter(|e| new_index[e.0 as usize] != u32::MAX).map(|&(t, m)| (new_index[t as usize], m)).collect();
+    normalize(&mut r);
+    r
+}
+
+/// C′: the survivors with ∂ among them.
+fn reduced_complex(c: &Complex, survivors: &[u32], out: &[Vector], new_index: &[u32]) -> Complex {
+    let names: Vec<String> = survivors.iter().map(|&t| c.names[t as usize].clone()).collect();
+    Complex {
+        name: format!("{}_reduced", c.name),
+        index: tubecheck::load::NameIndex::new(names.iter()),
+        names,
+        gradings: tubecheck::load::Gradings::new(
+            c.gradings.iter().next().map_or(0, |g| g.len()),
+            survivors.iter().map(|&t| &c.gradings[t as usize]),
+        ),
+        d: SparseMap { rows: survivors.iter().map(|&t| remap(new_index, &out[t as usize])).collect() },
+        defects: Vec::new(),
+    }
+}
+
+/// The same reduction as [`Reduction`], with π, ι and h made only where a question reads them
+/// (rows of π and ι, h of given vectors), from the pivots' recorded additions: on a large
+/// complex the search reads a few rows, and making them all cost as much as the pivots.
+/// Every row made is the one [`Reduction`] holds.
+pub struct Reduced {
+    pub complex: Complex,
+    pub survivors: Vec<u32>,
+    new_index: Vec<u32>,
+    replay: Replay,
+    source_of: HashMap<u32, u32>,
+    /// B(t) and B⁻¹g made so far.
+    basis: RefCell<HashMap<u32, Vector>>,
+    expr: RefCell<HashMap<u32, Vector>>,
+}
+
+impl Reduced {
+    pub fn new(c: &Complex) -> Result<Reduced, String> {
+        let (pairs, survivors, out, replay) = unit_pivots(c)?;
+        let new_index = new_index(c.names.len(), &survivors);
+        let complex = reduced_complex(c, &survivors, &out, &new_index);
+        let source_of = pairs.iter().map(|&(a, b, _)| (b, a)).collect();
+        Ok(Reduced {
+            complex,
+            survivors,
+            new_index,
+            replay,
+            source_of,
+            basis: RefCell::default(),
+            expr: RefCell::default(),
+        })
+    }
+
+    /// Whether anything was cancelled.
+    pub fn is_identity(&self) -> bool {
+        self.source_of.is_empty()
+    }
+
+    fn n(&self) -> usize {
+        self.new_index.len()
+    }
+
+    fn make_basis(&self, ts: impl Iterator<Item = u32>) -> Result<(), String> {
+        let mut missing: Vec<u32> = ts.filter(|t| !self.basis.borrow().contains_key(t)).collect();
+        missing.sort_unstable();
+        missing.dedup();
+        if !missing.is_empty() {
+            let mut rows = self.replay.rows(true, &missing)?;
+            let mut made = self.basis.borrow_mut();
+            for t in missing {
+                made.insert(t, std::mem::take(&mut rows[t as usize]));
+            }
+        }
+        Ok(())
+    }
+
+    fn make_expr(&self, gs: impl Iterator<Item = u32>) -> Result<(), String> {
+        let mut missing: Vec<u32> = gs.filter(|g| !self.expr.borrow().contains_key(g)).collect();
+        missing.sort_unstable();
+        missing.dedup();
+        if !missing.is_empty() {
+            let rows = self.replay.columns(&missing)?;
+            let mut made = self.expr.borrow_mut();
+            for &g in &missing {
+                made.insert(g, Vec::new());
+            }
+            for (t, row) in rows.iter().enumerate() {
+                for &(g, m) in row {
+                    made.get_mut(&g).expect("a column asked for").push((t as u32, m));
+                }
+            }
+        }
+        Ok(())
+    }
+
+    /// ι with the rows of the survivors `rows` (numbered in C′) made, the others empty.
+    pub fn iota_for(&self, rows: impl Iterator<Item = u32> + Clone) -> Result<SparseMap, String> {
+        self.make_basis(rows.clone().map(|i| self.survivors[i as usize]))?;
+        let mut iota = SparseMap::zero(self.survivors.len());
+        let made = self.basis.borrow();
+        for i in rows {
+            iota.rows[i as usize] = made[&self.survivors[i as usize]].clone();
+        }
+        Ok(iota)
+    }
+
+    /// π with the rows of the generators `rows` of C made, the others empty.
+    pub fn pi_for(&self, rows: impl Iterator<Item = u32> + Clone) -> Result<SparseMap, String> {
+        self.make_expr(rows.clone())?;
+        let mut pi = SparseMap::zero(self.n());
+        let made = self.expr.borrow();
+        for g in rows {
+            pi.rows[g as usize] = remap(&self.new_index, &made[&g]);
+        }
+        Ok(pi)
+    }
+
+    pub fn iota(&self) -> Result<SparseMap, String> {
+        self.iota_for(0..self.survivors.len() as u32)
+    }
+
+    pub fn pi(&self) -> Result<SparseMap, String> {
+        self.pi_for(0..self.n() as u32)
+    }
+
+    /// The rows of π into each survivor of `targets` (numbered in C′): (g, m) for each term
+    /// m·t of π(g), in the order of g.
+    pub fn pi_into(&self, targets: &[u32]) -> Result<HashMap<u32, Vector>, String> {
+        let wanted: Vec<u32> = targets.iter().map(|&w| self.survivors[w as usize]).collect();
+        let mut rows = self.replay.rows(false, &wanted)?;
+        Ok(targets.iter().zip(&wanted).map(|(&w, &t)| (w, std::mem::take(&mut rows[t as usize]))).collect())
+    }
+
+    /// h(v) for each vector v of C.
+    pub fn homotopy_rows(&self, vs: &[Vector]) -> Result<Vec<Vector>, String> {
+        self.make_expr(vs.iter().flatten().map(|t| t.0))?;
+        let expr = self.expr.borrow();
+        let sources = vs.iter().flatten().flat_map(|t| &expr[&t.0]).filter_map(|t| self.source_of.get(&t.0).copied());
+        self.make_basis(sources)?;
+        let basis = self.basis.borrow();
+        let mut rows = Vec::with_capacity(vs.len());
+        for v in vs {
+            let mut out = Vec::new();
+            for &(g, n) in v {
+                for &(t, c) in &expr[&g] {
+                    if let Some(a) = self.source_of.get(&t) {
+                        push_scaled(&mut out, n.checked_mul(c).ok_or_else(tubecheck::algebra::overflow)?, &basis[a])?;
+                    }
+                }
+            }
+            normalize(&mut out);
+            rows.push(out);
+        }
+        Ok(rows)
+    }
+
+    /// h as an explicit map C → C.
+    pub fn homotopy(&self) -> Result<SparseMap, String> {
+        let units: Vec<Vector> = (0..self.n() as u32).map(|g| vec![(g, Mono::ONE)]).collect();
+        Ok(SparseMap { rows: self.homotopy_rows(&units)? })
     }
 }
