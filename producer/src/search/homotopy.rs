@@ -6,7 +6,7 @@
 //! y that kills every image and has ⟨y, φ⟩ = 1 (a dual witness).
 
 use super::elimination::{ColumnReducer, Solution};
-use super::reduce::Reduced;
+use super::reduce::Reduction;
 use std::cell::{Cell, RefCell};
 use std::collections::{BTreeMap, HashMap};
 use std::rc::Rc;
@@ -179,7 +179,7 @@ pub fn to_map(triples: &[HomTerm], sources: usize) -> SparseMap {
 /// complex.
 pub struct Solver<'a> {
     pub ctx: &'a Context,
-    reductions: RefCell<BTreeMap<usize, Rc<Reduced>>>,
+    reductions: RefCell<BTreeMap<usize, Rc<Reduction>>>,
     parallel: bool,
     /// Time spent reducing and transporting, for the bench.
     pub reduce_time: Cell<Duration>,
@@ -198,12 +198,12 @@ impl<'a> Solver<'a> {
         }
     }
 
-    pub fn reduction(&self, c: usize) -> Result<Rc<Reduced>, String> {
+    pub fn reduction(&self, c: usize) -> Result<Rc<Reduction>, String> {
         if let Some(r) = self.reductions.borrow().get(&c) {
             return Ok(r.clone());
         }
         let start = Instant::now();
-        let r = Rc::new(Reduced::new(&self.ctx.complexes[c])?);
+        let r = Rc::new(Reduction::new(&self.ctx.complexes[c])?);
         self.reduce_time.set(self.reduce_time.get() + start.elapsed());
         self.reductions.borrow_mut().insert(c, r.clone());
         Ok(r)
@@ -212,7 +212,7 @@ impl<'a> Solver<'a> {
     /// Reduces two complexes at once, on the machine's two cores when both are new and of
     /// comparable size (a quarter of the larger at least): the source and target of a map are
     /// independent blocks. Otherwise one after the other.
-    fn reduction_pair(&self, c: usize, d: usize) -> Result<(Rc<Reduced>, Rc<Reduced>), String> {
+    fn reduction_pair(&self, c: usize, d: usize) -> Result<(Rc<Reduction>, Rc<Reduction>), String> {
         let known = |i: usize| self.reductions.borrow().contains_key(&i);
         let size = |i: usize| self.ctx.complexes[i].names.len();
         let comparable = 4 * size(c).min(size(d)) >= size(c).max(size(d));
@@ -220,8 +220,8 @@ impl<'a> Solver<'a> {
             let start = Instant::now();
             let complexes = &self.ctx.complexes;
             let (rc, rd) = std::thread::scope(|s| {
-                let other = s.spawn(|| Reduced::new(&complexes[d]));
-                (Reduced::new(&complexes[c]), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
+                let other = s.spawn(|| Reduction::new(&complexes[d]));
+                (Reduction::new(&complexes[c]), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
             });
             self.reduce_time.set(self.reduce_time.get() + start.elapsed());
             let mut cache = self.reductions.borrow_mut();
@@ -232,7 +232,7 @@ impl<'a> Solver<'a> {
     }
 
     /// The reductions computed so far, by complex index.
-    pub fn reductions(&self) -> Vec<(usize, Rc<Reduced>)> {
+    pub fn reductions(&self) -> Vec<(usize, Rc<Reduction>)> {
         self.reductions.borrow().iter().map(|(c, r)| (*c, r.clone())).collect()
     }
 
