@@ -83,7 +83,7 @@ pub fn homology_witness(ctx: &Context, c: usize) -> Result<(BasisWitness, Decomp
         return Err("homology is computed over F2 or F2[U]; quotient by a variable first".into());
     }
     let cx = &ctx.complexes[c];
-    let nf = normal_form(cx, Pivots::Minimal, false)?;
+    let nf = normal_form(cx, Pivots::Minimal)?;
     let vars = &ctx.ring.variables;
     let basis = nf.basis.iter().enumerate().flat_map(|(t, v)| v.iter().map(move |&(g, m)| (t as u32, m, g))).collect();
     let inverse =
@@ -384,7 +384,7 @@ fn emit_reductions(
                 from: orig.name.clone(),
                 to: small.name.clone(),
                 degree: zero.clone(),
-                terms: terms_of(rows(&red.pi), &orig.names, &small.names, vars),
+                terms: terms_of(rows(&red.pi()?), &orig.names, &small.names, vars),
             },
         );
         maps.0.insert(
@@ -393,7 +393,7 @@ fn emit_reductions(
                 from: small.name.clone(),
                 to: orig.name.clone(),
                 degree: zero.clone(),
-                terms: terms_of(rows(&red.iota), &small.names, &orig.names, vars),
+                terms: terms_of(rows(&red.iota()?), &small.names, &orig.names, vars),
             },
         );
         let witness = EquivalenceWitness {

@@ -27,7 +27,7 @@ pub fn hat_witness(gens: &[Generator], rows: &Rows) -> Result<HatWitness, String
     let gz: Vec<Vec<i64>> = gens.iter().map(|g| vec![g.3[0] - 2 * g.3[1]]).collect();
     let gradings = Gradings::new(1, gz.iter().map(|g| g.as_slice()));
     let hat = Complex { name: "X/(U − 1)".into(), names, index, gradings, d: SparseMap { rows: d }, defects: vec![] };
-    let r = Reduction::new(&hat, false)?;
+    let r = Reduction::new(&hat)?;
     if r.survivors.len() != 1 {
         return Err(format!(
             "the box tensor product at U = 1 has homology of rank {}, not 1 (HF-hat(S³) ≅ F2): not the complex of a knot in S³, so its Maslov grading cannot be normalized",
@@ -35,10 +35,10 @@ pub fn hat_witness(gens: &[Generator], rows: &Rows) -> Result<HatWitness, String
         ));
     }
     let name = |g: u32| hat.names[g as usize].clone();
-    let mut cycle: Vec<String> = r.iota.rows[0].iter().map(|&(g, _)| name(g)).collect();
-    let mut cocycle: Vec<String> =
-        (0..hat.names.len() as u32).filter(|&g| r.pi.rows[g as usize].iter().any(|t| t.0 == 0)).map(name).collect();
+    let mut cycle: Vec<String> = r.iota_for(0..1)?.rows[0].iter().map(|&(g, _)| name(g)).collect();
+    let mut cocycle: Vec<String> = r.pi_into(&[0])?[&0].iter().map(|&(g, _)| name(g)).collect();
     cycle.sort();
     cocycle.sort();
+    cocycle.dedup(); // one name per generator, whatever its terms
     Ok(HatWitness { cocycle, cycle })
 }

@@ -187,7 +187,7 @@ pub struct Solver<'a> {
 }
 
 impl<'a> Solver<'a> {
-    /// With `parallel`, independent reductions run on two threads.
+    /// With `parallel`, the reductions of a map's source and target run on two threads.
     pub fn new(ctx: &'a Context, parallel: bool) -> Self {
         Solver {
             ctx,
@@ -203,7 +203,7 @@ impl<'a> Solver<'a> {
             return Ok(r.clone());
         }
         let start = Instant::now();
-        let r = Rc::new(Reduction::new(&self.ctx.complexes[c], self.parallel)?);
+        let r = Rc::new(Reduction::new(&self.ctx.complexes[c])?);
         self.reduce_time.set(self.reduce_time.get() + start.elapsed());
         self.reductions.borrow_mut().insert(c, r.clone());
         Ok(r)
@@ -211,7 +211,7 @@ impl<'a> Solver<'a> {
 
     /// Reduces two complexes at once, on the machine's two cores when both are new and of
     /// comparable size (a quarter of the larger at least): the source and target of a map are
-    /// independent blocks. Otherwise each reduction uses both cores in turn.
+    /// independent blocks. Otherwise one after the other.
     fn reduction_pair(&self, c: usize, d: usize) -> Result<(Rc<Reduction>, Rc<Reduction>), String> {
         let known = |i: usize| self.reductions.borrow().contains_key(&i);
         let size = |i: usize| self.ctx.complexes[i].names.len();
@@ -220,8 +220,8 @@ impl<'a> Solver<'a> {
             let start = Instant::now();
             let complexes = &self.ctx.complexes;
             let (rc, rd) = std::thread::scope(|s| {
-                let other = s.spawn(|| Reduction::new(&complexes[d], false));
-                (Reduction::new(&complexes[c], false), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
+                let other = s.spawn(|| Reduction::new(&complexes[d]));
+                (Reduction::new(&complexes[c]), other.join().unwrap_or_else(|_| Err("reduction failed".into())))
             });
             self.reduce_time.set(self.reduce_time.get() + start.elapsed());
             let mut cache = self.reductions.borrow_mut();
@@ -239,7 +239,10 @@ impl<'a> Solver<'a> {
     /// Is φ null-homotopic? Witnesses refer to the original complexes.
     pub fn decide(&self, phi: &Evaluated) -> Result<Verdict, String> {
         let (rc, rd) = self.reduction_pair(phi.from, phi.to)?;
-        let small = rd.pi.after(&phi.m.after(&rc.iota)?)?;
+        // π_D φ ι_C, with only the rows of π_D that φ ι_C reaches made.
+        let iota_c = rc.iota()?;
+        let through = phi.m.after(&iota_c)?;
+        let small = rd.pi_for(targets(&through))?.after(&through)?;
         let verdict = match quick_dual(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)? {
             Some(y) => Verdict::NotNull(y),
             None => decide_in(&self.ctx.ring, &rc.complex, &rd.complex, &small, &phi.degree)?,
@@ -249,10 +252,12 @@ impl<'a> Solver<'a> {
             Verdict::Null(h_small) => {
                 // H = ι_D H′ π_C + h_D φ ι_C π_C + φ h_C
                 let h_small = to_map(&h_small, rc.complex.names.len());
-                let mut h = rd.iota.after(&h_small.after(&rc.pi)?)?;
-                let through = phi.m.after(&rc.iota.after(&rc.pi)?)?;
-                for (x, row) in through.rows.iter().enumerate() {
-                    h.rows[x].extend(rd.homotopy_of(row)?);
+                let pi_c = rc.pi()?;
+                let outer = h_small.after(&pi_c)?;
+                let mut h = rd.iota_for(targets(&outer))?.after(&outer)?;
+                let through = phi.m.after(&iota_c.after(&pi_c)?)?;
+                for (x, row) in rd.homotopy_rows(&through.rows)?.into_iter().enumerate() {
+                    h.rows[x].extend(row);
                 }
                 if !rc.is_identity() {
                     let tail = phi.m.after(&rc.homotopy()?)?;
@@ -264,11 +269,14 @@ impl<'a> Solver<'a> {
             }
             Verdict::NotNull(y_small) => {
                 // y = (ι_C ⊗ π_D^∨) y′: ⟨y, ψ⟩ = ⟨y′, π_D ψ ι_C⟩
-                let pi_into = rd.pi.incoming_to(&vec![true; rd.complex.names.len()]);
+                let mut ws: Vec<u32> = y_small.iter().map(|t| t.2).collect();
+                ws.sort_unstable();
+                ws.dedup();
+                let pi_into = rd.pi_into(&ws)?;
                 let mut y = Vec::new();
                 for (x2, m, w2) in y_small {
-                    for &(x, c) in &rc.iota.rows[x2 as usize] {
-                        for &(w, p) in &pi_into[w2 as usize] {
+                    for &(x, c) in &iota_c.rows[x2 as usize] {
+                        for &(w, p) in &pi_into[&w2] {
                             if let Some(q) = c.checked_mul(p).and_then(|cp| m.checked_div(cp)) {
                                 y.push((x, q, w));
                             }
@@ -282,6 +290,14 @@ impl<'a> Solver<'a> {
         self.transport_time.set(self.transport_time.get() + start.elapsed());
         Ok(transported)
     }
+}
+
+/// The generators a map reaches, each once, in order.
+fn targets(m: &SparseMap) -> impl Iterator<Item = u32> + Clone {
+    let mut ts: Vec<u32> = m.rows.iter().flatten().map(|t| t.0).collect();
+    ts.sort_unstable();
+    ts.dedup();
+    ts.into_iter()
 }
 
 /// Normalizes each row and lists the map's terms as triples.

@@ -139,8 +139,8 @@ enum Add {
 }
 
 /// The basis vectors and inverse rows, changed only by [`Add`]s applied in the order the
-/// pivots make them: here, or on a second thread that receives them in batches (the same
-/// vectors either way).
+/// pivots make them: at once, or later from a record of them (a [`Replay`]) for only the rows
+/// a question reads (the same vectors either way).
 struct Additions {
     basis: Vec<Vector>,
     inverse_rows: Vec<Vector>,
@@ -165,28 +165,92 @@ impl Additions {
     }
 }
 
-/// Where the pivot loop sends its [`Add`]s.
+/// Where the pivot loop sends its [`Add`]s: applied at once, or recorded for a [`Replay`].
 enum Sink {
     Here(Additions),
-    Beside { batch: Vec<Add>, send: std::sync::mpsc::Sender<Vec<Add>> },
+    Log(Vec<Add>),
 }
-
-const BATCH: usize = 4096;
 
 impl Sink {
     fn add(&mut self, add: Add) -> Result<(), String> {
         match self {
             Sink::Here(a) => a.apply(add),
-            Sink::Beside { batch, send } => {
-                batch.push(add);
-                if batch.len() == BATCH {
-                    // A closed channel means the other side failed; its error is reported at join.
-                    let _ = send.send(std::mem::replace(batch, Vec::with_capacity(BATCH)));
-                }
+            Sink::Log(log) => {
+                log.push(add);
                 Ok(())
             }
         }
     }
+}
+
+/// The additions of a pivot loop with unit pivots, in their order. The basis vectors and
+/// inverse rows they give are made only for the rows or columns a question reads, each the
+/// vector that applying every addition gives: on a large complex most are never read, and
+/// making them all cost as much as choosing the pivots.
+pub struct Replay {
+    adds: Vec<Add>,
+    n: usize,
+}
+
+impl Replay {
+    /// The final basis vectors (`basis`) or inverse rows of `wanted`: walking back from the
+    /// end, the additions that reach them (into a wanted row, or into a row that such an
+    /// addition reads, before it reads it), then those additions in order. Returns n rows;
+    /// the unwanted ones are meaningless (empty or partial).
+    pub fn rows(&self, basis: bool, wanted: &[u32]) -> Result<Vec<Vector>, String> {
+        let mut live = vec![false; self.n];
+        let mut start = vec![false; self.n];
+        for &t in wanted {
+            (live[t as usize], start[t as usize]) = (true, true);
+        }
+        let mut needed = Vec::new();
+        for (i, add) in self.adds.iter().enumerate().rev() {
+            match (basis, *add) {
+                (true, Add::Basis(t, _, s)) | (false, Add::Inverse(t, _, s)) if live[t as usize] => {
+                    needed.push(i);
+                    (live[s as usize], start[s as usize]) = (true, true);
+                }
+                // What the row held before it was emptied reaches nothing wanted.
+                (true, Add::ClearBasis(t)) | (false, Add::ClearInverse(t)) if live[t as usize] => {
+                    needed.push(i);
+                    live[t as usize] = false;
+                }
+                _ => {}
+            }
+        }
+        let rows = (0..self.n as u32).map(|t| if start[t as usize] { vec![(t, Mono::ONE)] } else { Vec::new() });
+        let mut a = Additions { basis: Vec::new(), inverse_rows: Vec::new(), spare: Spare::default() };
+        *(if basis { &mut a.basis } else { &mut a.inverse_rows }) = rows.collect();
+        needed.iter().rev().try_for_each(|&i| a.apply(self.adds[i]))?;
+        Ok(if basis { a.basis } else { a.inverse_rows })
+    }
+
+    /// Every inverse row restricted to the generators `columns` (row operations act on each
+    /// column alone): from the unit rows of `columns`, the additions from a non-zero row.
+    pub fn columns(&self, columns: &[u32]) -> Result<Vec<Vector>, String> {
+        let mut a = Additions { basis: Vec::new(), inverse_rows: vec![Vec::new(); self.n], spare: Spare::default() };
+        for &g in columns {
+            a.inverse_rows[g as usize] = vec![(g, Mono::ONE)];
+        }
+        for &add in &self.adds {
+            match add {
+                Add::Inverse(_, _, s) if a.inverse_rows[s as usize].is_empty() => {}
+                Add::Inverse(..) | Add::ClearInverse(_) => a.apply(add)?,
+                _ => {}
+            }
+        }
+        Ok(a.inverse_rows)
+    }
+}
+
+/// The pivot loop of [`normal_form`] with [`Pivots::Units`], its additions recorded rather than
+/// applied: (pairs, survivors, ∂ among survivors, the additions).
+#[allow(clippy::type_complexity)]
+pub fn unit_pivots(c: &Complex) -> Result<(Vec<(u32, u32, Mono)>, Vec<u32>, Vec<Vector>, Replay), String> {
+    let mut sink = Sink::Log(Vec::new());
+    let (pairs, survivors, out) = pivot(c, Pivots::Units, &mut sink)?;
+    let Sink::Log(adds) = sink else { unreachable!("made here") };
+    Ok((pairs, survivors, out, Replay { adds, n: c.names.len() }))
 }
 
 /// Calls `f(t, true)` for each generator t that occurs in `new` but not in `old`, and
@@ -260,40 +324,18 @@ fn key(a: u32, b: u32, m: Mono, row_len: usize, sources_of_b: usize) -> Key {
 /// instead of being used: far fewer heap entries on dense complexes, each candidate present at
 /// least once. Only what a [`Reduction`](super::reduce::Reduction) reads is kept for `Units`:
 /// the basis vectors of cancelled targets and the inverse rows of cancelled sources are left
-/// empty. With `beside`, the basis vectors and inverse rows are computed on a second thread
-/// from the additions the pivots make, in the same order (the same result).
-pub fn normal_form(c: &Complex, pivots: Pivots, beside: bool) -> Result<NormalForm, String> {
+/// empty.
+pub fn normal_form(c: &Complex, pivots: Pivots) -> Result<NormalForm, String> {
     let n = c.names.len();
     let unit = |t: u32| vec![(t, Mono::ONE)];
-    let start = || Additions {
+    let mut sink = Sink::Here(Additions {
         basis: (0..n as u32).map(unit).collect(),
         inverse_rows: (0..n as u32).map(unit).collect(),
         spare: Spare::default(),
-    };
-    if !beside {
-        let mut sink = Sink::Here(start());
-        let (pairs, survivors, out) = pivot(c, pivots, &mut sink)?;
-        let Sink::Here(Additions { basis, inverse_rows, .. }) = sink else { unreachable!("made here") };
-        return Ok(NormalForm { basis, inverse_rows, pairs, survivors, out });
-    }
-    let (send, receive) = std::sync::mpsc::channel::<Vec<Add>>();
-    std::thread::scope(|s| {
-        let other = s.spawn(move || {
-            let mut additions = start();
-            for batch in receive {
-                batch.into_iter().try_for_each(|a| additions.apply(a))?;
-            }
-            Ok::<_, String>((additions.basis, additions.inverse_rows))
-        });
-        let mut sink = Sink::Beside { batch: Vec::with_capacity(BATCH), send };
-        let pivoted = pivot(c, pivots, &mut sink);
-        if let Sink::Beside { batch, send } = sink {
-            let _ = send.send(batch);
-        } // the channel closes here, and the other side finishes
-        let (basis, inverse_rows) = other.join().unwrap_or_else(|p| std::panic::resume_unwind(p))?;
-        let (pairs, survivors, out) = pivoted?;
-        Ok(NormalForm { basis, inverse_rows, pairs, survivors, out })
-    })
+    });
+    let (pairs, survivors, out) = pivot(c, pivots, &mut sink)?;
+    let Sink::Here(Additions { basis, inverse_rows, .. }) = sink else { unreachable!("made here") };
+    Ok(NormalForm { basis, inverse_rows, pairs, survivors, out })
 }
 
 /// The pivot loop of [`normal_form`]: returns (pairs, survivors, ∂ among survivors), the
