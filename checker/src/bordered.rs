@@ -259,12 +259,9 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
         ensure(seen.insert(f), || at("it is listed twice"))?;
         let inputs = f.prefix.iter().chain(&f.repeat).chain(&f.suffix).map(|a| Alg::parse(a).map_err(|e| at(&e)));
         let pattern: Vec<Alg> = inputs.collect::<Result<_, _>>()?;
-        ensure(!pattern.contains(&Alg::One), || {
-            at("inputs are Reeb elements (strict unitality covers the idempotents)")
-        })?;
         let powers = (!f.repeat.is_empty() || f.power[0] == 0) && f.power.iter().all(|&p| p <= MAX_EXPONENT);
-        ensure(pattern.len() <= 60 && powers, || {
-            at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block")
+        ensure(pattern.len() <= 60 && !pattern.contains(&Alg::One) && powers, || {
+            at("at most 60 inputs written, Reeb elements (strict unitality covers the idempotents); power [a, b] within 2^20, a = 0 without a repeated block")
         })?;
         let find =
             |n: &String| m.index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
@@ -388,8 +385,8 @@ fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&
 }
 
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
-pub fn check_structure(d: &Object) -> Result<(), String> {
-    vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
+fn check_structure(o: &Budget, d: &Object) -> Result<(), Failure> {
+    vanishes(o, "(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
     // a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
         for &(a, y2) in row {
@@ -406,15 +403,21 @@ pub fn check_structure(d: &Object) -> Result<(), String> {
 
 /// No defect, and for each generator y of `d`: Σ over the pairs (first, second) of the
 /// composites y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0
-/// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism.
+/// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism. The composites are
+/// counted before they are visited: k arrows into a generator and k out of it make k².
 fn vanishes(
+    o: &Budget,
     what: &str,
     bad: &[String],
     d: &Object,
     names: &[String],
     pairs: &[(&Arrows, &Arrows)],
-) -> Result<(), String> {
+) -> Result<(), Failure> {
     none_of(bad)?;
+    let visits = |(first, second): &(&Arrows, &Arrows)| {
+        first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum::<u64>()
+    };
+    o.spend(pairs.iter().map(visits).sum(), what)?;
     for y in 0..d.names.len() {
         let mut acc = Vec::new();
         for (first, second) in pairs {
@@ -425,19 +428,10 @@ fn vanishes(
         normalize(&mut acc);
         if !acc.is_empty() {
             let terms: Vec<String> = acc.iter().map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
-            return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")));
+            return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")).into());
         }
     }
     Ok(())
-}
-
-/// The composites `vanishes` visits, counted before it runs: k arrows into a generator and k
-/// out of it make k².
-fn composites(pairs: &[(&Arrows, &Arrows)]) -> u64 {
-    let visits = |(first, second): &(&Arrows, &Arrows)| -> u64 {
-        first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum()
-    };
-    pairs.iter().map(visits).sum()
 }
 
 /// The A∞ relations on every word of length ≤ L on which a term can be non-zero.
@@ -554,8 +548,7 @@ fn bounded(o: &Budget, m: &Object, edges: &[Vec<Step>]) -> Result<&'static str, 
     o.spend(n as u64 + edges.iter().map(|e| e.len() as u64).sum::<u64>(), "box tensor")?;
     let mut into = vec![0u32; n as usize];
     edges.iter().flatten().for_each(|s| into[s.1 as usize] += 1);
-    let mut ready: Vec<u32> = (0..n).filter(|&y| into[y as usize] == 0).collect();
-    let mut peeled = 0;
+    let (mut ready, mut peeled): (Vec<u32>, _) = ((0..n).filter(|&y| into[y as usize] == 0).collect(), 0);
     while let Some(y) = ready.pop() {
         peeled += 1;
         for s in &edges[y as usize] {
@@ -612,9 +605,7 @@ pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generat
 /// (M, A) by s·(2, 1) = the grading of U^(−s), which keeps the line M = 2A of the U-tower.
 fn symmetrize(gens: &mut [Generator]) -> Result<(), String> {
     let mut chi: BTreeMap<i64, i64> = BTreeMap::new();
-    for g in gens.iter() {
-        *chi.entry(g.3[1]).or_default() += if g.3[0] % 2 == 0 { 1 } else { -1 };
-    }
+    gens.iter().for_each(|g| *chi.entry(g.3[1]).or_default() += 1 - 2 * g.3[0].rem_euclid(2)); // (−1)^M
     chi.retain(|_, c| *c != 0);
     let (Some((&lo, _)), Some((&hi, _))) = (chi.first_key_value(), chi.last_key_value()) else {
         return Err("the graded Euler characteristic Σ(−1)^M t^A of the box tensor product is 0: no shift makes it symmetric, so no absolute grading is read".into());
@@ -740,10 +731,9 @@ pub fn tensor_map(
                 }
             }
         }
-        out.sort_unstable();
         // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
-        let odd = out.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
-        rows.push(odd.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], names[r[0].1 as usize]), r[0].2)).collect());
+        normalize(&mut out);
+        rows.push(out.iter().map(|&(x, y, p)| (format!("{}⊗{}", m.names[x as usize], names[y as usize]), p)).collect());
     }
     Ok((gens, rows, side))
 }
@@ -764,9 +754,9 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
         format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
     };
     let n = c.names.len();
-    // Arrows of kind 0 (horizontal: U^i, chains lambda…) and 1 (vertical: V^j, chains kappa…),
-    // and how many of each kind touch each generator.
-    let (mut count, mut arrows) = ([vec![0; n], vec![0; n]], Vec::new());
+    // Arrows (kind, a, b, ℓ) of kind 0 (horizontal: U^ℓ, chains lambda…) and 1 (vertical:
+    // V^ℓ, chains kappa…).
+    let mut arrows = Vec::new();
     for (a, row) in c.d.rows.iter().enumerate() {
         for &(b, m) in row {
             let ([u, v], b) = (m.0, b as usize);
@@ -774,16 +764,13 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
             ensure(u + v > 0, || refuse(format!("∂{an} has the term {bn} with coefficient 1 (not reduced)")))?;
             // A diagonal term U^i·V^j (i, j ≥ 1) vanishes in both C/(U) and C/(V), whose
             // arrows are all LOT Thm 11.26 reads: it does not enter the structure.
-            if u == 0 || v == 0 {
-                let kind = (u == 0) as usize;
-                count[kind][a] += 1;
-                count[kind][b] += 1;
-                arrows.push((kind, a, b, u.max(v)));
-            }
+            arrows.extend((u == 0 || v == 0).then_some(((u == 0) as usize, a, b, u.max(v))));
         }
     }
+    // The one generator with no arrow of a kind (η_0: horizontal, ξ_0: vertical); none has two.
     let lone = |kind: usize| -> Result<usize, String> {
-        let (count, what) = (&count[kind], ["horizontal", "vertical"][kind]);
+        let (mut count, what) = (vec![0; n], ["horizontal", "vertical"][kind]);
+        arrows.iter().filter(|r| r.0 == kind).flat_map(|r| [r.1, r.2]).for_each(|x| count[x] += 1);
         if let Some(x) = (0..n).find(|&x| count[x] > 1) {
             return Err(refuse(format!("{} has {} {what} arrows", c.names[x], count[x])));
         }
@@ -800,12 +787,12 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
     ensure(eta_a == -tau, || {
         format!("complex {}: A(ξ_0 = {xn}) = {tau} but A(η_0 = {en}) = {eta_a}, not −{tau}: not the complex of a knot in S^3", c.name)
     })?;
-    let (mut gens, mut terms, mut gr0) = (Vec::new(), Vec::new(), Vec::new());
+    let (mut gens, mut terms, mut gr0) = (BTreeMap::new(), Vec::new(), Vec::new());
     for x in 0..n {
         let (m, a) = (c.gradings[x][0], alexander(x)?);
         gr0.push([2 * m as i128 - 3 * a as i128, 0, -2 * a as i128, 0]);
         let grading = if group { written(gr0[x])? } else { vec![m, a] };
-        gens.push((c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 }));
+        gens.insert(c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 });
     }
     // A chain of ι_1 generators from a generator of C: each step (ρ, name, forward) writes the
     // term [previous, ρ, name] (forward) or [name, ρ, previous] and gives `name` the grading
@@ -819,7 +806,10 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
             g = if forward { after(rho, g) } else { gr_mul(gr_mul(LAMBDA, gr_alg(rho)), g) };
             if k < last {
                 let grading = if group { Some(written(g)?) } else { None };
-                gens.push((name.clone(), DGenerator { grading, idempotent: 1 }));
+                let new = gens.insert(name.clone(), DGenerator { grading, idempotent: 1 }).is_none();
+                ensure(new, || {
+                    format!("complex {}: the name {name} is made twice (C's generators and the complement's chains kappa…, lambda…, gamma…, pair.x, pair.y share one namespace); rename a generator", c.name)
+                })?;
             }
             previous = name;
         }
@@ -855,14 +845,9 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
     let gammas = (1..=m).map(|k| format!("gamma{k}")).collect();
     let unstable = chain(first, gammas, t < 2 * tau, last, en);
     walk(xi0, pair.into_iter().filter(|_| split).chain(unstable).collect())?;
-    let count = gens.len();
-    let generators = UniqueMap(gens.into_iter().collect());
-    ensure(generators.len() == count, || {
-        format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…, pair.x, pair.y); rename it", c.name)
-    })?;
     terms.sort();
     let period = if group { Some(written([t as i128 + 1, 2, 2 * t as i128, 0])?) } else { None };
-    Ok((TypeDSpec { differential: terms, generators, period }, tau, split))
+    Ok((TypeDSpec { differential: terms, generators: UniqueMap(gens), period }, tau, split))
 }
 
 /// The pairing just walked gave terms on input words of length ≤ k (`budget.1`); the relations
@@ -923,11 +908,7 @@ fn check_bordered(
     let morphism = |n: &str| get(&o.morphisms, "type D morphism", n);
     let (b, mut facts) = (&o.budget, BTreeMap::new());
     match claim {
-        Claim::TypeDStructure { structure: n, .. } => {
-            let d = structure(n)?;
-            b.spend(composites(&[(&d.delta, &d.delta)]), "the D relation")?;
-            check_structure(d)?
-        }
+        Claim::TypeDStructure { structure: n, .. } => check_structure(b, structure(n)?)?,
         Claim::TypeAModule { module: n, max_length, .. } => {
             // The allowance left (b.2) joins the budget for this check only; what it does
             // not use is kept for the next module, and the shared budget never grows. (The
@@ -942,9 +923,7 @@ fn check_bordered(
         Claim::TypeDMorphism { morphism: n, .. } => {
             let f = morphism(n)?;
             let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-            let pairs = [(&f.terms, &n2.delta), (&n.delta, &f.terms)];
-            b.spend(composites(&pairs), "∂f")?;
-            vanishes("∂f", &f.defects, n, &n2.names, &pairs)?
+            vanishes(b, "∂f", &f.defects, n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
         }
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
