@@ -33,6 +33,8 @@ pub struct FileReport {
     pub sha256: String,
     /// The hash the file states.
     pub stated_sha256: String,
+    /// The certificate's format version (outside the hash): what its claims' gradings mean.
+    pub version: u32,
     pub claims: Vec<verify::ClaimResult>,
     /// What was checked, for reports.
     pub body: tubecert_format::Body,
@@ -76,5 +78,6 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });
     let (sha256, claims) = (sha256?, claims?);
-    Ok(FileReport { file: file.to_string(), sha256, stated_sha256: cert.sha256, claims, body: cert.body })
+    let (stated_sha256, version) = (cert.sha256, cert.version);
+    Ok(FileReport { file: file.to_string(), sha256, stated_sha256, version, claims, body: cert.body })
 }

@@ -6,7 +6,7 @@
 //! LaTeX: [`latex`] is a fragment to `\input` (it needs `amsmath` and `amssymb`);
 //! [`latex_document`] wraps fragments into a whole document (`--standalone`).
 
-use crate::report_text::{BORDERED_SCOPE, SCOPE};
+use crate::report_text::{caveat, objects, objects_line, paired, Notation, BORDERED_SCOPE, PLAIN, SCOPE};
 use crate::FileReport;
 use tubecert_format::statement::{render_expr, render_grading, ring_name};
 use tubecert_format::{Claim, MapExpr, Term};
@@ -25,14 +25,18 @@ struct Summary {
     claims: Vec<Shown>,
 }
 
-/// One claim as shown: verified or not, kind, statement, the surfaces reading and witnesses.
+/// One claim as shown: verified or not, kind, statement, the surfaces reading, the bordered
+/// objects' periods and gradings, and witnesses.
 struct Shown {
     ok: bool,
     kind: String,
     claim: Claim,
+    /// The checker's wording of the claim's fields with its caveat, never the file's text.
+    statement: String,
     /// What the checker's statement adds to the claim's wording (the format version's caveat).
-    caveat: String,
+    caveat: &'static str,
     reading: Option<String>,
+    objects: Option<Title>,
     witnesses: Vec<Witness>,
 }
 
@@ -176,16 +180,13 @@ fn summary(r: &FileReport) -> Summary {
         conventions.push(format!("deg {v} = {}", render_grading(&b.ring.variable_degrees[v])));
     }
     conventions.push(format!("deg ∂ = {}", render_grading(&b.ring.differential_degree)));
-    let listed: Vec<_> = r.claims.iter().filter(|c| !c.implicit).collect();
     Summary {
         ring: ring_name(vars),
         conventions,
         complexes: b.complexes.iter().map(|(n, c)| (n.clone(), c.generators.len(), c.differential.len())).collect(),
         maps: b.maps.iter().map(|(n, m)| (n.clone(), m.from.clone(), m.to.clone(), m.terms.len())).collect(),
-        claims: b
-            .claims
-            .iter()
-            .zip(listed)
+        claims: paired(r)
+            .filter_map(|(res, c)| Some((c?, res)))
             .map(|(c, res)| {
                 let ok = res.outcome.is_ok();
                 let reading = res
@@ -197,9 +198,19 @@ fn summary(r: &FileReport) -> Summary {
                     .map(str::to_string);
                 // Only what verified is written out.
                 let witnesses = if ok { witnesses(c) } else { vec![] };
-                // Names hold no spaces, so only a caveat starts with " [format version".
-                let caveat = res.statement.find(" [format version").map_or("", |i| &res.statement[i..]).to_string();
-                Shown { ok, kind: c.kind().to_string(), claim: c.clone(), caveat, reading, witnesses }
+                let (shown, with_generators) = if ok { objects(c, b.bordered.as_ref()) } else { (vec![], false) };
+                let objects = objects_line(&shown, with_generators, &PLAIN)
+                    .map(|md| Title { md, tex: objects_line(&shown, with_generators, &TEX).unwrap_or_default() });
+                Shown {
+                    ok,
+                    kind: c.kind().to_string(),
+                    claim: c.clone(),
+                    statement: res.statement.clone(),
+                    caveat: caveat(c, r.version),
+                    reading,
+                    objects,
+                    witnesses,
+                }
             })
             .collect(),
     }
@@ -295,16 +306,13 @@ pub fn markdown(r: &FileReport) -> String {
     o += "\nEvery complex satisfies ∂∘∂ = 0 and every map is a homogeneous chain map (checked).\n\n### Claims\n\n";
     for (i, c) in s.claims.iter().enumerate() {
         let status = if c.ok { "✓" } else { "✗ failed" };
-        o += &format!(
-            "{}. {status} {}{} *({}; witness terms: {})*\n",
-            i + 1,
-            c.claim.statement(),
-            c.caveat,
-            c.kind,
-            witness_size(&c.claim)
-        );
+        o +=
+            &format!("{}. {status} {} *({}; witness terms: {})*\n", i + 1, c.statement, c.kind, witness_size(&c.claim));
         if let Some(reading) = &c.reading {
             o += &format!("    - reading: {reading}\n");
+        }
+        if let Some(objects) = &c.objects {
+            o += &format!("    - {}\n", objects.md);
         }
         for w in &c.witnesses {
             o += &md_witness(w);
@@ -329,6 +337,10 @@ fn tex_text(n: &str) -> String {
             '~' => out += "\\~{}",
             '\\' => out += "\\textbackslash{}",
             '⊗' => out += "\\ensuremath{\\otimes}",
+            '⊠' => out += "\\ensuremath{\\boxtimes}",
+            '≃' => out += "\\ensuremath{\\simeq}",
+            'ι' => out += "\\ensuremath{\\iota}",
+            '§' => out += "\\S{}",
             '\'' => out += "\\ensuremath{'}",
             'á' => out += "\\'a",
             '–' => out += "--",
@@ -383,7 +395,20 @@ fn tex_grading(g: &[i64]) -> String {
     format!("({})", g.iter().map(|x| x.to_string()).collect::<Vec<_>>().join(","))
 }
 
-fn tex_claim(c: &Claim, vars: &[String], gradings: &[String]) -> String {
+/// The LaTeX notation of the objects line beside a claim.
+const TEX: Notation = Notation {
+    name: |n| format!("${}$", tex_name(n)),
+    period: |side, o, v| match v {
+        Some(v) => format!("$h_{side}({}) = {v}$", tex_name(o)),
+        None => format!("$h_{side}({})$: none written", tex_name(o)),
+    },
+    generator: |i, g| format!("$\\iota_{i}${}", g.map_or(String::new(), |g| format!(" ${g}$"))),
+    words: tex_text,
+};
+
+/// A claim in LaTeX, saying all its statement in format `version` says: for a box tensor
+/// product, how its gradings were read and normalized.
+fn tex_claim(c: &Claim, vars: &[String], gradings: &[String], version: u32) -> String {
     let ring =
         if vars.is_empty() { "\\mathbb{F}_2".to_string() } else { format!("\\mathbb{{F}}_2[{}]", vars.join(",")) };
     match c {
@@ -436,11 +461,28 @@ fn tex_claim(c: &Claim, vars: &[String], gradings: &[String]) -> String {
             format!("${}$ is a type $D$ morphism, $\\partial {} = 0$", tex_name(morphism), tex_name(morphism))
         }
         Claim::BoxTensor { complex, module, structure, .. } => {
-            format!("${} = {} \\boxtimes {}$", tex_name(complex), tex_name(module), tex_name(structure))
+            let x = tex_name(complex);
+            let read = "(Maslov, Alexander) read from $\\mathrm{gr}(x)\\cdot\\mathrm{gr}(y)$ in LOT's grading group";
+            let symmetric = ", then shifted by $s\\cdot(2, 1)$ with the one $s$ making $\\sum(-1)^M t^A$ symmetric under $t \\leftrightarrow t^{-1}$";
+            let how = match version {
+                5.. => format!("{read}{symmetric}, and in $M$ alone so that a witnessed cycle of ${x}/(U - 1)$, non-zero in homology, has $M - 2A = 0$, the degree of $\\widehat{{HF}}(S^3) \\cong \\mathbb{{F}}_2$"),
+                4 => format!("{read}{symmetric}"),
+                3 => read.to_string(),
+                _ => "gradings added".to_string(),
+            };
+            format!("${x} = {} \\boxtimes {}$ (box tensor product, {how})", tex_name(module), tex_name(structure))
         }
-        Claim::BoxTensorMap { map, module, morphism, .. } => {
-            format!("${} = \\mathrm{{id}}_{{{}}} \\boxtimes {}$", tex_name(map), tex_name(module), tex_name(morphism))
-        }
+        Claim::BoxTensorMap { map, module, morphism, .. } => format!(
+            "${} = \\mathrm{{id}}_{{{}}} \\boxtimes {}${}",
+            tex_name(map),
+            tex_name(module),
+            tex_name(morphism),
+            if version >= 5 {
+                " (source and target graded as box tensor products, each with its own witnessed cycle in degree $M - 2A = 0$)"
+            } else {
+                ""
+            }
+        ),
         Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => format!(
             "${}$ {} $\\widehat{{CFD}}$ of the complement of the knot with complex ${}$, framing ${framing}$ (LOT Thm 11.26{}), $\\tau = {tau}$",
             tex_name(structure),
@@ -506,11 +548,11 @@ pub fn latex(r: &FileReport) -> String {
     let hash = format!("\\texttt{{{}}}", hash.join("\\allowbreak{}"));
     o += "\\subsection*{Machine-checked certificate}\n";
     o += &format!("File {}.\\\\\nSHA-256 of the RFC~8785 canonical body: {hash}.\n\n", breakable(&tt(&r.file)));
-    o += &format!("\\emph{{{}}}\n\n", SCOPE);
+    o += &format!("\\emph{{{}}}\n\n", tex_text(SCOPE));
     if r.body.bordered.is_some() {
         o += &format!(
             "\\emph{{{}}}\n\n",
-            BORDERED_SCOPE.replace('⊠', "$\\boxtimes$").replace('≃', "$\\simeq$").replace("^-", "$^-$")
+            tex_text(BORDERED_SCOPE).replace("\\^{}-", "\\ensuremath{^-}").replace("h\\_A", "$h_A$")
         );
     }
     let ring = &r.body.ring;
@@ -542,15 +584,18 @@ pub fn latex(r: &FileReport) -> String {
         let status = if c.ok { "" } else { " \\textbf{(FAILED)}" };
         o += &format!(
             "\\item {}{}{status} \\hfill {{\\small {}; witness terms: {}}}\n",
-            tex_claim(&c.claim, &ring.variables, &ring.gradings),
-            tex_text(&c.caveat),
+            tex_claim(&c.claim, &ring.variables, &ring.gradings, r.version),
+            tex_text(c.caveat),
             c.kind.replace('_', "\\_"),
             witness_size(&c.claim)
         );
-        if c.reading.is_some() || !c.witnesses.is_empty() {
+        if c.reading.is_some() || c.objects.is_some() || !c.witnesses.is_empty() {
             o += "\\begin{itemize}\n";
             if let Some(reading) = &c.reading {
                 o += &format!("\\item Reading: {}.\n", tex_text(reading));
+            }
+            if let Some(objects) = &c.objects {
+                o += &format!("\\item {}\n", objects.tex);
             }
             for w in &c.witnesses {
                 o += &tex_witness(w);

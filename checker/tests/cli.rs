@@ -116,6 +116,34 @@ fn appendix_reports() {
     compiles(&doc);
 }
 
+/// A bordered certificate's reports show each module's period and gradings beside its claim and
+/// the periods beside each pairing (the statements do not carry them), and its LaTeX compiles.
+#[test]
+fn bordered_reports_show_periods_and_gradings() {
+    let path = format!("{}/cable-by-p3.cert.json", certificates());
+    let module = "h_A(KC.pattern) = (11/2; 0, 1; 3); 5 generators (idempotent, grading): x1 ι0 (0; 0, 0; 0), y1 ι1 (-1/2; 1/2, -1/2; 0),";
+    let periods = "periods: h_A(KC.pattern) = (11/2; 0, 1; 3), h_D(KC.complement) = (0; 1, -1; 0)";
+    let (code, text, _) = tubecheck(&[&path]);
+    assert_eq!(code, 0);
+    let after = |claim: &str| text.lines().skip_while(|l| !l.contains(claim)).nth(1).unwrap_or("").to_string();
+    assert!(after("✓ KC.pattern is a strictly unital").contains(module), "{text}");
+    assert!(after("✓ KC = KC.pattern ⊠ KC.complement").contains(periods), "{text}");
+    let (_, md, _) = tubecheck(&["--report", "md", &path]);
+    assert!(md.contains(&format!("    - period and generators: {module}")) && md.contains(periods), "{md}");
+    let (_, tex, _) = tubecheck(&["--report", "tex", "--standalone", &path]);
+    assert!(tex.contains("\\item period and generators: $h_A(\\mathrm{KC.pattern}) = (11/2; 0, 1; 3)$"), "{tex}");
+    compiles(&tex);
+    let (_, json, _) = tubecheck(&["--json", &path]);
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+    let claims = v[0]["claims"].as_array().unwrap();
+    let a = claims.iter().find(|c| c["kind"] == "type_a_module").unwrap();
+    assert_eq!(a["object"]["period"], serde_json::json!([11, 0, 2, 6]), "{a}");
+    assert_eq!(a["object"]["generators"]["y1"], serde_json::json!({"grading": [-1, 1, -1, 0], "idempotent": 1}));
+    let b = claims.iter().find(|c| c["kind"] == "box_tensor").unwrap();
+    assert_eq!(b["periods"], serde_json::json!({"KC.pattern": [11, 0, 2, 6], "KC.complement": [0, 2, -2, 0]}));
+    assert_eq!(b["bounded"], "structure", "the existing facts stay");
+}
+
 /// Beyond the size limit a witness shows its first rows and counts the rest.
 #[test]
 fn appendix_witnesses_are_cut_with_counts() {

@@ -34,12 +34,18 @@ fn body(version: u32, complexes: Value, maps: Value, bordered: Value, claims: Ve
     .expect("body parses")
 }
 
-/// The certificate's bytes with the canonical hash, and the checker's verdict on them:
-/// Ok(true) verified, Ok(false) a claim failed, Err refused.
-fn verdict(version: u32, body: Body) -> Result<bool, String> {
+/// A certificate of format `version` with this body, sealed with the canonical hash (as anyone
+/// can), and the checker's report on its bytes (Err: refused).
+fn sealed(version: u32, body: Body) -> Result<tubecheck::FileReport, String> {
     let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
     let cert = Certificate { format: "tubecert-certificate".into(), version, sha256, body };
-    let r = tubecheck::check_bytes("hostile.cert.json", &serde_json::to_vec(&cert).unwrap())?;
+    tubecheck::check_bytes("hostile.cert.json", &serde_json::to_vec(&cert).unwrap())
+}
+
+/// The checker's verdict on a sealed certificate: Ok(true) verified, Ok(false) a claim failed,
+/// Err refused.
+fn verdict(version: u32, body: Body) -> Result<bool, String> {
+    let r = sealed(version, body)?;
     for c in r.claims.iter().filter(|c| c.outcome.is_err()) {
         eprintln!("failed: {} — {:?}", c.statement, c.outcome);
     }
@@ -69,6 +75,15 @@ fn box_tensor_generator_names_that_collide_are_refused() {
     let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
     assert!(!matches!(v, Ok(true)), "C = M ⊠ N verified with a generator z that M ⊠ N does not have: {v:?}");
     assert!(v.as_ref().is_err_and(|e| e.contains("a⊗b⊗c")), "{v:?}");
+}
+
+/// The file is refused for its work (the budget), within `seconds` (generous for a debug build
+/// on a loaded machine; doing the work took far longer).
+fn refused_for_work(version: u32, body: Body, seconds: u64, what: &str) {
+    let start = std::time::Instant::now();
+    let v = verdict(version, body);
+    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{what}: {v:?}");
+    assert!(start.elapsed().as_secs() < seconds, "{what}: took {:?}", start.elapsed());
 }
 
 /// A stored certificate's body, as JSON to edit.
@@ -146,12 +161,7 @@ fn a_box_tensor_product_with_too_many_generators_is_refused_before_it_is_built()
         json!({"kind": "type_a_module", "module": "M", "max_length": 0}),
         json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
     ];
-    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    let start = std::time::Instant::now();
-    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
-    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
-    // Generous for a debug build on a loaded machine; building the pairs took far longer.
-    assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
+    pairing_refused(bordered, claims, 20, "generator pairs");
 }
 
 /// LOT Thm 11.26 gives an arrow U^l (or V^l) a chain of l generators: four arrows of length
@@ -168,10 +178,7 @@ fn a_complement_with_long_arrows_is_refused_before_its_chains_are_built() {
         "differential": [["a", u, "b"], ["a", v, "c"], ["b", v, "d"], ["c", u, "d"]]
     });
     b["claims"].as_array_mut().unwrap().retain(|c| c["kind"] == "complement" && c["complex"] == "KC.companion");
-    let start = std::time::Instant::now();
-    let v = verdict(version, serde_json::from_value(b).unwrap());
-    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
-    assert!(start.elapsed().as_secs() < 20, "took {:?}", start.elapsed());
+    refused_for_work(version, serde_json::from_value(b).unwrap(), 20, "long arrows");
 }
 
 /// `max_length` is a u32: at 2^32 − 1 with two families that repeat a block, the count of
@@ -218,11 +225,14 @@ fn refused_quickly(bordered: Value, what: &str) {
         json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
         json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
     ];
+    pairing_refused(bordered, claims, 10, what);
+}
+
+/// A version-2 body with this bordered section and these claims about a pairing into a complex C
+/// of one generator is refused for its work within `seconds`.
+fn pairing_refused(bordered: Value, claims: Vec<Value>, seconds: u64, what: &str) {
     let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    let start = std::time::Instant::now();
-    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
-    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{what}: {v:?}");
-    assert!(start.elapsed().as_secs() < 10, "{what}: took {:?}", start.elapsed());
+    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), seconds, what);
 }
 
 /// A chain y0 →ρ12 y1 →ρ12 … of k generators gives ∂(x⊗y_i) = Σ_{j ≥ i} x⊗y_j: k²/2 terms, each
@@ -239,13 +249,9 @@ fn box_tensor_terms_are_counted_before_their_names_are_made() {
     refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 0), "chain");
 }
 
-/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
-/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
-/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
-/// before they cancel are counted too, else one generator's list grows to gigabytes.
-#[test]
-fn box_tensor_terms_before_cancellation_are_counted() {
-    let d = 40;
+/// A type D structure of d + 1 layers of two generators, each joined by ρ12 to both of the next
+/// layer: 2^d δ-paths from the first layer.
+fn layers(d: usize) -> Value {
     let mut generators = serde_json::Map::new();
     let mut differential = Vec::new();
     for l in 0..=d {
@@ -259,7 +265,16 @@ fn box_tensor_terms_before_cancellation_are_counted() {
             }
         }
     }
-    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 20_000), "layers");
+    json!({"generators": generators, "differential": differential})
+}
+
+/// Two generators per layer, each joined by ρ12 to both of the next layer: 2^d δ-paths from the
+/// first layer, every one a term of ∂(x⊗a0) (mod 2 they cancel in pairs, so the product is
+/// small), paid for by 20,000 written ι1 generators of M that pair with nothing. Terms listed
+/// before they cancel are counted too, else one generator's list grows to gigabytes.
+#[test]
+fn box_tensor_terms_before_cancellation_are_counted() {
+    refused_quickly(rho12_pairing(layers(40), 20_000), "layers");
 }
 
 /// Every claim's statement rewritten in the wording of format `version` (the version is outside
@@ -274,10 +289,7 @@ fn restate(version: u32, b: &mut Value) {
 
 /// The checker's report of a certificate of format `version` with this body.
 fn report(version: u32, b: Value) -> tubecheck::FileReport {
-    let body: Body = serde_json::from_value(b).unwrap();
-    let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
-    let cert = Certificate { format: "tubecert-certificate".into(), version, sha256, body };
-    tubecheck::check_bytes("hostile.cert.json", &serde_json::to_vec(&cert).unwrap()).expect("read")
+    sealed(version, serde_json::from_value(b).unwrap()).expect("read")
 }
 
 /// cable-by-p1 with its patterns' generators moved by `shift` (doubled (j; p, q; a), central, so
@@ -334,6 +346,68 @@ fn a_restated_version_3_certificate_says_its_box_tensor_gradings_are_not_absolut
     let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
     assert_eq!(md.matches("[format version 3:").count(), 4, "{md}");
     assert_eq!(tex.matches("[format version 3:").count(), 4, "{tex}");
+    normalization_said_alike(&r, 4);
+    // What fixes those gradings here, the module's declared gradings and period, is shown beside
+    // its claim and the periods beside each pairing, in every report.
+    let text = tubecheck::report_text::render(&r);
+    let json = tubecheck::report_json::render(&r).to_string();
+    let line = "h_A(KC.pattern) = (3/2; 0, 1; 1); 1 generator (idempotent, grading): x ι0 (-6; 0, 0; -3)";
+    assert_eq!(text.matches(line).count(), 1, "{text}");
+    assert_eq!(md.matches(line).count(), 1, "{md}");
+    assert_eq!(text.matches("periods: h_A(KO.pattern) = (3/2; 0, 1; 1), h_D(KO.complement)").count(), 3, "{text}");
+    assert!(tex.contains("$h_A(\\mathrm{KC.pattern}) = (3/2; 0, 1; 1)$; 1 generator (idempotent, grading): $\\mathrm{x}$ $\\iota_0$ $(-6; 0, 0; -3)$"), "{tex}");
+    let object = r#""object":{"generators":{"x":{"grading":[-12,0,0,-6],"idempotent":0}},"name":"KC.pattern","period":[3,0,2,2]}"#;
+    assert!(json.contains(object), "{json}");
+}
+
+/// The LaTeX report says how each box tensor product's gradings were read and normalized
+/// exactly where the checker's statement (text and Markdown) says it; `n` box tensor claims.
+fn normalization_said_alike(r: &tubecheck::FileReport, n: usize) {
+    let tex = tubecheck::report_appendix::latex(r);
+    let claims: Vec<&str> = tex.lines().filter(|l| l.starts_with("\\item $") && l.contains("boxtimes")).collect();
+    let statements: Vec<&str> =
+        r.claims.iter().filter(|c| c.kind.starts_with("box_tensor")).map(|c| &c.statement[..]).collect();
+    assert_eq!((claims.len(), statements.len()), (n, n), "{tex}");
+    let phrases = [
+        ("gradings added", "gradings added"),
+        ("in LOT's grading group", "in LOT's grading group"),
+        ("symmetric under t ↔ t⁻¹", "symmetric under $t \\leftrightarrow t^{-1}$"),
+        ("witnessed cycle", "witnessed cycle"),
+        ("HF-hat(S³) ≅ F2", "$\\widehat{HF}(S^3) \\cong \\mathbb{F}_2$"),
+    ];
+    for (statement, line) in statements.iter().zip(&claims) {
+        for (text, latex) in phrases {
+            assert_eq!(statement.contains(text), line.contains(latex), "{text}:\n{statement}\n{line}");
+        }
+    }
+}
+
+/// A version-5 certificate's LaTeX report says both normalizations, as its statements do.
+#[test]
+fn the_latex_report_says_how_box_tensor_gradings_were_normalized() {
+    let (version, b) = stored("cable-by-p1");
+    let r = report(version, b);
+    assert!(r.ok());
+    normalization_said_alike(&r, 4);
+    let tex = tubecheck::report_appendix::latex(&r);
+    assert_eq!(tex.matches("witnessed cycle of $\\mathrm{KC}/(U - 1)$, non-zero in homology").count(), 1, "{tex}");
+}
+
+/// A failed claim is shown in the checker's wording of its fields, never in the file's text,
+/// which a hostile author may write to read as another result.
+#[test]
+fn a_failed_claim_is_shown_in_the_checkers_words_in_every_report() {
+    let (version, mut b) = stored("disk-pair-p2");
+    b["claims"][0]["statement"] = json!("ord_U(F − G) = 9, checked");
+    let r = report(version, b);
+    assert!(r.claims.iter().find(|c| !c.implicit).unwrap().outcome.is_err());
+    let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
+    let (text, json) = (tubecheck::report_text::render(&r), tubecheck::report_json::render(&r).to_string());
+    for report in [&md, &tex, &text, &json] {
+        assert!(!report.contains("= 9"), "{report}");
+    }
+    assert!(md.contains("1. ✗ failed ord_U(F − G) = 2 *(torsion_order;"), "{md}");
+    assert!(text.contains("✗ [torsion_order] ord_U(F − G) = 2"), "{text}");
 }
 
 /// Version 4's Maslov grading is a convention: with the pattern moved by λ² (Maslov only) KC's
@@ -352,6 +426,7 @@ fn a_restated_version_4_certificate_carries_its_caveat_into_every_report() {
     let (md, tex) = (tubecheck::report_appendix::markdown(&r), tubecheck::report_appendix::latex(&r));
     assert_eq!(md.matches(caveat).count(), 4, "{md}");
     assert_eq!(tex.matches(caveat).count(), 4, "{tex}");
+    normalization_said_alike(&r, 4);
 }
 
 /// The same body restated as version 5 without its witnesses fails, and with the witnesses
@@ -374,29 +449,11 @@ fn a_shifted_maslov_grading_does_not_verify_in_version_5() {
 /// add 40·2^32 units for what follows, here 2^40 δ-paths of a layered structure.
 #[test]
 fn the_a_infinity_allowance_is_not_left_behind_by_a_claim_about_an_undeclared_module() {
-    let d = 40;
-    let mut generators = serde_json::Map::new();
-    let mut differential = Vec::new();
-    for l in 0..=d {
-        for s in ["a", "b"] {
-            generators.insert(format!("{s}{l}"), json!({"grading": [0, 0], "idempotent": 0}));
-            if l < d {
-                differential.extend([
-                    json!([format!("{s}{l}"), "rho12", format!("a{}", l + 1)]),
-                    json!([format!("{s}{l}"), "rho12", format!("b{}", l + 1)]),
-                ]);
-            }
-        }
-    }
-    let bordered = rho12_pairing(json!({"generators": generators, "differential": differential}), 0);
+    let bordered = rho12_pairing(layers(40), 0);
     let mut claims: Vec<Value> =
         (0..40).map(|_| json!({"kind": "type_a_module", "module": "Z", "max_length": 2})).collect();
     claims.push(json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}));
-    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    let start = std::time::Instant::now();
-    let v = verdict(2, body(2, complexes, json!({}), bordered, claims));
-    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
-    assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+    pairing_refused(bordered, claims, 10, "undeclared module");
 }
 
 /// A framing of −2^53 (the most negative integer a file holds): nothing may overflow (a panic); the
@@ -407,8 +464,7 @@ fn a_framing_at_the_end_of_the_integers_is_refused() {
     b["claims"].as_array_mut().unwrap().retain(|c| c["kind"] == "complement" && c["complex"] == "KC.companion");
     b["claims"][0]["framing"] = json!(-(1i64 << 53));
     restate(version, &mut b);
-    let v = verdict(version, serde_json::from_value(b).unwrap());
-    assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
+    refused_for_work(version, serde_json::from_value(b).unwrap(), 20, "framing");
 }
 
 /// M ⊠ N is a complex only when N is a type D structure: a `box_tensor` claim whose N no
@@ -479,11 +535,8 @@ fn the_d_relation_of_a_hub_is_counted_before_it_is_checked() {
     for claim in
         [json!({"kind": "type_d_structure", "structure": "N"}), json!({"kind": "type_d_morphism", "morphism": "f"})]
     {
-        let start = std::time::Instant::now();
-        let claims = vec![claim; 600];
-        let v = verdict(2, body(2, json!({}), json!({}), bordered.clone(), claims));
-        assert!(v.as_ref().is_err_and(|e| e.contains("budget")), "{v:?}");
-        assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+        let what = claim["kind"].to_string();
+        refused_for_work(2, body(2, json!({}), json!({}), bordered.clone(), vec![claim; 600]), 10, &what);
     }
 }
 
@@ -514,9 +567,7 @@ fn an_idempotent_step_inside_a_longer_path_gives_no_term() {
         d.extend(extra);
         let gens = json!({"x⊗a": [0, 0], "x⊗b": [0, 0], "x⊗c": [0, 0], "x⊗d": [0, 0]});
         let b = body(2, json!({"C": {"generators": gens, "differential": d}}), json!({}), bordered.clone(), claims());
-        let sha256 = tubecert_format::canonical::canonical_sha256(&b).unwrap();
-        let cert = Certificate { format: "tubecert-certificate".into(), version: 2, sha256, body: b };
-        let r = tubecheck::check_bytes("h.cert.json", &serde_json::to_vec(&cert).unwrap()).expect("read");
+        let r = sealed(2, b).expect("read");
         r.claims.iter().find(|c| c.kind == "box_tensor").unwrap().outcome.clone()
     };
     assert!(outcome(vec![]).is_ok(), "{:?}", outcome(vec![]));
