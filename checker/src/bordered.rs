@@ -303,10 +303,6 @@ impl Family {
         mask | if mask & junction != 0 { junction } else { 0 }
     }
 
-    fn start(&self) -> u64 {
-        self.close(1)
-    }
-
     /// The positions after reading `a` from `mask` (0: the word read is no prefix of the family).
     fn step(&self, mask: u64, a: Alg) -> u64 {
         self.close((mask & self.holds.get(&a).unwrap_or(&0)) << 1)
@@ -366,9 +362,7 @@ impl Objects {
         for c in claims {
             let (name, length) = match c {
                 Claim::TypeAModule { module, max_length, .. } => (module, *max_length),
-                Claim::TypeDStructure { structure: name, .. } | Claim::TypeDMorphism { morphism: name, .. } => {
-                    (name, 0)
-                }
+                Claim::TypeDStructure { structure: n, .. } | Claim::TypeDMorphism { morphism: n, .. } => (n, 0),
                 _ => continue,
             };
             let l = claimed.entry((c.kind(), name.clone())).or_default();
@@ -386,7 +380,8 @@ fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&
 
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
 fn check_structure(o: &Budget, d: &Object) -> Result<(), Failure> {
-    vanishes(o, "(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
+    none_of(&d.defects)?;
+    vanishes(o, "(μ ⊗ id)(id ⊗ δ¹)δ¹", d, &d.names, &[(&d.delta, &d.delta)])?;
     // a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
         for &(a, y2) in row {
@@ -401,19 +396,11 @@ fn check_structure(o: &Budget, d: &Object) -> Result<(), Failure> {
     Ok(())
 }
 
-/// No defect, and for each generator y of `d`: Σ over the pairs (first, second) of the
+/// For each generator y of `d`: Σ over the pairs (first, second) of the
 /// composites y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0
 /// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism. The composites are
 /// counted before they are visited: k arrows into a generator and k out of it make k².
-fn vanishes(
-    o: &Budget,
-    what: &str,
-    bad: &[String],
-    d: &Object,
-    names: &[String],
-    pairs: &[(&Arrows, &Arrows)],
-) -> Result<(), Failure> {
-    none_of(bad)?;
+fn vanishes(o: &Budget, what: &str, d: &Object, names: &[String], pairs: &[(&Arrows, &Arrows)]) -> Result<(), Failure> {
     let visits = |(first, second): &(&Arrows, &Arrows)| {
         first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum::<u64>()
     };
@@ -509,7 +496,7 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
         let f = &m.families[fi];
         // fwd[i]: the positions of f reached by s[..i].
         o.spend(work, "A∞ relations")?;
-        let mut fwd = vec![f.start()];
+        let mut fwd = vec![f.close(1)];
         s.iter().for_each(|&a| fwd.push(f.step(fwd[fwd.len() - 1], a)));
         for (i, &mk) in fwd.iter().enumerate() {
             let Some(e) = f.output(mk, i) else { continue };
@@ -553,9 +540,7 @@ fn bounded(o: &Budget, m: &Object, edges: &[Vec<Step>]) -> Result<&'static str, 
         peeled += 1;
         for s in &edges[y as usize] {
             into[s.1 as usize] -= 1;
-            if into[s.1 as usize] == 0 {
-                ready.push(s.1);
-            }
+            ready.extend((into[s.1 as usize] == 0).then_some(s.1));
         }
     }
     match (peeled == n, m.families.iter().all(|f| f.repeat == 0)) {
@@ -631,14 +616,11 @@ fn compare(
     rows: &Rows,
     actual: &[Vector],
 ) -> Result<(), String> {
-    let (c, d) = (&ctx.complexes[from], &ctx.complexes[to]);
+    let ((c, cn), d) = ((&ctx.complexes[from], &ctx.complexes[from].name), &ctx.complexes[to]);
     // The names of `gens` are distinct (`generators`), so this is a bijection.
     let same = c.names.len() == gens.len() && gens.iter().all(|g| c.index.get(&g.2).is_some());
     ensure(same, || {
-        format!(
-            "{what}: {} does not have exactly the generators x⊗y of the box tensor product (each spelled once)",
-            c.name
-        )
+        format!("{what}: {cn} does not have exactly the generators x⊗y of the box tensor product (each spelled once)")
     })?;
     for ((_, _, name, gr), row) in gens.iter().zip(rows) {
         let i = c.index.get(name).expect("checked") as usize;
@@ -710,7 +692,7 @@ pub fn tensor_map(
             // Depth-first over (node, positions in the word, path length, whether it may end
             // here); the work of entering a node (its steps) is spent before it is done. An
             // idempotent step leads nowhere: no family's word holds ι.
-            let mut todo = vec![(start, f.start(), 0, empty)];
+            let mut todo = vec![(start, f.close(1), 0, empty)];
             while let Some((y, mask, len, can_end)) = todo.pop() {
                 let next = &edges[y as usize];
                 o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
@@ -923,7 +905,8 @@ fn check_bordered(
         Claim::TypeDMorphism { morphism: n, .. } => {
             let f = morphism(n)?;
             let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-            vanishes(b, "∂f", &f.defects, n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
+            none_of(&f.defects)?;
+            vanishes(b, "∂f", n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
         }
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
