@@ -353,6 +353,13 @@ fn tex_text(n: &str) -> String {
     out
 }
 
+/// The scope paragraphs in LaTeX: text, with apostrophes kept (in names a ' is a prime) and the
+/// few subscripts and superscripts they use set as mathematics.
+fn tex_prose(s: &str) -> String {
+    let t = tex_text(s).replace("\\ensuremath{'}", "'").replace("\\^{}-", "\\ensuremath{^-}");
+    t.replace("h\\_A", "$h_A$").replace("X\\_K", "$X_K$")
+}
+
 /// A grading name in text font inside mathematics.
 fn tex_grading_name(n: &str) -> String {
     format!("\\textnormal{{{}}}", tex_text(n))
@@ -548,12 +555,9 @@ pub fn latex(r: &FileReport) -> String {
     let hash = format!("\\texttt{{{}}}", hash.join("\\allowbreak{}"));
     o += "\\subsection*{Machine-checked certificate}\n";
     o += &format!("File {}.\\\\\nSHA-256 of the RFC~8785 canonical body: {hash}.\n\n", breakable(&tt(&r.file)));
-    o += &format!("\\emph{{{}}}\n\n", tex_text(SCOPE));
+    o += &format!("\\emph{{{}}}\n\n", tex_prose(SCOPE));
     if r.body.bordered.is_some() {
-        o += &format!(
-            "\\emph{{{}}}\n\n",
-            tex_text(BORDERED_SCOPE).replace("\\^{}-", "\\ensuremath{^-}").replace("h\\_A", "$h_A$")
-        );
+        o += &format!("\\emph{{{}}}\n\n", tex_prose(BORDERED_SCOPE));
     }
     let ring = &r.body.ring;
     let gradings: Vec<String> = ring.gradings.iter().map(|g| tex_grading_name(g)).collect();

@@ -132,6 +132,10 @@ fn bordered_reports_show_periods_and_gradings() {
     assert!(md.contains(&format!("    - period and generators: {module}")) && md.contains(periods), "{md}");
     let (_, tex, _) = tubecheck(&["--report", "tex", "--standalone", &path]);
     assert!(tex.contains("\\item period and generators: $h_A(\\mathrm{KC.pattern}) = (11/2; 0, 1; 3)$"), "{tex}");
+    assert!(
+        tex.contains("with C's basis") && tex.contains("its period $h_A$ included") && tex.contains("CFD($X_K$)"),
+        "{tex}"
+    );
     compiles(&tex);
     let (_, json, _) = tubecheck(&["--json", &path]);
     let v: serde_json::Value = serde_json::from_str(&json).unwrap();

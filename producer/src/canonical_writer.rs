@@ -1,9 +1,9 @@
 //! RFC 8785 canonical JSON written straight from any `Serialize` value, without building a
 //! `serde_json::Value` tree first: everything is streamed into one buffer, and an object whose
 //! members arrived out of order (by the UTF-16 code units of their names) is rearranged in
-//! place when it ends. Gives the same bytes as
-//! `tubecert_format::canonical::write_canonical` (tested), at a fraction of the memory for
-//! certificates of millions of terms. Producer-side only: the checker keeps the simpler path.
+//! place when it ends. Gives the same bytes as the checker's hash reads
+//! (`tubecert_format::canonical`, tested), at a fraction of the memory for certificates of
+//! millions of terms. Producer-side only: the checker keeps the simpler path.
 
 use serde::ser::{self, Serialize};
 use std::fmt::Display;
@@ -424,10 +424,12 @@ mod tests {
             assert_eq!(proved.file, file_bytes(&proved.certificate).unwrap(), "one serialization, same file");
             let body_len = to_canonical(&proved.certificate.body).unwrap().len() as u64;
             assert!(crate::prove::written_floor(&proved.certificate.body) <= body_len, "a lower bound");
-            let cert = proved.certificate;
-            let mut expected = Vec::new();
-            tubecert_format::canonical::write_canonical(&serde_json::to_value(&cert).unwrap(), &mut expected).unwrap();
-            assert_eq!(String::from_utf8(to_canonical(&cert).unwrap()).unwrap(), String::from_utf8(expected).unwrap());
+            // Names in the alphabet: a `Value` (sorted maps) written compactly is canonical.
+            let expected = serde_json::to_vec(&serde_json::to_value(&proved.certificate).unwrap()).unwrap();
+            assert_eq!(
+                String::from_utf8(to_canonical(&proved.certificate).unwrap()).unwrap(),
+                String::from_utf8(expected).unwrap()
+            );
         }
         // Stored certificates, with and without a bordered section: the body written around
         // its complexes and maps written first is the same bytes.
@@ -437,11 +439,11 @@ mod tests {
             let written = write_objects(&cert.body.complexes, &cert.body.maps).unwrap();
             assert_eq!(start_file_with(&cert.body, &written).unwrap(), start_file(&cert.body).unwrap(), "{name}");
         }
-        // Keys whose UTF-8 and UTF-16 orders differ, and escapes.
+        // Keys whose UTF-8 and UTF-16 orders differ (U+1F600 is the surrogate pair D83D DE00,
+        // before E000 in UTF-16, after it in UTF-8), and escapes.
         let v: serde_json::Value =
             serde_json::from_str(r#"{"\ue000":1,"\ud83d\ude00":[true,null,"\u0001"],"a":{"b":-3}}"#).unwrap();
-        let mut expected = Vec::new();
-        tubecert_format::canonical::write_canonical(&v, &mut expected).unwrap();
-        assert_eq!(to_canonical(&v).unwrap(), expected);
+        let expected = "{\"a\":{\"b\":-3},\"\u{1f600}\":[true,null,\"\\u0001\"],\"\u{e000}\":1}";
+        assert_eq!(String::from_utf8(to_canonical(&v).unwrap()).unwrap(), expected);
     }
 }

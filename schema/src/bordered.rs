@@ -122,16 +122,12 @@ pub struct MorphismSpec {
 pub struct Bordered {
     pub full_complexes: UniqueMap<ComplexSpec>,
     /// Maps between full complexes (a change of basis and its inverse), absent when empty.
-    #[serde(default, skip_serializing_if = "no_maps")]
+    #[serde(default, skip_serializing_if = "std::collections::BTreeMap::is_empty")]
     pub full_maps: UniqueMap<MapSpec>,
     pub full_ring: Ring,
     pub type_a_modules: UniqueMap<TypeASpec>,
     pub type_d_morphisms: UniqueMap<MorphismSpec>,
     pub type_d_structures: UniqueMap<TypeDSpec>,
-}
-
-fn no_maps(m: &UniqueMap<MapSpec>) -> bool {
-    m.is_empty()
 }
 
 /// `F2[U,V]` with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1).

@@ -67,7 +67,7 @@ pub struct Ring {
 }
 
 /// A free complex: named generators with gradings, and the differential as sparse terms.
-/// (Fields in sorted order: see `canonical::body_sha256`.)
+/// (Fields in sorted order, so serde's output is already canonical: see [`crate::canonical`].)
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct ComplexSpec {
@@ -79,7 +79,7 @@ pub struct ComplexSpec {
 #[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct MapSpec {
-    // Fields in sorted order, so serde's output is already canonical (see canonical::body_sha256).
+    // Fields in sorted order, as in `ComplexSpec`.
     pub degree: Grading,
     pub from: String,
     pub terms: Vec<Term>,
@@ -123,20 +123,9 @@ impl MapExpr {
     }
 }
 
-/// Each nested expression is bounded when it is read; the file's own nesting limit (serde_json's)
-/// bounds the recursion before that.
 impl<'de> Deserialize<'de> for MapExpr {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let e = d.deserialize_any(ExprVisitor)?;
-        match e.extent() {
-            (_, depth) if depth > MAX_EXPR_DEPTH => {
-                Err(de::Error::custom(format!("map expression nested deeper than {MAX_EXPR_DEPTH}")))
-            }
-            (n, _) if n > MAX_EXPR_NODES => {
-                Err(de::Error::custom(format!("map expression has more than {MAX_EXPR_NODES} parts")))
-            }
-            _ => Ok(e),
-        }
+        d.deserialize_any(ExprVisitor)
     }
 }
 
@@ -156,10 +145,7 @@ impl<'de> Visitor<'de> for ExprVisitor {
         let Some(op) = a.next_key::<String>()? else { return Err(de::Error::invalid_length(0, &self)) };
         let e = match op.as_str() {
             "id" => MapExpr::Id(a.next_value()?),
-            "times" => {
-                let (m, e) = a.next_value()?;
-                MapExpr::Times(m, e)
-            }
+            "times" => a.next_value().map(|(m, e)| MapExpr::Times(m, e))?,
             "sum" => MapExpr::Sum(a.next_value()?),
             "compose" => MapExpr::Compose(a.next_value()?),
             _ => {
@@ -175,13 +161,17 @@ impl<'de> Visitor<'de> for ExprVisitor {
             return Err(de::Error::custom(e));
         }
         // One part would print like its own part (or a bracketed one): statements must read
-        // back as one expression.
-        match e {
-            MapExpr::Sum(ref es) | MapExpr::Compose(ref es) if es.len() < 2 => {
-                Err(de::Error::custom(format!("\"{op}\" takes at least two map expressions")))
+        // back as one expression. Each nested expression is bounded when it is read; the file's
+        // own nesting limit (serde_json's) bounds the recursion before that.
+        let e = match (&e, e.extent()) {
+            (MapExpr::Sum(es) | MapExpr::Compose(es), _) if es.len() < 2 => {
+                format!("\"{op}\" takes at least two map expressions")
             }
-            _ => Ok(e),
-        }
+            (_, (_, depth)) if depth > MAX_EXPR_DEPTH => format!("map expression nested deeper than {MAX_EXPR_DEPTH}"),
+            (_, (n, _)) if n > MAX_EXPR_NODES => format!("map expression has more than {MAX_EXPR_NODES} parts"),
+            _ => return Ok(e),
+        };
+        Err(de::Error::custom(e))
     }
 }
 
@@ -402,22 +392,27 @@ impl Claim {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Provenance {
-    pub producer: String,
     pub problem_sha256: String,
+    pub producer: String,
 }
 
-/// The hashed part of a certificate.
+/// The hashed part of a certificate. Serde writes it in its canonical form (see
+/// [`crate::canonical`]): fields in sorted order, the parts whose own fields are not (the
+/// claims, whose `kind` comes first, and the rings) written through a sorted `Value`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
     /// Version 2 only: complexes over `F2[U,V]` and the bordered objects (`null` is refused).
     #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
+    #[serde(serialize_with = "crate::canonical::sorted")]
     pub bordered: Option<crate::bordered::Bordered>,
-    pub ring: Ring,
+    #[serde(serialize_with = "crate::canonical::sorted")]
+    pub claims: Vec<Claim>,
     pub complexes: UniqueMap<ComplexSpec>,
     pub maps: UniqueMap<MapSpec>,
-    pub claims: Vec<Claim>,
     pub provenance: Provenance,
+    #[serde(serialize_with = "crate::canonical::sorted")]
+    pub ring: Ring,
 }
 
 pub const CERTIFICATE_FORMAT: &str = "tubecert-certificate";

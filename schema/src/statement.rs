@@ -110,9 +110,8 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
 
 /// Written name of the ring, e.g. `F2[U,V]`.
 pub fn ring_name(variables: &[String]) -> String {
-    if variables.is_empty() {
-        "F2".into()
-    } else {
-        format!("F2[{}]", variables.join(","))
+    match variables {
+        [] => "F2".into(),
+        _ => format!("F2[{}]", variables.join(",")),
     }
 }
