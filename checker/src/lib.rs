@@ -22,7 +22,6 @@ pub mod report_text;
 pub mod verify;
 
 use tubecert_format::canonical::body_sha256;
-use tubecert_format::limits::MAX_FILE_BYTES;
 use tubecert_format::{Certificate, CERTIFICATE_FORMAT, CERTIFICATE_VERSION};
 
 /// The result of checking one certificate file.
@@ -49,19 +48,17 @@ impl FileReport {
     }
 }
 
-/// Parses a certificate; the error says what is malformed (exit 2).
+/// Parses a certificate (bytes read by `limits::read_file`, which refuses a file beyond the
+/// size limit before reading it); the error says what is malformed (exit 2).
 pub fn parse_certificate(bytes: &[u8]) -> Result<Certificate, String> {
-    if bytes.len() as u64 > MAX_FILE_BYTES {
-        return Err(format!("file is {} bytes, above the limit {MAX_FILE_BYTES}", bytes.len()));
-    }
     let cert: Certificate = serde_json::from_slice(bytes).map_err(|e| format!("not a certificate: {e}"))?;
-    if cert.format != CERTIFICATE_FORMAT || !(1..=CERTIFICATE_VERSION).contains(&cert.version) {
+    let (format, version) = (&cert.format, cert.version);
+    if format != CERTIFICATE_FORMAT || !(1..=CERTIFICATE_VERSION).contains(&version) {
         return Err(format!(
-            "format \"{}\" version {} is not \"{CERTIFICATE_FORMAT}\" version 1 to {CERTIFICATE_VERSION}",
-            cert.format, cert.version
+            "format \"{format}\" version {version} is not \"{CERTIFICATE_FORMAT}\" version 1 to {CERTIFICATE_VERSION}"
         ));
     }
-    if cert.version == 1 && cert.body.bordered.is_some() {
+    if version == 1 && cert.body.bordered.is_some() {
         return Err("a version-1 certificate has no bordered section (bordered objects came with version 2)".into());
     }
     Ok(cert)

@@ -9,7 +9,7 @@ use std::collections::{BTreeMap, HashMap};
 use std::sync::atomic::{AtomicU64, AtomicUsize, Ordering::Relaxed};
 use std::sync::OnceLock;
 use tubecert_format::limits::{
-    grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS,
+    self, grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS,
 };
 use tubecert_format::names::{check_map_name, check_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
@@ -156,12 +156,8 @@ impl Work {
         if before.saturating_add(units) <= self.limit {
             return Ok(());
         }
-        let msg = format!(
-            "work limit: {what} needs {units} units of work (terms touched, rows allocated), beyond the {} this file may use (limits::work_limit: {} per byte + {})",
-            self.limit,
-            tubecert_format::limits::WORK_PER_BYTE,
-            tubecert_format::limits::WORK_BASE
-        );
+        let (limit, per_byte, base) = (self.limit, limits::WORK_PER_BYTE, limits::WORK_BASE);
+        let msg = format!("work limit: {what} needs {units} units of work (terms touched, rows allocated), beyond the {limit} this file may use (limits::work_limit: {per_byte} per byte + {base})");
         Err(self.refused.get_or_init(|| msg).clone())
     }
 }
@@ -182,18 +178,16 @@ pub fn in_two_halves<T: Send>(n: usize, f: impl Fn(std::ops::Range<usize>) -> T 
     })
 }
 
-/// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` of degree `degree`.
-/// Structural errors go to `errs`; non-homogeneous terms are returned as defects.
-/// With `single_monomial`, each coefficient must be one monomial (dual witnesses).
-#[allow(clippy::too_many_arguments)]
+/// Reads sparse terms `[from, coefficient, to]` of a map `src → dst` homogeneous of `degree`.
+/// Structural errors go to `errs`; non-homogeneous terms are returned as defects. Without a
+/// degree (dual witnesses), each coefficient must be one monomial, of any degree.
 pub fn read_terms(
     ring: &RingInfo,
     src: &Complex,
     dst: &Complex,
-    degree: &[i64],
+    degree: Option<&[i64]>,
     terms: &[Term],
     what: &str,
-    single_monomial: bool,
     errs: &mut Errors,
 ) -> (SparseMap, Vec<String>) {
     let mut map = SparseMap::zero(src.names.len());
@@ -223,15 +217,16 @@ pub fn read_terms(
             last_from = x.map(|i| (from.as_str(), i));
             let y = lookup(dst, to, &mut errs, pos);
             // (first monomial, the rest): a single monomial, the common case, allocates nothing.
-            let monos = match single_monomial || !coef.contains('+') {
+            let monos = match degree.is_none() || !coef.contains('+') {
                 true => parse_mono(coef, &ring.variables).map(|m| (m, Vec::new())),
                 false => parse_poly(coef, &ring.variables).map(|v| (v[0], v[1..].to_vec())),
             };
             let monos = monos.map_err(|e| errs.push(format!("{what}, term {pos} [{from}, {coef}, {to}]: {e}")));
-            let Ok((first, rest)) = monos else { continue };
-            let (Some(x), Some(y)) = (x, y) else { continue };
+            let (Ok((first, rest)), Some(x), Some(y)) = (monos, x, y) else { continue };
             let (gx, gy) = (&src.gradings[x as usize], &dst.gradings[y as usize]);
             for m in std::iter::once(first).chain(rest) {
+                triples.push((x, y, m));
+                let Some(degree) = degree else { continue };
                 // deg(to) + deg(m) = deg(from) + degree, compared without allocating (hot loop).
                 let homogeneous = [gx.len(), gy.len(), degree.len()] == [n; 3]
                     && (0..n).all(|i| gy[i] + ring.degree_at(m, i) == gx[i] + degree[i]);
@@ -244,7 +239,6 @@ pub fn read_terms(
                         render_grading(&degree.to_vec())
                     ));
                 }
-                triples.push((x, y, m));
             }
         }
         (triples, errs, defects)
@@ -270,34 +264,35 @@ pub fn read_terms(
     (map, defects)
 }
 
-pub fn read_complex(ring: &RingInfo, name: &str, spec: &ComplexSpec, errs: &mut Errors) -> Complex {
-    let (empty, n) = (UniqueMap::default(), ring.gradings.len());
-    let gens = if spec.generators.len() > MAX_GENERATORS {
-        errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", spec.generators.len()));
-        &empty // read no further
-    } else {
-        &spec.generators
-    };
-    let gradings = Gradings::new(n, gens.values().map(|g| g.as_slice()));
-    let mut c = Complex::new(name.to_string(), gens.keys().cloned().collect(), gradings, SparseMap::zero(0));
+/// The complex `name` with generators `gens` (name → grading) and differential `d`.
+pub fn read_complex(ring: &RingInfo, name: &str, gens: &UniqueMap<Grading>, d: &[Term], errs: &mut Errors) -> Complex {
+    let n = ring.gradings.len();
+    if gens.len() > MAX_GENERATORS {
+        errs.push(format!("complex {name}: {} generators, above the limit {MAX_GENERATORS}", gens.len()));
+        return Complex::new(name.into(), vec![], Gradings::default(), SparseMap::zero(0));
+        // read no further
+    }
+    let mut graded = true; // every grading readable: then the differential's degrees are
     for (g, gr) in gens.iter() {
         if let Err(e) = check_name(g) {
             errs.push(format!("complex {name}, generator {e}"));
         }
-        if !gr.iter().all(|&x| grading_in_bounds(x)) {
-            errs.push(format!("complex {name}, generator \"{g}\": a grading entry is beyond ±{MAX_GRADING_ABS}"));
+        let wrong = if !gr.iter().all(|&x| grading_in_bounds(x)) {
+            format!("a grading entry is beyond ±{MAX_GRADING_ABS}")
         } else if gr.len() != n {
-            errs.push(format!(
-                "complex {name}, generator \"{g}\": grading {} has {} entries, expected {n} ({})",
-                render_grading(gr),
-                gr.len(),
-                ring.gradings.join(", ")
-            ));
-        }
+            let expected = ring.gradings.join(", ");
+            format!("grading {} has {} entries, expected {n} ({expected})", render_grading(gr), gr.len())
+        } else {
+            continue;
+        };
+        errs.push(format!("complex {name}, generator \"{g}\": {wrong}"));
+        graded = false;
     }
-    if gens.values().all(|gr| gr.len() == n && gr.iter().all(|&x| grading_in_bounds(x))) {
+    let gradings = Gradings::new(n, gens.values().map(|g| &g[..]));
+    let mut c = Complex::new(name.to_string(), gens.keys().cloned().collect(), gradings, SparseMap::zero(0));
+    if graded {
         let what = format!("complex {name}, differential");
-        (c.d, c.defects) = read_terms(ring, &c, &c, &ring.differential_degree, &spec.differential, &what, false, errs);
+        (c.d, c.defects) = read_terms(ring, &c, &c, Some(&ring.differential_degree), d, &what, errs);
     }
     c
 }
@@ -327,7 +322,8 @@ pub fn load_lenient(
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
     Errors(bad, 0).into_result(())?;
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
-    let complexes = complexes.iter().map(|(n, s)| read_complex(&ring, n, s, &mut errs)).collect();
+    let complexes =
+        complexes.iter().map(|(n, s)| read_complex(&ring, n, &s.generators, &s.differential, &mut errs)).collect();
     let mut ctx = Context::new(ring, complexes, Work::new(u64::MAX), errs.1);
     for (name, spec) in maps.iter() {
         let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
@@ -342,7 +338,7 @@ pub fn load_lenient(
         }
         let (what, c, d) = (format!("map {name}"), &ctx.complexes[from], &ctx.complexes[to]);
         errs.1 = ctx.hints.load(Relaxed);
-        let (m, defects) = read_terms(&ctx.ring, c, d, &spec.degree, &spec.terms, &what, false, &mut errs);
+        let (m, defects) = read_terms(&ctx.ring, c, d, Some(&spec.degree), &spec.terms, &what, &mut errs);
         ctx.hints.store(errs.1, Relaxed);
         ctx.map_index.insert(name.clone(), ctx.maps.len());
         ctx.maps.push(Map { from, to, degree: spec.degree.clone(), m, defects });

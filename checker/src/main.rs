@@ -19,7 +19,7 @@ struct Args {
     #[arg(required = true)]
     paths: Vec<PathBuf>,
     /// A hash that must be among the verified files' hashes (repeatable).
-    #[arg(long, value_name = "HEX")]
+    #[arg(long, value_name = "HEX", value_parser = whole_hash)]
     expect: Vec<String>,
     /// Print a machine-readable JSON report on stdout.
     #[arg(long)]
@@ -31,6 +31,17 @@ struct Args {
     /// With --report tex: a whole LaTeX document (one for all files) instead of a fragment.
     #[arg(long, requires = "report")]
     standalone: bool,
+}
+
+/// A prefix (as tables print) would match more than one file in principle: refuse it (exit 2).
+fn whole_hash(h: &str) -> Result<String, String> {
+    let h = h.trim();
+    let whole = h.len() == 64 && h.chars().all(|c| c.is_ascii_hexdigit());
+    let why = format!(
+        "a SHA-256 hash has all 64 hex digits ({} given); copy the whole hash tubecheck prints, not a prefix",
+        h.len()
+    );
+    whole.then(|| h.to_string()).ok_or(why)
 }
 
 /// Files to check: named files as given, folders walked in sorted order.
@@ -56,22 +67,10 @@ fn is_problem_file(bytes: &[u8]) -> bool {
 fn main() -> ExitCode {
     std::panic::set_hook(Box::new(|_| {})); // a panic is reported as the file's refusal below
     let args = Args::parse();
-    // A prefix (as tables print) would match more than one file in principle: refuse it.
-    if let Some(h) =
-        args.expect.iter().find(|h| h.trim().len() != 64 || !h.trim().chars().all(|c| c.is_ascii_hexdigit()))
-    {
-        eprintln!(
-            "tubecheck: --expect {h}: a SHA-256 hash has all 64 hex digits ({} given); copy the whole hash tubecheck prints, not a prefix",
-            h.trim().len()
-        );
-        return ExitCode::from(2);
-    }
     let mut files = Vec::new();
-    for p in &args.paths {
-        if let Err(e) = collect(p, true, &mut files) {
-            eprintln!("tubecheck: {}: {e}", p.display());
-            return ExitCode::from(2);
-        }
+    if let Some((p, e)) = args.paths.iter().find_map(|p| collect(p, true, &mut files).err().map(|e| (p, e))) {
+        eprintln!("tubecheck: {}: {e}", p.display());
+        return ExitCode::from(2);
     }
     let mut outcomes = Vec::new();
     for (path, named) in files {
@@ -84,19 +83,17 @@ fn main() -> ExitCode {
             })
         };
         let outcome = match tubecert_format::limits::read_file(&path).map(|b| (check(&b), b)) {
-            Err(e) => Err(e),
-            Ok((Ok(report), _)) => Ok(report),
             // Problem files sit beside their certificates: skipped in folders (and named, so a
             // certificate overwritten by its problem is noticed), explained if named.
-            Ok((Err(_), bytes)) if is_problem_file(&bytes) && !named => {
-                let odd = if name.ends_with(".cert.json") { " although its name is a certificate's" } else { "" };
-                eprintln!("tubecheck: skipped {name}: a problem file, not a certificate{odd}");
-                continue;
-            }
             Ok((Err(_), bytes)) if is_problem_file(&bytes) => {
+                if !named {
+                    let odd = if name.ends_with(".cert.json") { " although its name is a certificate's" } else { "" };
+                    eprintln!("tubecheck: skipped {name}: a problem file, not a certificate{odd}");
+                    continue;
+                }
                 Err("a problem file, not a certificate (`tubecert prove` makes one from it)".into())
             }
-            Ok((Err(e), _)) => Err(format!("malformed: {e}")),
+            read => read.and_then(|(checked, _)| checked.map_err(|e| format!("malformed: {e}"))),
         };
         outcomes.push((name, outcome));
     }
@@ -106,7 +103,7 @@ fn main() -> ExitCode {
         return ExitCode::from(2);
     }
     let verified =
-        |h: &&String| outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h.trim())));
+        |h: &&String| outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h)));
     let missing: Vec<&String> = args.expect.iter().filter(|h| !verified(h)).collect();
     let style = match (args.json, args.report.as_deref()) {
         (true, _) => Style::Json,

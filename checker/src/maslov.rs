@@ -18,9 +18,8 @@ pub fn certify(o: &Budget, gens: &mut [Generator], rows: &Rows, w: Option<&HatWi
     let w = match (w, v >= 5) {
         (None, false) => return Ok(()),
         (Some(w), true) => w,
-        (w, _) => {
-            Err(format!("version {v}: a Maslov witness is {}", if w.is_some() { "not a member" } else { "needed" }))?
-        }
+        (Some(_), false) => Err(format!("version {v}: a Maslov witness is not a member"))?,
+        (None, true) => Err(format!("version {v}: a Maslov witness is needed"))?,
     };
     let size = rows.iter().map(|r| r.len() + 1).sum::<usize>() + w.cycle.len() + w.cocycle.len();
     o.spend(size as u64, "Maslov witness")?;

@@ -2,7 +2,7 @@
 //! sparse arithmetic and compares them exactly; nothing is searched for.
 
 use crate::algebra::{normalize, SparseMap};
-use crate::load::{grading_sum, in_two_halves, read_complex, read_terms, Context, Errors, Evaluated, Work};
+use crate::load::{grading_sum, in_two_halves, read_complex, read_terms, Complex, Context, Errors, Evaluated, Work};
 use crate::report_terms::{compare, render_vector};
 use crate::report_text::surface_reading;
 use serde_json::{json, Value};
@@ -62,14 +62,27 @@ pub fn check_chain_map(ctx: &Context, f: usize) -> Result<(), String> {
     Ok(())
 }
 
+/// A witness's terms as a map c → d homogeneous of `degree` (of any degree, one monomial per
+/// term, without: a dual witness), its reading counted first; any error fails the claim.
+fn read_witness(
+    ctx: &Context,
+    c: &Complex,
+    d: &Complex,
+    degree: Option<&[i64]>,
+    terms: &[Term],
+    what: &str,
+) -> Result<SparseMap, String> {
+    ctx.work.spend(c.names.len() as u64 + terms.len() as u64, &format!("reading the {what}"))?;
+    let mut errs = Errors::default();
+    let (m, defects) = read_terms(&ctx.ring, c, d, degree, terms, what, &mut errs);
+    none_of(&[errs.0, defects].concat()).map(|_| m)
+}
+
 /// φ = ∂H + H∂ for the witness H.
 pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Result<(), String> {
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
     let degree: Grading = phi.degree.iter().zip(&ctx.ring.differential_degree).map(|(a, b)| a - b).collect();
-    let mut errs = Errors::default();
-    ctx.work.spend(c.names.len() as u64 + h.len() as u64, "reading a homotopy")?;
-    let (h, defects) = read_terms(&ctx.ring, c, d, &degree, h, "homotopy", false, &mut errs);
-    none_of(&[errs.0, defects].concat())?;
+    let h = read_witness(ctx, c, d, Some(&degree), h, "homotopy")?;
     let work = d.d.work_after(&h).saturating_add(h.work_after(&c.d)).saturating_add(phi.m.size());
     ctx.work.spend(work, "∂H + H∂")?;
     for (x, row) in phi.m.rows.iter().enumerate() {
@@ -84,11 +97,7 @@ pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Resul
 /// ⟨y, φ⟩ = 1 and δy = 0 for the functional y = Σ (x, m, w).
 pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> Result<(), String> {
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
-    let mut errs = Errors::default();
-    ctx.work.spend(c.names.len() as u64 + y.len() as u64, "reading a dual witness")?;
-    // The triples as a map of any degree: read without a homogeneity requirement.
-    let (ymap, _) = read_terms(&ctx.ring, c, d, &phi.degree, y, "dual", true, &mut errs);
-    none_of(&errs.0)?;
+    let ymap = read_witness(ctx, c, d, None, y, "dual")?;
     let terms = || ymap.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x, w, m)));
     let pairing = terms().filter(|&(x, w, m)| phi.m.rows[x].binary_search(&(w, m)).is_ok()).count() % 2;
     ensure(pairing == 1, || "⟨y, φ⟩ = 0: the functional does not detect φ".into())?;
@@ -108,9 +117,8 @@ pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> R
             dy.extend(m.checked_div(cf).map(|q| (x2, w, q)));
         }
     }
-    dy.sort_unstable();
-    let survivor = dy.chunk_by(|a, b| a == b).find(|run| run.len() % 2 == 1);
-    if let Some(&[(x, w, m), ..]) = survivor {
+    normalize(&mut dy);
+    if let Some(&(x, w, m)) = dy.first() {
         return Err(format!(
             "δy ≠ 0: the term ({}, {}, {}) survives, so y does not vanish on all boundaries ∂H + H∂",
             c.names[x as usize],
@@ -130,26 +138,18 @@ pub struct Decomposition {
 
 /// Checks a change of basis B, B⁻¹ and that B⁻¹∂B is in normal form; returns H_*. With `var`,
 /// of the quotient C/(var) (over `F2[U,V]`, a PID).
-pub fn check_homology(
-    ctx: &Context,
-    c: usize,
-    var: Option<&String>,
-    w: &BasisWitness,
-) -> Result<Decomposition, String> {
+pub fn check_homology(ctx: &Context, c: usize, var: Option<&str>, w: &BasisWitness) -> Result<Decomposition, String> {
     if let Some(v) = var {
         return check_homology(&ctx.quotient(c, v)?, 0, None, w);
     }
     ensure(ctx.ring.num_vars() <= 1, || "homology claims need a PID: F2 or F2[U]".into())?;
-    let old = &ctx.complexes[c];
-    let spec = ComplexSpec { generators: w.generators.clone(), differential: vec![] };
+    let (old, zero) = (&ctx.complexes[c], Some(&vec![0; ctx.ring.gradings.len()][..]));
+    ctx.work.spend(w.generators.len() as u64, "reading a basis")?;
     let mut errs = Errors::default();
-    let zero = vec![0; ctx.ring.gradings.len()];
-    let read = [w.generators.len(), w.basis.len(), w.inverse.len(), old.names.len()];
-    ctx.work.spend(read.iter().map(|&n| n as u64).sum(), "reading a basis")?;
-    let new = read_complex(&ctx.ring, "(new basis)", &spec, &mut errs);
-    let (b, bd) = read_terms(&ctx.ring, &new, old, &zero, &w.basis, "basis", false, &mut errs);
-    let (binv, id) = read_terms(&ctx.ring, old, &new, &zero, &w.inverse, "inverse", false, &mut errs);
-    none_of(&[errs.0, bd, id].concat())?;
+    let new = read_complex(&ctx.ring, "(new basis)", &w.generators, &[], &mut errs);
+    none_of(&errs.0)?;
+    let b = read_witness(ctx, &new, old, zero, &w.basis, "basis")?;
+    let binv = read_witness(ctx, old, &new, zero, &w.inverse, "inverse")?;
     let work = [binv.work_after(&b), b.work_after(&binv), old.d.work_after(&b), binv.size(), b.size()];
     ctx.work.spend(work.iter().fold(0, |s, &w| s.saturating_add(w)), "B⁻¹B, BB⁻¹ and ∂B")?;
     let inverse = "the inverse does not invert the basis change";
@@ -256,7 +256,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
         Claim::NotNullHomotopic { map, witness, .. } => check_not_null_homotopic(ctx, &ctx.eval(map)?, &witness.dual)?,
         Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
             let named = |n: &String| MapExpr::Named(n.clone());
-            let (fe, ge) = (ctx.eval(&named(f))?, ctx.eval(&named(g))?);
+            let (fe, ge) = (&ctx.maps[ctx.map_named(f)?], &ctx.maps[ctx.map_named(g)?]);
             let inverse_degrees = grading_sum(&fe.degree, &ge.degree).iter().all(|&x| x == 0);
             let why = || format!("{f} and {g} are not maps C → D and D → C of opposite degrees");
             ensure(fe.to == ge.from && ge.to == fe.from && inverse_degrees, why)?;
@@ -281,7 +281,7 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             let c = ctx.complex_named(complex)?;
             ensure(vars.contains(variable), || format!("variable {variable} is not the ring's variable"))?;
             // Over F2[U,V]: the homology of the quotient by the other variable, a PID.
-            let dec = check_homology(ctx, c, vars.iter().find(|v| *v != variable), witness)?;
+            let dec = check_homology(ctx, c, vars.iter().find(|v| *v != variable).map(|v| &v[..]), witness)?;
             let found = dec.torsion.iter().map(|t| t.0).max().unwrap_or(0);
             ensure(found == *order, || format!("the basis shows torsion order {found}, not {order}"))?;
             facts.insert("order".into(), json!(order));
@@ -291,11 +291,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
             let alex = alexander_of(&ctx.ring, alexander)?;
             // Version 1 did not name the grading: read it only where the words cannot mislead.
             let choices = ctx.ring.var_degrees.first().map_or(0, |d| d.iter().filter(|&&d| d == -1).count());
-            if vars.len() < 2 && version < 2 && ctx.ring.gradings.len() > 1 && (alexander != "alexander" || choices > 1)
-            {
-                return Err(format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it"));
-            }
-            let dec = check_homology(ctx, c, vars.get(1), witness)?;
+            let unnamed = version < 2 && vars.len() < 2 && ctx.ring.gradings.len() > 1;
+            ensure(!unnamed || (alexander == "alexander" && choices <= 1), || {
+                format!("a version-1 τ statement does not name its grading ({alexander}), and this ring has another: prove it again to name it")
+            })?;
+            let dec = check_homology(ctx, c, vars.get(1).map(|v| &v[..]), witness)?;
             let [g] = dec.free.as_slice() else {
                 return Err(format!("τ needs free rank one; the basis shows free rank {}", dec.free.len()));
             };
@@ -327,12 +327,12 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
     Ok(facts)
 }
 
-/// The numbers the claims state are read under the bounds every other number is read under
+/// The numbers a claim states are read under the bounds every other number is read under
 /// (orders are exponents; gradings and τ are gradings), so no claim speaks of a number that
 /// the arithmetic could not represent.
-fn claims_in_bounds(body: &Body) -> Result<(), Vec<String>> {
+fn numbers_in_bounds(claim: &Claim) -> Result<(), String> {
     use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT, MAX_GRADING_ABS};
-    let in_bounds = |claim: &Claim| match claim {
+    let in_bounds = match claim {
         Claim::Homology { free, torsion, .. } => {
             let gradings = free.iter().chain(torsion.iter().map(|t| &t.1)).flatten();
             torsion.iter().all(|t| t.0 <= MAX_EXPONENT) && gradings.copied().all(grading_in_bounds)
@@ -342,10 +342,7 @@ fn claims_in_bounds(body: &Body) -> Result<(), Vec<String>> {
         _ => true,
     };
     let limits = format!("orders at most {MAX_EXPONENT}, gradings and τ within ±{MAX_GRADING_ABS}");
-    let bad = body.claims.iter().filter(|c| !in_bounds(c));
-    let bad: Vec<String> =
-        bad.map(|c| format!("claim \"{}\": a number is beyond the limits ({limits})", c.kind())).collect();
-    bad.is_empty().then_some(()).ok_or(bad)
+    ensure(in_bounds, || format!("a number of this {} claim is beyond the limits ({limits})", claim.kind()))
 }
 
 /// The implicit checks: every declared complex and map.
@@ -370,7 +367,6 @@ pub fn check_objects(ctx: &Context) -> Vec<ClaimResult> {
 /// work (`limits::work_limit` of the file's size): implicit object checks, then each claim. A
 /// file whose checks need more is refused (`Err`), not failed.
 pub fn check_body(body: &Body, version: u32, work_limit: u64) -> Result<Vec<ClaimResult>, Vec<String>> {
-    claims_in_bounds(body)?; // before loading: these errors come first
     let mut ctx = crate::load::load(&body.ring, &body.complexes, &body.maps)?;
     ctx.work = Work::new(work_limit);
     check_loaded(ctx, None, body, version)
@@ -386,9 +382,9 @@ pub fn check_loaded(
     version: u32,
 ) -> Result<Vec<ClaimResult>, Vec<String>> {
     use crate::bordered::{Failure, Objects};
-    claims_in_bounds(body)?;
     for (i, claim) in body.claims.iter().enumerate() {
-        check_claim_text(claim, &ctx.ring.variables).map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
+        let sound = check_claim_text(claim, &ctx.ring.variables).and_then(|_| numbers_in_bounds(claim));
+        sound.map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
     let b = body.bordered.as_ref();
     let mut objects = b.map(|b| Objects::load(b, written_items(body), version, &body.claims)).transpose()?;
@@ -406,20 +402,24 @@ pub fn check_loaded(
             )]);
         }
     }
-    let refused = |ctx: &Context| ctx.work.refused.get().map_or(Ok(()), |e| Err(vec![e.clone()]));
     let mut out = implicit.unwrap_or_else(|| check_objects(&ctx));
     if let Some(o) = objects.as_mut() {
         o.full.work = Work::new(ctx.work.limit);
         out.extend(check_objects(&o.full));
-        refused(&o.full)?;
     }
+    let full = objects.as_ref().map(|o| &o.full);
+    // Work beyond a budget, in either context, makes the file unreadable, never a claim false.
+    let refused = || match [Some(&ctx), full].into_iter().flatten().find_map(|c| c.work.refused.get()) {
+        Some(e) => Err(vec![e.clone()]),
+        None => Ok(()),
+    };
     for claim in &body.claims {
-        refused(&ctx)?;
+        refused()?;
         let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
             // A homotopy equivalence between full complexes is checked over F2[U,V].
-            None => match (claim, objects.as_ref()) {
-                (Claim::HomotopyEquivalence { maps, .. }, Some(o)) if o.full.map_index.contains_key(&maps[0]) => {
-                    check_claim(&o.full, claim, version)
+            None => match (claim, full) {
+                (Claim::HomotopyEquivalence { maps, .. }, Some(f)) if f.map_index.contains_key(&maps[0]) => {
+                    check_claim(f, claim, version)
                 }
                 _ => check_claim(&ctx, claim, version),
             },
@@ -435,7 +435,7 @@ pub fn check_loaded(
             outcome,
         });
     }
-    refused(&ctx).map(|_| out)
+    refused().map(|_| out)
 }
 
 /// The number of written items (generators, terms, families, claims) of a body: the work
