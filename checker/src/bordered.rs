@@ -106,14 +106,12 @@ impl Budget {
 
 fn grading_ok(g: &Grading, group: bool, what: &str) -> Result<(), String> {
     let shape = |n| g.len() == n && g.iter().all(|&x| grading_in_bounds(x));
-    let (ok, form) = match group {
-        false => (shape(2), "a version-2 grading is [Maslov, Alexander]"),
-        true => (
-            shape(4) && (g[1] - g[2]) % 2 == 0,
-            "a grading is [2j, 2p, 2q, 2a] (twice the coordinates of (j; p, q; a), 2p and 2q of equal parity)",
-        ),
-    };
-    ensure(ok, || format!("{what}: {form} within ±2^31"))
+    match group {
+        true => ensure(shape(4) && (g[1] - g[2]) % 2 == 0, || {
+            format!("{what}: a grading is [2j, 2p, 2q, 2a] (twice the coordinates of (j; p, q; a), 2p and 2q of equal parity) within ±2^31")
+        }),
+        false => ensure(shape(2), || format!("{what}: a version-2 grading is [Maslov, Alexander] within ±2^31")),
+    }
 }
 
 /// An element (j; p, q; a) of the grading group of A(T²) (LOT §11.1, Ch. 10) with the
@@ -371,11 +369,6 @@ impl Objects {
         let budget = Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR));
         Ok(Objects { full, structures, modules, morphisms, budget, claimed })
     }
-}
-
-/// The object named `n` of a kind ("type D structure", …).
-fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&'a T, Failure> {
-    Ok(objects.get(n).ok_or_else(|| format!("{kind} \"{n}\" is not declared"))?)
 }
 
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
@@ -885,9 +878,9 @@ fn check_bordered(
     let pairing = matches!(claim, Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. });
     let why = "box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)";
     ensure(!pairing || minus && r.gradings.len() == 2, || why.into())?;
-    let structure = |n: &str| get(&o.structures, "type D structure", n);
-    let module = |n: &str| get(&o.modules, "type A module", n);
-    let morphism = |n: &str| get(&o.morphisms, "type D morphism", n);
+    let structure = |n: &str| o.structures.get(n).ok_or_else(|| format!("type D structure \"{n}\" is not declared"));
+    let module = |n: &str| o.modules.get(n).ok_or_else(|| format!("type A module \"{n}\" is not declared"));
+    let morphism = |n: &str| o.morphisms.get(n).ok_or_else(|| format!("type D morphism \"{n}\" is not declared"));
     let (b, mut facts) = (&o.budget, BTreeMap::new());
     match claim {
         Claim::TypeDStructure { structure: n, .. } => check_structure(b, structure(n)?)?,
