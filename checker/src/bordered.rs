@@ -6,8 +6,10 @@
 
 use crate::algebra::{normalize, Vector};
 use crate::load::{Complex, Context};
+use crate::verify::{ensure, none_of};
+use serde_json::json;
 use std::cell::Cell;
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, BTreeSet};
 use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeASpec, TypeDSpec};
 use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT};
 use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
@@ -103,12 +105,12 @@ impl Budget {
 }
 
 fn grading_ok(g: &Grading, group: bool, what: &str) -> Result<(), String> {
-    let bounded = g.iter().all(|&x| grading_in_bounds(x));
+    let shape = |n| g.len() == n && g.iter().all(|&x| grading_in_bounds(x));
     match group {
-        false if bounded && g.len() == 2 => Ok(()),
-        false => Err(format!("{what}: a version-2 grading is [Maslov, Alexander] within ±2^31")),
-        true if bounded && g.len() == 4 && (g[1] - g[2]) % 2 == 0 => Ok(()),
-        true => Err(format!("{what}: a grading is [2j, 2p, 2q, 2a] (twice the coordinates of (j; p, q; a), 2p and 2q of equal parity) within ±2^31")),
+        true => ensure(shape(4) && (g[1] - g[2]) % 2 == 0, || {
+            format!("{what}: a grading is [2j, 2p, 2q, 2a] (twice the coordinates of (j; p, q; a), 2p and 2q of equal parity) within ±2^31")
+        }),
+        false => ensure(shape(2), || format!("{what}: a version-2 grading is [Maslov, Alexander] within ±2^31")),
     }
 }
 
@@ -163,18 +165,17 @@ fn in_period(g: Gr, h: Gr) -> bool {
 /// ((p, q) parts; det = ±1, i.e. the glued manifold has H_1 = 0), h_A^m·g·h_D^n = (j; 0, 0; a).
 pub fn read_grading(g: Gr, ha: Gr, hd: Gr) -> Result<Grading, String> {
     let det = ha[1] * hd[2] - ha[2] * hd[1];
-    if det.abs() != 4 {
-        return Err(format!("the periods' (p, q) parts have determinant {}/4, not ±1: the pairing is not a knot in a homology sphere, so (Maslov, Alexander) cannot be read", det));
-    }
+    ensure(det.abs() == 4, || {
+        format!("the periods' (p, q) parts have determinant {det}/4, not ±1: the pairing is not a knot in a homology sphere, so (Maslov, Alexander) cannot be read")
+    })?;
     let (m, n) = ((g[2] * hd[1] - g[1] * hd[2]) / det, (ha[2] * g[1] - ha[1] * g[2]) / det);
     // Bounded so that no product below leaves i128 (entries of h^m stay under 2^62).
-    if m.abs() > 1 << 31 || n.abs() > 1 << 31 {
-        return Err("the double coset needs a power of a period beyond 2^31".into());
-    }
+    ensure(m.abs() <= 1 << 31 && n.abs() <= 1 << 31, || {
+        "the double coset needs a power of a period beyond 2^31".into()
+    })?;
     let r = gr_mul(gr_mul(gr_pow(ha, m), g), gr_pow(hd, n));
-    if r[1] != 0 || r[2] != 0 || r[0] % 2 != 0 || r[3] % 2 != 0 {
-        return Err(format!("the grading {g:?} (doubled) does not reduce to integral (Maslov, Alexander)"));
-    }
+    let integral = r[1] == 0 && r[2] == 0 && r[0] % 2 == 0 && r[3] % 2 == 0;
+    ensure(integral, || format!("the grading {g:?} (doubled) does not reduce to integral (Maslov, Alexander)"))?;
     written([r[0] / 2, r[3] / 2, 0, 0]).map(|g| g[..2].to_vec())
 }
 
@@ -194,21 +195,15 @@ fn read_generators<'a>(
     group: bool,
 ) -> Result<Object, String> {
     if let Some(p) = period {
-        match group {
-            false => return Err(format!("{what}: `period` is a version-3 member")),
-            true => grading_ok(p, true, &format!("{what}, period"))?,
-        }
+        ensure(group, || format!("{what}: `period` is a version-3 member"))?;
+        grading_ok(p, true, &format!("{what}, period"))?;
     }
     let mut o = Object { group, period: gr_of(period.as_ref()), ..Default::default() };
     for (g, idem, grading) in gens {
         let what = format!("{what}, generator \"{g}\"");
         tubecert_format::names::check_name(g).map_err(|e| format!("{what}: {e}"))?;
-        if idem > 1 {
-            return Err(format!("{what}: idempotent {idem} is not 0 or 1"));
-        }
-        if let Some(gr) = grading {
-            grading_ok(gr, group, &what)?;
-        }
+        ensure(idem <= 1, || format!("{what}: idempotent {idem} is not 0 or 1"))?;
+        grading.map_or(Ok(()), |gr| grading_ok(gr, group, &what))?;
         o.index.insert(g.clone(), o.names.len() as u32);
         o.names.push(g.clone());
         o.idem.push(idem);
@@ -244,13 +239,10 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
         }
         rows[i as usize].push((a, j));
     }
-    for (i, r) in rows.iter_mut().enumerate() {
-        let n = r.len();
+    for (r, y) in rows.iter_mut().zip(&src.names) {
         r.sort_unstable();
-        r.dedup();
-        if r.len() != n {
-            return Err(format!("{what}: generator \"{}\" has a repeated term (list each term once)", src.names[i]));
-        }
+        let once = r.windows(2).all(|w| w[0] != w[1]);
+        ensure(once, || format!("{what}: generator \"{y}\" has a repeated term (list each term once)"))?;
     }
     Ok((rows, defects))
 }
@@ -259,30 +251,24 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
 pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, String> {
     let what = format!("type A module {name}");
     let gens = spec.generators.iter().map(|(g, a)| (g, a.idempotent, Some(&a.grading)));
-    let mut m = read_generators(&what, gens, &spec.period, group)?;
+    let (mut m, mut seen) = (read_generators(&what, gens, &spec.period, group)?, BTreeSet::new());
     for (k, f) in spec.operations.iter().enumerate() {
         let at = |e: &str| format!("{what}, operation {}: {e}", k + 1);
-        let mut pattern = Vec::new();
-        for a in f.prefix.iter().chain(&f.repeat).chain(&f.suffix) {
-            match Alg::parse(a).map_err(|e| at(&e))? {
-                Alg::One => return Err(at("inputs are Reeb elements (strict unitality covers the idempotents)")),
-                r => pattern.push(r),
-            }
-        }
-        if pattern.len() > 60 || (f.repeat.is_empty() && f.power[0] != 0) || f.power.iter().any(|&p| p > MAX_EXPONENT) {
-            return Err(at("at most 60 inputs written; power [a, b] within 2^20, a = 0 without a repeated block"));
-        }
+        ensure(seen.insert(f), || at("it is listed twice"))?;
+        let inputs = f.prefix.iter().chain(&f.repeat).chain(&f.suffix).map(|a| Alg::parse(a).map_err(|e| at(&e)));
+        let pattern: Vec<Alg> = inputs.collect::<Result<_, _>>()?;
+        let powers = (!f.repeat.is_empty() || f.power[0] == 0) && f.power.iter().all(|&p| p <= MAX_EXPONENT);
+        ensure(pattern.len() <= 60 && !pattern.contains(&Alg::One) && powers, || {
+            at("at most 60 inputs written, Reeb elements (strict unitality covers the idempotents); power [a, b] within 2^20, a = 0 without a repeated block")
+        })?;
         let find =
             |n: &String| m.index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
         let (from, to) = (find(&f.from)?, find(&f.to)?);
         let mut holds = BTreeMap::new();
-        for (k, &a) in pattern.iter().enumerate() {
-            *holds.entry(a).or_insert(0) |= 1 << k;
-        }
-        let (prefix, repeat) = (f.prefix.len(), f.repeat.len());
-        let fam = Family { from, pattern, prefix, repeat, power: f.power, to, holds };
+        pattern.iter().enumerate().for_each(|(k, &a)| *holds.entry(a).or_insert(0) |= 1 << k);
+        let fam = Family { from, pattern, prefix: f.prefix.len(), repeat: f.repeat.len(), power: f.power, to, holds };
         // Idempotents along the word for n = 0, 1, 2 cover every junction.
-        for n in 0..if repeat > 0 { 3 } else { 1 } {
+        for n in 0..if fam.repeat > 0 { 3 } else { 1 } {
             let mut i = m.idem[from as usize];
             for a in fam.word(n) {
                 let (l, r) = a.idempotents().expect("Reeb");
@@ -298,11 +284,6 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
         m.out[from as usize].push(m.families.len());
         m.families.push(fam);
     }
-    let mut sorted: Vec<_> = spec.operations.iter().collect();
-    sorted.sort();
-    if sorted.windows(2).any(|w| w[0] == w[1]) {
-        return Err(format!("{what}: an operation is listed twice"));
-    }
     Ok(m)
 }
 
@@ -317,15 +298,7 @@ impl Family {
     /// repeated block one may repeat or go on, so those two positions are one state.
     fn close(&self, mask: u64) -> u64 {
         let junction = 1 << self.prefix | 1 << (self.prefix + self.repeat);
-        if mask & junction != 0 {
-            mask | junction
-        } else {
-            mask
-        }
-    }
-
-    fn start(&self) -> u64 {
-        self.close(1)
+        mask | if mask & junction != 0 { junction } else { 0 }
     }
 
     /// The positions after reading `a` from `mask` (0: the word read is no prefix of the family).
@@ -370,29 +343,24 @@ impl Objects {
         }
         let full = crate::load::load(&b.full_ring, &b.full_complexes, &b.full_maps)?;
         let one = |e: String| vec![e];
-        let (mut structures, mut modules, mut morphisms) = (BTreeMap::new(), BTreeMap::new(), BTreeMap::new());
-        for (n, s) in b.type_d_structures.iter() {
-            structures.insert(n.clone(), read_structure(n, s, group).map_err(one)?);
-        }
-        for (n, s) in b.type_a_modules.iter() {
-            modules.insert(n.clone(), read_module(n, s, group).map_err(one)?);
-        }
+        let structures = b.type_d_structures.iter().map(|(n, s)| Ok((n.clone(), read_structure(n, s, group)?)));
+        let structures: BTreeMap<_, _> = structures.collect::<Result<_, String>>().map_err(one)?;
+        let modules = b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?)));
+        let modules = modules.collect::<Result<_, String>>().map_err(one)?;
+        let mut morphisms = BTreeMap::new();
         for (n, f) in b.type_d_morphisms.iter() {
-            let side = |s: &String| {
-                structures
-                    .get(s)
-                    .ok_or_else(|| format!("type D morphism {n}: type D structure \"{s}\" is not declared"))
-            };
             let what = format!("type D morphism {n}");
-            let (terms, defects) =
-                read_arrows(&what, side(&f.from).map_err(one)?, side(&f.to).map_err(one)?, &f.terms).map_err(one)?;
+            let side =
+                |s| structures.get(s).ok_or_else(|| vec![format!("{what}: type D structure \"{s}\" is not declared")]);
+            let (terms, defects) = read_arrows(&what, side(&f.from)?, side(&f.to)?, &f.terms).map_err(one)?;
             morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
         }
+        // What the pairings rest on: the D relations, ∂f = 0 and A∞ relations up to a length.
         let mut claimed = BTreeMap::new();
         for c in claims {
             let (name, length) = match c {
                 Claim::TypeAModule { module, max_length, .. } => (module, *max_length),
-                Claim::TypeDStructure { structure, .. } => (structure, 0),
+                Claim::TypeDStructure { structure: n, .. } | Claim::TypeDMorphism { morphism: n, .. } => (n, 0),
                 _ => continue,
             };
             let l = claimed.entry((c.kind(), name.clone())).or_default();
@@ -403,40 +371,33 @@ impl Objects {
     }
 }
 
-/// The object named `n` of a kind ("type D structure", …).
-fn get<'a, T>(objects: &'a BTreeMap<String, T>, kind: &str, n: &str) -> Result<&'a T, Failure> {
-    Ok(objects.get(n).ok_or_else(|| format!("{kind} \"{n}\" is not declared"))?)
-}
-
 /// (μ ⊗ id)(id ⊗ δ¹)δ¹ = 0, and (version 3) every term homogeneous.
-pub fn check_structure(d: &Object) -> Result<(), String> {
-    vanishes("(μ ⊗ id)(id ⊗ δ¹)δ¹", &d.defects, d, &d.names, &[(&d.delta, &d.delta)])?;
+fn check_structure(o: &Budget, d: &Object) -> Result<(), Failure> {
+    none_of(&d.defects)?;
+    vanishes(o, "(μ ⊗ id)(id ⊗ δ¹)δ¹", d, &d.names, &[(&d.delta, &d.delta)])?;
     // a ⊗ y′ in δ¹(y) has grading λ^(−1)·gr(y) modulo P_D: gr(y)^(−1)·λ·gr(a)·gr(y′) ∈ P_D.
     for (y, row) in d.delta.iter().enumerate().filter(|_| d.group) {
         for &(a, y2) in row {
             let (g, g2) = (d.grading[y].as_ref(), d.grading[y2 as usize].as_ref());
             let e = gr_mul(gr_pow(after(a, gr_of(g)), -1), gr_of(g2));
-            if g.is_some() && g2.is_some() && !in_period(e, d.period) {
-                return Err(format!("the term {}⊗{} of δ¹({}) is not homogeneous: gr({0})⁻¹·λ·gr(ρ)·gr({1}) = {e:?} (doubled) is not a power of the period", a.name(), d.names[y2 as usize], d.names[y]));
-            }
+            let homogeneous = g.is_none() || g2.is_none() || in_period(e, d.period);
+            ensure(homogeneous, || {
+                format!("the term {}⊗{} of δ¹({}) is not homogeneous: gr({0})⁻¹·λ·gr(ρ)·gr({1}) = {e:?} (doubled) is not a power of the period", a.name(), d.names[y2 as usize], d.names[y])
+            })?;
         }
     }
     Ok(())
 }
 
-/// No defect, and for each generator y of `d`: Σ over the pairs (first, second) of the
+/// For each generator y of `d`: Σ over the pairs (first, second) of the
 /// composites y →a y′ →b y″ (first step in `first`, second in `second`) of (a·b) ⊗ y″ is 0
-/// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism.
-fn vanishes(
-    what: &str,
-    bad: &[String],
-    d: &Object,
-    names: &[String],
-    pairs: &[(&Arrows, &Arrows)],
-) -> Result<(), String> {
-    if let Some(e) = bad.first() {
-        return Err(e.clone());
-    }
+/// (`names`: those of the y″). The D relation, and ∂f = 0 for a morphism. The composites are
+/// counted before they are visited: k arrows into a generator and k out of it make k².
+fn vanishes(o: &Budget, what: &str, d: &Object, names: &[String], pairs: &[(&Arrows, &Arrows)]) -> Result<(), Failure> {
+    let visits = |(first, second): &(&Arrows, &Arrows)| {
+        first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum::<u64>()
+    };
+    o.spend(pairs.iter().map(visits).sum(), what)?;
     for y in 0..d.names.len() {
         let mut acc = Vec::new();
         for (first, second) in pairs {
@@ -447,26 +408,15 @@ fn vanishes(
         normalize(&mut acc);
         if !acc.is_empty() {
             let terms: Vec<String> = acc.iter().map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
-            return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")));
+            return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")).into());
         }
     }
     Ok(())
 }
 
-/// The composites `vanishes` visits, counted before it runs: k arrows into a generator and k
-/// out of it make k².
-fn composites(pairs: &[(&Arrows, &Arrows)]) -> u64 {
-    let visits = |(first, second): &(&Arrows, &Arrows)| -> u64 {
-        first.iter().flatten().map(|&(_, y1)| 1 + second[y1 as usize].len() as u64).sum()
-    };
-    pairs.iter().map(visits).sum()
-}
-
 /// The A∞ relations on every word of length ≤ L on which a term can be non-zero.
 pub fn check_module(o: &Budget, m: &Object, max_len: u32) -> Result<(), Failure> {
-    if let Some(e) = m.defects.first() {
-        return Err(e.clone().into());
-    }
+    none_of(&m.defects)?;
     // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1) ∈ P_A;
     // along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
     for (k, f) in m.families.iter().enumerate().filter(|_| m.group) {
@@ -476,9 +426,9 @@ pub fn check_module(o: &Budget, m: &Object, max_len: u32) -> Result<(), Failure>
             let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
             let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
             let e = gr_mul(g, gr_pow(gr_of(m.grading[f.to as usize].as_ref()), -1));
-            if !in_period(e, m.period) {
-                return Err(format!("operation {} (repeated block {n} times) is not homogeneous: gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period", k + 1).into());
-            }
+            ensure(in_period(e, m.period), || {
+                format!("operation {} (repeated block {n} times) is not homogeneous: gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period", k + 1)
+            })?;
         }
     }
     // Which words can carry a non-zero relation. A term m(m(x, s₁), s₂) is non-zero only if
@@ -539,7 +489,7 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
         let f = &m.families[fi];
         // fwd[i]: the positions of f reached by s[..i].
         o.spend(work, "A∞ relations")?;
-        let mut fwd = vec![f.start()];
+        let mut fwd = vec![f.close(1)];
         s.iter().for_each(|&a| fwd.push(f.step(fwd[fwd.len() - 1], a)));
         for (i, &mk) in fwd.iter().enumerate() {
             let Some(e) = f.output(mk, i) else { continue };
@@ -578,23 +528,18 @@ fn bounded(o: &Budget, m: &Object, edges: &[Vec<Step>]) -> Result<&'static str, 
     o.spend(n as u64 + edges.iter().map(|e| e.len() as u64).sum::<u64>(), "box tensor")?;
     let mut into = vec![0u32; n as usize];
     edges.iter().flatten().for_each(|s| into[s.1 as usize] += 1);
-    let mut ready: Vec<u32> = (0..n).filter(|&y| into[y as usize] == 0).collect();
-    let mut peeled = 0;
+    let (mut ready, mut peeled): (Vec<u32>, _) = ((0..n).filter(|&y| into[y as usize] == 0).collect(), 0);
     while let Some(y) = ready.pop() {
         peeled += 1;
         for s in &edges[y as usize] {
             into[s.1 as usize] -= 1;
-            if into[s.1 as usize] == 0 {
-                ready.push(s.1);
-            }
+            ready.extend((into[s.1 as usize] == 0).then_some(s.1));
         }
     }
-    if peeled == n {
-        Ok("structure")
-    } else if m.families.iter().all(|f| f.repeat == 0) {
-        Ok("module")
-    } else {
-        Err(Failure::Refused("neither side is bounded: the type D structure's δ¹ has a directed cycle and the module has operations of every length (a repeated block); the box tensor product is defined only when one side is bounded (LOT §2.4) — pair with a bounded model".into()))
+    match (peeled == n, m.families.iter().all(|f| f.repeat == 0)) {
+        (true, _) => Ok("structure"),
+        (_, true) => Ok("module"),
+        _ => Err(Failure::Refused("neither side is bounded: the type D structure's δ¹ has a directed cycle and the module has operations of every length (a repeated block); the box tensor product is defined only when one side is bounded (LOT §2.4) — pair with a bounded model".into())),
     }
 }
 
@@ -621,13 +566,10 @@ pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generat
     }
     // Names may contain ⊗: (a⊗b, c) and (a, b⊗c) would both be a⊗b⊗c, and a complex could
     // then carry a generator the product lacks, compared with nothing.
-    let mut names: Vec<&String> = out.iter().map(|g| &g.2).collect();
-    names.sort();
-    if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
-        return Err(Failure::Refused(format!(
-            "two generators of the box tensor product are both named {}: rename a generator whose name contains ⊗",
-            w[0]
-        )));
+    let mut seen = BTreeSet::new();
+    if let Some(g) = out.iter().find(|g| !seen.insert(&g.2)) {
+        let twice = format!("two generators of the box tensor product are both named {}", g.2);
+        return Err(Failure::Refused(format!("{twice}: rename a generator whose name contains ⊗")));
     }
     if symmetric && m.group && n.group {
         symmetrize(&mut out)?;
@@ -641,16 +583,15 @@ pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generat
 /// (M, A) by s·(2, 1) = the grading of U^(−s), which keeps the line M = 2A of the U-tower.
 fn symmetrize(gens: &mut [Generator]) -> Result<(), String> {
     let mut chi: BTreeMap<i64, i64> = BTreeMap::new();
-    for g in gens.iter() {
-        *chi.entry(g.3[1]).or_default() += if g.3[0] % 2 == 0 { 1 } else { -1 };
-    }
+    gens.iter().for_each(|g| *chi.entry(g.3[1]).or_default() += 1 - 2 * g.3[0].rem_euclid(2)); // (−1)^M
     chi.retain(|_, c| *c != 0);
     let (Some((&lo, _)), Some((&hi, _))) = (chi.first_key_value(), chi.last_key_value()) else {
         return Err("the graded Euler characteristic Σ(−1)^M t^A of the box tensor product is 0: no shift makes it symmetric, so no absolute grading is read".into());
     };
-    if (lo + hi) % 2 != 0 || chi.iter().any(|(a, c)| chi.get(&(lo + hi - a)) != Some(c)) {
-        return Err(format!("no shift of A makes the graded Euler characteristic Σ(−1)^M t^A of the box tensor product symmetric under t ↔ t⁻¹ (exponents {lo} to {hi}): it is not a knot's"));
-    }
+    let symmetric = (lo + hi) % 2 == 0 && chi.iter().all(|(a, c)| chi.get(&(lo + hi - a)) == Some(c));
+    ensure(symmetric, || {
+        format!("no shift of A makes the graded Euler characteristic Σ(−1)^M t^A of the box tensor product symmetric under t ↔ t⁻¹ (exponents {lo} to {hi}): it is not a knot's")
+    })?;
     let s = -(lo + hi) / 2;
     for g in gens.iter_mut() {
         g.3 = written([(g.3[0] + 2 * s) as i128, (g.3[1] + s) as i128, 0, 0])?[..2].to_vec();
@@ -658,50 +599,35 @@ fn symmetrize(gens: &mut [Generator]) -> Result<(), String> {
     Ok(())
 }
 
-/// A complex or map of the certificate against the recomputed generators and terms.
+/// A complex or map of the certificate (its rows `actual`, from the complex `from` of `ctx` to
+/// `to`) against the recomputed generators and terms.
 fn compare(
+    ctx: &Context,
     what: &str,
-    from: &Complex,
-    to: &Complex,
+    (from, to): (usize, usize),
     gens: &[Generator],
     rows: &Rows,
     actual: &[Vector],
-) -> Result<(), Failure> {
+) -> Result<(), String> {
+    let ((c, cn), d) = ((&ctx.complexes[from], &ctx.complexes[from].name), &ctx.complexes[to]);
     // The names of `gens` are distinct (`generators`), so this is a bijection.
-    if from.names.len() != gens.len() || gens.iter().any(|g| from.index.get(&g.2).is_none()) {
-        return Err(format!(
-            "{what}: {} does not have exactly the generators x⊗y of the box tensor product (each spelled once)",
-            from.name
-        )
-        .into());
-    }
+    let same = c.names.len() == gens.len() && gens.iter().all(|g| c.index.get(&g.2).is_some());
+    ensure(same, || {
+        format!("{what}: {cn} does not have exactly the generators x⊗y of the box tensor product (each spelled once)")
+    })?;
     for ((_, _, name, gr), row) in gens.iter().zip(rows) {
-        let i = from.index.get(name).expect("checked") as usize;
-        if from.gradings[i] != gr[..] {
-            return Err(format!(
-                "{what}: {name} has grading {:?}, the box tensor product gives {gr:?}",
-                &from.gradings[i]
-            )
-            .into());
-        }
+        let i = c.index.get(name).expect("checked") as usize;
+        let found = &c.gradings[i];
+        ensure(found == gr, || format!("{what}: {name} has grading {found:?}, the box tensor product gives {gr:?}"))?;
         let mut want = Vec::new();
         for (t, p) in row {
-            let j = to.index.get(t).ok_or_else(|| format!("{what}: {t} is not a generator of {}", to.name))?;
+            let j = d.index.get(t).ok_or_else(|| format!("{what}: {t} is not a generator of {}", d.name))?;
             want.push((j, Mono::power(0, *p)));
         }
         normalize(&mut want);
-        if want != actual[i] {
-            let show = |v: &[(u32, Mono)]| {
-                let terms: Vec<String> =
-                    v.iter().map(|(j, m)| format!("{}·{}", m.render(&["U".into()]), to.names[*j as usize])).collect();
-                terms.join(" + ")
-            };
-            let (found, expected) = (show(&actual[i]), show(&want));
-            return Err(format!(
-                "{what}: on {name} the certificate has {found}, the box tensor product gives {expected}"
-            )
-            .into());
-        }
+        let (ours, theirs) = ("the box tensor product", "the certificate");
+        crate::report_terms::compare(ctx, to, name, theirs, &actual[i], ours, &want)
+            .map_err(|e| format!("{what}: {e}"))?;
     }
     Ok(())
 }
@@ -759,7 +685,7 @@ pub fn tensor_map(
             // Depth-first over (node, positions in the word, path length, whether it may end
             // here); the work of entering a node (its steps) is spent before it is done. An
             // idempotent step leads nowhere: no family's word holds ι.
-            let mut todo = vec![(start, f.start(), 0, empty)];
+            let mut todo = vec![(start, f.close(1), 0, empty)];
             while let Some((y, mask, len, can_end)) = todo.pop() {
                 let next = &edges[y as usize];
                 o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
@@ -780,10 +706,9 @@ pub fn tensor_map(
                 }
             }
         }
-        out.sort_unstable();
         // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
-        let odd = out.chunk_by(|a, b| a == b).filter(|r| r.len() % 2 == 1);
-        rows.push(odd.map(|r| (format!("{}⊗{}", m.names[r[0].0 as usize], names[r[0].1 as usize]), r[0].2)).collect());
+        normalize(&mut out);
+        rows.push(out.iter().map(|&(x, y, p)| (format!("{}⊗{}", m.names[x as usize], names[y as usize]), p)).collect());
     }
     Ok((gens, rows, side))
 }
@@ -804,123 +729,114 @@ pub fn complement(c: &Complex, t: i64, group: bool, bounded: bool) -> Result<(Ty
         format!("complex {}: {why}; LOT Thm 11.26 needs a basis that is simultaneously horizontally and vertically simplified (the general form, LOT Thm A.11, is not implemented)", c.name)
     };
     let n = c.names.len();
-    // Arrows of kind 0 (horizontal: U^i, chains lambda…) and 1 (vertical: V^j, chains kappa…),
-    // and how many of each kind touch each generator.
-    let (mut count, mut arrows) = ([vec![0; n], vec![0; n]], Vec::new());
+    // Arrows (kind, a, b, ℓ) of kind 0 (horizontal: U^ℓ, chains lambda…) and 1 (vertical:
+    // V^ℓ, chains kappa…).
+    let mut arrows = Vec::new();
     for (a, row) in c.d.rows.iter().enumerate() {
         for &(b, m) in row {
-            let [u, v] = m.0;
-            if u == 0 && v == 0 {
-                let (an, bn) = (&c.names[a], &c.names[b as usize]);
-                return Err(refuse(format!("∂{an} has the term {bn} with coefficient 1 (not reduced)")));
-            }
+            let ([u, v], b) = (m.0, b as usize);
+            let (an, bn) = (&c.names[a], &c.names[b]);
+            ensure(u + v > 0, || refuse(format!("∂{an} has the term {bn} with coefficient 1 (not reduced)")))?;
             // A diagonal term U^i·V^j (i, j ≥ 1) vanishes in both C/(U) and C/(V), whose
             // arrows are all LOT Thm 11.26 reads: it does not enter the structure.
-            if u == 0 || v == 0 {
-                let kind = (u == 0) as usize;
-                count[kind][a] += 1;
-                count[kind][b as usize] += 1;
-                arrows.push((kind, a, b as usize, u.max(v)));
-            }
+            arrows.extend((u == 0 || v == 0).then_some(((u == 0) as usize, a, b, u.max(v))));
         }
     }
+    // The one generator with no arrow of a kind (η_0: horizontal, ξ_0: vertical); none has two.
     let lone = |kind: usize| -> Result<usize, String> {
-        let (count, what) = (&count[kind], ["horizontal", "vertical"][kind]);
+        let (mut count, what) = (vec![0; n], ["horizontal", "vertical"][kind]);
+        arrows.iter().filter(|r| r.0 == kind).flat_map(|r| [r.1, r.2]).for_each(|x| count[x] += 1);
         if let Some(x) = (0..n).find(|&x| count[x] > 1) {
             return Err(refuse(format!("{} has {} {what} arrows", c.names[x], count[x])));
         }
         let free: Vec<usize> = (0..n).filter(|&x| count[x] == 0).collect();
-        let why = format!("{} generators have no {what} arrow, not one", free.len());
-        (free.len() == 1).then(|| free[0]).ok_or_else(|| refuse(why))
+        ensure(free.len() == 1, || refuse(format!("{} generators have no {what} arrow, not one", free.len())))?;
+        Ok(free[0])
     };
     let (eta0, xi0) = (lone(0)?, lone(1)?);
     let alexander = |x: usize| {
         let d = c.gradings[x][0] - c.gradings[x][1];
         (d % 2 == 0).then_some(d / 2).ok_or_else(|| format!("{}: gr_U − gr_V is odd", c.names[x]))
     };
-    let (tau, eta_a) = (alexander(xi0)?, alexander(eta0)?);
-    let (xn, en) = (&c.names[xi0], &c.names[eta0]);
-    if eta_a != -tau {
-        return Err(format!("complex {}: A(ξ_0 = {xn}) = {tau} but A(η_0 = {en}) = {eta_a}, not −{tau}: not the complex of a knot in S^3", c.name));
-    }
-    let (mut gens, mut terms, mut gr0) = (Vec::new(), Vec::new(), Vec::new());
+    let (tau, eta_a, xn, en) = (alexander(xi0)?, alexander(eta0)?, &c.names[xi0], &c.names[eta0]);
+    ensure(eta_a == -tau, || {
+        format!("complex {}: A(ξ_0 = {xn}) = {tau} but A(η_0 = {en}) = {eta_a}, not −{tau}: not the complex of a knot in S^3", c.name)
+    })?;
+    let (mut gens, mut terms, mut gr0) = (BTreeMap::new(), Vec::new(), Vec::new());
     for x in 0..n {
         let (m, a) = (c.gradings[x][0], alexander(x)?);
         gr0.push([2 * m as i128 - 3 * a as i128, 0, -2 * a as i128, 0]);
         let grading = if group { written(gr0[x])? } else { vec![m, a] };
-        gens.push((c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 }));
+        gens.insert(c.names[x].clone(), DGenerator { grading: Some(grading), idempotent: 0 });
     }
-    let term = |a: &str, r: &str, b: &str| -> Term { [a.into(), r.into(), b.into()] };
-    let iota1 = |name: &str, g: Gr| -> Result<(String, DGenerator), String> {
-        Ok((name.into(), DGenerator { grading: if group { Some(written(g)?) } else { None }, idempotent: 1 }))
+    // A chain of ι_1 generators from a generator of C: each step (ρ, name, forward) writes the
+    // term [previous, ρ, name] (forward) or [name, ρ, previous] and gives `name` the grading
+    // that term forces, gr(ρ)⁻¹·λ⁻¹·gr(previous) or λ·gr(ρ)·gr(previous); the last step lands
+    // on a generator of C.
+    let mut walk = |from: usize, steps: Vec<(Alg, String, bool)>| -> Result<(), String> {
+        let (mut previous, mut g, last) = (c.names[from].clone(), gr0[from], steps.len() - 1);
+        for (k, (rho, name, forward)) in steps.into_iter().enumerate() {
+            let (hi, lo) = if forward { (previous, name.clone()) } else { (name.clone(), previous) };
+            terms.push([hi, rho.name().into(), lo]);
+            g = if forward { after(rho, g) } else { gr_mul(gr_mul(LAMBDA, gr_alg(rho)), g) };
+            if k < last {
+                let grading = if group { Some(written(g)?) } else { None };
+                let new = gens.insert(name.clone(), DGenerator { grading, idempotent: 1 }).is_none();
+                ensure(new, || {
+                    format!("complex {}: the name {name} is made twice (C's generators and the complement's chains kappa…, lambda…, gamma…, pair.x, pair.y share one namespace); rename a generator", c.name)
+                })?;
+            }
+            previous = name;
+        }
+        Ok(())
     };
-    // A chain of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered
-    // by from →ρ c_1 and left by c_ℓ →σ to (to →σ c_ℓ when `down`; from →σ to when ℓ = 0):
-    // gr(c_1) = gr(ρ)⁻¹·λ⁻¹·gr(from), then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or
-    // gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up), as their arrows force.
-    // Chains of ι_1 generators c_1 … c_ℓ joined by ρ23 (c_{k+1} → c_k when `down`), entered by
-    // from →ρ c_1 and left by c_ℓ →σ to (to →σ c_ℓ when `down`; from →σ to when ℓ = 0):
-    // gr(c_1) = gr(ρ)⁻¹·λ⁻¹·gr(from), then gr(c_{k+1}) = λ·gr(ρ23)·gr(c_k) (down) or
-    // gr(ρ23)⁻¹·λ⁻¹·gr(c_k) (up), as their arrows force.
-    let (r23, mut chains) = (Alg::Reeb(2, 3), Vec::new());
+    // The steps from →first c_1, then ρ23 between c_k and c_{k+1} (c_{k+1} → c_k when `down`),
+    // then last between c_ℓ and `to` (to → c_ℓ when `down`; from → to when ℓ = 0).
+    let r23 = Alg::Reeb(2, 3);
+    let chain = |first: Alg, names: Vec<String>, down: bool, last: Alg, to: &String| {
+        let inner = names.into_iter().enumerate().map(|(k, n)| (if k == 0 { first } else { r23 }, n, k == 0 || !down));
+        inner.chain([(last, to.clone(), !down)]).collect::<Vec<_>>()
+    };
+    // Each horizontal arrow a → U^ℓ·b: a →ρ3 λ1 →ρ23 … λℓ →ρ2 b; each vertical one a → V^ℓ·b:
+    // a →ρ1 κ1, κ_{k+1} →ρ23 κ_k, b →ρ123 κℓ.
     for &(kind, a, b, l) in &arrows {
         let (an, bn) = (&c.names[a], &c.names[b]);
-        let names: Vec<String> = (1..=l).map(|k| format!("{}{k}.{an}.{bn}", ["lambda", "kappa"][kind])).collect();
-        let (rho, sigma) = [(Alg::Reeb(3, 3), "rho2"), (Alg::Reeb(1, 1), "rho123")][kind];
-        chains.push((an.clone(), gr0[a], rho, names, kind == 1, sigma, bn.clone()));
+        let names = (1..=l).map(|k| format!("{}{k}.{an}.{bn}", ["lambda", "kappa"][kind])).collect();
+        let (first, last) = [(Alg::Reeb(3, 3), Alg::Reeb(2, 2)), (Alg::Reeb(1, 1), Alg::Reeb(1, 3))][kind];
+        walk(a, chain(first, names, kind == 1, last, bn))?;
     }
     let m = (t - 2 * tau).unsigned_abs();
-    if m > MAX_EXPONENT as u64 {
-        return Err(format!("framing {t}: |t − 2τ| is beyond 2^20"));
-    }
+    ensure(m <= MAX_EXPONENT as u64, || format!("framing {t}: |t − 2τ| is beyond 2^20"))?;
+    // The unstable chain from ξ_0 to η_0 through γ1 … γm; in the bounded model it starts
+    // ξ_0 →ρ1 pair.y, pair.x →1 pair.y and goes on from pair.x.
     let split = bounded && xi0 == eta0 && t >= 2 * tau;
-    let mut from = (xn.clone(), gr0[xi0]);
-    if split {
-        let x = gr_mul(LAMBDA, after(Alg::Reeb(1, 1), gr0[xi0]));
-        chains.push((xn.clone(), gr0[xi0], Alg::Reeb(1, 1), vec!["pair.y".into()], true, "1", "pair.x".into()));
-        gens.push(iota1("pair.x", x)?);
-        from = ("pair.x".into(), x);
-    }
-    let (rho, sigma) = match (t < 2 * tau, split, m) {
-        (true, ..) => (Alg::Reeb(1, 1), "rho3"),
-        (_, true, _) => (r23, "rho2"),
-        (_, _, 0) => (Alg::Reeb(1, 2), "rho12"),
-        _ => (Alg::Reeb(1, 3), "rho2"),
+    let (first, last) = match (t < 2 * tau, split, m) {
+        (true, ..) => (Alg::Reeb(1, 1), Alg::Reeb(3, 3)),
+        (_, true, _) => (r23, Alg::Reeb(2, 2)),
+        (_, _, 0) => (r23, Alg::Reeb(1, 2)),
+        _ => (Alg::Reeb(1, 3), Alg::Reeb(2, 2)),
     };
-    let names = (1..=m).map(|k| format!("gamma{k}")).collect();
-    chains.push((from.0, from.1, rho, names, t < 2 * tau, sigma, en.clone()));
-    for (from, mut g, rho, names, down, sigma, to) in chains {
-        for (k, name) in names.iter().enumerate() {
-            let (hi, r, lo) = match k {
-                0 => (&from, rho, name),
-                _ if down => (name, r23, &names[k - 1]),
-                _ => (&names[k - 1], r23, name),
-            };
-            terms.push(term(hi, r.name(), lo));
-            g = if k > 0 && down { gr_mul(gr_mul(LAMBDA, gr_alg(r23)), g) } else { after(r, g) };
-            gens.push(iota1(name, g)?);
-        }
-        let last = names.last().unwrap_or(&from);
-        terms.push(if down { term(&to, sigma, last) } else { term(last, sigma, &to) });
-    }
-    let count = gens.len();
-    let generators = UniqueMap(gens.into_iter().collect());
-    if generators.len() != count {
-        return Err(format!("complex {}: a generator name collides with a name of the complement's chains (kappa…, lambda…, gamma…, pair.x, pair.y); rename it", c.name));
-    }
+    let pair = [(Alg::Reeb(1, 1), "pair.y".into(), true), (Alg::One, "pair.x".into(), false)];
+    let gammas = (1..=m).map(|k| format!("gamma{k}")).collect();
+    let unstable = chain(first, gammas, t < 2 * tau, last, en);
+    walk(xi0, pair.into_iter().filter(|_| split).chain(unstable).collect())?;
     terms.sort();
     let period = if group { Some(written([t as i128 + 1, 2, 2 * t as i128, 0])?) } else { None };
-    Ok((TypeDSpec { differential: terms, generators, period }, tau, split))
+    Ok((TypeDSpec { differential: terms, generators: UniqueMap(gens), period }, tau, split))
 }
 
 /// The pairing just walked gave terms on input words of length ≤ k (`budget.1`); the relations
 /// that ∂∂ = 0 (or the chain-map property) of M ⊠ N rest on are those on δ-path words with a
 /// non-zero term: concatenations of two such words or one with an adjacent pair multiplied,
-/// so of length ≤ 2k. A `type_a_module` claim of M must state at least that length, and (a
-/// box tensor product) a `type_d_structure` claim must check the D relation of N.
-fn covered(o: &Objects, module: &str, structure: Option<&str>) -> Result<(), Failure> {
-    if let Some(n) = structure.filter(|n| !o.claimed.contains_key(&("type_d_structure", n.to_string()))) {
-        return Err(Failure::Refused(format!("the pairing is with {n}, but no type_d_structure claim checks its D relation (δ¹∘δ¹ = 0), which the box tensor product rests on")));
+/// so of length ≤ 2k. A `type_a_module` claim of M must state at least that length, and each
+/// of `needs` (kind, name) must be claimed: the D relation of every structure paired, ∂f = 0
+/// of a morphism.
+fn covered(o: &Objects, module: &str, needs: &[(&'static str, &str)]) -> Result<(), Failure> {
+    if let Some((kind, n)) = needs.iter().find(|(kind, n)| !o.claimed.contains_key(&(*kind, n.to_string()))) {
+        let what = if *kind == "type_d_morphism" { "∂f = 0" } else { "its D relation (δ¹∘δ¹ = 0)" };
+        return Err(Failure::Refused(format!(
+            "the pairing uses {n}, but no {kind} claim checks {what}, which the box tensor product rests on"
+        )));
     }
     let k = o.budget.1.get();
     match o.claimed.get(&("type_a_module", module.to_string())) {
@@ -943,103 +859,110 @@ pub fn check(
 ) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
     const KINDS: [&str; 6] =
         ["type_d_structure", "type_a_module", "type_d_morphism", "box_tensor", "box_tensor_map", "complement"];
-    KINDS.contains(&claim.kind()).then(|| {
-        crate::verify::check_statement(ctx, claim, version)?;
-        let (Some(o), Some(spec)) = (o, spec) else { return Err("a bordered claim in a certificate without a bordered section".to_string().into()) };
-        let r = &ctx.ring;
-        let minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
-        if matches!(claim, Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. }) && !(minus && r.gradings.len() == 2) {
-            return Err(Failure::False("box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)".into()));
+    KINDS.contains(&claim.kind()).then(|| check_bordered(ctx, o, spec, claim, version))
+}
+
+fn check_bordered(
+    ctx: &Context,
+    o: Option<&Objects>,
+    spec: Option<&Bordered>,
+    claim: &Claim,
+    version: u32,
+) -> Result<BTreeMap<String, serde_json::Value>, Failure> {
+    crate::verify::check_statement(ctx, claim, version)?;
+    let (Some(o), Some(spec)) = (o, spec) else {
+        return Err("a bordered claim in a certificate without a bordered section".to_string().into());
+    };
+    let r = &ctx.ring;
+    let minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
+    let pairing = matches!(claim, Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. });
+    let why = "box tensor products live in the minus ring F2[U], deg U = (−2, −1), deg ∂ = (−1, 0)";
+    ensure(!pairing || minus && r.gradings.len() == 2, || why.into())?;
+    let structure = |n: &str| o.structures.get(n).ok_or_else(|| format!("type D structure \"{n}\" is not declared"));
+    let module = |n: &str| o.modules.get(n).ok_or_else(|| format!("type A module \"{n}\" is not declared"));
+    let morphism = |n: &str| o.morphisms.get(n).ok_or_else(|| format!("type D morphism \"{n}\" is not declared"));
+    let (b, mut facts) = (&o.budget, BTreeMap::new());
+    match claim {
+        Claim::TypeDStructure { structure: n, .. } => check_structure(b, structure(n)?)?,
+        Claim::TypeAModule { module: n, max_length, .. } => {
+            // The allowance left (b.2) joins the budget for this check only; what it does
+            // not use is kept for the next module, and the shared budget never grows. (The
+            // module is found first: an early return here would leave the allowance in.)
+            let (m, before) = (module(n)?, b.0.get());
+            b.0.set(before.saturating_add(b.2.get()));
+            let checked = check_module(b, m, *max_length);
+            b.2.set(b.0.get().saturating_sub(before));
+            b.0.set(b.0.get().min(before));
+            checked?
         }
-        let (structure, module) = (|n: &str| get(&o.structures, "type D structure", n), |n: &str| get(&o.modules, "type A module", n));
-        let mut facts = BTreeMap::new();
-        match claim {
-            Claim::TypeDStructure { structure: n, .. } => {
-                let d = structure(n)?;
-                o.budget.spend(composites(&[(&d.delta, &d.delta)]), "the D relation")?;
-                check_structure(d)?
-            }
-            Claim::TypeAModule { module: n, max_length, .. } => {
-                // The allowance left (budget.2) joins the budget for this check only; what it
-                // does not use is kept for the next module, and the shared budget never grows.
-                // (The module is found first: an early return here would leave the allowance in.)
-                let (b, before, m) = (&o.budget, o.budget.0.get(), module(n)?);
-                b.0.set(before.saturating_add(b.2.get()));
-                let checked = check_module(b, m, *max_length);
-                let after = b.0.get();
-                b.2.set(after.saturating_sub(before));
-                b.0.set(after.min(before));
-                checked?
-            }
-            Claim::TypeDMorphism { morphism, .. } => {
-                let f = get(&o.morphisms, "type D morphism", morphism)?;
-                let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-                let pairs = [(&f.terms, &n2.delta), (&n.delta, &f.terms)];
-                o.budget.spend(composites(&pairs), "∂f")?;
-                vanishes("∂f", &f.defects, n, &n2.names, &pairs)?
-            }
-            Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
-                let c = &ctx.complexes[ctx.complex_named(complex)?];
-                o.budget.1.set(0);
-                let (mut gens, rows, side) = tensor_complex(&o.budget, module(mn)?, structure(sn)?, version >= 4)?;
-                covered(o, mn, Some(sn))?;
-                crate::maslov::certify(&o.budget, &mut gens, &rows, witness.as_ref(), version)?;
-                compare(&format!("{complex} = {mn} ⊠ {sn}"), c, c, &gens, &rows, &c.d.rows)?;
-                facts.insert("generators".into(), serde_json::json!(gens.len()));
-                facts.insert("bounded".into(), serde_json::json!(side));
-            }
-            Claim::BoxTensorMap { map, module: mn, morphism, witness, .. } => {
-                let (m, f) = (module(mn)?, get(&o.morphisms, "type D morphism", morphism)?);
-                let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-                let &i = ctx.map_index.get(map).ok_or_else(|| format!("map \"{map}\" is not declared"))?;
-                let (fm, what) = (&ctx.maps[i], format!("{map} = id_{mn} ⊠ {morphism}"));
-                let (from, to) = (&ctx.complexes[fm.from], &ctx.complexes[fm.to]);
-                o.budget.1.set(0);
-                // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
-                // those complexes (differentials included, each graded with its own Maslov
-                // witness), and the words of those pairings count toward the relations this module
-                // must have been checked on, too.
-                let (w, mut normalized) = (witness.as_ref(), Vec::new());
-                for (c, d, dn, w) in [(from, n, &f.from, w.map(|w| &w.from)), (to, n2, &f.to, w.map(|w| &w.to))] {
-                    let (mut gens, rows, _) = tensor_complex(&o.budget, m, d, version >= 4)?;
-                    crate::maslov::certify(&o.budget, &mut gens, &rows, w, version)?;
-                    compare(&format!("{what}: {} = {mn} ⊠ {dn}", c.name), c, c, &gens, &rows, &c.d.rows)?;
-                    normalized.push(gens);
-                }
-                let (_, rows, side) = tensor_map(&o.budget, m, n, Some((f, n2)), version >= 4)?;
-                covered(o, mn, None)?;
-                compare(&what, from, to, &normalized[0], &rows, &fm.m.rows)?;
-                facts.insert("bounded".into(), serde_json::json!(side));
-            }
-            Claim::Complement { bounded_model, structure, complex, framing, tau, .. } => {
-                let c = &o.full.complexes[o.full.complex_named(complex)?];
-                // The structure has a chain of l generators per arrow of length l and |t − 2τ|
-                // more (≤ |t| + max |gr_U − gr_V|): counted before they are made, each at 1/64
-                // of an item's allowance (the structure compared with them lists them all).
-                let arrows: u64 = c.d.rows.iter().flatten().map(|(_, m)| 1 + m.0[0].max(m.0[1]) as u64).sum();
-                let alex = (0..c.names.len()).map(|x| (c.gradings[x][0] - c.gradings[x][1]).unsigned_abs()).max();
-                let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex.unwrap_or(0));
-                o.budget.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
-                let (want, found_tau, split) = complement(c, *framing, version >= 3, *bounded_model == Some(true))?;
-                if *bounded_model != split.then_some(true) {
-                    return Err(format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {})", if split { "it is not written" } else { "it is not needed" }).into());
-                }
-                let given = spec.type_d_structures.get(structure).ok_or_else(|| format!("type D structure \"{structure}\" is not declared"))?;
-                if found_tau != *tau {
-                    return Err(format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}").into());
-                }
-                let mut d = given.differential.clone();
-                d.sort();
-                if given.generators != want.generators || given.period != want.period {
-                    return Err(format!("{structure}: its generators (names, idempotents, gradings) or its period differ from those LOT Thm 11.26 gives").into());
-                }
-                if let Some(t) = d.iter().find(|t| want.differential.binary_search(t).is_err()).or(want.differential.iter().find(|t| d.binary_search(t).is_err())) {
-                    return Err(format!("{structure}: δ¹ differs from LOT Thm 11.26 at the term [{}, {}, {}]", t[0], t[1], t[2]).into());
-                }
-                facts.insert("tau".into(), serde_json::json!(tau));
-            }
-            _ => unreachable!("bordered kinds only"),
+        Claim::TypeDMorphism { morphism: n, .. } => {
+            let f = morphism(n)?;
+            let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
+            none_of(&f.defects)?;
+            vanishes(b, "∂f", n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
         }
-        Ok(facts)
-    })
+        Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
+            let c = ctx.complex_named(complex)?;
+            b.1.set(0);
+            let (mut gens, rows, side) = tensor_complex(b, module(mn)?, structure(sn)?, version >= 4)?;
+            covered(o, mn, &[("type_d_structure", sn)])?;
+            crate::maslov::certify(b, &mut gens, &rows, witness.as_ref(), version)?;
+            compare(ctx, &format!("{complex} = {mn} ⊠ {sn}"), (c, c), &gens, &rows, &ctx.complexes[c].d.rows)?;
+            facts.insert("generators".into(), json!(gens.len()));
+            facts.insert("bounded".into(), json!(side));
+        }
+        Claim::BoxTensorMap { map, module: mn, morphism: fname, witness, .. } => {
+            let (m, f, fm) = (module(mn)?, morphism(fname)?, &ctx.maps[ctx.map_named(map)?]);
+            let what = format!("{map} = id_{mn} ⊠ {fname}");
+            b.1.set(0);
+            // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
+            // those complexes (differentials included, each graded with its own Maslov
+            // witness), and the words of those pairings count toward the relations this module
+            // must have been checked on, too.
+            let (w, mut source) = (witness.as_ref(), Vec::new());
+            for (c, dn, w) in [(fm.from, &f.from, w.map(|w| &w.from)), (fm.to, &f.to, w.map(|w| &w.to))] {
+                let (mut gens, rows, _) = tensor_complex(b, m, structure(dn)?, version >= 4)?;
+                crate::maslov::certify(b, &mut gens, &rows, w, version)?;
+                let cx = &ctx.complexes[c];
+                compare(ctx, &format!("{what}: {} = {mn} ⊠ {dn}", cx.name), (c, c), &gens, &rows, &cx.d.rows)?;
+                source.push(gens);
+            }
+            let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
+            let (_, rows, side) = tensor_map(b, m, n, Some((f, n2)), version >= 4)?;
+            covered(o, mn, &[("type_d_structure", &f.from), ("type_d_structure", &f.to), ("type_d_morphism", fname)])?;
+            compare(ctx, &what, (fm.from, fm.to), &source[0], &rows, &fm.m.rows)?;
+            facts.insert("bounded".into(), json!(side));
+        }
+        Claim::Complement { bounded_model, structure: sn, complex, framing, tau, .. } => {
+            let c = &o.full.complexes[o.full.complex_named(complex)?];
+            // The structure has a chain of l generators per arrow of length l and |t − 2τ|
+            // more (≤ |t| + max |gr_U − gr_V|): counted before they are made, each at 1/64
+            // of an item's allowance (the structure compared with them lists them all).
+            let arrows: u64 = c.d.rows.iter().flatten().map(|(_, m)| 1 + m.0[0].max(m.0[1]) as u64).sum();
+            let alex = c.gradings.iter().map(|g| (g[0] - g[1]).unsigned_abs()).max().unwrap_or(0);
+            let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex);
+            b.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
+            let (want, found_tau, split) = complement(c, *framing, version >= 3, *bounded_model == Some(true))?;
+            let why = if split { "it is not written" } else { "it is not needed" };
+            ensure(*bounded_model == split.then_some(true), || {
+                format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {why})")
+            })?;
+            structure(sn)?;
+            let given = &spec.type_d_structures[sn];
+            ensure(found_tau == *tau, || format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}"))?;
+            let same = given.generators == want.generators && given.period == want.period;
+            ensure(same, || {
+                format!("{sn}: its generators (names, idempotents, gradings) or its period differ from those LOT Thm 11.26 gives")
+            })?;
+            let (mut d, w) = (given.differential.clone(), &want.differential);
+            d.sort();
+            let differs = d.iter().chain(w).find(|t| d.binary_search(t).is_err() || w.binary_search(t).is_err());
+            if let Some([y, a, z]) = differs {
+                return Err(format!("{sn}: δ¹ differs from LOT Thm 11.26 at the term [{y}, {a}, {z}]").into());
+            }
+            facts.insert("tau".into(), json!(tau));
+        }
+        _ => unreachable!("bordered kinds only"),
+    }
+    Ok(facts)
 }

@@ -24,12 +24,12 @@ pub struct ClaimResult {
 }
 
 /// Fails with `why()` unless `holds`.
-fn ensure(holds: bool, why: impl FnOnce() -> String) -> Result<(), String> {
+pub fn ensure(holds: bool, why: impl FnOnce() -> String) -> Result<(), String> {
     holds.then_some(()).ok_or_else(why)
 }
 
 /// The first of `errors` as a failure, if there is one.
-fn none_of(errors: &[String]) -> Result<(), String> {
+pub fn none_of(errors: &[String]) -> Result<(), String> {
     errors.first().map_or(Ok(()), |e| Err(e.clone()))
 }
 

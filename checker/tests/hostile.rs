@@ -101,7 +101,8 @@ fn box_tensor_map_between_complexes_that_are_not_the_products_is_refused() {
     let (version, mut b) = stored("cable-by-p1");
     b["claims"].as_array_mut().unwrap().retain(|c| {
         let kind = c["kind"].as_str().unwrap();
-        kind == "type_a_module" || (kind == "box_tensor_map" && c["map"] == "F")
+        ["type_a_module", "type_d_structure", "type_d_morphism"].contains(&kind)
+            || (kind == "box_tensor_map" && c["map"] == "F")
     });
     assert_eq!(
         verdict(version, serde_json::from_value(b.clone()).unwrap()),
@@ -478,6 +479,34 @@ fn a_box_tensor_product_needs_its_structure_checked() {
         .retain(|c| c["kind"] != "type_d_structure" || c["structure"] != "KC.complement");
     let v = verdict(version, serde_json::from_value(b).unwrap());
     assert!(v.as_ref().is_err_and(|e| e.contains("KC.complement") && e.contains("type_d_structure claim")), "{v:?}");
+}
+
+/// id_M ⊠ f is a chain map only when f is a type D morphism between type D structures: a
+/// `box_tensor_map` claim is refused (exit 2) unless `type_d_structure` claims check N and N′
+/// and a `type_d_morphism` claim checks f, each named in the refusal when it is missing.
+#[test]
+fn a_box_tensor_map_needs_its_structures_and_morphism_checked() {
+    let (version, full) = stored("cable-by-p1");
+    let f = full["claims"].as_array().unwrap().iter().find(|c| c["kind"] == "box_tensor_map" && c["map"] == "F");
+    let f = f.unwrap()["morphism"].as_str().unwrap().to_string();
+    let (n, n2) = (
+        full["bordered"]["type_d_morphisms"][&f]["from"].clone(),
+        full["bordered"]["type_d_morphisms"][&f]["to"].clone(),
+    );
+    for (kind, key, name) in [
+        ("type_d_structure", "structure", n),
+        ("type_d_structure", "structure", n2),
+        ("type_d_morphism", "morphism", json!(f)),
+    ] {
+        let mut b = full.clone();
+        b["claims"].as_array_mut().unwrap().retain(|c| {
+            let k = c["kind"].as_str().unwrap();
+            (k != "box_tensor" && k != "box_tensor_map" || c["map"] == "F") && !(k == kind && c[key] == name)
+        });
+        let v = verdict(version, serde_json::from_value(b).unwrap());
+        let named = |e: &String| e.contains(name.as_str().unwrap()) && e.contains(&format!("{kind} claim"));
+        assert!(v.as_ref().is_err_and(named), "{kind} {name}: {v:?}");
+    }
 }
 
 /// A hub: k generators s_i →ρ3 h and h →ρ2 t_j (ρ3ρ2 = 0, so the D relation holds) has 2k
