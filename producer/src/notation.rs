@@ -41,8 +41,10 @@ pub fn rewrite(p: &mut Problem) {
             t[1] = w;
         }
     }
+    // Only what the checker cannot read is rewritten: a problem file written out from the
+    // typed problem (`family`) keeps its text.
     fn monomial(m: &mut String, vars: &[String]) {
-        if let Ok(x) = parse_mono(m, vars) {
+        if let (Err(_), Ok(x)) = (tubecert_format::poly::parse_mono(m, vars), parse_mono(m, vars)) {
             *m = x.render(vars);
         }
     }
