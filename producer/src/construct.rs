@@ -4,11 +4,11 @@
 //! explicit result, so the checker needs none of this.
 
 use crate::bordered::Built;
+use crate::notation::parse_poly;
 use crate::search::monomials::render_poly;
 use serde_json::Value;
 use std::collections::BTreeMap;
 use tubecert_format::limits::{grading_in_bounds, MAX_GRADING_ABS};
-use tubecert_format::poly::parse_poly;
 use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Ring, Term, UniqueMap};
 
 pub type Complexes = BTreeMap<String, ComplexSpec>;

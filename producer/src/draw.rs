@@ -13,9 +13,9 @@
 //! the colours and the highlighted witness. Above `max_generators` the picture is a summary:
 //! how many generators sit in each cell, and the arrows counted by kind.
 
+use crate::notation::parse_poly;
 use std::collections::{BTreeMap, BTreeSet, VecDeque};
 use std::fmt::Write as _;
-use tubecert_format::poly::parse_poly;
 use tubecert_format::{Claim, ComplexSpec, Ring, Term};
 
 /// The default size above which `draw` writes a summary instead of every generator.

@@ -12,6 +12,7 @@ pub mod demo;
 pub mod diff;
 pub mod draw;
 pub mod family;
+pub mod notation;
 pub mod problem;
 pub mod progress;
 pub mod prove;

@@ -132,7 +132,10 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
         });
         walk.map_err(|e| prefix(vec![e]))?;
         match typed {
-            Ok(p) if p.format == PROBLEM_FORMAT && p.version == 1 && !text.contains(ASCII_TENSOR) => return Ok(p),
+            Ok(mut p) if p.format == PROBLEM_FORMAT && p.version == 1 && !text.contains(ASCII_TENSOR) => {
+                crate::notation::rewrite(&mut p);
+                return Ok(p);
+            }
             _ => serde_json::from_str(text).map_err(|e| prefix(vec![json_error(&e)]))?,
         }
     } else {
@@ -141,10 +144,12 @@ pub fn parse_problem(bytes: &[u8], name: &str) -> Result<Problem, Vec<String>> {
     let mut w: WrittenProblem =
         serde_json::from_value(value).map_err(|e| vec![format!("{name}: not a problem file: {e}")])?;
     w.text = !json;
-    from_written(w).map_err(|es| {
+    let mut p = from_written(w).map_err(|es| {
         let lines = crate::text_format::SourceLines::of(bytes);
-        capped(es).iter().map(|e| lines.locate(name, e)).collect()
-    })
+        capped(es).iter().map(|e| lines.locate(name, e)).collect::<Vec<_>>()
+    })?;
+    crate::notation::rewrite(&mut p);
+    Ok(p)
 }
 
 /// The first errors only (locating each one reads the whole file's table of places).

@@ -3,6 +3,7 @@
 //! body is re-verified by the checker's own code, so the producer never writes a certificate
 //! that `tubecheck` would reject.
 
+use crate::notation::parse_mono;
 use crate::problem::{Goal, Problem};
 use crate::search::homotopy::{HomTerm, Solver, Verdict};
 use crate::search::monomials::render_poly;
@@ -10,7 +11,6 @@ use crate::search::normal_form::{normal_form, Pivots};
 use crate::search::torsion::{torsion_order, TorsionOutcome};
 use std::time::{Duration, Instant};
 use tubecert_format::canonical::sha256_hex;
-use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::render;
 use tubecert_format::{
     BasisWitness, Body, Certificate, Claim, ComplexSpec, DualWitness, EquivalenceWitness, HomotopyWitness, MapExpr,

@@ -1,9 +1,9 @@
 //! Validation of a problem before any search: everything the checker will check, reported
 //! at once (up to a limit), plus the goals' references.
 
+use crate::notation::parse_mono;
 use crate::problem::{Goal, Problem};
 use tubecert_format::limits::{work_limit, MAX_EXPONENT};
-use tubecert_format::poly::parse_mono;
 use tubecert_format::MapExpr;
 use tubecheck::load::{load_lenient, Context, Errors, Work};
 use tubecheck::verify::{check_chain_map, check_complex};
@@ -23,6 +23,7 @@ pub fn written_size(p: &Problem) -> u64 {
 
 pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
     let (mut ctx, mut errs) = load_lenient(&p.ring, &p.complexes, &p.maps)?;
+    crate::notation::explain(p, &mut errs.0);
     ctx.work = Work::new(work_limit(written_size(p)));
     // ∂∂ and chain-map checks are meaningful only when every term resolved.
     let complete = errs.0.is_empty();

@@ -160,7 +160,9 @@ pub fn inline_source(
         return sub(def).map_err(|e| format!("{name}: {e}"));
     }
     let spec = if v.get("generators").is_some() {
-        serde_json::from_value(v.clone()).map_err(|e| e.to_string())?
+        let mut spec: ComplexSpec = serde_json::from_value(v.clone()).map_err(|e| e.to_string())?;
+        crate::notation::write_terms(&mut spec.differential, &ring.variables)?;
+        spec
     } else {
         let (op, arg) = v
             .as_object()

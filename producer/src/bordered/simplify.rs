@@ -16,7 +16,7 @@
 //! changes remove what mixed arrows they can. It proves nothing: the certificate carries the
 //! new complex and the two inverse basis changes, and the checker verifies them.
 
-use tubecert_format::poly::parse_poly;
+use crate::notation::parse_poly;
 use tubecert_format::{ComplexSpec, Grading, MapSpec, Mono, Term, UniqueMap};
 
 /// The result: the complex in the new basis (generator z′ keeps the name and grading of z),
