@@ -328,12 +328,10 @@ pub fn load_lenient(
     for (name, spec) in maps.iter() {
         let mut side = |c: &str| ctx.complex_named(c).map_err(|e| errs.push(format!("map {name}: {e}"))).ok();
         let (Some(from), Some(to)) = (side(&spec.from), side(&spec.to)) else { continue };
-        if spec.degree.len() != ctx.ring.gradings.len() || !spec.degree.iter().all(|&x| grading_in_bounds(x)) {
-            errs.push(format!(
-                "map {name}: degree must have {} entries within ±{MAX_GRADING_ABS}, found {}",
-                ctx.ring.gradings.len(),
-                render_grading(&spec.degree)
-            ));
+        let n = ctx.ring.gradings.len();
+        if spec.degree.len() != n || !spec.degree.iter().all(|&x| grading_in_bounds(x)) {
+            let found = render_grading(&spec.degree);
+            errs.push(format!("map {name}: degree must have {n} entries within ±{MAX_GRADING_ABS}, found {found}"));
             continue;
         }
         let (what, c, d) = (format!("map {name}"), &ctx.complexes[from], &ctx.complexes[to]);

@@ -395,11 +395,9 @@ pub fn check_loaded(
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
         names.sort();
         names.iter().try_for_each(|n| check_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
-        if let Some(w) = names.windows(2).find(|w| w[0] == w[1]) {
-            return Err(vec![format!(
-                "the name \"{}\" is used by two objects (complexes and bordered objects share one namespace)",
-                w[0]
-            )]);
+        if let Some([n, _]) = names.windows(2).find(|w| w[0] == w[1]) {
+            let why = "complexes and bordered objects share one namespace";
+            return Err(vec![format!("the name \"{n}\" is used by two objects ({why})")]);
         }
     }
     let mut out = implicit.unwrap_or_else(|| check_objects(&ctx));
