@@ -407,7 +407,7 @@ pub fn check_loaded(
             (Claim::HomotopyEquivalence { maps, .. }, Some(f)) if f.map_index.contains_key(&maps[0]) => f,
             _ => &ctx,
         };
-        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), claim, version) {
             None => check_claim(on, claim, version),
             Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
             Some(Err(Failure::False(e))) => Err(e),
