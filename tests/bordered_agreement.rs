@@ -700,3 +700,26 @@ fn a_wrong_operation_deep_in_a_long_family_is_found_by_both_at_the_same_length()
         assert_eq!(oracle_accepts(&sealed["body"]).is_ok(), holds, "oracle, length {length}");
     }
 }
+
+/// A pairing without the claims it rests on (LOT §2.3–2.4: ∂² = 0 on M ⊠ N needs the D
+/// relation on N; id ⊠ f is a chain map only when f satisfies the morphism relation) is refused
+/// by both deciders, whichever supporting claim is dropped.
+#[test]
+fn pairings_without_their_supporting_claims_are_refused_by_both() {
+    let c = certificate(&morphism_problem(6));
+    let claims = c["body"]["claims"].as_array().unwrap();
+    let mut dropped = 0;
+    for (k, x) in claims.iter().enumerate() {
+        if x["kind"] == "type_d_structure" || x["kind"] == "type_d_morphism" {
+            let mut body = c["body"].clone();
+            body["claims"].as_array_mut().unwrap().remove(k);
+            let what = format!("without claim {k} ({})", x["kind"]);
+            let sealed = reseal(&c, body).unwrap();
+            assert!(!checker_accepts(&sealed), "{what}: the checker accepts");
+            let why = oracle_accepts(&sealed["body"]).expect_err(&what);
+            assert!(why.contains("rests on"), "{what}: {why}");
+            dropped += 1;
+        }
+    }
+    assert!(dropped >= 3, "the morphism problem should have two structures and a morphism claimed");
+}

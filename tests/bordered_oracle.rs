@@ -1945,6 +1945,45 @@ pub mod cert {
         Ok(())
     }
 
+    /// What a pairing rests on: X = M ⊠ N proves something about N only when N satisfies the
+    /// D relation, and id_M ⊠ f is a chain map only when N, N′ satisfy it and f the morphism
+    /// relation (LOT §2.3–2.4). So a `box_tensor` claim needs a `type_d_structure` claim on its
+    /// structure, and a `box_tensor_map` claim needs one on each end of its morphism and a
+    /// `type_d_morphism` claim on the morphism itself, in the same body.
+    pub fn supporting_claims_present(body: &Value) -> R<()> {
+        let claims = arr(member(body, "claims", "body")?, "claims")?;
+        let has = |kind: &str, field: &str, name: &str| {
+            claims.iter().any(|c| c["kind"] == kind && c[field].as_str() == Some(name))
+        };
+        for c in claims {
+            let mut needs: Vec<(&str, &str, String)> = Vec::new();
+            match c["kind"].as_str() {
+                Some("box_tensor") => {
+                    needs.push(("type_d_structure", "structure", text(&c["structure"], "claim")?.to_string()))
+                }
+                Some("box_tensor_map") => {
+                    let f = text(&c["morphism"], "claim")?;
+                    let m = member(
+                        member(member(body, "bordered", "body")?, "type_d_morphisms", "bordered")?,
+                        f,
+                        "morphisms",
+                    )?;
+                    for end in ["from", "to"] {
+                        needs.push(("type_d_structure", "structure", text(member(m, end, f)?, f)?.to_string()));
+                    }
+                    needs.push(("type_d_morphism", "morphism", f.to_string()));
+                }
+                _ => continue,
+            }
+            for (kind, field, name) in needs {
+                if !has(kind, field, &name) {
+                    return Err(format!("a {} claim rests on {name}, which has no {kind} claim", c["kind"]));
+                }
+            }
+        }
+        Ok(())
+    }
+
     fn m_of(module: &FamilyModule, x: &str, w: &[Alg]) -> UElem {
         super::m(module, x, w)
     }
@@ -2037,6 +2076,7 @@ pub mod cert {
         }
         if b.is_some() {
             truncation_covers_pairings(body)?;
+            supporting_claims_present(body)?;
         }
         Ok(())
     }
