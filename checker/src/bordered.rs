@@ -56,7 +56,8 @@ pub struct Object {
     pub families: Vec<Family>,
     /// For each generator, the indices of the families from it.
     pub out: Vec<Vec<usize>>,
-    /// Terms whose idempotents do not match (the claim fails on the first).
+    /// Terms whose idempotents do not match, and (version 3) families that are not homogeneous
+    /// (the claim fails on the first).
     pub defects: Vec<String>,
 }
 
@@ -283,13 +284,13 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
         }
         // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1)
         // ∈ P_A; along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
-        for n in 0..if fam.repeat > 0 { 2 } else { 1 } {
+        for n in (0..if fam.repeat > 0 { 2 } else { 1 }).filter(|_| group) {
             let w = fam.word(n);
             let g = w.iter().fold(gr_of(m.grading[from as usize].as_ref()), |g, &a| gr_mul(g, gr_alg(a)));
             let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
             let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
             let e = gr_mul(g, gr_pow(gr_of(m.grading[to as usize].as_ref()), -1));
-            if group && !in_period(e, m.period) {
+            if !in_period(e, m.period) {
                 m.defects.push(at(&format!("it is not homogeneous (repeated block {n} times): gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period")));
             }
         }
