@@ -38,8 +38,8 @@ pub const WORK_FLOOR: u64 = 1 << 32;
 pub type Arrows = Vec<Vec<(Alg, u32)>>;
 /// For each generator of a box tensor product, its terms (target name, U-power).
 pub type Rows = Vec<Vec<(String, u32)>>;
-/// A box tensor product (or id ⊠ f): its generators, their rows, the bounded side.
-pub type Product = (Vec<Generator>, Rows, &'static str);
+/// What a verified claim established (reported beside it).
+pub type Facts = BTreeMap<String, serde_json::Value>;
 
 /// A type D structure or a type A module, indexed: its generators (a structure's gradings are
 /// optional), and δ¹ (a structure's, sorted) or the families of operations (a module's).
@@ -80,8 +80,9 @@ pub struct Morphism {
     pub defects: Vec<String>,
 }
 
-/// The loaded bordered section.
-pub struct Objects {
+/// The loaded bordered section (`spec`: as written).
+pub struct Objects<'a> {
+    pub spec: &'a Bordered,
     pub full: Context,
     pub structures: BTreeMap<String, Object>,
     pub modules: BTreeMap<String, Object>,
@@ -156,10 +157,7 @@ fn after(a: Alg, g: Gr) -> Gr {
 
 /// Whether g is a power of the period h.
 fn in_period(g: Gr, h: Gr) -> bool {
-    match h.iter().position(|&x| x != 0) {
-        None => g == [0; 4],
-        Some(i) => g[i] % h[i] == 0 && gr_pow(h, g[i] / h[i]) == g,
-    }
+    h.iter().position(|&x| x != 0).map_or(g == [0; 4], |i| g[i] % h[i] == 0 && gr_pow(h, g[i] / h[i]) == g)
 }
 
 /// (Maslov, Alexander) of the double coset P_A·g·P_D: with m·v(h_A) + v(g) + n·v(h_D) = 0
@@ -329,11 +327,6 @@ impl Family {
         self.close(1 << self.pattern.len())
     }
 
-    /// U-power of the output when a word of length `len` is complete at `mask`.
-    fn output(&self, mask: u64, len: usize) -> Option<u64> {
-        (mask & self.end() != 0).then(|| self.power_at(len))
-    }
-
     /// U-power of the output on the family's word of length `len`.
     fn power_at(&self, len: usize) -> u64 {
         let n = (len + self.repeat - self.pattern.len()).checked_div(self.repeat).unwrap_or(0);
@@ -347,9 +340,9 @@ impl Family {
     }
 }
 
-impl Objects {
+impl<'a> Objects<'a> {
     /// `version` ≥ 3: gradings are elements of the grading group.
-    pub fn load(b: &Bordered, items: u64, version: u32, claims: &[Claim]) -> Result<Objects, Vec<String>> {
+    pub fn load(b: &'a Bordered, items: u64, version: u32, claims: &[Claim]) -> Result<Objects<'a>, Vec<String>> {
         let group = version >= 3;
         if b.full_ring != full_ring() {
             return Err(vec!["bordered: full_ring must be F2[U,V] with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1)".into()]);
@@ -376,11 +369,10 @@ impl Objects {
                 Claim::TypeDStructure { structure: n, .. } | Claim::TypeDMorphism { morphism: n, .. } => (n, 0),
                 _ => continue,
             };
-            let l = claimed.entry((c.kind(), name.clone())).or_default();
-            *l = length.max(*l);
+            claimed.entry((c.kind(), name.clone())).and_modify(|l: &mut u32| *l = length.max(*l)).or_insert(length);
         }
         let budget = Budget(Cell::new(items.saturating_mul(WORK_PER_ITEM)), Cell::new(0), Cell::new(WORK_FLOOR));
-        Ok(Objects { full, structures, modules, morphisms, budget, claimed })
+        Ok(Objects { spec: b, full, structures, modules, morphisms, budget, claimed })
     }
 }
 
@@ -492,8 +484,9 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
         o.spend(work, "A∞ relations")?;
         let mut fwd = vec![f.close(1)];
         s.iter().for_each(|&a| fwd.push(f.step(fwd[fwd.len() - 1], a)));
-        for (i, &mk) in fwd.iter().enumerate() {
-            let Some(e) = f.output(mk, i) else { continue };
+        // A word read to the end: s[..i] is one of f's, with output U^e.
+        for (i, _) in fwd.iter().enumerate().filter(|(_, &mk)| mk & f.end() != 0) {
+            let e = f.power_at(i);
             o.spend(m.out[f.to as usize].len() as u64, "A∞ relations")?;
             for &gi in &m.out[f.to as usize] {
                 if suffix(gi, i)? & 1 != 0 {
@@ -629,28 +622,23 @@ fn compare(
             want.push((j, Mono::power(0, *p)));
         }
         normalize(&mut want);
-        let (ours, theirs) = ("the box tensor product", "the certificate");
-        crate::report_terms::compare(ctx, to, name, theirs, &actual[i], ours, &want)
+        crate::report_terms::compare(ctx, to, name, "the certificate", &actual[i], "the box tensor product", &want)
             .map_err(|e| format!("{what}: {e}"))?;
     }
     Ok(())
 }
 
-/// M ⊠ N: generators and, for each, the terms of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)),
-/// and the bounded side.
-pub fn tensor_complex(o: &Budget, m: &Object, n: &Object, symmetric: bool) -> Result<Product, Failure> {
-    tensor_map(o, m, n, None, symmetric)
-}
-
-/// id_M ⊠ f: M ⊠ N → M ⊠ N′ for `f` = Some((f, N′)), over paths of δ¹-steps in N, one f-step,
-/// δ¹-steps in N′ (for `f` = None, M ⊠ N: paths of δ¹-steps in N).
+/// The generators of M ⊠ N, the bounded side, and for each generator its terms: for `f` = None,
+/// of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)) over paths of δ¹-steps in N; for `f` =
+/// Some((f, N′)), of (id_M ⊠ f)(x⊗y) in M ⊠ N′, over paths of δ¹-steps in N, one f-step,
+/// δ¹-steps in N′.
 pub fn tensor_map(
     o: &Budget,
     m: &Object,
     n: &Object,
     f: Option<(&Morphism, &Object)>,
     symmetric: bool,
-) -> Result<Product, Failure> {
+) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
     let more = f.map(|(f, n2)| n2.defects.iter().chain(&f.defects));
     if let Some(e) = m.defects.iter().chain(&n.defects).chain(more.into_iter().flatten()).next() {
         return Err(e.clone().into());
@@ -693,21 +681,17 @@ pub fn tensor_map(
             while let Some((y, mask, len, can_end)) = todo.pop() {
                 let next = &edges[y as usize];
                 o.spend(1 + (f.pattern.len() + next.len()) as u64, "box tensor")?;
-                if let (true, Some(p)) = (can_end, f.output(mask, len)) {
+                if can_end && mask & f.end() != 0 {
                     // A term is kept until the sums mod 2 and then named: counted like a pair.
                     o.spend(WORK_PER_ITEM / 64, "box tensor terms")?;
                     o.1.set(o.1.get().max(len));
-                    let p = u32::try_from(p).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
+                    let p = u32::try_from(f.power_at(len)).ok().filter(|&p| p <= MAX_EXPONENT).ok_or_else(|| {
                         Failure::Refused("a term of the box tensor product has a U-power beyond 2^20".into())
                     })?;
                     out.push((f.to, y, p));
                 }
-                for &(a, y2, end) in next {
-                    let mask = f.step(mask, a);
-                    if mask != 0 {
-                        todo.push((y2, mask, len + 1, end));
-                    }
-                }
+                let steps = next.iter().map(|&(a, y2, end)| (y2, f.step(mask, a), len + 1, end));
+                todo.extend(steps.filter(|s| s.1 != 0));
             }
         }
         // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
@@ -854,27 +838,15 @@ fn covered(o: &Objects, module: &str, needs: &[(&'static str, &str)]) -> Result<
 }
 
 /// Checks one bordered claim; `None` for the other kinds.
-pub fn check(
-    ctx: &Context,
-    o: Option<&Objects>,
-    spec: Option<&Bordered>,
-    claim: &Claim,
-    version: u32,
-) -> Option<Result<BTreeMap<String, serde_json::Value>, Failure>> {
+pub fn check(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u32) -> Option<Result<Facts, Failure>> {
     const KINDS: [&str; 6] =
         ["type_d_structure", "type_a_module", "type_d_morphism", "box_tensor", "box_tensor_map", "complement"];
-    KINDS.contains(&claim.kind()).then(|| check_bordered(ctx, o, spec, claim, version))
+    KINDS.contains(&claim.kind()).then(|| check_bordered(ctx, o, claim, version))
 }
 
-fn check_bordered(
-    ctx: &Context,
-    o: Option<&Objects>,
-    spec: Option<&Bordered>,
-    claim: &Claim,
-    version: u32,
-) -> Result<BTreeMap<String, serde_json::Value>, Failure> {
+fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u32) -> Result<Facts, Failure> {
     crate::verify::check_statement(ctx, claim, version)?;
-    let (Some(o), Some(spec)) = (o, spec) else {
+    let Some(o) = o else {
         return Err("a bordered claim in a certificate without a bordered section".to_string().into());
     };
     let r = &ctx.ring;
@@ -908,7 +880,7 @@ fn check_bordered(
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
             b.1.set(0);
-            let (mut gens, rows, side) = tensor_complex(b, module(mn)?, structure(sn)?, version >= 4)?;
+            let (mut gens, rows, side) = tensor_map(b, module(mn)?, structure(sn)?, None, version >= 4)?;
             covered(o, mn, &[("type_d_structure", sn)])?;
             crate::maslov::certify(b, &mut gens, &rows, witness.as_ref(), version)?;
             compare(ctx, &format!("{complex} = {mn} ⊠ {sn}"), (c, c), &gens, &rows, &ctx.complexes[c].d.rows)?;
@@ -925,7 +897,7 @@ fn check_bordered(
             // must have been checked on, too.
             let (w, mut source) = (witness.as_ref(), Vec::new());
             for (c, dn, w) in [(fm.from, &f.from, w.map(|w| &w.from)), (fm.to, &f.to, w.map(|w| &w.to))] {
-                let (mut gens, rows, _) = tensor_complex(b, m, structure(dn)?, version >= 4)?;
+                let (mut gens, rows, _) = tensor_map(b, m, structure(dn)?, None, version >= 4)?;
                 crate::maslov::certify(b, &mut gens, &rows, w, version)?;
                 let cx = &ctx.complexes[c];
                 compare(ctx, &format!("{what}: {} = {mn} ⊠ {dn}", cx.name), (c, c), &gens, &rows, &cx.d.rows)?;
@@ -952,7 +924,7 @@ fn check_bordered(
                 format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {why})")
             })?;
             structure(sn)?;
-            let given = &spec.type_d_structures[sn];
+            let given = &o.spec.type_d_structures[sn];
             ensure(found_tau == *tau, || format!("the basis gives τ = A(ξ_0) = {found_tau}, not {tau}"))?;
             let same = given.generators == want.generators && given.period == want.period;
             ensure(same, || {

@@ -9,6 +9,7 @@
 
 use crate::algebra::normalize;
 use crate::bordered::{Budget, Failure, Generator, Rows};
+use crate::verify::ensure;
 use std::collections::BTreeMap;
 use tubecert_format::HatWitness;
 
@@ -28,9 +29,7 @@ pub fn certify(o: &Budget, gens: &mut [Generator], rows: &Rows, w: Option<&HatWi
         let mut s = vec![false; gens.len()];
         for n in names {
             let &k = index.get(n.as_str()).ok_or_else(|| format!("the witnessed {what} names {n}, not a generator"))?;
-            if std::mem::replace(&mut s[k], true) {
-                Err(format!("the witnessed {what} lists {n} twice"))?;
-            }
+            ensure(!std::mem::replace(&mut s[k], true), || format!("the witnessed {what} lists {n} twice"))?;
         }
         Ok(s)
     };
@@ -44,9 +43,8 @@ pub fn certify(o: &Budget, gens: &mut [Generator], rows: &Rows, w: Option<&HatWi
     if let Some(k) = (0..gens.len()).find(|&k| hits(k) % 2 == 1) {
         Err(format!("the witnessed cocycle is not a cocycle of X/(U − 1): it is 1 on ∂{}", gens[k].2))?;
     }
-    if (0..gens.len()).filter(|&k| c[k] && dual[k]).count() % 2 == 0 {
-        Err("the witnessed cocycle is 0 on the witnessed cycle (⟨c*, c⟩ must be 1)".to_string())?;
-    }
+    let paired = (0..gens.len()).filter(|&k| c[k] && dual[k]).count() % 2 == 1;
+    ensure(paired, || "the witnessed cocycle is 0 on the witnessed cycle (⟨c*, c⟩ must be 1)".into())?;
     let gz = |g: &Generator| g.3[0] - 2 * g.3[1];
     let d = gz(&gens[c.iter().position(|&x| x).expect("⟨c*, c⟩ = 1")]);
     if let Some((g, _)) = gens.iter().zip(&c).find(|(g, &x)| x && gz(g) != d) {
@@ -54,9 +52,8 @@ pub fn certify(o: &Budget, gens: &mut [Generator], rows: &Rows, w: Option<&HatWi
     }
     for g in gens.iter_mut() {
         g.3[0] -= d;
-        if !tubecert_format::limits::grading_in_bounds(g.3[0]) {
-            Err(format!("{}: the normalized Maslov grading is beyond the bounds of a grading", g.2))?;
-        }
+        let why = || format!("{}: the normalized Maslov grading is beyond the bounds of a grading", g.2);
+        ensure(tubecert_format::limits::grading_in_bounds(g.3[0]), why)?;
     }
     Ok(())
 }

@@ -416,7 +416,7 @@ pub fn check_loaded(
     };
     for claim in &body.claims {
         refused()?;
-        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), b, claim, version) {
+        let outcome = match crate::bordered::check(&ctx, objects.as_ref(), claim, version) {
             // A homotopy equivalence between full complexes is checked over F2[U,V].
             None => match (claim, full) {
                 (Claim::HomotopyEquivalence { maps, .. }, Some(f)) if f.map_index.contains_key(&maps[0]) => {

@@ -61,8 +61,7 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
                 for claim in &p.bordered_claims {
                     if let Some(Err(
                         tubecheck::bordered::Failure::False(e) | tubecheck::bordered::Failure::Refused(e),
-                    )) =
-                        tubecheck::bordered::check(&ctx, Some(&o), Some(b), claim, tubecert_format::CERTIFICATE_VERSION)
+                    )) = tubecheck::bordered::check(&ctx, Some(&o), claim, tubecert_format::CERTIFICATE_VERSION)
                     {
                         // Said of the object, so that a text problem's message points at its line.
                         use tubecert_format::Claim::{TypeAModule, TypeDMorphism, TypeDStructure};

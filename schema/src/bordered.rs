@@ -37,10 +37,8 @@ impl Alg {
     /// (left, right) idempotent of a Reeb element: ρ1 = ι0ρ1ι1, ρ2 = ι1ρ2ι0, ρ3 = ι0ρ3ι1, so
     /// `ρ_[lo,hi]` starts in ι_((lo−1) mod 2) and ends in ι_(hi mod 2). `None` for the idempotent.
     pub fn idempotents(self) -> Option<(u8, u8)> {
-        match self {
-            Alg::One => None,
-            Alg::Reeb(lo, hi) => Some(((lo - 1) % 2, hi % 2)),
-        }
+        let Alg::Reeb(lo, hi) = self else { return None };
+        Some(((lo - 1) % 2, hi % 2))
     }
 
     /// The product, `None` when it is zero: ρ_I·ρ_J = ρ_(I∪J) when J starts where I ends

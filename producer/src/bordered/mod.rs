@@ -226,7 +226,7 @@ fn budget() -> Budget {
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize, HatWitness), String> {
     let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
-    let (mut gens, rows, _) = checked::tensor_complex(&b, &ma, &nd, true).map_err(failure)?;
+    let (mut gens, rows, _) = checked::tensor_map(&b, &ma, &nd, None, true).map_err(failure)?;
     let w = maslov::hat_witness(&gens, &rows)?;
     let version = tubecert_format::CERTIFICATE_VERSION;
     tubecheck::maslov::certify(&b, &mut gens, &rows, Some(&w), version).map_err(failure)?;
