@@ -619,7 +619,7 @@ fn compare(
         let mut want = Vec::new();
         for (t, p) in row {
             let j = d.index.get(t).ok_or_else(|| format!("{what}: {t} is not a generator of {}", d.name))?;
-            want.push((j, Mono::power(0, *p)));
+            want.push((j, Mono([*p, 0])));
         }
         normalize(&mut want);
         crate::report_terms::compare(ctx, to, name, "the certificate", &actual[i], "the box tensor product", &want)

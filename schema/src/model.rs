@@ -49,8 +49,7 @@ impl<'de, V: Deserialize<'de>> Visitor<'de> for UniqueMap<V> {
             if self.0.contains_key(&k) {
                 return Err(de::Error::custom(format!("duplicate name \"{k}\"")));
             }
-            let v = a.next_value()?;
-            self.0.insert(k, v);
+            self.0.insert(k, a.next_value()?);
         }
         Ok(self)
     }
@@ -142,36 +141,30 @@ impl<'de> Visitor<'de> for ExprVisitor {
         Ok(MapExpr::Named(s.into()))
     }
     fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<MapExpr, A::Error> {
+        let fail = |e: String| Err(de::Error::custom(e));
         let Some(op) = a.next_key::<String>()? else { return Err(de::Error::invalid_length(0, &self)) };
         let e = match op.as_str() {
             "id" => MapExpr::Id(a.next_value()?),
             "times" => a.next_value().map(|(m, e)| MapExpr::Times(m, e))?,
             "sum" => MapExpr::Sum(a.next_value()?),
             "compose" => MapExpr::Compose(a.next_value()?),
-            _ => {
-                let e = format!("unknown map operation \"{op}\" (expected id, sum, compose or times)");
-                return Err(de::Error::custom(e));
-            }
+            _ => return fail(format!("unknown map operation \"{op}\" (expected id, sum, compose or times)")),
         };
-        if let Some(k) = a.next_key::<String>()? {
-            let e = match k == op {
-                true => format!("the key \"{op}\" is written twice in one map operation"),
-                false => format!("a map operation is a one-key object, found \"{op}\" and \"{k}\""),
-            };
-            return Err(de::Error::custom(e));
+        match a.next_key::<String>()? {
+            Some(k) if k == op => return fail(format!("the key \"{op}\" is written twice in one map operation")),
+            Some(k) => return fail(format!("a map operation is a one-key object, found \"{op}\" and \"{k}\"")),
+            None => {}
         }
         // One part would print like its own part (or a bracketed one): statements must read
         // back as one expression. Each nested expression is bounded when it is read; the file's
         // own nesting limit (serde_json's) bounds the recursion before that.
-        let e = match (&e, e.extent()) {
-            (MapExpr::Sum(es) | MapExpr::Compose(es), _) if es.len() < 2 => {
-                format!("\"{op}\" takes at least two map expressions")
-            }
-            (_, (_, depth)) if depth > MAX_EXPR_DEPTH => format!("map expression nested deeper than {MAX_EXPR_DEPTH}"),
-            (_, (n, _)) if n > MAX_EXPR_NODES => format!("map expression has more than {MAX_EXPR_NODES} parts"),
-            _ => return Ok(e),
-        };
-        Err(de::Error::custom(e))
+        let few = matches!(&e, MapExpr::Sum(es) | MapExpr::Compose(es) if es.len() < 2);
+        match e.extent() {
+            _ if few => fail(format!("\"{op}\" takes at least two map expressions")),
+            (_, depth) if depth > MAX_EXPR_DEPTH => fail(format!("map expression nested deeper than {MAX_EXPR_DEPTH}")),
+            (n, _) if n > MAX_EXPR_NODES => fail(format!("map expression has more than {MAX_EXPR_NODES} parts")),
+            _ => Ok(e),
+        }
     }
 }
 

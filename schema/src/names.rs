@@ -8,15 +8,14 @@
 
 use crate::limits::MAX_NAME_LEN;
 
-/// The alphabet in words, for messages and documents.
-pub const NAME_ALPHABET: &str = "ASCII letters and digits, _ . ' and ⊗";
-
-/// The one non-ASCII character of the alphabet: the tensor product's, as in `x⊗y`.
-pub const TENSOR: char = '⊗';
-
+/// Whether a character is in the alphabet; `⊗` is the one non-ASCII character, as the tensor
+/// product writes it in `x⊗y`.
 pub fn is_name_char(c: char) -> bool {
-    c.is_ascii_alphanumeric() || matches!(c, '_' | '.' | '\'' | TENSOR)
+    c.is_ascii_alphanumeric() || matches!(c, '_' | '.' | '\'' | '⊗')
 }
+
+/// The alphabet in words, for messages.
+const NAME_ALPHABET: &str = "ASCII letters and digits, _ . ' and ⊗";
 
 /// The name with every character outside the alphabet shown as `<U+XXXX>`, so that a message
 /// about an invisible character shows where it is.
@@ -32,20 +31,17 @@ pub fn check_name(name: &str) -> Result<(), String> {
     if name.is_empty() || name.len() > MAX_NAME_LEN {
         return Err(format!("name \"{}\" must have 1 to {MAX_NAME_LEN} bytes", visible(name)));
     }
-    match name.chars().find(|&c| !is_name_char(c)) {
-        Some(c) => Err(format!(
-            "name \"{}\" contains U+{:04X}{}, which is not allowed in names (allowed: {NAME_ALPHABET})",
-            visible(name),
-            c as u32,
-            match c {
-                _ if c.is_control() => ", a control character",
-                _ if c.is_whitespace() => ", whitespace",
-                _ if c.is_ascii_graphic() => "",
-                _ => " (shown as <U+…>)",
-            }
-        )),
-        None => Ok(()),
-    }
+    let Some(c) = name.chars().find(|&c| !is_name_char(c)) else { return Ok(()) };
+    let what = match c {
+        _ if c.is_control() => ", a control character",
+        _ if c.is_whitespace() => ", whitespace",
+        _ if c.is_ascii_graphic() => "",
+        _ => " (shown as <U+…>)",
+    };
+    let (shown, code) = (visible(name), c as u32);
+    Err(format!(
+        "name \"{shown}\" contains U+{code:04X}{what}, which is not allowed in names (allowed: {NAME_ALPHABET})"
+    ))
 }
 
 /// A map name: the alphabet, and not `id_…`, which statements use for identity maps.

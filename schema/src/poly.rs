@@ -17,13 +17,6 @@ pub struct Mono(pub [u32; MAX_VARIABLES]);
 impl Mono {
     pub const ONE: Mono = Mono([0; MAX_VARIABLES]);
 
-    /// The monomial v_i^e.
-    pub fn power(var: usize, e: u32) -> Mono {
-        let mut m = Mono::ONE;
-        m.0[var] = e;
-        m
-    }
-
     /// Product, or `None` if an exponent would pass [`MAX_EXPONENT`] (a sum past `u32` saturates,
     /// so it is past the limit too).
     pub fn checked_mul(self, other: Mono) -> Option<Mono> {

@@ -20,24 +20,20 @@ impl RingInfo {
     /// Checks a ring declaration; every problem is reported.
     pub fn new(ring: &Ring) -> Result<RingInfo, Vec<String>> {
         let mut errs = Vec::new();
-        let m = ring.gradings.len();
+        let (m, n) = (ring.gradings.len(), ring.variables.len());
         if !(1..=4).contains(&m) {
             errs.push(format!("ring: {m} gradings declared; between 1 and 4 are supported"));
         }
-        if ring.variables.len() > MAX_VARIABLES {
+        if n > MAX_VARIABLES {
             errs.push(format!(
-                "ring: {} variables declared; F2, F2[U] and F2[U,V] (at most {MAX_VARIABLES}) are supported",
-                ring.variables.len()
+                "ring: {n} variables declared; F2, F2[U] and F2[U,V] (at most {MAX_VARIABLES}) are supported"
             ));
         }
         for (i, v) in ring.variables.iter().enumerate() {
-            if v.is_empty() || v.len() > MAX_NAME_LEN || !v.chars().all(|c| c.is_ascii_alphabetic()) {
-                let bad = v.chars().find(|c| !c.is_ascii_alphabetic()).map(|c| format!(" (found U+{:04X})", c as u32));
-                errs.push(format!(
-                    "ring: variable name \"{}\" must be 1 to {MAX_NAME_LEN} ASCII letters{}",
-                    visible(v),
-                    bad.unwrap_or_default()
-                ));
+            let bad = v.chars().find(|c| !c.is_ascii_alphabetic()).map(|c| format!(" (found U+{:04X})", c as u32));
+            if v.is_empty() || v.len() > MAX_NAME_LEN || bad.is_some() {
+                let (v, bad) = (visible(v), bad.unwrap_or_default());
+                errs.push(format!("ring: variable name \"{v}\" must be 1 to {MAX_NAME_LEN} ASCII letters{bad}"));
             }
             if ring.variables[..i].contains(v) {
                 errs.push(format!("ring: variable \"{v}\" declared twice"));
@@ -51,20 +47,16 @@ impl RingInfo {
                 errs.push(format!("ring: grading \"{g}\" declared twice"));
             }
         }
-        let mut var_degrees = Vec::new();
+        let var_degrees: Vec<Grading> =
+            ring.variables.iter().filter_map(|v| ring.variable_degrees.get(v).cloned()).collect();
         for v in &ring.variables {
             match ring.variable_degrees.get(v) {
-                Some(d) => {
-                    check_vector(&format!("ring: degree of {v}"), d, m, &mut errs);
-                    var_degrees.push(d.clone());
-                }
+                Some(d) => check_vector(&format!("ring: degree of {v}"), d, m, &mut errs),
                 None => errs.push(format!("ring: variable \"{v}\" has no entry in variable_degrees")),
             }
         }
-        for k in ring.variable_degrees.keys() {
-            if !ring.variables.contains(k) {
-                errs.push(format!("ring: variable_degrees names \"{k}\", which is not a declared variable"));
-            }
+        for k in ring.variable_degrees.keys().filter(|k| !ring.variables.contains(k)) {
+            errs.push(format!("ring: variable_degrees names \"{k}\", which is not a declared variable"));
         }
         check_vector("ring: differential_degree", &ring.differential_degree, m, &mut errs);
         if !errs.is_empty() {
@@ -124,10 +116,9 @@ fn infinite_piece(d: &[Grading]) -> Option<String> {
     if let [d0, d1] = d {
         // Entries are at most 2^31, so products are below 2^62 but a sum of four may pass 2^63:
         // computed in 128 bits.
-        let (d0, d1): (Vec<i128>, Vec<i128>) =
-            (d0.iter().map(|&x| x.into()).collect(), d1.iter().map(|&x| x.into()).collect());
-        let parallel = (0..d0.len()).all(|i| (0..d0.len()).all(|j| d0[i] * d1[j] == d0[j] * d1[i]));
-        let dot: i128 = d0.iter().zip(&d1).map(|(a, b)| a * b).sum();
+        let p = |i: usize, j: usize| i128::from(d0[i]) * i128::from(d1[j]);
+        let parallel = (0..d0.len()).all(|i| (0..d0.len()).all(|j| p(i, j) == p(j, i)));
+        let dot: i128 = (0..d0.len()).map(|i| p(i, i)).sum();
         if parallel && dot < 0 {
             return Some("a product of variables has degree zero".into());
         }

@@ -66,10 +66,9 @@ pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
         // Over F2[U,V] τ is read on the V = 0 quotient, in the grading A = (g_1 − g_2)/2, which
         // the claim's `alexander` names (checked by `verify::alexander_of`).
         Claim::Tau { complex, tau, alexander, .. } if ring.variables.len() == 2 && ring.gradings.len() == 2 => {
-            let (g, v) = (&ring.gradings, &ring.variables[1]);
+            let (g0, g1, v) = (&ring.gradings[0], &ring.gradings[1], &ring.variables[1]);
             format!(
-                "τ({complex}) = {tau} (Alexander grading {alexander} = ({} − {})/2, read on {complex}/({v}), the {v} = 0 quotient)",
-                g[0], g[1]
+                "τ({complex}) = {tau} (Alexander grading {alexander} = ({g0} − {g1})/2, read on {complex}/({v}), the {v} = 0 quotient)"
             )
         }
         Claim::Tau { complex, tau, alexander, .. } if version >= 2 && ring.gradings.len() > 1 => {

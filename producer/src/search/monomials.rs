@@ -27,7 +27,7 @@ pub fn monomials_of_degree(ring: &RingInfo, g: &[i64]) -> Vec<Mono> {
                 vec![]
             }
         }
-        1 => multiple_of(g, &d[0]).map(|a| vec![Mono::power(0, a)]).unwrap_or_default(),
+        1 => multiple_of(g, &d[0]).map(|a| vec![Mono([a, 0])]).unwrap_or_default(),
         _ => two_variable_solutions(g, &d[0], &d[1]),
     }
 }
