@@ -169,9 +169,8 @@ pub fn read_grading(g: Gr, ha: Gr, hd: Gr) -> Result<Grading, String> {
     })?;
     let (m, n) = ((g[2] * hd[1] - g[1] * hd[2]) / det, (ha[2] * g[1] - ha[1] * g[2]) / det);
     // Bounded so that no product below leaves i128 (entries of h^m stay under 2^62).
-    ensure(m.abs() <= 1 << 31 && n.abs() <= 1 << 31, || {
-        "the double coset needs a power of a period beyond 2^31".into()
-    })?;
+    let small = m.abs() <= 1 << 31 && n.abs() <= 1 << 31;
+    ensure(small, || "the double coset needs a power of a period beyond 2^31".into())?;
     let r = gr_mul(gr_mul(gr_pow(ha, m), g), gr_pow(hd, n));
     let integral = r[1] == 0 && r[2] == 0 && r[0] % 2 == 0 && r[3] % 2 == 0;
     ensure(integral, || format!("the grading {g:?} (doubled) does not reduce to integral (Maslov, Alexander)"))?;
@@ -260,8 +259,7 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
         ensure(pattern.len() <= 60 && !pattern.contains(&Alg::One) && powers, || {
             at("at most 60 inputs written, Reeb elements (strict unitality covers the idempotents); power [a, b] within 2^20, a = 0 without a repeated block")
         })?;
-        let find =
-            |n: &String| m.index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
+        let find = |n: &str| m.index.get(n).copied().ok_or_else(|| at(&format!("generator \"{n}\" is not declared")));
         let (from, to) = (find(&f.from)?, find(&f.to)?);
         let mut holds = BTreeMap::new();
         pattern.iter().enumerate().for_each(|(k, &a)| *holds.entry(a).or_insert(0) |= 1 << k);
@@ -522,15 +520,15 @@ fn bounded(o: &Budget, m: &Object, edges: &[Vec<Step>]) -> Result<&'static str, 
     o.spend(n as u64 + edges.iter().map(|e| e.len() as u64).sum::<u64>(), "box tensor")?;
     let mut into = vec![0u32; n as usize];
     edges.iter().flatten().for_each(|s| into[s.1 as usize] += 1);
-    let (mut ready, mut peeled): (Vec<u32>, _) = ((0..n).filter(|&y| into[y as usize] == 0).collect(), 0);
+    let mut ready: Vec<u32> = (0..n).filter(|&y| into[y as usize] == 0).collect();
     while let Some(y) = ready.pop() {
-        peeled += 1;
         for s in &edges[y as usize] {
             into[s.1 as usize] -= 1;
             ready.extend((into[s.1 as usize] == 0).then_some(s.1));
         }
     }
-    match (peeled == n, m.families.iter().all(|f| f.repeat == 0)) {
+    // Every node peeled (no arrow left pointing into one) exactly when there is no cycle.
+    match (into.iter().all(|&c| c == 0), m.families.iter().all(|f| f.repeat == 0)) {
         (true, _) => Ok("structure"),
         (_, true) => Ok("module"),
         _ => Err(Failure::Refused("neither side is bounded: the type D structure's δ¹ has a directed cycle and the module has operations of every length (a repeated block); the box tensor product is defined only when one side is bounded (LOT §2.4) — pair with a bounded model".into())),
@@ -639,10 +637,8 @@ pub fn tensor_map(
     f: Option<(&Morphism, &Object)>,
     symmetric: bool,
 ) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
-    let more = f.map(|(f, n2)| n2.defects.iter().chain(&f.defects));
-    if let Some(e) = m.defects.iter().chain(&n.defects).chain(more.into_iter().flatten()).next() {
-        return Err(e.clone().into());
-    }
+    let more = f.into_iter().flat_map(|(f, n2)| [&n2.defects, &f.defects]);
+    [&m.defects, &n.defects].into_iter().chain(more).try_for_each(|d| none_of(d))?;
     // The |M|·|N| pairs made from |M| + |N| written generators, counted each at 1/64 of an
     // item's allowance before they are made (a named pair is a few hundred bytes; a true
     // product lists every pair in its complex, so it has far fewer pairs than written items · 64).
