@@ -154,6 +154,10 @@ impl Work {
         let msg = format!("work limit: {what} needs {units} units of work (terms touched, rows allocated), beyond the {limit} this file may use (limits::work_limit: {per_byte} per byte + {base})");
         Err(self.refused.get_or_init(|| msg).clone())
     }
+    /// The units counted so far.
+    pub fn spent(&self) -> u64 {
+        self.used.load(Relaxed)
+    }
 }
 
 pub fn grading_sum(a: &[i64], b: &[i64]) -> Grading {
@@ -438,11 +442,15 @@ impl Context {
             Mono(e)
         };
         let cx = &self.complexes[c];
+        self.work.spend(cx.d.size(), &format!("the quotient {}/({var})", cx.name))?;
         let rows =
             cx.d.rows.iter().map(|r| r.iter().filter(|t| t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect());
         let d = SparseMap { rows: rows.collect() };
         let complex = Complex::new(format!("{}/({var})", cx.name), cx.names.clone(), cx.gradings.clone(), d);
-        // The quotient is no larger than the complex: its checks get the same budget again.
-        Ok(Context::new(ring, vec![complex], Work::new(self.work.limit), 0))
+        // Its checks go on counting where this context's stand (the caller adds what they
+        // spend back here, `verify::check_homology`): one budget per file, however many claims.
+        let work = Work::new(self.work.limit);
+        work.used.store(self.work.spent(), Relaxed);
+        Ok(Context::new(ring, vec![complex], work, 0))
     }
 }

@@ -133,7 +133,10 @@ pub struct Decomposition {
 /// of the quotient C/(var) (over `F2[U,V]`, a PID).
 pub fn check_homology(ctx: &Context, c: usize, var: Option<&str>, w: &BasisWitness) -> Result<Decomposition, String> {
     if let Some(v) = var {
-        return check_homology(&ctx.quotient(c, v)?, 0, None, w);
+        let q = ctx.quotient(c, v)?;
+        let found = check_homology(&q, 0, None, w);
+        ctx.work.spend(q.work.spent().saturating_sub(ctx.work.spent()), "the homology of a quotient")?;
+        return found;
     }
     ensure(ctx.ring.num_vars() <= 1, || "homology claims need a PID: F2 or F2[U]".into())?;
     let (old, zero) = (&ctx.complexes[c], Some(&vec![0; ctx.ring.gradings.len()][..]));
