@@ -29,9 +29,6 @@ impl Errors {
             _ => {}
         }
     }
-    pub fn into_result<T>(self, value: T) -> Result<T, Vec<String>> {
-        self.0.is_empty().then_some(value).ok_or(self.0)
-    }
 }
 
 /// Generator names → indices. Names of up to 22 bytes are kept inline in the table, so a
@@ -108,7 +105,7 @@ impl Complex {
     }
 }
 
-/// A declared map, or one computed from an expression (then without defects).
+/// A declared map, or one computed from an expression or a witness (then without defects).
 #[derive(Debug, Clone)]
 pub struct Map {
     pub from: usize,
@@ -118,9 +115,6 @@ pub struct Map {
     /// Terms that are not homogeneous of the map's degree.
     pub defects: Vec<String>,
 }
-
-/// A map computed from an expression or a witness, with its source, target and degree.
-pub type Evaluated = Map;
 
 #[derive(Debug)]
 pub struct Context {
@@ -159,6 +153,10 @@ impl Work {
         let (limit, per_byte, base) = (self.limit, limits::WORK_PER_BYTE, limits::WORK_BASE);
         let msg = format!("work limit: {what} needs {units} units of work (terms touched, rows allocated), beyond the {limit} this file may use (limits::work_limit: {per_byte} per byte + {base})");
         Err(self.refused.get_or_init(|| msg).clone())
+    }
+    /// The units counted so far.
+    pub fn spent(&self) -> u64 {
+        self.used.load(Relaxed)
     }
 }
 
@@ -305,7 +303,7 @@ pub fn load(
     maps: &UniqueMap<MapSpec>,
 ) -> Result<Context, Vec<String>> {
     let (ctx, errs) = load_lenient(ring, complexes, maps)?;
-    errs.into_result(ctx)
+    errs.0.is_empty().then_some(ctx).ok_or(errs.0)
 }
 
 /// Like [`load`], but returns the context together with its structural errors (terms that did
@@ -320,7 +318,7 @@ pub fn load_lenient(
     let complex_names = complexes.keys().map(|n| check_name(n).map_err(|e| format!("complex {e}")));
     let map_names = maps.keys().map(|n| check_map_name(n).map_err(|e| format!("map {e}")));
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
-    Errors(bad, 0).into_result(())?;
+    bad.is_empty().then_some(()).ok_or(bad)?;
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
     let complexes =
         complexes.iter().map(|(n, s)| read_complex(&ring, n, &s.generators, &s.differential, &mut errs)).collect();
@@ -373,7 +371,7 @@ impl Context {
     }
 
     /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
-    pub fn eval(&self, e: &MapExpr) -> Result<Evaluated, String> {
+    pub fn eval(&self, e: &MapExpr) -> Result<Map, String> {
         match e {
             MapExpr::Named(n) => {
                 let m = &self.maps[self.map_named(n)?];
@@ -423,7 +421,7 @@ impl Context {
         }
     }
 
-    pub fn signature(&self, v: &Evaluated) -> String {
+    pub fn signature(&self, v: &Map) -> String {
         let (from, to) = (&self.complexes[v.from].name, &self.complexes[v.to].name);
         format!("{from} → {to} of degree {}", render_grading(&v.degree))
     }
@@ -444,11 +442,15 @@ impl Context {
             Mono(e)
         };
         let cx = &self.complexes[c];
+        self.work.spend(cx.d.size(), &format!("the quotient {}/({var})", cx.name))?;
         let rows =
             cx.d.rows.iter().map(|r| r.iter().filter(|t| t.1 .0[v] == 0).map(|&(g, m)| (g, relabel(m))).collect());
         let d = SparseMap { rows: rows.collect() };
         let complex = Complex::new(format!("{}/({var})", cx.name), cx.names.clone(), cx.gradings.clone(), d);
-        // The quotient is no larger than the complex: its checks get the same budget again.
-        Ok(Context::new(ring, vec![complex], Work::new(self.work.limit), 0))
+        // Its checks go on counting where this context's stand (the caller adds what they
+        // spend back here, `verify::check_homology`): one budget per file, however many claims.
+        let work = Work::new(self.work.limit);
+        work.used.store(self.work.spent(), Relaxed);
+        Ok(Context::new(ring, vec![complex], work, 0))
     }
 }

@@ -588,3 +588,173 @@ fn a_module_certified_on_too_short_words_does_not_cover_the_pairing() {
     let v = verdict(version, serde_json::from_value(b).unwrap());
     assert!(v.as_ref().is_err_and(|e| e.contains("only up to 3")), "{v:?}");
 }
+
+/// A body of format `version` over `ring` (JSON) with these complexes, bordered section and
+/// claims, each claim's statement in the checker's wording of its fields.
+fn body_over(version: u32, ring: Value, complexes: Value, bordered: Option<Value>, claims: Vec<Value>) -> Body {
+    let info = RingInfo::new(&serde_json::from_value(ring.clone()).unwrap()).unwrap();
+    let mut b = json!({
+        "ring": ring, "complexes": complexes, "maps": {}, "claims": claims,
+        "provenance": {"producer": "hostile test", "problem_sha256": "0"}
+    });
+    if let Some(bordered) = bordered {
+        b["bordered"] = bordered;
+    }
+    for c in b["claims"].as_array_mut().unwrap() {
+        c["statement"] = json!("");
+        let parsed: Claim = serde_json::from_value(c.clone()).expect("claim parses");
+        c["statement"] = json!(render(&parsed, &info, version));
+    }
+    serde_json::from_value(b).expect("body parses")
+}
+
+/// The verdict on a sealed certificate (failed claims not printed: there are many) and how
+/// long the checker took.
+fn timed(version: u32, body: Body) -> (Result<bool, String>, std::time::Duration) {
+    let start = std::time::Instant::now();
+    let v = sealed(version, body).map(|r| r.ok());
+    (v, start.elapsed())
+}
+
+/// τ over F2[U,V] is read on C/(V), which the checker makes itself: a copy of C for each
+/// claim, never counted, and each copy's checks got the whole budget again. 1000 claims of
+/// 250 bytes about one complex of 40,000 arrows asked for 4·10^7 copied terms (a file of 1 MB;
+/// 20,000 claims about 10^6 arrows: 2·10^10). The copies and their checks are the file's work.
+#[test]
+fn quotients_read_by_tau_claims_are_counted_against_the_file() {
+    let n = 200;
+    let mut generators = serde_json::Map::new();
+    for i in 0..n {
+        generators.insert(format!("a{i}"), json!([1, 1]));
+        generators.insert(format!("b{i}"), json!([0, 0]));
+    }
+    let differential: Vec<Value> =
+        (0..n).flat_map(|i| (0..n).map(move |j| json!([format!("a{i}"), "1", format!("b{j}")]))).collect();
+    let complexes = json!({"C": {"generators": generators, "differential": differential}});
+    let witness = json!({"generators": {}, "basis": [], "inverse": []});
+    let claims: Vec<Value> = (0..1000)
+        .map(|k| {
+            let kind = if k % 2 == 0 {
+                json!({"kind": "tau", "complex": "C", "alexander": "A", "tau": 0})
+            } else {
+                json!({"kind": "torsion_order_of_complex", "complex": "C", "variable": "U", "order": 0})
+            };
+            let mut c = kind;
+            c["witness"] = witness.clone();
+            c
+        })
+        .collect();
+    let (v, took) = timed(5, body_over(5, full_ring(), complexes, None, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("work limit")), "{v:?}");
+    assert!(took.as_secs() < 10, "took {took:?}");
+}
+
+/// A complement claim compares the structure with the one LOT Thm 11.26 gives, which is
+/// counted before it is made; the structure's own δ¹ was copied and sorted for each claim,
+/// however long. 100,000 extra terms between the γ's (4 MB) and 300 claims (75 KB) asked for
+/// 3·10^7 copied terms (2000 claims and 200,000 terms: five minutes). Only as many terms as
+/// LOT's structure has, plus one, need be read to find one that differs.
+#[test]
+fn a_complement_claim_reads_no_more_of_the_structure_than_lot_gives() {
+    let (version, mut b) = stored("cable-by-p1");
+    let full: tubecert_format::bordered::Bordered = serde_json::from_value(b["bordered"].clone()).unwrap();
+    let ctx = tubecheck::load::load(&full.full_ring, &full.full_complexes, &full.full_maps).unwrap();
+    let c = &ctx.complexes[ctx.complex_named("KC.companion").unwrap()];
+    let t = 2000;
+    let (mut spec, tau, _) = tubecheck::bordered::complement(c, t, true, false).unwrap();
+    let gammas = spec.generators.keys().filter(|g| g.starts_with("gamma")).count();
+    assert!(gammas > 1000, "{gammas}");
+    let extra =
+        (1..=gammas).flat_map(|i| (1..i).map(move |j| [format!("gamma{i}"), "rho23".into(), format!("gamma{j}")]));
+    spec.differential.extend(extra.take(100_000));
+    b["bordered"]["type_d_structures"]["KC.complement"] = serde_json::to_value(&spec).unwrap();
+    let claim = json!({"kind": "complement", "complex": "KC.companion", "framing": t, "structure": "KC.complement",
+        "tau": tau, "statement": ""});
+    b["claims"] = json!(vec![claim; 300]);
+    restate(version, &mut b);
+    let (v, took) = timed(version, serde_json::from_value(b).unwrap());
+    assert!(!matches!(v, Ok(true)), "{v:?}");
+    assert!(took.as_secs() < 10, "took {took:?}");
+}
+
+/// Version 3: every family of a module must be homogeneous, which was checked again for each
+/// `type_a_module` claim, uncounted (with `max_length` 0 nothing else is done): 2000 families of
+/// 60 inputs and 5000 claims (about 2 MB) took 25 s. It is a property of the module, read once.
+#[test]
+fn the_homogeneity_of_a_module_is_checked_once_not_per_claim() {
+    let gen = |g: [i64; 4]| json!({"grading": g, "idempotent": 1});
+    let mut generators = serde_json::Map::new();
+    generators.insert("x".into(), gen([0, 0, 0, 0]));
+    // gr(ρ23)^60·λ^59 = (29; 0, 60; 0): the output's grading makes each family homogeneous.
+    let families: Vec<Value> = (0..2000)
+        .map(|i| {
+            generators.insert(format!("y{i}"), gen([58, 0, 120, 0]));
+            json!({"from": "x", "power": [0, 0], "prefix": vec!["rho23"; 60], "repeat": [], "suffix": [], "to": format!("y{i}")})
+        })
+        .collect();
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": generators, "operations": families}},
+        "type_d_morphisms": {}, "type_d_structures": {}
+    });
+    let claims = vec![json!({"kind": "type_a_module", "module": "M", "max_length": 0}); 5000];
+    let (v, took) = timed(3, body(3, json!({}), json!({}), bordered, claims));
+    assert_eq!(v, Ok(true));
+    assert!(took.as_secs() < 8, "took {took:?}");
+}
+
+/// A box tensor claim compares the complex with the product row by row; on a difference the
+/// whole row of the complex was read, uncounted, for each claim: a row of 10^5 terms and 2000
+/// claims (3 MB) read 2·10^8 terms. The rows compared are counted against the file's budget.
+#[test]
+fn the_rows_a_box_tensor_claim_compares_are_counted() {
+    let gen = json!({"grading": [0, 0], "idempotent": 0});
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"x": gen}, "operations": []}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": {"y": gen, "z": gen}, "differential": []}}
+    });
+    let row: Vec<Value> = (1..=100_000).map(|k| json!(["x⊗y", format!("U^{k}"), "x⊗z"])).collect();
+    let complexes = json!({"C": {"generators": {"x⊗y": [0, 0], "x⊗z": [0, 0]}, "differential": row}});
+    let mut claims = vec![
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+        json!({"kind": "type_d_structure", "structure": "N"}),
+    ];
+    claims.extend(vec![json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}); 2000]);
+    let (v, took) = timed(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(v.as_ref().is_err_and(|e| e.contains("work limit")), "{v:?}");
+    assert!(took.as_secs() < 10, "took {took:?}");
+}
+
+/// A box tensor product walks, for each generator x⊗y, the families from x; it looked for them
+/// among all families of M, uncounted: 1000 + 1000 generators and 20,000 families from one
+/// generator that pairs with nothing (2 MB) made 2·10^10 steps. The families from x are listed
+/// once, when M is read.
+#[test]
+fn a_box_tensor_walk_visits_only_the_families_from_its_generator() {
+    let gen = |i: u8| json!({"grading": [0, 0], "idempotent": i});
+    let g = 1000;
+    let mut xs: serde_json::Map<String, Value> = (1..g).map(|i| (format!("x{i}"), gen(0))).collect();
+    xs.insert("x0".into(), gen(1));
+    xs.insert("z".into(), gen(1));
+    let ys: serde_json::Map<String, Value> = (0..g).map(|i| (format!("y{i}"), gen(0))).collect();
+    let families: Vec<Value> = (0..20 * g)
+        .map(|j| json!({"from": "x0", "power": [0, j], "prefix": ["rho23"], "repeat": [], "suffix": [], "to": "z"}))
+        .collect();
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": xs, "operations": families}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": ys, "differential": []}}
+    });
+    let claims = vec![
+        json!({"kind": "type_a_module", "module": "M", "max_length": 0}),
+        json!({"kind": "type_d_structure", "structure": "N"}),
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+    ];
+    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
+    let (v, took) = timed(2, body(2, complexes, json!({}), bordered, claims));
+    assert!(!matches!(v, Ok(true)), "{v:?}");
+    assert!(took.as_secs() < 5, "took {took:?}");
+}
