@@ -748,3 +748,28 @@ fn a_box_tensor_name_spelled_by_two_pairs_is_not_accepted() {
     };
     assert!(e.contains("both named") || e.contains("each spelled once"), "{e}");
 }
+
+#[test]
+fn bounded_model_is_asked_for_only_as_true_and_only_where_there_is_a_cycle() {
+    // `true` where LOT Thm 11.26's structure has no cycle (T(2,3) at t = 0 < 2τ = 2), and
+    // `false` where it has one (the unknot at t = 2): both refused, each saying which.
+    let cases = [
+        (json!({"torus_knot": [2, 3]}), 1, Some(true), "here there is none"),
+        (json!({"alexander": [0]}), 3, Some(false), "it is false"),
+    ];
+    for (stair, q, written, why) in cases {
+        let body =
+            body_of(&problem(json!({"K": {"cable": {"companion": {"staircase": stair}, "p": 1, "q": q}}}), json!({})));
+        assert!(failed_kinds(body.clone()).is_empty());
+        let mut b = body;
+        for c in &mut b.claims {
+            if let Claim::Complement { bounded_model, .. } = c {
+                *bounded_model = written;
+            }
+        }
+        restate(&mut b);
+        let out = outcomes(b).unwrap();
+        let e = out.iter().find(|c| c.0 == "complement").unwrap().1.clone().unwrap_err();
+        assert!(e.contains("bounded_model is written only as true") && e.contains(why), "{e}");
+    }
+}

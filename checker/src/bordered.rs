@@ -899,9 +899,10 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
             let made = arrows + c.names.len() as u64 + framing.unsigned_abs().saturating_add(alex);
             b.spend(made.saturating_mul(WORK_PER_ITEM / 64), "complement")?;
             let (want, found_tau, split) = complement(c, *framing, version >= 3, *bounded_model == Some(true))?;
-            let why = if split { "it is not written" } else { "it is not needed" };
+            // Left out, the structure is LOT's own (cycle or not); `true` asks for the bounded model.
             ensure(*bounded_model == split.then_some(true), || {
-                format!("bounded_model is written (as true) exactly when ξ_0 = η_0 and t ≥ 2τ, where LOT Thm 11.26's structure has a cycle (here {why})")
+                let why = if *bounded_model == Some(false) { "it is false" } else { "here there is none" };
+                format!("bounded_model is written only as true, asking for the bounded model, which exists only when ξ_0 = η_0 and t ≥ 2τ (where LOT Thm 11.26's structure has a cycle); {why}")
             })?;
             structure(sn)?;
             let given = &o.spec.type_d_structures[sn];
