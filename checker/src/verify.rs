@@ -2,7 +2,7 @@
 //! sparse arithmetic and compares them exactly; nothing is searched for.
 
 use crate::algebra::{normalize, SparseMap};
-use crate::load::{grading_sum, in_two_halves, read_complex, read_terms, Complex, Context, Errors, Evaluated, Work};
+use crate::load::{in_two_halves, read_complex, read_terms, Complex, Context, Errors, Evaluated, Work};
 use crate::report_terms::{compare, render_vector};
 use crate::report_text::surface_reading;
 use serde_json::{json, Value};
@@ -260,9 +260,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
         Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
             let named = |n: &String| MapExpr::Named(n.clone());
             let (fe, ge) = (&ctx.maps[ctx.map_named(f)?], &ctx.maps[ctx.map_named(g)?]);
-            let inverse_degrees = grading_sum(&fe.degree, &ge.degree).iter().all(|&x| x == 0);
-            let why = || format!("{f} and {g} are not maps C → D and D → C of opposite degrees");
-            ensure(fe.to == ge.from && ge.to == fe.from && inverse_degrees, why)?;
+            // Of degree 0: the statement reads as C ≃ D, which maps of degrees d and −d prove only
+            // up to a shift by d.
+            let graded = fe.degree.iter().chain(&ge.degree).all(|&x| x == 0);
+            let why = || format!("{f} and {g} are not maps C → D and D → C of degree 0");
+            ensure(fe.to == ge.from && ge.to == fe.from && graded, why)?;
             let sides =
                 [(f, g, fe.from, &witness.source_homotopy, "g∘f"), (g, f, fe.to, &witness.target_homotopy, "f∘g")];
             for (a, b, on, h, what) in sides {
