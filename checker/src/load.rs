@@ -29,9 +29,6 @@ impl Errors {
             _ => {}
         }
     }
-    pub fn into_result<T>(self, value: T) -> Result<T, Vec<String>> {
-        self.0.is_empty().then_some(value).ok_or(self.0)
-    }
 }
 
 /// Generator names → indices. Names of up to 22 bytes are kept inline in the table, so a
@@ -108,7 +105,7 @@ impl Complex {
     }
 }
 
-/// A declared map, or one computed from an expression (then without defects).
+/// A declared map, or one computed from an expression or a witness (then without defects).
 #[derive(Debug, Clone)]
 pub struct Map {
     pub from: usize,
@@ -118,9 +115,6 @@ pub struct Map {
     /// Terms that are not homogeneous of the map's degree.
     pub defects: Vec<String>,
 }
-
-/// A map computed from an expression or a witness, with its source, target and degree.
-pub type Evaluated = Map;
 
 #[derive(Debug)]
 pub struct Context {
@@ -309,7 +303,7 @@ pub fn load(
     maps: &UniqueMap<MapSpec>,
 ) -> Result<Context, Vec<String>> {
     let (ctx, errs) = load_lenient(ring, complexes, maps)?;
-    errs.into_result(ctx)
+    errs.0.is_empty().then_some(ctx).ok_or(errs.0)
 }
 
 /// Like [`load`], but returns the context together with its structural errors (terms that did
@@ -324,7 +318,7 @@ pub fn load_lenient(
     let complex_names = complexes.keys().map(|n| check_name(n).map_err(|e| format!("complex {e}")));
     let map_names = maps.keys().map(|n| check_map_name(n).map_err(|e| format!("map {e}")));
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
-    Errors(bad, 0).into_result(())?;
+    bad.is_empty().then_some(()).ok_or(bad)?;
     let mut errs = Errors(Vec::new(), MAX_SUGGESTIONS);
     let complexes =
         complexes.iter().map(|(n, s)| read_complex(&ring, n, &s.generators, &s.differential, &mut errs)).collect();
@@ -377,7 +371,7 @@ impl Context {
     }
 
     /// Evaluates a map expression to an explicit map, checking sources, targets and degrees.
-    pub fn eval(&self, e: &MapExpr) -> Result<Evaluated, String> {
+    pub fn eval(&self, e: &MapExpr) -> Result<Map, String> {
         match e {
             MapExpr::Named(n) => {
                 let m = &self.maps[self.map_named(n)?];
@@ -427,7 +421,7 @@ impl Context {
         }
     }
 
-    pub fn signature(&self, v: &Evaluated) -> String {
+    pub fn signature(&self, v: &Map) -> String {
         let (from, to) = (&self.complexes[v.from].name, &self.complexes[v.to].name);
         format!("{from} → {to} of degree {}", render_grading(&v.degree))
     }

@@ -105,13 +105,7 @@ fn main() -> ExitCode {
     let verified =
         |h: &&String| outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| r.sha256.eq_ignore_ascii_case(h)));
     let missing: Vec<&String> = args.expect.iter().filter(|h| !verified(h)).collect();
-    let style = match (args.json, args.report.as_deref()) {
-        (true, _) => Style::Json,
-        (_, None) => Style::Text,
-        (_, Some("md")) => Style::Markdown,
-        _ if args.standalone => Style::LatexDocument,
-        _ => Style::Latex,
-    };
+    let style = Style::of(args.json, args.report.as_deref(), args.standalone);
     report_cli::print(&outcomes, style, &missing, !args.expect.is_empty());
     let unreadable = outcomes.iter().any(|(_, o)| o.is_err());
     let failed = !missing.is_empty() || outcomes.iter().any(|(_, o)| o.as_ref().is_ok_and(|r| !r.ok()));

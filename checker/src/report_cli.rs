@@ -34,6 +34,19 @@ pub enum Style {
     LatexDocument,
 }
 
+impl Style {
+    /// The style the flags `--json`, `--report md|tex` and `--standalone` ask for.
+    pub fn of(json: bool, report: Option<&str>, standalone: bool) -> Style {
+        match (json, report) {
+            (true, _) => Style::Json,
+            (_, None) => Style::Text,
+            (_, Some("md")) => Style::Markdown,
+            _ if standalone => Style::LatexDocument,
+            _ => Style::Latex,
+        }
+    }
+}
+
 /// Prints the outcome of each file (a report, or why it could not be read) and the totals.
 pub fn print(
     outcomes: &[(String, Result<FileReport, String>)],

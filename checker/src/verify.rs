@@ -2,17 +2,16 @@
 //! sparse arithmetic and compares them exactly; nothing is searched for.
 
 use crate::algebra::{normalize, SparseMap};
-use crate::load::{in_two_halves, read_complex, read_terms, Complex, Context, Errors, Evaluated, Work};
+use crate::load::{in_two_halves, read_complex, read_terms, Complex, Context, Errors, Map, Work};
 use crate::report_terms::{compare, render_vector};
 use crate::report_text::surface_reading;
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
+use tubecert_format::bordered::Bordered;
 use tubecert_format::names::check_name;
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr};
-use tubecert_format::{
-    BasisWitness, Body, Claim, ComplexSpec, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION,
-};
+use tubecert_format::{BasisWitness, Body, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
 
 /// The outcome of one claim: facts it established (for reports) or why it failed.
 #[derive(Debug, Clone)]
@@ -79,7 +78,7 @@ fn read_witness(
 }
 
 /// φ = ∂H + H∂ for the witness H.
-pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Result<(), String> {
+pub fn check_null_homotopic(ctx: &Context, phi: &Map, h: &[Term]) -> Result<(), String> {
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
     let degree: Grading = phi.degree.iter().zip(&ctx.ring.differential_degree).map(|(a, b)| a - b).collect();
     let h = read_witness(ctx, c, d, Some(&degree), h, "homotopy")?;
@@ -95,7 +94,7 @@ pub fn check_null_homotopic(ctx: &Context, phi: &Evaluated, h: &[Term]) -> Resul
 }
 
 /// ⟨y, φ⟩ = 1 and δy = 0 for the functional y = Σ (x, m, w).
-pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> Result<(), String> {
+pub fn check_not_null_homotopic(ctx: &Context, phi: &Map, y: &[Term]) -> Result<(), String> {
     let (c, d) = (&ctx.complexes[phi.from], &ctx.complexes[phi.to]);
     let ymap = read_witness(ctx, c, d, None, y, "dual")?;
     let terms = || ymap.rows.iter().enumerate().flat_map(|(x, r)| r.iter().map(move |&(w, m)| (x, w, m)));
@@ -118,15 +117,9 @@ pub fn check_not_null_homotopic(ctx: &Context, phi: &Evaluated, y: &[Term]) -> R
         }
     }
     normalize(&mut dy);
-    if let Some(&(x, w, m)) = dy.first() {
-        return Err(format!(
-            "δy ≠ 0: the term ({}, {}, {}) survives, so y does not vanish on all boundaries ∂H + H∂",
-            c.names[x as usize],
-            m.render(&ctx.ring.variables),
-            d.names[w as usize]
-        ));
-    }
-    Ok(())
+    let Some(&(x, w, m)) = dy.first() else { return Ok(()) };
+    let (x, m, w) = (&c.names[x as usize], m.render(&ctx.ring.variables), &d.names[w as usize]);
+    Err(format!("δy ≠ 0: the term ({x}, {m}, {w}) survives, so y does not vanish on all boundaries ∂H + H∂"))
 }
 
 /// The homology of a complex over a PID read off a normal-form basis, sorted.
@@ -259,12 +252,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
         Claim::NotNullHomotopic { map, witness, .. } => check_not_null_homotopic(ctx, &ctx.eval(map)?, &witness.dual)?,
         Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
             let named = |n: &String| MapExpr::Named(n.clone());
-            let (fe, ge) = (&ctx.maps[ctx.map_named(f)?], &ctx.maps[ctx.map_named(g)?]);
-            // Of degree 0: the statement reads as C ≃ D, which maps of degrees d and −d prove only
-            // up to a shift by d.
-            let graded = fe.degree.iter().chain(&ge.degree).all(|&x| x == 0);
-            let why = || format!("{f} and {g} are not maps C → D and D → C of degree 0");
-            ensure(fe.to == ge.from && ge.to == fe.from && graded, why)?;
+            // That f: C → D and g: D → C have opposite degrees is checked by evaluating g∘f + id_C;
+            // of degree 0, since the statement reads as C ≃ D, which maps of degrees d and −d
+            // prove only up to a shift by d (under which τ moves).
+            let fe = &ctx.maps[ctx.map_named(f)?];
+            ensure(fe.degree.iter().all(|&x| x == 0), || format!("{f} and {g} are not maps of degree 0"))?;
             let sides =
                 [(f, g, fe.from, &witness.source_homotopy, "g∘f"), (g, f, fe.to, &witness.target_homotopy, "f∘g")];
             for (a, b, on, h, what) in sides {
@@ -392,7 +384,7 @@ pub fn check_loaded(
         sound.map_err(|e| vec![format!("claim {}: {e}", i + 1)])?;
     }
     let b = body.bordered.as_ref();
-    let mut objects = b.map(|b| Objects::load(b, written_items(body), version, &body.claims)).transpose()?;
+    let mut objects = b.map(|b| Objects::load(b, written_items(body, b), version, &body.claims)).transpose()?;
     if let Some(b) = b {
         let mut names: Vec<&String> = body.complexes.keys().chain(b.full_complexes.keys()).collect();
         // Full maps share the namespace, and are never named like a map of the body.
@@ -412,20 +404,17 @@ pub fn check_loaded(
     }
     let full = objects.as_ref().map(|o| &o.full);
     // Work beyond a budget, in either context, makes the file unreadable, never a claim false.
-    let refused = || match [Some(&ctx), full].into_iter().flatten().find_map(|c| c.work.refused.get()) {
-        Some(e) => Err(vec![e.clone()]),
-        None => Ok(()),
-    };
+    let first_refusal = || [Some(&ctx), full].into_iter().flatten().find_map(|c| c.work.refused.get());
+    let refused = || first_refusal().map_or(Ok(()), |e| Err(vec![e.clone()]));
     for claim in &body.claims {
         refused()?;
+        // A homotopy equivalence between full complexes is checked over F2[U,V].
+        let on = match (claim, full) {
+            (Claim::HomotopyEquivalence { maps, .. }, Some(f)) if f.map_index.contains_key(&maps[0]) => f,
+            _ => &ctx,
+        };
         let outcome = match crate::bordered::check(&ctx, objects.as_ref(), claim, version) {
-            // A homotopy equivalence between full complexes is checked over F2[U,V].
-            None => match (claim, full) {
-                (Claim::HomotopyEquivalence { maps, .. }, Some(f)) if f.map_index.contains_key(&maps[0]) => {
-                    check_claim(f, claim, version)
-                }
-                _ => check_claim(&ctx, claim, version),
-            },
+            None => check_claim(on, claim, version),
             Some(Err(Failure::Refused(e))) => return Err(vec![format!("claim \"{}\": {e}", claim.statement())]),
             Some(Err(Failure::False(e))) => Err(e),
             Some(Ok(facts)) => Ok(facts),
@@ -441,18 +430,14 @@ pub fn check_loaded(
     refused().map(|_| out)
 }
 
-/// The number of written items (generators, terms, families, claims) of a body: the work
-/// budget of the bordered checks is proportional to it.
-fn written_items(body: &Body) -> u64 {
-    let cx = |c: &ComplexSpec| c.generators.len() + c.differential.len();
-    let mut n = body.claims.len() + body.complexes.values().map(cx).sum::<usize>();
-    n += body.maps.values().map(|m| m.terms.len()).sum::<usize>();
-    if let Some(b) = &body.bordered {
-        n += b.full_complexes.values().map(cx).sum::<usize>();
-        n += b.full_maps.values().map(|m| m.terms.len()).sum::<usize>();
-        n += b.type_d_structures.values().map(|d| d.generators.len() + d.differential.len()).sum::<usize>();
-        n += b.type_a_modules.values().map(|m| m.generators.len() + m.operations.len()).sum::<usize>();
-        n += b.type_d_morphisms.values().map(|f| f.terms.len()).sum::<usize>();
-    }
-    n as u64 + 1
+/// The number of written items (generators, terms, families, claims) of a body with a bordered
+/// section `b`: the work budget of the bordered checks is proportional to it.
+fn written_items(body: &Body, b: &Bordered) -> u64 {
+    let complexes = body.complexes.values().chain(b.full_complexes.values());
+    let maps = body.maps.values().chain(b.full_maps.values()).map(|m| m.terms.len());
+    let d = b.type_d_structures.values().map(|d| d.generators.len() + d.differential.len());
+    let a = b.type_a_modules.values().map(|m| m.generators.len() + m.operations.len());
+    let f = b.type_d_morphisms.values().map(|f| f.terms.len());
+    let items = complexes.map(|c| c.generators.len() + c.differential.len()).chain(maps).chain(d).chain(a).chain(f);
+    (body.claims.len() + items.sum::<usize>()) as u64 + 1
 }

@@ -244,3 +244,51 @@ fn a_skipped_file_is_named_with_the_reason() {
     assert_eq!(code, 0, "{out}{err}");
     assert!(err.contains("skipped") && err.contains("tower.cert.json"), "{err}");
 }
+
+#[test]
+fn a_homotopy_equivalence_beyond_the_work_budget_is_refused_not_failed() {
+    // Full complexes C = ⟨x_0..x_{n−1}⟩ and D = ⟨y⟩ over F2[U,V], f(x_i) = y, g(y) = Σ x_i: the
+    // file is about 65·n bytes, and g∘f costs n² units (each of f's n terms reaches g's row of
+    // n terms), beyond limits::work_limit of that size. Checked in the full complexes' own
+    // context, whose refusal must make the file unreadable (exit 2) like the body's.
+    use serde_json::json;
+    let n = 5000;
+    let xs: Vec<String> = (0..n).map(|i| format!("x{i}")).collect();
+    let generators: serde_json::Map<String, serde_json::Value> =
+        xs.iter().map(|x| (x.clone(), json!([0, 0]))).collect();
+    let f: Vec<_> = xs.iter().map(|x| json!([x, "1", "y"])).collect();
+    let g: Vec<_> = xs.iter().map(|x| json!(["y", "1", x])).collect();
+    let body = json!({
+        "ring": {"variables": ["U"], "gradings": ["maslov", "alexander"],
+                 "variable_degrees": {"U": [-2, -1]}, "differential_degree": [-1, 0]},
+        "complexes": {}, "maps": {},
+        "bordered": {
+            "full_ring": serde_json::to_value(tubecert_format::bordered::full_ring()).unwrap(),
+            "full_complexes": {"C": {"generators": generators, "differential": []},
+                               "D": {"generators": {"y": [0, 0]}, "differential": []}},
+            "full_maps": {"f": {"from": "C", "to": "D", "degree": [0, 0], "terms": f},
+                          "g": {"from": "D", "to": "C", "degree": [0, 0], "terms": g}},
+            "type_a_modules": {}, "type_d_morphisms": {}, "type_d_structures": {}},
+        "claims": [{"kind": "homotopy_equivalence", "maps": ["f", "g"],
+                    "statement": "f and g are mutually inverse homotopy equivalences",
+                    "witness": {"source_homotopy": [], "target_homotopy": []}}],
+        "provenance": {"producer": "hand-made test", "problem_sha256": "0"}
+    });
+    let body: tubecert_format::Body = serde_json::from_value(body).unwrap();
+    let sha256 = tubecert_format::canonical::canonical_sha256(&body).unwrap();
+    let cert = tubecert_format::Certificate {
+        format: "tubecert-certificate".into(),
+        version: tubecert_format::CERTIFICATE_VERSION,
+        sha256,
+        body,
+    };
+    let bytes = serde_json::to_vec(&cert).unwrap();
+    assert!(n * n > tubecert_format::limits::work_limit(bytes.len() as u64) as usize);
+    let (code, out, err) = tubecheck(&[&tmp("equivalence-budget.json", &bytes)]);
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(err.contains("work limit") && err.contains("a composition of maps"), "{out}{err}");
+    // Within a budget it is checked, and fails for its empty witnesses (a claim, exit 1).
+    let r = tubecheck::verify::check_body(&cert.body, cert.version, u64::MAX).expect("loads");
+    let claim = r.iter().find(|c| !c.implicit).unwrap();
+    assert!(claim.outcome.as_ref().unwrap_err().contains("g∘f + id"), "{:?}", claim.outcome);
+}

@@ -788,3 +788,22 @@ fn a_homotopy_equivalence_of_non_zero_degree_does_not_verify() {
     let he = r.claims.iter().find(|c| c.kind == "homotopy_equivalence").unwrap();
     assert!(he.outcome.as_ref().is_err_and(|e| e.contains("degree 0")), "{:?}", he.outcome);
 }
+
+/// A refusal quotes what it refuses (an undeclared generator, a key); the file's text may hold
+/// line breaks and terminal escapes, which printed a "✓" line and a "Total: … verified" line of
+/// the author's and then hid the real verdict (SGR 8, concealed text). Such characters are
+/// shown as <U+XXXX>.
+#[test]
+fn a_refusal_cannot_rewrite_the_terminal() {
+    let spoof = "b\n✓ [homology] H_*(K) ≅ 0\nTotal: 1 file(s), 4 claim(s) verified, 0 failed; 0 file(s) failed, 0 unreadable\u{1b}[8m\u{202e}";
+    let (version, mut b) = stored("tower");
+    b["complexes"]["K"]["differential"][0][0] = json!(spoof);
+    let e = sealed(version, serde_json::from_value(b).unwrap()).unwrap_err();
+    let clean = |e: &str| !e.contains('\n') && !e.contains('\u{1b}') && !e.contains('\u{202e}');
+    assert!(clean(&e) && e.contains("<U+000A>✓ [homology]") && e.contains("<U+001B>[8m<U+202E>"), "{e}");
+    // The envelope too: an unknown format is quoted before any body is read.
+    let (_, body) = stored("tower");
+    let bytes = serde_json::to_vec(&json!({"format": spoof, "version": 5, "sha256": "0", "body": body})).unwrap();
+    let e = tubecheck::check_bytes("hostile.cert.json", &bytes).unwrap_err();
+    assert!(clean(&e) && e.contains("<U+000A>"), "{e}");
+}

@@ -174,5 +174,5 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
         }
     }
     ctx.work = Work::new(u64::MAX); // the budget bounds validation; the search is the prover's
-    errs.into_result(ctx)
+    errs.0.is_empty().then_some(ctx).ok_or(errs.0)
 }

@@ -13,7 +13,7 @@ use std::rc::Rc;
 use std::time::{Duration, Instant};
 use tubecert_format::{Grading, Mono, RingInfo};
 use tubecheck::algebra::{normalize, SparseMap};
-use tubecheck::load::{Complex, Context, Evaluated};
+use tubecheck::load::{Complex, Context, Map};
 
 /// A basis element (x, m, w) of Hom(C, D): x ↦ m·w.
 pub type HomTerm = (u32, Mono, u32);
@@ -237,7 +237,7 @@ impl<'a> Solver<'a> {
     }
 
     /// Is φ null-homotopic? Witnesses refer to the original complexes.
-    pub fn decide(&self, phi: &Evaluated) -> Result<Verdict, String> {
+    pub fn decide(&self, phi: &Map) -> Result<Verdict, String> {
         let (rc, rd) = self.reduction_pair(phi.from, phi.to)?;
         // π_D φ ι_C, with only the rows of π_D that φ ι_C reaches made.
         let iota_c = rc.iota()?;
