@@ -139,10 +139,8 @@ pub fn gr_pow(g: Gr, n: i128) -> Gr {
 /// along I, gr(ι) = 1 (LOT §11.1).
 pub fn gr_alg(a: Alg) -> Gr {
     const CHORD: [Gr; 3] = [[-1, 1, -1, 0], [-1, 1, 1, 0], [-1, -1, 1, 0]];
-    match a {
-        Alg::One => [0; 4],
-        Alg::Reeb(lo, hi) => (lo..=hi).fold([0; 4], |g, i| gr_mul(g, CHORD[i as usize - 1])),
-    }
+    let Alg::Reeb(lo, hi) = a else { return [0; 4] };
+    (lo..=hi).fold([0; 4], |g, i| gr_mul(g, CHORD[i as usize - 1]))
 }
 
 /// A written grading as an element (none: the unit).
@@ -232,9 +230,8 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
         let (i, j, a) = (find(src, y)?, find(dst, z)?, Alg::parse(a).map_err(at)?);
         let (i0, j0) = (src.idem[i as usize], dst.idem[j as usize]);
         // ι_i as an element starts and ends in i.
-        if a.idempotents().unwrap_or((i0, i0)) != (i0, j0) {
-            defects.push(at("the idempotents do not match".into()));
-        }
+        let matched = a.idempotents().unwrap_or((i0, i0)) == (i0, j0);
+        defects.extend((!matched).then(|| at("the idempotents do not match".into())));
         rows[i as usize].push((a, j));
     }
     for (r, y) in rows.iter_mut().zip(&src.names) {
@@ -269,14 +266,10 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
             let mut i = m.idem[from as usize];
             for a in fam.word(n) {
                 let (l, r) = a.idempotents().expect("Reeb");
-                if l != i {
-                    m.defects.push(at(&format!("{} does not start in ι{i}", a.name())));
-                }
+                m.defects.extend((l != i).then(|| at(&format!("{} does not start in ι{i}", a.name()))));
                 i = r;
             }
-            if i != m.idem[to as usize] {
-                m.defects.push(at(&format!("the output {} is not in ι{i}", f.to)));
-            }
+            m.defects.extend((i != m.idem[to as usize]).then(|| at(&format!("the output {} is not in ι{i}", f.to))));
         }
         // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1)
         // ∈ P_A; along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
@@ -487,15 +480,11 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
             let e = f.power_at(i);
             o.spend(m.out[f.to as usize].len() as u64, "A∞ relations")?;
             for &gi in &m.out[f.to as usize] {
-                if suffix(gi, i)? & 1 != 0 {
-                    acc.push((m.families[gi].to, e + m.families[gi].power_at(k - i)));
-                }
+                acc.extend((suffix(gi, i)? & 1 != 0).then(|| (m.families[gi].to, e + m.families[gi].power_at(k - i))));
             }
         }
         for &(j, ab) in &merges {
-            if f.step(fwd[j], ab) & suffix(fi, j + 2)? != 0 {
-                acc.push((f.to, f.power_at(k - 1)));
-            }
+            acc.extend((f.step(fwd[j], ab) & suffix(fi, j + 2)? != 0).then(|| (f.to, f.power_at(k - 1))));
         }
     }
     normalize(&mut acc);
@@ -842,9 +831,7 @@ pub fn check(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u32) ->
 
 fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u32) -> Result<Facts, Failure> {
     crate::verify::check_statement(ctx, claim, version)?;
-    let Some(o) = o else {
-        return Err("a bordered claim in a certificate without a bordered section".to_string().into());
-    };
+    let o = o.ok_or_else(|| "a bordered claim in a certificate without a bordered section".to_string())?;
     let r = &ctx.ring;
     let minus = r.variables == ["U"] && r.var_degrees == [vec![-2, -1]] && r.differential_degree == [-1, 0];
     let pairing = matches!(claim, Claim::BoxTensor { .. } | Claim::BoxTensorMap { .. });
