@@ -10,7 +10,7 @@ use crate::verify::{ensure, none_of};
 use serde_json::json;
 use std::cell::Cell;
 use std::collections::{BTreeMap, BTreeSet};
-use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, TypeASpec, TypeDSpec};
+use tubecert_format::bordered::{full_ring, Alg, Bordered, DGenerator, MorphismSpec, TypeASpec, TypeDSpec};
 use tubecert_format::limits::{grading_in_bounds, MAX_EXPONENT};
 use tubecert_format::{Claim, Grading, Mono, Term, UniqueMap};
 
@@ -73,12 +73,9 @@ pub struct Family {
     pub holds: BTreeMap<Alg, u64>,
 }
 
-pub struct Morphism {
-    pub from: String,
-    pub to: String,
-    pub terms: Arrows,
-    pub defects: Vec<String>,
-}
+/// A type D morphism: its terms and idempotent defects, as [`read_arrows`] reads them (its
+/// source and target are those written, `Objects::spec`).
+pub type Morphism = (Arrows, Vec<String>);
 
 /// The loaded bordered section (`spec`: as written).
 pub struct Objects<'a> {
@@ -344,14 +341,12 @@ impl<'a> Objects<'a> {
         let structures: BTreeMap<_, _> = structures.collect::<Result<_, String>>().map_err(one)?;
         let modules = b.type_a_modules.iter().map(|(n, s)| Ok((n.clone(), read_module(n, s, group)?)));
         let modules = modules.collect::<Result<_, String>>().map_err(one)?;
-        let mut morphisms = BTreeMap::new();
-        for (n, f) in b.type_d_morphisms.iter() {
+        let morphism = |(n, f): (&String, &MorphismSpec)| {
             let what = format!("type D morphism {n}");
-            let side =
-                |s| structures.get(s).ok_or_else(|| vec![format!("{what}: type D structure \"{s}\" is not declared")]);
-            let (terms, defects) = read_arrows(&what, side(&f.from)?, side(&f.to)?, &f.terms).map_err(one)?;
-            morphisms.insert(n.clone(), Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects });
-        }
+            let side = |s| structures.get(s).ok_or_else(|| format!("{what}: type D structure \"{s}\" is not declared"));
+            Ok((n.clone(), read_arrows(&what, side(&f.from)?, side(&f.to)?, &f.terms)?))
+        };
+        let morphisms = b.type_d_morphisms.iter().map(morphism).collect::<Result<_, String>>().map_err(one)?;
         // What the pairings rest on: the D relations, ∂f = 0 and A∞ relations up to a length.
         let mut claimed = BTreeMap::new();
         for c in claims {
@@ -626,7 +621,7 @@ pub fn tensor_map(
     f: Option<(&Morphism, &Object)>,
     symmetric: bool,
 ) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
-    let more = f.into_iter().flat_map(|(f, n2)| [&n2.defects, &f.defects]);
+    let more = f.into_iter().flat_map(|(f, n2)| [&n2.defects, &f.1]);
     [&m.defects, &n.defects].into_iter().chain(more).try_for_each(|d| none_of(d))?;
     // The |M|·|N| pairs made from |M| + |N| written generators, counted each at 1/64 of an
     // item's allowance before they are made (a named pair is a few hundred bytes; a true
@@ -644,7 +639,7 @@ pub fn tensor_map(
     let mut edges = shift(&n.delta, 0, f.is_none());
     let mut names = n.names.clone();
     if let Some((f, n2)) = f {
-        edges.iter_mut().zip(shift(&f.terms, k, true)).for_each(|(e, t)| e.extend(t));
+        edges.iter_mut().zip(shift(&f.0, k, true)).for_each(|(e, t)| e.extend(t));
         edges.extend(shift(&n2.delta, k, true));
         names.extend_from_slice(&n2.names);
     }
@@ -855,10 +850,11 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
             checked?
         }
         Claim::TypeDMorphism { morphism: n, .. } => {
-            let f = morphism(n)?;
+            // The terms as read (`t`), their source and target as written (`f`).
+            let (t, f) = (morphism(n)?, &o.spec.type_d_morphisms[n]);
             let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-            none_of(&f.defects)?;
-            vanishes(b, "∂f", n, &n2.names, &[(&f.terms, &n2.delta), (&n.delta, &f.terms)])?
+            none_of(&t.1)?;
+            vanishes(b, "∂f", n, &n2.names, &[(&t.0, &n2.delta), (&n.delta, &t.0)])?
         }
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
@@ -871,7 +867,8 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
             facts.insert("bounded".into(), json!(side));
         }
         Claim::BoxTensorMap { map, module: mn, morphism: fname, witness, .. } => {
-            let (m, f, fm) = (module(mn)?, morphism(fname)?, &ctx.maps[ctx.map_named(map)?]);
+            let (m, t, fm) = (module(mn)?, morphism(fname)?, &ctx.maps[ctx.map_named(map)?]);
+            let f = &o.spec.type_d_morphisms[fname];
             let what = format!("{map} = id_{mn} ⊠ {fname}");
             b.1.set(0);
             // id_M ⊠ f is a chain map between M ⊠ N and M ⊠ N′: its source and target are
@@ -887,7 +884,7 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
                 source.push(gens);
             }
             let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-            let (_, rows, side) = tensor_map(b, m, n, Some((f, n2)), version >= 4)?;
+            let (_, rows, side) = tensor_map(b, m, n, Some((t, n2)), version >= 4)?;
             covered(o, mn, &[("type_d_structure", &f.from), ("type_d_structure", &f.to), ("type_d_morphism", fname)])?;
             compare(ctx, &what, (fm.from, fm.to), &source[0], &rows, &fm.m.rows)?;
             facts.insert("bounded".into(), json!(side));

@@ -262,8 +262,7 @@ pub fn box_tensor_map(
         checked::read_structure(&f.from, n, true)?,
         checked::read_structure(&f.to, n2, true)?,
     );
-    let (terms, defects) = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
-    let fm = checked::Morphism { from: f.from.clone(), to: f.to.clone(), terms, defects };
+    let fm = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let b = budget();
     let (gens, rows, _) = checked::tensor_map(&b, &ma, &nd, Some((&fm, &nd2)), true).map_err(failure)?;
     let mut terms = Vec::new();
