@@ -66,15 +66,27 @@ pub fn parse_certificate(bytes: &[u8]) -> Result<Certificate, String> {
 
 /// Checks certificate bytes. `Err` means malformed (unreadable, or objects that do not resolve).
 pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
-    let cert = parse_certificate(bytes)?;
+    let cert = parse_certificate(bytes).map_err(|e| shown(&e))?;
     // The hash and the arithmetic are independent: compute them on the machine's two cores.
     let (sha256, claims) = std::thread::scope(|s| {
         let hash = s.spawn(|| body_sha256(&cert.body));
         let limit = tubecert_format::limits::work_limit(bytes.len() as u64);
-        let claims = verify::check_body(&cert.body, cert.version, limit).map_err(|errs| errs.join("\n  "));
+        let claims = verify::check_body(&cert.body, cert.version, limit)
+            .map_err(|errs| errs.iter().map(|e| shown(e)).collect::<Vec<_>>().join("\n  "));
         (hash.join().unwrap_or_else(|_| Err("hashing failed".into())), claims)
     });
     let (sha256, claims) = (sha256?, claims?);
     let (stated_sha256, version) = (cert.sha256, cert.version);
     Ok(FileReport { file: file.to_string(), sha256, stated_sha256, version, claims, body: cert.body })
+}
+
+/// A refusal as printed. It quotes the file (an undeclared name, a term, a key), whose text may
+/// hold line breaks, terminal escapes and invisible or bidirectional characters that would print
+/// a "verified" line or hide the verdict: each of those is shown as <U+XXXX>.
+fn shown(e: &str) -> String {
+    let hidden = |c: char| {
+        c.is_control()
+            || matches!(c, '\u{061C}' | '\u{200B}'..='\u{200F}' | '\u{2028}'..='\u{202E}' | '\u{2060}'..='\u{206F}' | '\u{FEFF}')
+    };
+    e.chars().map(|c| if hidden(c) { format!("<U+{:04X}>", c as u32) } else { c.to_string() }).collect()
 }

@@ -252,8 +252,11 @@ pub fn check_claim(ctx: &Context, claim: &Claim, version: u32) -> Result<BTreeMa
         Claim::NotNullHomotopic { map, witness, .. } => check_not_null_homotopic(ctx, &ctx.eval(map)?, &witness.dual)?,
         Claim::HomotopyEquivalence { maps: [f, g], witness, .. } => {
             let named = |n: &String| MapExpr::Named(n.clone());
-            // That f: C → D and g: D → C have opposite degrees is checked by evaluating g∘f + id_C.
+            // That f: C → D and g: D → C have opposite degrees is checked by evaluating g∘f + id_C;
+            // of degree 0, since the statement reads as C ≃ D, which maps of degrees d and −d
+            // prove only up to a shift by d (under which τ moves).
             let fe = &ctx.maps[ctx.map_named(f)?];
+            ensure(fe.degree.iter().all(|&x| x == 0), || format!("{f} and {g} are not maps of degree 0"))?;
             let sides =
                 [(f, g, fe.from, &witness.source_homotopy, "g∘f"), (g, f, fe.to, &witness.target_homotopy, "f∘g")];
             for (a, b, on, h, what) in sides {

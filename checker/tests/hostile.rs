@@ -758,3 +758,52 @@ fn a_box_tensor_walk_visits_only_the_families_from_its_generator() {
     assert!(!matches!(v, Ok(true)), "{v:?}");
     assert!(took.as_secs() < 5, "took {took:?}");
 }
+
+/// "f and g are mutually inverse homotopy equivalences" names no degree, and reads as C ≃ D;
+/// maps of degrees deg U and −deg U that are mutually inverse prove only C ≃ D shifted by
+/// deg U, under which τ moves by one: here τ(C) = 0 and τ(D) = 1 verify beside it. A homotopy
+/// equivalence preserves the gradings (degree 0), or the claim fails.
+#[test]
+fn a_homotopy_equivalence_of_non_zero_degree_does_not_verify() {
+    let ring: Value = serde_json::from_str(MINUS).unwrap();
+    let complexes = json!({"C": {"generators": {"a": [0, 0]}, "differential": []},
+                           "D": {"generators": {"b": [-2, -1]}, "differential": []}});
+    let basis = |g: &str, gr: Value| json!({"generators": {g: gr}, "basis": [[g, "1", g]], "inverse": [[g, "1", g]]});
+    let claims = vec![
+        json!({"kind": "tau", "complex": "C", "alexander": "alexander", "tau": 0, "witness": basis("a", json!([0, 0]))}),
+        json!({"kind": "tau", "complex": "D", "alexander": "alexander", "tau": 1, "witness": basis("b", json!([-2, -1]))}),
+        json!({"kind": "homotopy_equivalence", "maps": ["f", "g"],
+               "witness": {"source_homotopy": [], "target_homotopy": []}}),
+    ];
+    let mut b = serde_json::to_value(body_over(5, ring, complexes, None, claims)).unwrap();
+    b["maps"] = json!({
+        "f": {"from": "C", "to": "D", "degree": [-2, -1], "terms": [["a", "1", "b"]]},
+        "g": {"from": "D", "to": "C", "degree": [2, 1], "terms": [["b", "1", "a"]]}
+    });
+    let r = report(5, b);
+    let outcome =
+        |kind: &str| r.claims.iter().filter(|c| c.kind == kind).map(|c| c.outcome.is_ok()).collect::<Vec<_>>();
+    assert_eq!(outcome("tau"), [true, true]);
+    assert_eq!(outcome("chain_map"), [true, true]);
+    let he = r.claims.iter().find(|c| c.kind == "homotopy_equivalence").unwrap();
+    assert!(he.outcome.as_ref().is_err_and(|e| e.contains("degree 0")), "{:?}", he.outcome);
+}
+
+/// A refusal quotes what it refuses (an undeclared generator, a key); the file's text may hold
+/// line breaks and terminal escapes, which printed a "✓" line and a "Total: … verified" line of
+/// the author's and then hid the real verdict (SGR 8, concealed text). Such characters are
+/// shown as <U+XXXX>.
+#[test]
+fn a_refusal_cannot_rewrite_the_terminal() {
+    let spoof = "b\n✓ [homology] H_*(K) ≅ 0\nTotal: 1 file(s), 4 claim(s) verified, 0 failed; 0 file(s) failed, 0 unreadable\u{1b}[8m\u{202e}";
+    let (version, mut b) = stored("tower");
+    b["complexes"]["K"]["differential"][0][0] = json!(spoof);
+    let e = sealed(version, serde_json::from_value(b).unwrap()).unwrap_err();
+    let clean = |e: &str| !e.contains('\n') && !e.contains('\u{1b}') && !e.contains('\u{202e}');
+    assert!(clean(&e) && e.contains("<U+000A>✓ [homology]") && e.contains("<U+001B>[8m<U+202E>"), "{e}");
+    // The envelope too: an unknown format is quoted before any body is read.
+    let (_, body) = stored("tower");
+    let bytes = serde_json::to_vec(&json!({"format": spoof, "version": 5, "sha256": "0", "body": body})).unwrap();
+    let e = tubecheck::check_bytes("hostile.cert.json", &bytes).unwrap_err();
+    assert!(clean(&e) && e.contains("<U+000A>"), "{e}");
+}

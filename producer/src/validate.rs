@@ -149,6 +149,16 @@ pub fn validate(p: &Problem) -> Result<Context, Vec<String>> {
             Goal::Equivalent { complexes, maps } => {
                 complexes.iter().for_each(|c| complex(c, &mut errs));
                 maps.iter().for_each(|m| map(m, &mut errs));
+                // A homotopy equivalence preserves gradings: maps of degrees d and −d prove C ≃ D only
+                // up to a shift (the checker refuses them).
+                for m in maps
+                    .iter()
+                    .filter(|m| ctx.map_index.get(*m).is_some_and(|&i| ctx.maps[i].degree.iter().any(|&x| x != 0)))
+                {
+                    errs.push(format!(
+                        "{at}: equivalent: {m} must have degree 0 (a homotopy equivalence preserves the gradings)"
+                    ));
+                }
                 let ends = |m: &String| ctx.map_index.get(m).map(|&i| (ctx.maps[i].from, ctx.maps[i].to));
                 let ids = (ctx.complex_index.get(&complexes[0]), ctx.complex_index.get(&complexes[1]));
                 if let (Some(f), Some(g), (Some(&c), Some(&d))) = (ends(&maps[0]), ends(&maps[1]), ids) {

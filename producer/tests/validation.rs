@@ -52,6 +52,7 @@ fn check_input_and_prove_agree_on_every_goal() {
         ("tau-rank-two", format!("{MINUS}complex A\n  a (0, 0)\n  b (0, 0)\ngoal tau A\n")),
         ("torsion-order-mismatch", format!("{MINUS}complex A\n  a (0, 0)\ncomplex B\n  b (0, 0)\nmap F : A -> A degree (0, 0)\n  a -> a\nmap G : B -> B degree (0, 0)\n  b -> b\ngoal torsion_order F G U\n")),
         ("equivalent-wrong-ends", format!("{MINUS}complex A\n  a (0, 0)\ncomplex B\n  b (0, 0)\nmap F : A -> B degree (0, 0)\n  a -> b\nmap G : A -> B degree (0, 0)\n  a -> b\ngoal equivalent A B F G\n")),
+        ("equivalent-shifted", format!("{MINUS}complex A\n  a (0, 0)\ncomplex B\n  b (-2, -1)\nmap F : A -> B degree (-2, -1)\n  a -> b\nmap G : B -> A degree (2, 1)\n  b -> a\ngoal equivalent A B F G\n")),
         ("uv-tau", format!("{FULL}complex T = staircase torus_knot 2 3\ngoal tau T\ngoal torsion_order_of_complex T U\n")),
     ];
     let mut refused = Vec::new();
@@ -69,7 +70,8 @@ fn check_input_and_prove_agree_on_every_goal() {
     assert!(said("tau-rank-two").contains("free rank 2"), "{}", said("tau-rank-two"));
     assert!(said("torsion-order-mismatch").contains("goal 1"), "{}", said("torsion-order-mismatch"));
     assert!(said("equivalent-wrong-ends").contains("must map A → B and G map B → A"));
-    assert_eq!(refused.len(), 6, "{refused:?}");
+    assert!(said("equivalent-shifted").contains("F must have degree 0"), "{}", said("equivalent-shifted"));
+    assert_eq!(refused.len(), 7, "{refused:?}");
 }
 
 #[test]
