@@ -11,7 +11,7 @@ use std::sync::OnceLock;
 use tubecert_format::limits::{
     self, grading_in_bounds, MAX_GENERATORS, MAX_GRADING_ABS, MAX_REPORTED_ERRORS, MAX_SUGGESTIONS, MAX_TERMS,
 };
-use tubecert_format::names::{check_map_name, check_name};
+use tubecert_format::names::{check_map_name, check_name, check_object_name};
 use tubecert_format::poly::{parse_mono, parse_poly};
 use tubecert_format::statement::render_grading;
 use tubecert_format::{ComplexSpec, Grading, MapExpr, MapSpec, Mono, Ring, RingInfo, Term, UniqueMap};
@@ -315,7 +315,7 @@ pub fn load_lenient(
 ) -> Result<(Context, Errors), Vec<String>> {
     let ring = RingInfo::new(ring)?;
     // Names first: later messages print them.
-    let complex_names = complexes.keys().map(|n| check_name(n).map_err(|e| format!("complex {e}")));
+    let complex_names = complexes.keys().map(|n| check_object_name(n).map_err(|e| format!("complex {e}")));
     let map_names = maps.keys().map(|n| check_map_name(n).map_err(|e| format!("map {e}")));
     let bad: Vec<String> = complex_names.chain(map_names).filter_map(Result::err).collect();
     bad.is_empty().then_some(()).ok_or(bad)?;

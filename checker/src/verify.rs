@@ -8,7 +8,7 @@ use crate::report_text::surface_reading;
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
 use tubecert_format::bordered::Bordered;
-use tubecert_format::names::check_name;
+use tubecert_format::names::{check_name, check_object_name};
 use tubecert_format::poly::parse_mono;
 use tubecert_format::statement::{render, render_expr};
 use tubecert_format::{BasisWitness, Body, Claim, Grading, MapExpr, Mono, RingInfo, Term, CERTIFICATE_VERSION};
@@ -205,7 +205,7 @@ pub fn alexander_of(r: &RingInfo, alexander: &str) -> Result<impl Fn(&[i64]) -> 
 pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
     fn expr(e: &MapExpr, vars: &[String]) -> Result<(), String> {
         match e {
-            MapExpr::Named(n) | MapExpr::Id(n) => check_name(n),
+            MapExpr::Named(n) | MapExpr::Id(n) => check_object_name(n),
             MapExpr::Sum(es) | MapExpr::Compose(es) => es.iter().try_for_each(|e| expr(e, vars)),
             MapExpr::Times(m, e) => match parse_mono(m, vars)?.render(vars) {
                 canonical if canonical == *m => expr(e, vars),
@@ -230,7 +230,8 @@ pub fn check_claim_text(claim: &Claim, vars: &[String]) -> Result<(), String> {
         Claim::Complement { complex, structure, .. } => (vec![complex, structure], None),
     };
     let generators = basis.into_iter().flat_map(|w| w.generators.keys());
-    names.into_iter().chain(generators).try_for_each(|n| check_name(n))
+    names.into_iter().try_for_each(|n| check_object_name(n))?;
+    generators.into_iter().try_for_each(|n| check_name(n))
 }
 
 /// The claim's statement is the checker's own wording of its fields.
@@ -391,7 +392,7 @@ pub fn check_loaded(
         names.extend(b.full_maps.keys().chain(b.full_maps.keys().filter(|m| body.maps.contains_key(*m))));
         names.extend(b.type_d_structures.keys().chain(b.type_a_modules.keys()).chain(b.type_d_morphisms.keys()));
         names.sort();
-        names.iter().try_for_each(|n| check_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
+        names.iter().try_for_each(|n| check_object_name(n)).map_err(|e| vec![format!("bordered object: {e}")])?;
         if let Some([n, _]) = names.windows(2).find(|w| w[0] == w[1]) {
             let why = "complexes and bordered objects share one namespace";
             return Err(vec![format!("the name \"{n}\" is used by two objects ({why})")]);

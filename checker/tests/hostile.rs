@@ -807,3 +807,17 @@ fn a_refusal_cannot_rewrite_the_terminal() {
     let e = tubecheck::check_bytes("hostile.cert.json", &bytes).unwrap_err();
     assert!(clean(&e) && e.contains("<U+000A>"), "{e}");
 }
+
+/// A map or complex named `F⊗G` reads as a tensor product in every statement ("F⊗G ≃ 0"):
+/// only generator names may hold ⊗ (the tensor product writes x⊗y there).
+#[test]
+fn an_object_named_like_a_tensor_product_is_refused() {
+    for (old, new) in [("\"F\"", "\"F⊗G\""), ("\"O\"", "\"O⊗K\"")] {
+        let (version, b) = stored("tower");
+        let text = serde_json::to_string(&b).unwrap();
+        assert!(text.contains(old), "{old}");
+        let b: Value = serde_json::from_str(&text.replace(old, new)).unwrap();
+        let e = sealed(version, serde_json::from_value(b).unwrap()).unwrap_err();
+        assert!(e.contains(new.trim_matches('"')) && e.contains("only generator names"), "{e}");
+    }
+}

@@ -3,8 +3,10 @@
 //! invisible: ASCII letters and digits, `_`, `.`, `'`, and `⊗` (which the tensor product puts
 //! in generator names). An allow-list, so that whitespace, control and format characters
 //! (U+200D and the like), and letters of other scripts that look like Latin ones, are all out.
-//! Variables are stricter still (ASCII letters, [`crate::ring`]); map names may not begin with
-//! `id_`, which is how statements write an identity map.
+//! Only generator names may hold `⊗`: an object (complex, map, grading, bordered object) named
+//! `F⊗G` would read as a tensor product in a statement. Variables are stricter still (ASCII
+//! letters, [`crate::ring`]); map names may not begin with `id_`, which is how statements write
+//! an identity map.
 
 use crate::limits::MAX_NAME_LEN;
 
@@ -44,9 +46,18 @@ pub fn check_name(name: &str) -> Result<(), String> {
     ))
 }
 
-/// A map name: the alphabet, and not `id_…`, which statements use for identity maps.
-pub fn check_map_name(name: &str) -> Result<(), String> {
+/// The name of an object (not a generator): the alphabet without `⊗`.
+pub fn check_object_name(name: &str) -> Result<(), String> {
     check_name(name)?;
+    match name.contains('⊗') {
+        true => Err(format!("name \"{name}\" contains ⊗, which only generator names may hold (as x⊗y); a statement would read it as a tensor product")),
+        false => Ok(()),
+    }
+}
+
+/// A map name: an object name, and not `id_…`, which statements use for identity maps.
+pub fn check_map_name(name: &str) -> Result<(), String> {
+    check_object_name(name)?;
     if name.starts_with("id_") {
         return Err(format!("map name \"{name}\" begins with \"id_\", which statements use for identity maps"));
     }
@@ -68,6 +79,8 @@ mod tests {
         }
         assert!(check_name("").is_err());
         assert!(check_map_name("id_K").is_err());
+        assert!(check_object_name("F⊗G").unwrap_err().contains("only generator names"));
+        assert!(check_map_name("F⊗G").is_err() && check_object_name("F.G").is_ok());
         assert_eq!(visible("F\u{200d}G"), "F<U+200D>G");
     }
 }

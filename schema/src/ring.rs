@@ -3,7 +3,7 @@
 
 use crate::limits::{grading_in_bounds, MAX_GRADING_ABS, MAX_NAME_LEN};
 use crate::model::{Grading, Ring};
-use crate::names::{check_name, visible};
+use crate::names::{check_object_name, visible};
 use crate::poly::{Mono, MAX_VARIABLES};
 
 /// A validated ring.
@@ -40,7 +40,7 @@ impl RingInfo {
             }
         }
         for (i, g) in ring.gradings.iter().enumerate() {
-            if let Err(e) = check_name(g) {
+            if let Err(e) = check_object_name(g) {
                 errs.push(format!("ring: grading {e}"));
             }
             if ring.gradings[..i].contains(g) {
