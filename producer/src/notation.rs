@@ -95,14 +95,7 @@ pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String>
         monos.push(parse_factors(part, column, variables).map_err(|e| format!("coefficient \"{text}\": {e}"))?);
         column += part.len() + 1;
     }
-    monos.sort();
-    if let Some(w) = monos.windows(2).find(|w| w[0] == w[1]) {
-        return Err(format!(
-            "coefficient \"{text}\": the monomial {} appears twice (over F2 they cancel; write the sum out)",
-            w[0].render(variables)
-        ));
-    }
-    Ok(monos)
+    tubecert_format::poly::distinct(monos, text, variables)
 }
 
 /// Reads a single monomial (no `+`) in the free notation.

@@ -49,7 +49,12 @@ impl Mono {
 /// monomial is an error, since it hides a typo.
 pub fn parse_poly(text: &str, variables: &[String]) -> Result<Vec<Mono>, String> {
     let monos = text.split('+').map(|t| parse_mono(t.trim_matches(' '), variables)).collect::<Result<Vec<_>, _>>();
-    let mut monos = monos.map_err(|e| format!("coefficient {text:?}: {e}"))?;
+    distinct(monos.map_err(|e| format!("coefficient {text:?}: {e}"))?, text, variables)
+}
+
+/// The monomials of the coefficient `text`, sorted; a repeated one is an error (over F2 the two
+/// cancel, which hides a typo). Shared with the producer's free notation.
+pub fn distinct(mut monos: Vec<Mono>, text: &str, variables: &[String]) -> Result<Vec<Mono>, String> {
     monos.sort();
     if let Some(w) = monos.windows(2).find(|w| w[0] == w[1]) {
         return Err(format!(
