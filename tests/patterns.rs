@@ -53,50 +53,9 @@ fn the_oracle_rejects_mutated_pattern_modules() {
 
 mod cables {
     use serde_json::{json, Value};
-    use std::collections::BTreeMap;
     use tubecert_format::{Body, Claim};
+    use tubecert_tests::alexander::{self, mul, substitute_power, Poly};
     use tubecert_tests::{minus_ring, prove_value, seal};
-
-    /// A Laurent polynomial in t: exponent → coefficient.
-    type Poly = BTreeMap<i64, i64>;
-
-    fn mul(a: &Poly, b: &Poly) -> Poly {
-        let mut out = Poly::new();
-        for (i, x) in a {
-            for (j, y) in b {
-                *out.entry(i + j).or_default() += x * y;
-            }
-        }
-        out.retain(|_, c| *c != 0);
-        out
-    }
-
-    /// Δ of the torus knot T(p, q), symmetrized: t^{−(p−1)(|q|−1)/2}(t^{p|q|} − 1)(t − 1) /
-    /// ((t^p − 1)(t^{|q|} − 1)) (the conventions sheet); 1 for |q| = 1.
-    fn torus_alexander(p: i64, q: i64) -> Poly {
-        let q = q.abs();
-        // Coefficients of (t^{pq} − 1)(t − 1), then exact division by t^p − 1 and t^q − 1.
-        let mut num = vec![0i64; (p * q + 2) as usize];
-        num[0] += 1;
-        num[1] -= 1;
-        num[(p * q) as usize] -= 1;
-        num[(p * q + 1) as usize] += 1;
-        for d in [p, q] {
-            // Divide by t^d − 1: c_k = −(n_k) + c_{k−d} … from the bottom: n = c·(t^d − 1).
-            let d = d as usize;
-            let mut c = vec![0i64; num.len() - d];
-            for k in 0..c.len() {
-                c[k] = -num[k] + if k >= d { c[k - d] } else { 0 };
-            }
-            num = c;
-        }
-        let shift = (p - 1) * (q - 1) / 2;
-        num.iter().enumerate().filter(|(_, c)| **c != 0).map(|(k, c)| (k as i64 - shift, *c)).collect()
-    }
-
-    fn substitute_power(a: &Poly, p: i64) -> Poly {
-        a.iter().map(|(k, c)| (k * p, *c)).collect()
-    }
 
     /// The certificate body of `cable p q of SOURCE` with a τ goal, all claims checked.
     fn cable(src: &Value, p: i64, q: i64) -> Body {
@@ -118,12 +77,7 @@ mod cables {
     /// Σ (−1)^M t^A over the generators of the cable's complex: the graded Euler characteristic
     /// of its hat homology.
     fn euler(b: &Body) -> Poly {
-        let mut out = Poly::new();
-        for g in b.complexes["K"].generators.values() {
-            *out.entry(g[1]).or_default() += if g[0].rem_euclid(2) == 0 { 1 } else { -1 };
-        }
-        out.retain(|_, c| *c != 0);
-        out
+        alexander::euler(b.complexes["K"].generators.values().map(|g| g.as_slice()))
     }
 
     /// (name, source, τ, ε, Δ) of the companions: the unknot (ε = 0), T(2,3) and T(3,4)
@@ -131,10 +85,10 @@ mod cables {
     fn companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
         let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
         vec![
-            ("unknot", json!({"staircase": {"alexander": [0]}}), 0, 0, torus_alexander(2, 1)),
-            ("T(2,3)", t23.clone(), 1, 1, torus_alexander(2, 3)),
-            ("mirror T(2,3)", json!({"dual": t23}), -1, -1, torus_alexander(2, 3)),
-            ("T(3,4)", json!({"staircase": {"torus_knot": [3, 4]}}), 3, 1, torus_alexander(3, 4)),
+            ("unknot", json!({"staircase": {"alexander": [0]}}), 0, 0, alexander::torus(2, 1)),
+            ("T(2,3)", t23.clone(), 1, 1, alexander::torus(2, 3)),
+            ("mirror T(2,3)", json!({"dual": t23}), -1, -1, alexander::torus(2, 3)),
+            ("T(3,4)", json!({"staircase": {"torus_knot": [3, 4]}}), 3, 1, alexander::torus(3, 4)),
         ]
     }
 
@@ -150,7 +104,7 @@ mod cables {
         };
         let sum = json!({"direct_sum": [{"staircase": {"alexander": [2, 1, 0, -1, -2]}}, square(-2)]});
         let point = json!({"staircase": {"alexander": [0]}});
-        let trefoil_squared = mul(&torus_alexander(2, 3), &torus_alexander(2, 3));
+        let trefoil_squared = mul(&alexander::torus(2, 3), &alexander::torus(2, 3));
         vec![
             ("T(2,3) # T(2,3)", sum.clone(), 2, 1, trefoil_squared.clone()),
             ("mirror of T(2,3) # T(2,3)", json!({"dual": sum}), -2, -1, trefoil_squared),
@@ -214,7 +168,7 @@ mod cables {
         let b = cable(src, p, q);
         let want = hom_tau(tau, eps, p, q);
         assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
-        let seifert = mul(&substitute_power(delta, p), &torus_alexander(p, q));
+        let seifert = mul(&substitute_power(delta, p), &alexander::torus(p, q));
         assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
         assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
     }
@@ -255,7 +209,7 @@ mod cables {
     #[test]
     fn cables_of_the_unknot_are_torus_knots() {
         for (p, q) in [(3, 2), (3, 5), (3, -2), (4, 3), (4, -3), (5, 2), (5, 3), (5, -4)] {
-            let delta = torus_alexander(p, q);
+            let delta = alexander::torus(p, q);
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
             let stair = json!({"staircase": {"alexander": exponents}});
             let model = if q > 0 { stair } else { json!({"dual": stair}) };
@@ -382,7 +336,7 @@ mod cables {
                     let (hat, towers) = raw_ranks(&src, p as usize, n);
                     assert_eq!(towers, 1, "towers of the ({p},{q}) cable of {name}");
                     if l_space {
-                        let terms = mul(&substitute_power(&delta, p), &torus_alexander(p, q)).len();
+                        let terms = mul(&substitute_power(&delta, p), &alexander::torus(p, q)).len();
                         assert_eq!(hat, terms, "hat rank of the ({p},{q}) cable of {name}");
                     }
                 }
@@ -404,7 +358,7 @@ mod cables {
                 .chain([((2, 3), 1, 3, 5), ((2, 3), 1, 4, 7), ((2, 3), 1, 5, 7), ((2, 3), 1, 5, 8), ((3, 4), 3, 3, 17)])
         {
             assert!(q >= p * (2 * g - 1));
-            let delta = mul(&substitute_power(&torus_alexander(k.0, k.1), p), &torus_alexander(p, q));
+            let delta = mul(&substitute_power(&alexander::torus(k.0, k.1), p), &alexander::torus(p, q));
             assert!(delta.values().all(|c| c.abs() == 1), "an L-space knot's Δ has coefficients ±1");
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
             let companion = json!({"staircase": {"torus_knot": [k.0, k.1]}});

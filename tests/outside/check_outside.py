@@ -6,8 +6,11 @@
 2. The file formats: every stored certificate and problem file validates against
    schema/*.schema.json with the `jsonschema` package (Draft 2020-12).
 3. Homology over F2[U]: on random graded complexes, the torsion exponents and free rank in
-   the producer's (checker-verified) homology claim agree with sympy's invariant factors over
-   GF(2)[U] (sympy.polys.matrices.normalforms).
+   the producer's homology claim, verified by tubecheck, agree with sympy's invariant factors
+   over GF(2)[U] (sympy.polys.matrices.normalforms), computed from the differential this script
+   wrote, not from the certificate.
+
+The packages are pinned in requirements.txt.
 
 Usage: check_outside.py ROOT TUBECERT_BINARY [--cases N] [--seed S]
 Prints one line per failure and a closing "N passed, M failed" line.
@@ -204,7 +207,7 @@ def sympy_homology(D):
     return n - 2 * len(factors), sorted(e for e in exps if e > 0)
 
 
-def check_homology_against_sympy(tubecert, cases, seed):
+def check_homology_against_sympy(tubecert, tubecheck, cases, seed):
     rng = random.Random(seed)
     with tempfile.TemporaryDirectory() as tmp:
         for case in range(cases):
@@ -216,6 +219,8 @@ def check_homology_against_sympy(tubecert, cases, seed):
             if r.returncode != 0:
                 record(False, f"case {case}: tubecert exit {r.returncode}: {r.stderr}")
                 continue
+            v = subprocess.run([tubecheck, cert], capture_output=True, text=True)
+            record(v.returncode == 0, f"case {case}: tubecheck exit {v.returncode} on the certificate")
             claim = json.load(open(cert))["body"]["claims"][0]
             ours = (len(claim["free"]), sorted(t[0] for t in claim["torsion"]))
             theirs = sympy_homology(D)
@@ -232,9 +237,10 @@ def main():
     a = ap.parse_args()
     n = check_hashes_and_schemas(a.root, a.extra)
     print(f"outside: {n} stored files checked against rfc8785 and the JSON schemas")
-    check_null_and_repeated_keys(a.root, os.path.join(os.path.dirname(a.tubecert), "tubecheck"))
+    tubecheck = os.path.join(os.path.dirname(a.tubecert), "tubecheck")
+    check_null_and_repeated_keys(a.root, tubecheck)
     print("outside: a null and a repeated key, hashed by rfc8785, refused by the schema and tubecheck")
-    check_homology_against_sympy(a.tubecert, a.cases, a.seed)
+    check_homology_against_sympy(a.tubecert, tubecheck, a.cases, a.seed)
     print(f"outside: {a.cases} random complexes compared with sympy's Smith normal form over GF(2)[U]")
     print(f"outside: {PASSED} passed, {FAILED} failed")
     sys.exit(1 if FAILED else 0)
