@@ -81,7 +81,9 @@ mod cables {
     }
 
     /// (name, source, τ, ε, Δ) of the companions: the unknot (ε = 0), T(2,3) and T(3,4)
-    /// (L-space knots with τ > 0, ε = 1), the mirror of T(2,3) (ε = −1).
+    /// (L-space knots with τ > 0, ε = 1), the mirror of T(2,3) (ε = −1) — ε from Hom 2014
+    /// (recalled from memory), τ(T(p,q)) = (p−1)(q−1)/2 (Ozsváth–Szabó 2003), Δ computed by
+    /// `tubecert_tests::alexander`.
     fn companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
         let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
         vec![
@@ -93,10 +95,11 @@ mod cables {
     }
 
     /// Companions that are not L-space knots, for τ and χ only: T(2,3) # T(2,3) as the T(2,5)
-    /// staircase beside a square at (−2, −2) (its complex up to homotopy, memory; τ = 2, ε = 1,
-    /// Δ = (t − 1 + t⁻¹)²), its mirror (ε = −1), and the figure-eight's shape, a square beside a
-    /// point (τ = 0, ε = 0: the point splits off, as for K # mirror K, whose tensor basis is not
-    /// simultaneously simplified and so is not reachable as a companion; Δ = −t + 3 − t⁻¹).
+    /// staircase beside a square at (−2, −2) (its complex up to homotopy, recalled from memory;
+    /// τ = 2, ε = 1 (Hom 2014), Δ = (t − 1 + t⁻¹)²), its mirror (ε = −1), and the figure-eight's
+    /// shape, a square beside a point (τ = 0, ε = 0: the point splits off, as for K # mirror K,
+    /// whose tensor basis is not simultaneously simplified and so is not reachable as a companion;
+    /// Δ = −t + 3 − t⁻¹, the figure-eight's, recalled from memory).
     fn more_companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
         let square = |m: i64| {
             json!({"generators": {"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]},
@@ -140,7 +143,8 @@ mod cables {
 
     // τ of cables (Hom 2014, `hom_tau`) at framings n = −2 … 2 (Q = Pn + 1, negative Q
     // included). The graded Euler characteristic of the cable's hat homology is
-    // Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula for satellites), which tests every generator's
+    // Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert 1950, "On the homology invariants of knots", Quart. J.
+    // Math. Oxford; the formula for satellites), which tests every generator's
     // absolute (Maslov, Alexander) grading. HFK^- of a knot in S³ has one tower F2[U], generated
     // in grading (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003, τ from the tower; d(S³) = 0): on the
     // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
@@ -317,13 +321,17 @@ mod cables {
     }
 
     // L-space cables: K_{p,q} is an L-space knot when K is one and q ≥ p(2g(K) − 1) (Hedden 2009,
-    // "On knot Floer homology and cabling II"; Hom 2011); an L-space knot's hat homology has rank
+    // "On knot Floer homology and cabling II", IMRN; Hom 2011, "A note on cabling and L-space
+    // surgeries", Algebr. Geom. Topol. 11); an L-space knot's hat homology has rank
     // the number of terms of its Alexander polynomial (Ozsváth–Szabó 2005), and HFK^- has one
     // tower F2[U]. The cables of the unknot are the torus knots T(p, q): L-space knots for
     // q > 0, mirrors of them for q < 0 (same rank). Ranks of the raw pairing at every framing.
     #[test]
     fn l_space_cables_have_the_rank_of_their_alexander_polynomial() {
         for (name, src, _, eps, delta) in companions() {
+            // g(K) is Δ's top exponent for these L-space knots (their staircase, Ozsváth–Szabó
+            // 2005; knot Floer homology detects the genus, Ozsváth–Szabó 2004, "Holomorphic disks
+            // and genus bounds", Geom. Topol. 8).
             let g = delta.keys().max().copied().unwrap_or(0);
             for p in 2..=4i64 {
                 for n in -2..=2i64 {

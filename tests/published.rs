@@ -179,9 +179,9 @@ fn torsion_order_of_connected_sums_of_torus_knots() {
     // By the Künneth formula over F2[U] (kunneth.rs) HFK^-(K1 # K2) holds the torsion summands of
     // each factor (tensored with the other's tower), and torsion ⊗ torsion or Tor gives orders
     // min(a, b): so Ord_U(K1 # K2) = max(Ord_U(K1), Ord_U(K2)) (derived here), with Ord_U(T(p,q))
-    // = p − 1 (JMZ 2020). It stays within JMZ 2020's bound Ord_U(K) ≤ br(K) − 1 (recalled from
-    // memory), with br(T(p,q)) = min(p, q) and br(K1 # K2) = br(K1) + br(K2) − 1 (Schubert 1954,
-    // "Über eine numerische Knoteninvariante", Math. Z.; recalled from memory).
+    // = p − 1 (JMZ 2020). It stays within JMZ 2020's bound Ord_U(K) ≤ br(K) − 1
+    // (recalled from memory), with br(T(p,q)) = min(p, q) and br(K1 # K2) = br(K1) + br(K2) − 1
+    // (Schubert 1954, "Über eine numerische Knoteninvariante", Math. Z.; recalled from memory).
     for [(p1, q1), (p2, q2)] in [[(2u32, 5u32), (3, 4)], [(3, 4), (2, 3)], [(3, 4), (4, 5)], [(2, 3), (2, 5)]] {
         let c = claims(
             json!({"A": {"staircase": {"torus_knot": [p1, q1]}}, "B": {"staircase": {"torus_knot": [p2, q2]}},
