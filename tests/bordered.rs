@@ -706,7 +706,7 @@ fn a_box_tensor_product_without_a_symmetric_euler_characteristic_is_refused() {
 // made of the operations' own words, each checked in time linear in its length; checking every
 // candidate by its splits (quadratic per word) exceeded these files' work budgets. τ by Hom
 // 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable knots"): ε = 1 for a
-// staircase, so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
+// staircase with τ > 0 (recalled from memory), so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
 #[test]
 fn cables_of_companions_with_long_steps_prove_and_verify() {
     for (step, p) in [(16, 3), (30, 2), (60, 2)] {

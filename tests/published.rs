@@ -70,41 +70,48 @@ fn t34_from_its_alexander_polynomial() {
     assert_eq!(c[2]["tau"], json!(3));
 }
 
-/// The hat homology's free generators (M, A) of SOURCE over F2 (U = V = 0), checker-verified.
-fn hat_homology(source: serde_json::Value) -> Vec<Vec<i64>> {
+/// The hat homology's free generators (M, A) of the complex T over F2 (U = V = 0), among the
+/// given complexes, checker-verified.
+fn hat_homology(complexes: serde_json::Value) -> Vec<Vec<i64>> {
     let hat = json!({"variables": [], "gradings": ["maslov", "alexander"], "variable_degrees": {}, "differential_degree": [-1, 0]});
     let problem = json!({"format": "tubecert-problem", "version": 1, "ring": hat,
-        "complexes": {"T": source}, "goals": [{"homology": {"complex": "T"}}]});
+        "complexes": complexes, "goals": [{"homology": {"complex": "T"}}]});
     let c = verified_claims(&prove_value(&problem));
     serde_json::from_value(c[0]["free"].clone()).unwrap()
 }
 
-/// Checks HFK-hat of T(p, q) given as (M, A) of its basis: rank = the number of non-zero terms
-/// of Δ, one generator per term, at the gradings of the staircase (L-space knots, OS 2005; the
-/// conventions sheet's rule gr_U(x_0) = 0, gr_U(x_i) = gr_U(x_{i−1}) + 1 − 2(a_{i−1} − a_i) for
-/// odd i, gr_U(x_{i+1}) = gr_U(x_i) − 1, with M = gr_U), and Σ(−1)^M t^A = Δ_{T(p,q)}
-/// (χ(HFK-hat) = Δ, OS 2004); Δ from the tests' own computation.
+/// HFK-hat of T(p, q) as the sorted (M, A) of its basis: one generator per non-zero term of Δ,
+/// at the gradings of the staircase (L-space knots, OS 2005; the conventions sheet's rule
+/// gr_U(x_0) = 0, gr_U(x_i) = gr_U(x_{i−1}) + 1 − 2(a_{i−1} − a_i) for odd i, gr_U(x_{i+1}) =
+/// gr_U(x_i) − 1, with M = gr_U); Δ from the tests' own computation.
+fn torus_knot_hat(p: i64, q: i64) -> Vec<Vec<i64>> {
+    let a: Vec<i64> = alexander::torus(p, q).keys().rev().copied().collect();
+    let mut m = 0;
+    let mut out = vec![vec![0, a[0]]];
+    for i in 1..a.len() {
+        m += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
+        out.push(vec![m, a[i]]);
+    }
+    out.sort();
+    out
+}
+
+/// Checks HFK-hat of T(p, q) given as (M, A) of its basis: the rank is the number of non-zero
+/// terms of Δ and the gradings are the staircase's (`torus_knot_hat`), and Σ(−1)^M t^A =
+/// Δ_{T(p,q)} (χ(HFK-hat) = Δ, OS 2004).
 fn assert_hat_is_that_of_torus_knot(free: &[Vec<i64>], p: i64, q: i64) {
     let delta: Poly = alexander::torus(p, q);
     assert_eq!(free.len(), delta.len(), "T({p},{q}): rank of HFK-hat");
     assert_eq!(alexander::euler(free.iter().map(|g| g.as_slice())), delta, "T({p},{q}): χ(HFK-hat)");
-    let a: Vec<i64> = delta.keys().rev().copied().collect();
-    let mut m = 0;
-    let mut want = vec![vec![0, a[0]]];
-    for i in 1..a.len() {
-        m += if i % 2 == 1 { 1 - 2 * (a[i - 1] - a[i]) } else { -1 };
-        want.push(vec![m, a[i]]);
-    }
-    let (mut got, mut want) = (free.to_vec(), want);
+    let mut got = free.to_vec();
     got.sort();
-    want.sort();
-    assert_eq!(got, want, "T({p},{q}): (M, A) of HFK-hat");
+    assert_eq!(got, torus_knot_hat(p, q), "T({p},{q}): (M, A) of HFK-hat");
 }
 
 #[test]
 fn hat_rank_counts_alexander_terms() {
     for (p, q) in TORUS_KNOTS {
-        let free = hat_homology(json!({"staircase": {"torus_knot": [p, q]}}));
+        let free = hat_homology(json!({"T": {"staircase": {"torus_knot": [p, q]}}}));
         assert_hat_is_that_of_torus_knot(&free, p.into(), q.into());
     }
 }
@@ -153,7 +160,7 @@ fn quotients_of_the_full_staircase() {
             json!([{"tau": {"complex": "T"}}]),
         );
         assert_eq!(c[0]["tau"], json!((p - 1) * (q - 1) / 2), "T({p},{q})");
-        let free = hat_homology(json!({"quotient": [{"staircase": {"torus_knot": [p, q]}}, "U", "V"]}));
+        let free = hat_homology(json!({"T": {"quotient": [{"staircase": {"torus_knot": [p, q]}}, "U", "V"]}}));
         assert_hat_is_that_of_torus_knot(&free, p.into(), q.into());
     }
 }
@@ -191,5 +198,27 @@ fn torsion_order_of_connected_sums_of_torus_knots() {
         let order = c[0]["order"].as_u64().unwrap();
         assert_eq!(order, u64::from((p1 - 1).max(p2 - 1)), "T({p1},{q1}) # T({p2},{q2})");
         assert!(order < u64::from(p1.min(q1) + p2.min(q2) - 1), "T({p1},{q1}) # T({p2},{q2}): bridge bound");
+    }
+}
+
+#[test]
+fn hat_homology_of_connected_sums_of_torus_knots() {
+    // HFK-hat(K1 # K2) ≅ HFK-hat(K1) ⊗ HFK-hat(K2) over F2, gradings adding (OS 2004, Künneth
+    // formula for connected sums; recalled from memory), so the basis gradings are the pairwise
+    // sums of the factors' staircase gradings, and χ = Δ_{K1}·Δ_{K2} (Δ multiplicative under
+    // connected sum; e.g. Rolfsen, "Knots and Links", 1976; recalled from memory).
+    for [(p1, q1), (p2, q2)] in [[(2, 3), (2, 3)], [(2, 5), (3, 4)], [(3, 4), (3, 5)]] {
+        let free = hat_homology(json!({"A": {"staircase": {"torus_knot": [p1, q1]}},
+            "B": {"staircase": {"torus_knot": [p2, q2]}}, "T": {"tensor": ["A", "B"]}}));
+        let mut want: Vec<Vec<i64>> = Vec::new();
+        for g in torus_knot_hat(p1, q1) {
+            want.extend(torus_knot_hat(p2, q2).iter().map(|h| vec![g[0] + h[0], g[1] + h[1]]));
+        }
+        want.sort();
+        let mut got = free.clone();
+        got.sort();
+        assert_eq!(got, want, "T({p1},{q1}) # T({p2},{q2}): (M, A) of HFK-hat");
+        let delta = alexander::mul(&alexander::torus(p1, q1), &alexander::torus(p2, q2));
+        assert_eq!(alexander::euler(free.iter().map(|g| g.as_slice())), delta, "T({p1},{q1}) # T({p2},{q2}): χ");
     }
 }
