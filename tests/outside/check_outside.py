@@ -55,8 +55,11 @@ def check_hashes_and_schemas(root, extra_dirs):
     files = []
     for d in [os.path.join(root, "certificates")] + extra_dirs:
         files += sorted(glob.glob(os.path.join(d, "**/*.json"), recursive=True))
+    kinds = {"tubecert-certificate": 0, "tubecert-problem": 0}
     for f in files:
         doc = json.load(open(f, encoding="utf-8"))
+        if doc.get("format") in kinds:
+            kinds[doc["format"]] += 1
         if doc.get("format") == "tubecert-certificate":
             digest = hashlib.sha256(rfc8785.dumps(doc["body"])).hexdigest()
             record(digest == doc["sha256"], f"{f}: rfc8785 hash {digest} != stated {doc['sha256']}")
@@ -71,6 +74,8 @@ def check_hashes_and_schemas(root, extra_dirs):
                 record(True, "")
             except jsonschema.ValidationError as e:
                 record(False, f"{f}: problem schema: {e.message}")
+    # An empty or misplaced folder must not pass as "all checked".
+    record(all(kinds.values()), f"no stored certificates or problems found: {kinds}")
     return len(files)
 
 
