@@ -152,3 +152,51 @@ fn the_same_problem_gives_identical_bytes_across_processes_and_thread_counts() {
     assert!(first == out(2, "2"), "two runs with two threads differ");
     assert!(first == out(3, "1"), "one thread and two threads differ");
 }
+
+/// The README's tables of the demo families, row by row, against the stored certificates:
+/// the stair-tower table's claims and hash prefixes, and the orders and τ of the two bordered
+/// families (so that regenerating a certificate cannot leave the README behind).
+#[test]
+fn the_readme_family_tables_are_the_stored_certificates() {
+    let root = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let cert = |stem: &str| -> serde_json::Value {
+        serde_json::from_slice(&std::fs::read(root.join(format!("certificates/{stem}.cert.json"))).unwrap()).unwrap()
+    };
+    let statements = |v: &serde_json::Value, kind: &str| -> Vec<String> {
+        let claims = v["body"]["claims"].as_array().unwrap();
+        claims.iter().filter(|c| c["kind"] == kind).map(|c| c["statement"].as_str().unwrap().to_string()).collect()
+    };
+    let rows = |heading: &str, header: &str| -> Vec<Vec<String>> {
+        let section = readme.split(heading).nth(1).unwrap_or_else(|| panic!("no README section {heading}"));
+        let table = section.split(header).nth(1).unwrap_or_else(|| panic!("no table {header}"));
+        let rows: Vec<Vec<String>> = table
+            .lines()
+            .skip(2)
+            .take_while(|l| l.starts_with('|'))
+            .map(|l| l.trim_matches('|').split(" | ").map(|c| c.trim().replace('−', "-")).collect())
+            .collect();
+        assert!(!rows.is_empty(), "{header}");
+        rows
+    };
+    for row in rows("## Demo scenario", "| p | claims | certificate sha256 |") {
+        let v = cert(&format!("stair-tower-p{}", row[0]));
+        let claims: Vec<String> =
+            v["body"]["claims"].as_array().unwrap().iter().map(|c| c["statement"].as_str().unwrap().into()).collect();
+        assert_eq!(row[1], claims.join("; ").replace('−', "-"), "stair-tower p = {}", row[0]);
+        let prefix = row[2].trim_matches('`').trim_end_matches('…');
+        assert!(v["sha256"].as_str().unwrap().starts_with(prefix), "stair-tower p = {}: hash", row[0]);
+    }
+    for row in rows("### Satellites", "| p | ord_U(F − G) | reading |") {
+        let v = cert(&format!("cabled-pair-p{}", row[0]));
+        assert_eq!(statements(&v, "torsion_order"), vec![format!("ord_U(F − G) = {}", row[1])], "cabled-pair");
+    }
+    for row in rows("### Satellites", "| p | cable | ord_U(F − G) | τ(KC) |") {
+        let v = cert(&format!("cable-by-p{}", row[0]));
+        assert_eq!(statements(&v, "torsion_order"), vec![format!("ord_U(F − G) = {}", row[2])], "cable-by-p");
+        let tau = format!("τ(KC) = {} (Alexander grading alexander)", row[3]);
+        assert_eq!(statements(&v, "tau"), vec![tau], "cable-by-p");
+        let p: i64 = row[0].parse().unwrap();
+        assert_eq!(row[1], format!("({p}, {})", 1 - p), "the (p, 1 − p) cable");
+    }
+}

@@ -165,12 +165,17 @@ pub fn cabled_problems() -> Vec<(String, Vec<u8>)> {
             let template: serde_json::Value = serde_json::from_str(text).expect("the template is JSON");
             (1..=4).map(move |p| {
                 let v = crate::family::instantiate(&template, "p", p).expect("the template instantiates");
-                let mut b = serde_json::to_vec_pretty(&v).expect("JSON serializes");
-                b.push(b'\n');
-                (format!("{stem}{p}"), b)
+                (format!("{stem}{p}"), written_bytes(&v))
             })
         })
         .collect()
+}
+
+/// Pretty JSON for a problem as written (constructions and bordered sections kept).
+pub fn written_bytes(v: &serde_json::Value) -> Vec<u8> {
+    let mut b = serde_json::to_vec_pretty(v).expect("JSON serializes");
+    b.push(b'\n');
+    b
 }
 
 /// Pretty JSON for a problem file (deterministic: maps are ordered).

@@ -182,9 +182,9 @@ pub fn instantiate_text(template: &str, name: &str, value: i64) -> Result<String
     Ok(out)
 }
 
-/// Proves every member of a family; writes `STEM-NAMEv.problem.json` (the explicit instance)
-/// and its certificate into `out`; returns the table as Markdown lines and whether every goal
-/// held as stated. With `shard = Some((i, n))` only the members at positions i, i + n, … (1-based,
+/// Proves every member of a family; writes `STEM-NAMEv.problem.json` (the explicit instance, or
+/// the instance as written when it has bordered objects) and its certificate into `out`;
+/// returns the table as Markdown lines and whether every goal held as stated. With `shard = Some((i, n))` only the members at positions i, i + n, … (1-based,
 /// in parameter order) are proved; each writes exactly what a whole run writes for it.
 pub fn run(
     template_path: &std::path::Path,
@@ -219,18 +219,33 @@ pub fn run(
             continue;
         }
         let at = |e: String| format!("{file} with {name} = {v}: {e}");
-        let problem = if json {
+        // The member as written (constructions and bordered sections kept), and as read.
+        let (written, problem) = if json {
             let written = instantiate(&template, &name, v).map_err(|e| vec![at(e)])?;
-            let written = serde_json::from_value(written).map_err(|e| vec![at(e.to_string())])?;
-            crate::problem::from_written(written).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?
+            let typed = serde_json::from_value(written.clone()).map_err(|e| vec![at(e.to_string())])?;
+            (written, crate::problem::from_written(typed).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?)
         } else {
             // A text template: substitute in the source, then read it as any text problem, so
             // messages keep their line numbers.
             let source = instantiate_text(&text, &name, v).map_err(|e| vec![at(e)])?;
-            crate::problem::parse_problem(source.as_bytes(), &format!("{file} with {name} = {v}"))?
+            let problem = crate::problem::parse_problem(source.as_bytes(), &format!("{file} with {name} = {v}"))?;
+            let written = match problem.bordered {
+                Some(_) => crate::problem::written_value(source.as_bytes()).map_err(|es| {
+                    es.into_iter().map(|e| format!("{file} with {name} = {v}:{e}")).collect::<Vec<_>>()
+                })?,
+                None => Value::Null,
+            };
+            (written, problem)
         };
-        let instance = crate::demo::problem_bytes(&problem);
+        // The explicit instance, unless the member has bordered objects: the explicit form holds
+        // only complexes and maps, and proving it again would lose their claims. Such a member
+        // is written as the template makes it (JSON either way), the file `demo` writes.
+        let instance = match problem.bordered {
+            Some(_) => crate::demo::written_bytes(&written),
+            None => crate::demo::problem_bytes(&problem),
+        };
         let ctx = crate::validate::validate(&problem).map_err(|es| es.into_iter().map(at).collect::<Vec<_>>())?;
+        let objects = problem.bordered_claims.len();
         let proved = crate::prove::prove_with(problem, &ctx, &instance, options).map_err(|e| vec![at(e)])?;
         all &= proved.all_as_stated;
         let member = format!("{stem}-{name}{v}");
@@ -239,12 +254,18 @@ pub fn run(
         };
         write(out.join(format!("{member}.problem.json")), &instance)?;
         write(out.join(format!("{member}.cert.json")), &proved.file)?;
-        let claims: Vec<&str> = proved.certificate.body.claims.iter().map(|c| c.statement()).collect();
+        // The claims that come with bordered objects (relations, complements, pairings) come
+        // first; the table shows what the goals proved and counts the others.
+        let claims = &proved.certificate.body.claims;
+        let mut cell: Vec<String> = claims.iter().skip(objects).map(|c| c.statement().to_string()).collect();
+        if objects > 0 {
+            cell.push(format!("and {objects} claims on the bordered objects (in the certificate)"));
+        }
         if rows.is_empty() {
             rows.push(format!("| {name} | claims | certificate sha256 |"));
             rows.push("|---|---|---|".into());
         }
-        rows.push(format!("| {v} | {} | `{}…` |", claims.join("; "), &proved.certificate.sha256[..16]));
+        rows.push(format!("| {v} | {} | `{}…` |", cell.join("; "), &proved.certificate.sha256[..16]));
     }
     Ok((rows, all))
 }

@@ -52,7 +52,8 @@ enum Command {
     )]
     Prove {
         problem: PathBuf,
-        /// Where to write the certificate (default: PROBLEM with .problem.json → .cert.json).
+        /// Where to write the certificate (default: beside PROBLEM, its name with .problem.json,
+        /// .problem.txt, .json or .txt replaced by .cert.json).
         #[arg(short, long)]
         output: Option<PathBuf>,
         /// Also certify each reduced model used (C ≃ C_reduced, as a homotopy_equivalence claim).
@@ -64,7 +65,7 @@ enum Command {
     CheckInput { problem: PathBuf },
     /// Time the whole pipeline on a synthetic problem with a known answer (prints one row).
     #[command(
-        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --density 9.4  # denser: 9.4 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3"
+        after_help = "Examples:\n  tubecert bench --generators 100000 --seed 1\n  tubecert bench --generators 100000 --density 9.4  # denser: 9.4 arrows per generator\n  tubecert bench --case reduced-identity             # id of T(13,14)^⊗3 over F2[U,V]\n  tubecert bench --case reduced-uv --torus 11,12     # U·V·id of T(11,12)^⊗3\n\nExit codes: 0 the planted answer was proved and checked; 4 a wrong answer or a failed run."
     )]
     Bench {
         /// Which problem: an inflated complex with a planted torsion order, or a Hom question
@@ -85,7 +86,7 @@ enum Command {
         torus: Option<(u32, u32)>,
         #[arg(long, default_value_t = 1)]
         seed: u64,
-        /// Also write the problem and certificate here.
+        /// Also write the problem and certificate into this folder.
         #[arg(long)]
         out: Option<PathBuf>,
         /// Omit the header line (for tables of several runs).
@@ -94,7 +95,7 @@ enum Command {
     },
     /// Prove every member of a family of problems given by a template.
     #[command(
-        after_help = "In the template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer.\n\n--shard I/N runs only the members at positions I, I+N, I+2N, … of the parameter order and\nwrites the same files a whole run writes for them: run shards 1/N … N/N anywhere (a job array,\na CI matrix), gather the folders, then tubecheck the result.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates\n  tubecert family examples/stair-tower.template.json --param p=1..6 --shard 2/3 --out part2"
+        after_help = "In a JSON template, \"{expr}\" inside a string is replaced by the value of an integer\nexpression in the parameter; a string that is exactly \"{expr}\" becomes an integer. In a text\ntemplate, {expr} is replaced wherever it stands outside comments.\n\nEach member is written to OUT as STEM-NAMEv.problem.json and STEM-NAMEv.cert.json (STEM: the\ntemplate's file name without .template.json, .template.txt, .json or .txt); the table gives,\nfor each value, the claims its goals proved.\n\n--shard I/N runs only the members at positions I, I+N, I+2N, … of the parameter order and\nwrites the same files a whole run writes for them: run shards 1/N … N/N anywhere (a job array,\na CI matrix), gather the folders, then tubecheck the result.\n\nExit codes: 0 every goal of every member proved as stated; 3 some goal false (its opposite\nproved); 2 bad input or a bad --shard.\n\nExample:\n  tubecert family examples/stair-tower.template.json --param p=1..6 --out certificates\n  tubecert family examples/stair-tower.template.json --param p=1..6 --shard 2/3 --out part2"
     )]
     Family {
         template: PathBuf,
@@ -104,6 +105,7 @@ enum Command {
         /// I/N: prove only the members at positions I, I+N, I+2N, … (1 ≤ I ≤ N).
         #[arg(long, value_name = "I/N")]
         shard: Option<String>,
+        /// Folder for the members' problems and certificates.
         #[arg(long, default_value = ".")]
         out: PathBuf,
     },
@@ -133,8 +135,10 @@ enum Command {
     #[command(after_help = "Example:\n  tubecert convert examples/tower.problem.json --to text -o tower.problem.txt")]
     Convert {
         file: PathBuf,
+        /// The format to write.
         #[arg(long, value_parser = ["text", "json"])]
         to: String,
+        /// Where to write it (default: standard output).
         #[arg(short, long)]
         output: Option<PathBuf>,
     },
@@ -145,6 +149,7 @@ enum Command {
     Draw {
         /// A problem file or a certificate.
         file: PathBuf,
+        /// The complex to draw (its name in the file).
         #[arg(long)]
         complex: String,
         /// Claim number (1-based) whose witness support is highlighted.
@@ -154,6 +159,7 @@ enum Command {
         /// counted by kind) instead of every generator.
         #[arg(long, default_value_t = tubecert::draw::DEFAULT_MAX_GENERATORS)]
         max_generators: usize,
+        /// The SVG file to write.
         #[arg(short, long)]
         output: PathBuf,
     },

@@ -476,8 +476,9 @@ fn read(src: &str, check: bool) -> Result<(Value, SourceLines), Vec<String>> {
 /// mismatched one is reported in the text format's own words at its line.
 #[derive(Default)]
 struct Header {
-    /// Declaration ("ring", "gradings", "degree d", "degree U") → (its line, entries).
-    seen: std::collections::BTreeMap<String, (usize, usize)>,
+    /// Declaration ("ring", "gradings", "degree d", "degree U") → (its line, entries; `None`
+    /// when the tuple is malformed, which is reported where it is read).
+    seen: std::collections::BTreeMap<String, (usize, Option<usize>)>,
     /// The first complex, map or goal: (line, what it declares).
     body: Option<(usize, String)>,
     /// Errors found when the body starts (or at the end of the file).
@@ -516,7 +517,14 @@ impl Header {
         if key == "gradings" && toks.len() < 2 {
             return Err(at("\"gradings\" needs at least one name, e.g. \"gradings maslov alexander\"".into()));
         }
-        let entries = if key.starts_with("degree") { toks.get(2).map_or(0, |t| t.1.split(',').count()) } else { 0 };
+        // A malformed tuple already has its own error; counting its commas would add a second,
+        // misleading one on the same line.
+        let entries = match toks.get(2) {
+            Some((col, tok)) if key.starts_with("degree") => {
+                grading(line, *col, tok).ok().map(|v| v.as_array().map_or(0, Vec::len))
+            }
+            _ => Some(0),
+        };
         self.seen.insert(key, (line.no, entries));
         Ok(())
     }
@@ -544,7 +552,7 @@ impl Header {
                 self.errs.push(format!(
                     "{l}:1: \"{key}\": {var} is not a variable of the ring ({has}); \"degree d\" is the differential's"
                 ));
-            } else if self.seen.contains_key("gradings") && entries != gradings {
+            } else if let Some(entries) = entries.filter(|&e| self.seen.contains_key("gradings") && e != gradings) {
                 let g = self.seen["gradings"].0;
                 self.errs.push(format!(
                     "{l}:1: \"{key}\" has {entries} entries; line {g} declares {gradings} grading{} (one entry each)",

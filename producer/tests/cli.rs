@@ -159,6 +159,10 @@ fn text_format_errors_name_file_line_and_column() {
     let err = refused("bad.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (1; 0)\ngoal homotopy F G\n"));
     assert!(err.contains("bad.problem.txt:7:5: expected integers separated by commas, found \"(1; 0)\""), "{err}");
     assert!(err.contains("bad.problem.txt:8:6: expected torsion_order"), "{err}");
+    // A malformed tuple in the ring's declarations is one error, at its column.
+    let err = refused("ring.problem.txt", &RING.replace("degree U (-2, -1)", "degree U (-2 -1)"));
+    assert_eq!(err.lines().count(), 1, "{err}");
+    assert!(err.trim_end().ends_with("ring.problem.txt:3:10: expected integers separated by commas, found \"(-2 -1)\""));
     // A file that parses but does not validate: the message points at the line of the term…
     let err =
         refused("unknown.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n"));
@@ -349,6 +353,40 @@ fn family_shards_write_exactly_what_a_whole_run_writes() {
     }
 }
 
+/// A family of bordered objects: each member's problem file keeps its bordered sections (the
+/// explicit form has none), so proving it again gives its certificate; the JSON and the text
+/// template write the same files, those of the demo stored in `certificates/`; the table shows
+/// what the goals proved and counts the claims on the bordered objects.
+#[test]
+fn a_bordered_family_writes_problems_that_prove_to_its_certificates() {
+    let root = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    for ext in ["json", "txt"] {
+        let template = root.join(format!("examples/cabled-pair.template.{ext}"));
+        let out = dir().join(format!("cabled-{ext}"));
+        let (code, table, err) =
+            tubecert(&["family", &template.to_string_lossy(), "--param", "p=1..2", "--out", &out.to_string_lossy()]);
+        assert_eq!(code, 0, "{table}{err}");
+        assert!(table.contains("| 2 | ord_U(F − G) = 2; U^2·(F + G) ≃ 0 (null-homotopic);"), "{table}");
+        assert!(table.contains("; and 12 claims on the bordered objects (in the certificate) |"), "{table}");
+        assert!(!table.contains("type D structure"), "{table}");
+        for p in 1..=2 {
+            for kind in ["problem", "cert"] {
+                let name = format!("cabled-pair-p{p}.{kind}.json");
+                let stored = std::fs::read(root.join("certificates").join(&name)).unwrap();
+                assert!(std::fs::read(out.join(&name)).unwrap() == stored, "{ext}: {name} differs from the stored one");
+            }
+            let again = out.join(format!("again-p{p}.cert.json"));
+            let problem = out.join(format!("cabled-pair-p{p}.problem.json"));
+            let (code, _, err) = tubecert(&["prove", &problem.to_string_lossy(), "-o", &again.to_string_lossy()]);
+            assert_eq!(code, 0, "{err}");
+            assert!(
+                std::fs::read(&again).unwrap() == std::fs::read(out.join(format!("cabled-pair-p{p}.cert.json"))).unwrap(),
+                "{ext}: proving member {p}'s problem again gives another certificate"
+            );
+        }
+    }
+}
+
 #[test]
 fn a_bad_shard_is_refused_with_exit_2() {
     let template = format!("{}/../examples/stair-tower.template.json", env!("CARGO_MANIFEST_DIR"));
@@ -484,5 +522,47 @@ fn every_goal_form_is_documented_and_proved() {
             let cell = number(row.split('|').nth(column + 1).unwrap());
             assert!(text.contains(&format!("  x{i} {cell}\n")), "{ring}: x{i} {cell} is not in\n{text}");
         }
+    }
+}
+
+/// The README's fenced block after `heading`, of the given language.
+fn readme_block(readme: &str, heading: &str, lang: &str) -> String {
+    let section = readme.split(heading).nth(1).unwrap_or_else(|| panic!("no README section {heading}"));
+    let body = section.split(&format!("```{lang}\n")).nth(1).unwrap_or_else(|| panic!("no {lang} block"));
+    body.split("```").next().unwrap().to_string()
+}
+
+/// The worked session as the README shows it: the problem it prints is `examples/pair.problem.txt`
+/// (and the JSON problem `examples/tower.problem.json`), `prove` writes `pair.cert.json` beside it
+/// with the order the comment says, and the two mistakes it describes give the messages it quotes.
+#[test]
+fn the_readme_worked_session_runs_as_shown() {
+    let root = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let pair = std::fs::read_to_string(root.join("examples/pair.problem.txt")).unwrap();
+    assert_eq!(readme_block(&readme, "## A worked session", "text"), pair);
+    let tower = std::fs::read_to_string(root.join("examples/tower.problem.json")).unwrap();
+    assert_eq!(readme_block(&readme, "## Problem files", "json"), tower);
+    let session = dir().join("session");
+    std::fs::create_dir_all(&session).unwrap();
+    let at = |name: &str| session.join(name).to_string_lossy().to_string();
+    std::fs::write(at("pair.problem.txt"), &pair).unwrap();
+    let (code, out, err) = tubecert(&["prove", &at("pair.problem.txt")]);
+    assert_eq!(code, 0, "{err}");
+    assert!(readme.contains("tubecert prove pair.problem.txt                # ✓ ord_U(F − G) = 3 …; writes pair.cert.json"));
+    assert!(out.starts_with("✓ ord_U(F − G) = 3\n"), "{out}");
+    assert!(tubecheck::check_bytes("pair", &std::fs::read(at("pair.cert.json")).unwrap()).unwrap().ok());
+    // The mistakes: each quoted message (up to its "…") is what check-input prints.
+    for (from, to) in [("b -> U^3 a", "b -> U^3 q"), ("p -> z + a", "p -> z + U a")] {
+        let mistake = format!("`{to}`) gives `");
+        let flat = readme.replace('\n', " ");
+        let quoted = flat.split(&mistake).nth(1).unwrap_or_else(|| panic!("README quotes no message for {to}"));
+        let quoted = quoted.split('`').next().unwrap();
+        let quoted = quoted.trim_end_matches(" …").trim_end_matches('…');
+        std::fs::write(at("pair.problem.txt"), pair.replace(from, to)).unwrap();
+        let (code, _, err) = tubecert(&["check-input", &at("pair.problem.txt")]);
+        assert_eq!(code, 2);
+        let err = err.replace(&format!("{}/", session.display()), "");
+        assert!(err.contains(quoted), "README: {quoted}\ntool: {err}");
     }
 }
