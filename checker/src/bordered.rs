@@ -56,8 +56,8 @@ pub struct Object {
     pub families: Vec<Family>,
     /// For each generator, the indices of the families from it.
     pub out: Vec<Vec<usize>>,
-    /// Terms whose idempotents do not match, and (version 3) families that are not homogeneous
-    /// (the claim fails on the first).
+    /// The first term whose idempotents do not match, or (version 3) family that is not
+    /// homogeneous (the claim fails on it; one kept, so many cannot fill memory with messages).
     pub defects: Vec<String>,
 }
 
@@ -215,8 +215,8 @@ pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<Objec
     Ok(d)
 }
 
-/// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
-/// mismatches defects (the claim fails).
+/// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, the first
+/// idempotent mismatch a defect (the claim fails).
 pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Result<(Arrows, Vec<String>), String> {
     let (mut rows, mut defects) = (vec![Vec::new(); src.names.len()], Vec::new());
     for (k, [y, a, z]) in terms.iter().enumerate() {
@@ -228,7 +228,7 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
         let (i0, j0) = (src.idem[i as usize], dst.idem[j as usize]);
         // ι_i as an element starts and ends in i.
         let matched = a.idempotents().unwrap_or((i0, i0)) == (i0, j0);
-        defects.extend((!matched).then(|| at("the idempotents do not match".into())));
+        defects.extend((!matched && defects.is_empty()).then(|| at("the idempotents do not match".into())));
         rows[i as usize].push((a, j));
     }
     for (r, y) in rows.iter_mut().zip(&src.names) {
@@ -263,10 +263,10 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
             let mut i = m.idem[from as usize];
             for a in fam.word(n) {
                 let (l, r) = a.idempotents().expect("Reeb");
-                m.defects.extend((l != i).then(|| at(&format!("{} does not start in ι{i}", a.name()))));
+                m.defects.extend((l != i && m.defects.is_empty()).then(|| at(&format!("{} does not start in ι{i}", a.name()))));
                 i = r;
             }
-            m.defects.extend((i != m.idem[to as usize]).then(|| at(&format!("the output {} is not in ι{i}", f.to))));
+            m.defects.extend((i != m.idem[to as usize] && m.defects.is_empty()).then(|| at(&format!("the output {} is not in ι{i}", f.to))));
         }
         // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1)
         // ∈ P_A; along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
@@ -276,7 +276,7 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
             let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
             let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
             let e = gr_mul(g, gr_pow(gr_of(m.grading[to as usize].as_ref()), -1));
-            if !in_period(e, m.period) {
+            if m.defects.is_empty() && !in_period(e, m.period) {
                 m.defects.push(at(&format!("it is not homogeneous (repeated block {n} times): gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period")));
             }
         }
