@@ -263,10 +263,10 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
             let mut i = m.idem[from as usize];
             for a in fam.word(n) {
                 let (l, r) = a.idempotents().expect("Reeb");
-                m.defects.extend((l != i && m.defects.is_empty()).then(|| at(&format!("{} does not start in ι{i}", a.name()))));
+                m.defects.extend((l != i).then(|| at(&format!("{} does not start in ι{i}", a.name()))));
                 i = r;
             }
-            m.defects.extend((i != m.idem[to as usize] && m.defects.is_empty()).then(|| at(&format!("the output {} is not in ι{i}", f.to))));
+            m.defects.extend((i != m.idem[to as usize]).then(|| at(&format!("the output {} is not in ι{i}", f.to))));
         }
         // Version 3: m(x, a_1, …, a_k) ∋ U^n·y needs gr(x)·gr(a_1)⋯gr(a_k)·λ^(k−1)·gr(U)^(−n)·gr(y)^(−1)
         // ∈ P_A; along a family this element is affine in the repeat count, so n = 0 and 1 cover all.
@@ -276,10 +276,11 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
             let u = (f.power[0] as usize * n) as i128 + f.power[1] as i128;
             let g = gr_mul(gr_mul(g, gr_pow(LAMBDA, w.len() as i128 - 1)), gr_pow(GR_U, -u));
             let e = gr_mul(g, gr_pow(gr_of(m.grading[to as usize].as_ref()), -1));
-            if m.defects.is_empty() && !in_period(e, m.period) {
+            if !in_period(e, m.period) {
                 m.defects.push(at(&format!("it is not homogeneous (repeated block {n} times): gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period")));
             }
         }
+        m.defects.truncate(1);
         m.out[from as usize].push(m.families.len());
         m.families.push(fam);
     }

@@ -830,14 +830,17 @@ fn an_object_named_like_a_tensor_product_is_refused() {
 fn only_the_first_defect_of_a_bordered_object_is_kept() {
     let name = "M".repeat(200);
     let ops: Vec<Value> = (0..100)
-        .map(|k| json!({"from": "x", "power": [0, k], "prefix": vec!["rho1"; 20], "repeat": vec!["rho1"; 20],
-                        "suffix": vec!["rho1"; 20], "to": "x"}))
+        .map(|k| {
+            json!({"from": "x", "power": [0, k], "prefix": vec!["rho1"; 20], "repeat": vec!["rho1"; 20],
+                        "suffix": vec!["rho1"; 20], "to": "x"})
+        })
         .collect();
     let m = json!({"generators": {"x": {"grading": [0, 0, 0, 0], "idempotent": 0}}, "operations": ops});
     let m = tubecheck::bordered::read_module(&name, &serde_json::from_value(m).unwrap(), true).unwrap();
     assert_eq!(m.defects.len(), 1, "{:?}", &m.defects[..2]);
     let gens: serde_json::Map<String, Value> = (0..100).map(|i| (format!("g{i}"), json!({"idempotent": 0}))).collect();
-    let terms: Vec<Value> = (0..10_000).map(|i| json!([format!("g{}", i % 100), "rho1", format!("g{}", i / 100)])).collect();
+    let terms: Vec<Value> =
+        (0..10_000).map(|i| json!([format!("g{}", i % 100), "rho1", format!("g{}", i / 100)])).collect();
     let d = json!({"generators": gens, "differential": terms});
     let d = tubecheck::bordered::read_structure(&name, &serde_json::from_value(d).unwrap(), false).unwrap();
     assert_eq!(d.defects.len(), 1);
