@@ -527,9 +527,11 @@ pub type Generator = (u32, u32, String, Grading);
 /// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y);
 /// `symmetric` (version 4): then normalized by `symmetrize`.
 pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generator>, Failure> {
-    let mut out = Vec::new();
+    // N's generators by idempotent: pairs of unequal idempotents are not visited (uncounted).
+    let (mut out, mut side) = (Vec::new(), [vec![], vec![]]);
+    n.names.iter().enumerate().for_each(|(y, yn)| side[n.idem[y] as usize].push((y, yn)));
     for (x, xn) in m.names.iter().enumerate() {
-        for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
+        for &(y, yn) in &side[m.idem[x] as usize] {
             let (Some(gx), Some(gy)) = (&m.grading[x], &n.grading[y]) else {
                 return Err(format!("generator {yn} has no grading, so {xn}⊗{yn} has none").into());
             };
