@@ -631,7 +631,8 @@ pub fn tensor_map(
     // product lists every pair in its complex, so it has far fewer pairs than written items · 64).
     let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
     let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
-    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+    let read = (m.names.len() + n.names.len()) as u64; // read to pair them, even if none pair
+    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64).saturating_add(read), "box tensor generators")?;
     let gens = generators(m, n, symmetric)?;
     // The δ-graph: nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step);
     // a step (a, node′, whether the path may end after it).
