@@ -9,6 +9,6 @@ venv=target/py-venv
 "$venv/bin/python" -m pip install --quiet --disable-pip-version-check -r tests/outside/requirements.txt
 cargo build --release --workspace
 cargo test --release --workspace
-"$venv/bin/python" tests/outside/check_outside.py . target/release/tubecert --cases 60
+"$venv/bin/python" tests/outside/check_outside.py . target/release/tubecert --cases 60 --extra tests/fixtures
 # Mutation soundness at a small budget (the README gives the full campaign's command).
 target/release/mutation-campaign --per-certificate 300 certificates

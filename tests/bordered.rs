@@ -1,5 +1,7 @@
 //! Bordered claims through the whole pipeline: knot complements (LOT Thm 11.26), the core
 //! pattern, box tensor products of complexes and maps, and what the checker rejects.
+//! LOT = Lipshitz–Ozsváth–Thurston, "Bordered Heegaard Floer homology", Mem. AMS 254 (2018);
+//! staircases: Ozsváth–Szabó 2005, "On knot Floer homology and lens space surgeries", Topology 44.
 
 use serde_json::{json, Value};
 use tubecert_format::{Body, Claim};
@@ -133,7 +135,7 @@ fn the_core_pattern_gives_back_the_companions_minus_complex() {
 
 #[test]
 fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_framing() {
-    // LOT Thm 11.26 (memory): t < 2τ: ξ0 →ρ1 γ1, γ_{k+1} →ρ23 γ_k, η0 →ρ3 γ_m with m = 2τ − t;
+    // LOT Thm 11.26 (recalled from memory): t < 2τ: ξ0 →ρ1 γ1, γ_{k+1} →ρ23 γ_k, η0 →ρ3 γ_m with m = 2τ − t;
     // t = 2τ: ξ0 →ρ12 η0; t > 2τ: ξ0 →ρ123 γ1 →ρ23 … →ρ2 η0 with m = t − 2τ.
     for (name, src) in companions() {
         let t2 = 2 * tau(&src);
@@ -164,7 +166,7 @@ fn complements_satisfy_the_d_relation_and_have_the_unstable_chain_of_their_frami
 #[test]
 fn the_trefoil_complement_has_the_recalled_shape() {
     // T(2,3): ∂x1 = U·x0 + V·x2, τ = 1, ξ0 = x0, η0 = x2 (Ozsváth–Szabó 2005; LOT Thm 11.26,
-    // memory). Framing 0 < 2τ: m = 2.
+    // recalled from memory). Framing 0 < 2τ: m = 2.
     let p = problem(
         json!({}),
         json!({"type_d_structures": {"N": {"complement": {"companion": {"staircase": {"torus_knot": [2, 3]}}, "framing": 0}}}}),
@@ -704,7 +706,7 @@ fn a_box_tensor_product_without_a_symmetric_euler_characteristic_is_refused() {
 // made of the operations' own words, each checked in time linear in its length; checking every
 // candidate by its splits (quadratic per word) exceeded these files' work budgets. τ by Hom
 // 2014 ("Bordered Heegaard Floer homology and the τ-invariant of cable knots"): ε = 1 for a
-// staircase, so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
+// staircase with τ > 0 (recalled from memory), so τ(K_{p,1}) = p·τ(K) + (p − 1)(1 − 1)/2 = p·τ(K).
 #[test]
 fn cables_of_companions_with_long_steps_prove_and_verify() {
     for (step, p) in [(16, 3), (30, 2), (60, 2)] {

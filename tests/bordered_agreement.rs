@@ -3,6 +3,13 @@
 //! producer writes and on mutations of them: the two must agree on every verdict. Plus the
 //! cross-check of the pairing with the core pattern against the V = 0 quotient, by homology
 //! computed by the oracle, never through a box tensor product.
+//!
+//! Sources: LOT = Lipshitz–Ozsváth–Thurston, "Bordered Heegaard Floer homology", Mem. AMS 254
+//! (2018); OS 2003 = Ozsváth–Szabó, "Knot Floer homology and the four-ball genus", Geom. Topol. 7
+//! (τ); OS 2004 = Ozsváth–Szabó, "Holomorphic disks and knot invariants", Adv. Math. 186 (the
+//! symmetry of CFK), and for HF-hat(S³) = F2 "Holomorphic disks and topological invariants for
+//! closed three-manifolds", Ann. of Math. 159 (2004); OS 2005 = Ozsváth–Szabó, "On knot Floer
+//! homology and lens space surgeries", Topology 44 (staircases).
 
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
@@ -60,7 +67,7 @@ fn source(name: &str) -> Value {
 
 /// An explicit complex over `F2[U,V]` with an isolated generator `x` at (0, 0) (so ξ_0 = η_0) and
 /// a square a → U·b + V·c, b → V·d, c → U·d with a at (m, m): the shape of the figure-eight's
-/// complex for m = 0 (memory), simultaneously simplified as written.
+/// complex for m = 0 (recalled from memory), simultaneously simplified as written.
 fn box_and_point(m: i64, stair: Option<&[i64]>) -> Value {
     let mut gens = json!({"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]});
     let mut d = vec![json!(["a", "U", "b"]), json!(["a", "V", "c"]), json!(["b", "V", "d"]), json!(["c", "U", "d"])];
@@ -87,7 +94,7 @@ fn box_and_point(m: i64, stair: Option<&[i64]>) -> Value {
 /// Companions with their τ (OS 2003: τ(T(p,q)) = (p−1)(q−1)/2, odd under mirror): staircases,
 /// duals (mirrors), the unknot, a square beside a point (the figure-eight's shape, τ = 0,
 /// ξ_0 = η_0), and the T(2,5) staircase beside a square at (−2, −2) — the complex of
-/// T(2,3) # T(2,3) up to homotopy (memory), τ = 2 — together with its dual.
+/// T(2,3) # T(2,3) up to homotopy (recalled from memory), τ = 2 — together with its dual.
 fn companions() -> Vec<(String, Value, i64)> {
     let mut out = vec![("unknot".to_string(), source("O"), 0)];
     for (k, tau) in TORUS {
@@ -155,7 +162,7 @@ fn minus_of(body: &Value, name: &str) -> (BTreeMap<String, (i64, i64)>, bo::UCom
 /// The homology of C/(V) for the full complex C of the body, computed by the oracle; with
 /// `flip`, of C/(U) over F2[V] with gradings (gr_V, −A), which for the symmetric complex of a
 /// knot (staircases, their duals and tensor products) is the same graded module
-/// (Ozsváth–Szabó's symmetry of CFK, memory).
+/// (Ozsváth–Szabó's symmetry of CFK, OS 2004; recalled from memory).
 fn quotient_homology(body: &Value, full: &str, flip: bool) -> bo::Homology {
     let c = &body["bordered"]["full_complexes"][full];
     let gr: BTreeMap<String, (i64, i64)> = c["generators"]
@@ -198,7 +205,7 @@ fn core_pattern_pairs_back_to_the_quotient_for_many_companions_and_framings() {
                 assert!(kinds.contains(&k), "{what}, t = {t}: no {k} claim");
             }
             cert::truncation_covers_pairings(body).unwrap_or_else(|e| panic!("{what}, t = {t}: {e}"));
-            // τ as the complement claim states it (OS 2003, memory: torus knots, sums, mirrors).
+            // τ as the complement claim states it (OS 2003, recalled from memory: torus knots, sums, mirrors).
             let comp = body["claims"].as_array().unwrap().iter().find(|x| x["kind"] == "complement").unwrap();
             assert_eq!(comp["tau"], json!(tau), "{what}");
             // Pairing theorem for knots (LOT Thm 11.21) with the core: CFK^-(K) itself; compared

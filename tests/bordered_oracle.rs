@@ -4,11 +4,11 @@
 //! algebra, not its statements. Source: Lipshitz–Ozsváth–Thurston, "Bordered Heegaard Floer
 //! homology", Mem. AMS 254 (2018), §2 (type D structures, A∞ modules, box tensor products) and
 //! §11 (torus boundary, knot complements). Facts recalled rather than re-derived are marked
-//! "(memory)" and each is tested below.
+//! "(recalled from memory)" and each is tested below.
 
 use std::collections::{BTreeMap, BTreeSet};
 
-/// The torus algebra A(T²) over F2 (LOT §11.1, memory), by its basis of 8 elements.
+/// The torus algebra A(T²) over F2 (LOT §11.1, recalled from memory), by its basis of 8 elements.
 pub mod torus {
     /// A basis element: an idempotent or a Reeb element ρ_I.
     #[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Debug, Hash)]
@@ -29,7 +29,7 @@ pub mod torus {
 
     impl Alg {
         /// (left, right) idempotent: a = ι_left · a · ι_right. ρ_1 = ι_0ρ_1ι_1,
-        /// ρ_2 = ι_1ρ_2ι_0, ρ_3 = ι_0ρ_3ι_1 (memory); the rest follows from the products.
+        /// ρ_2 = ι_1ρ_2ι_0, ρ_3 = ι_0ρ_3ι_1 (recalled from memory); the rest follows from the products.
         pub fn ends(self) -> (u8, u8) {
             match self {
                 I0 | R12 => (0, 0),
@@ -44,7 +44,7 @@ pub mod torus {
         }
 
         /// The product of two basis elements: a basis element or zero. The non-zero products of
-        /// Reeb elements are exactly ρ_1ρ_2 = ρ_12, ρ_2ρ_3 = ρ_23, ρ_1ρ_23 = ρ_12ρ_3 = ρ_123 (memory).
+        /// Reeb elements are exactly ρ_1ρ_2 = ρ_12, ρ_2ρ_3 = ρ_23, ρ_1ρ_23 = ρ_12ρ_3 = ρ_123 (recalled from memory).
         pub fn times(self, b: Alg) -> Option<Alg> {
             if self.ends().1 != b.ends().0 {
                 return None;
@@ -94,7 +94,7 @@ pub mod torus {
     }
 }
 
-/// LOT's grading group for A(T²) (LOT §11.1 and Ch. 10, memory) with the Alexander coordinate
+/// LOT's grading group for A(T²) (LOT §11.1 and Ch. 10, recalled from memory) with the Alexander coordinate
 /// of a doubly pointed diagram, computed here as a Heisenberg group: (j; p, q; a) is the upper
 /// triangular matrix [[1, p, z], [0, 1, q], [0, 0, 1]] with z = (j + p·q)/2, beside a. Matrix
 /// multiplication gives z = z1 + z2 + p1·q2, i.e. j = j1 + j2 + (p1·q2 − q1·p2): LOT's product.
@@ -220,7 +220,7 @@ pub mod grading {
         H::new(Q::int(-2), Q::int(0), Q::int(0), Q::int(-1))
     }
 
-    /// gr(ρ1) = (−½; ½, −½), gr(ρ2) = (−½; ½, ½), gr(ρ3) = (−½; −½, ½) (LOT §11.1, memory);
+    /// gr(ρ1) = (−½; ½, −½), gr(ρ2) = (−½; ½, ½), gr(ρ3) = (−½; −½, ½) (LOT §11.1, recalled from memory);
     /// longer chords are products (ρ12 = ρ1ρ2, …); idempotents have grading 1.
     pub fn of(a: Alg) -> H {
         let half = |n: i128| Q::new(n, 2);
@@ -567,7 +567,7 @@ impl Module for TableModule {
     }
 }
 
-/// The core of the solid torus (memory): one generator in ι_0 with
+/// The core of the solid torus (LOT §11.4, recalled from memory): one generator in ι_0 with
 /// m_{ℓ+2}(x, ρ_3, ρ_23, …, ρ_23, ρ_2) = U^ℓ·x (ℓ − 1 copies of ρ_23), ℓ ≥ 1; nothing else.
 pub struct CoreModule(pub String);
 
@@ -755,7 +755,7 @@ fn alexander(g: (i64, i64)) -> i64 {
 /// target) and exactly one lies on none; the same for vertical arrows. Arrows are the terms
 /// U^ℓ (horizontal) and V^ℓ (vertical), ℓ ≥ 1; a term of coefficient 1 means C is not reduced,
 /// which the theorem excludes. Diagonal terms U^aV^b (a, b ≥ 1) do not enter LOT Thm 11.26
-/// (memory); the certificate layout refuses them all the same (`diagonal_allowed` false), which
+/// (recalled from memory); the certificate layout refuses them all the same (`diagonal_allowed` false), which
 /// is stricter than the theorem.
 pub fn simplified(c: &UVComplex, diagonal_allowed: bool) -> Result<Simplified, String> {
     let (mut h, mut v) = (Vec::new(), Vec::new());
@@ -796,7 +796,7 @@ pub fn simplified(c: &UVComplex, diagonal_allowed: bool) -> Result<Simplified, S
     }
     let (a_xi, a_eta) = (alexander(c.gr[&xi0]), alexander(c.gr[&eta0]));
     // For the complex of a knot in S^3, A(ξ_0) = τ = −A(η_0) (OS 2003 with the symmetry of CFK;
-    // memory). A complex breaking it is not one the theorem speaks of.
+    // recalled from memory). A complex breaking it is not one the theorem speaks of.
     if a_xi != -a_eta {
         return Err(format!("A(ξ_0 = {xi0}) = {a_xi} but A(η_0 = {eta0}) = {a_eta}: not the complex of a knot"));
     }
@@ -820,7 +820,7 @@ fn iota1_name(k: &Iota1) -> String {
     }
 }
 
-/// The type D structure LOT Thm 11.26 assigns to C and framing t (memory, derived in the
+/// The type D structure LOT Thm 11.26 assigns to C and framing t (recalled from memory, derived in the
 /// module comment at the end of this file):
 /// - ι_0: the basis ξ_i of C;
 /// - a vertical arrow ξ_i → V^ℓ·ξ_j: κ_1 … κ_ℓ with ξ_i →ρ_1 κ_1, κ_{k+1} →ρ_23 κ_k, ξ_j →ρ_123 κ_ℓ;
@@ -2270,7 +2270,7 @@ mod tests {
     use super::*;
     use Alg::*;
 
-    // LOT §11.1 (memory): the multiplication table is associative, idempotents are orthogonal
+    // LOT §11.1 (recalled from memory): the multiplication table is associative, idempotents are orthogonal
     // and sum to 1, and the Reeb products agree with concatenation of chords on {1, 2, 3}.
     #[test]
     fn torus_algebra_is_associative_and_matches_chord_concatenation() {
@@ -2314,7 +2314,7 @@ mod tests {
 
     #[test]
     fn core_module_satisfies_the_ainf_relations_and_a_wrong_one_does_not() {
-        // LOT §11.4 (memory): the core of the solid torus.
+        // LOT §11.4 (recalled from memory): the core of the solid torus.
         check_ainf(&CoreModule("x".into()), 9).unwrap();
         // The same operations with the wrong U-power (U^{ℓ+1}) break the relation at
         // (ρ_3, ρ_2, ρ_3, ρ_2): U^{2}·U^{2} ≠ U^{3} from the merged ρ_23.
@@ -2375,7 +2375,7 @@ mod tests {
         for a in [vec![1, 0, -1], vec![3, 2, 0, -2, -3], vec![2, 1, 0, -1, -2], vec![0]] {
             let c = staircase(&a);
             let s = simplified(&c, true).unwrap();
-            assert_eq!(s.two_tau, 2 * a[0], "τ of an L-space knot is its genus (OS 2003)");
+            assert_eq!(s.two_tau, 2 * a[0], "τ of an L-space knot is its genus (staircase of OS 2005; OS 2003)");
             for t in -3..=8 {
                 let n = complement(&c, t, true).unwrap();
                 n.check_relation().unwrap();
@@ -2414,7 +2414,8 @@ mod tests {
         let graded = FamilyModule { grp: [("x".to_string(), grading::H::default())].into(), period: Some(h_a), ..core };
         graded.check_gradings().unwrap();
         // Staircases (Ozsváth–Szabó 2005), the figure-eight as the unknot plus a box (its hat
-        // homology: ranks 1, 3, 1 in A = 1, 0, −1, Ozsváth–Szabó 2003, recalled from memory), and
+        // homology: ranks 1, 3, 1 in A = 1, 0, −1, Ozsváth–Szabó 2003, "Heegaard Floer homology and alternating knots", Geom. Topol. 7;
+        // recalled from memory), and
         // T(2,3) plus two boxes at unrelated gradings: pieces with no arrow between them.
         let mut fig8 = staircase(&[0]);
         add_box(&mut fig8, "e", (0, 0));
@@ -2457,7 +2458,7 @@ mod tests {
     #[test]
     fn the_grading_group_is_a_group_and_the_reeb_gradings_multiply_like_the_algebra() {
         use grading::{of, H, Q};
-        // gr(a·b) = gr(a)·gr(b) for every non-zero product of A(T²) (LOT §11.1, memory).
+        // gr(a·b) = gr(a)·gr(b) for every non-zero product of A(T²) (LOT §11.1, recalled from memory).
         for a in torus::ALL {
             for b in torus::ALL {
                 if let Some(ab) = a.times(b) {
@@ -2469,7 +2470,7 @@ mod tests {
         let (g, h, k) = (e(3, 1, -3, 2), e(-5, 2, 4, 0), e(1, -1, 1, -7));
         assert_eq!(g.times(h).times(k), g.times(h.times(k)));
         assert!(g.times(g.inverse()).is_one());
-        // LOT's product on (j; p, q): j = j1 + j2 + det[[p1, q1], [p2, q2]] (memory).
+        // LOT's product on (j; p, q): j = j1 + j2 + det[[p1, q1], [p2, q2]] (recalled from memory).
         let gh = g.times(h);
         assert_eq!(gh.j(), g.j().plus(h.j()).plus(g.p.by(h.q)).minus(g.q.by(h.p)));
         assert_eq!(g.pow(5), g.times(g).times(g).times(g).times(g));
@@ -2525,8 +2526,9 @@ mod tests {
     }
 
     /// The filling solid torus for surgery, b in ι_1 with m(b, ρ_2, ρ_12, …, ρ_12, ρ_1) = b
-    /// (memory). Pairing it with the unknot's complement gives rank |t| for t ≠ 0 — HF-hat of the
-    /// lens space L(t, 1) has rank |t| (OS) — but at t = 0 the termwise-finite formal product of
+    /// (recalled from memory). Pairing it with the unknot's complement gives rank |t| for t ≠ 0 — HF-hat of the
+    /// lens space L(t, 1) has rank |t| (lens spaces are L-spaces: Ozsváth–Szabó 2005, "On knot Floer homology and lens
+    /// space surgeries") — but at t = 0 the termwise-finite formal product of
     /// the ρ_12 loop with this unbounded module has no generator at all, while HF-hat(S^1 × S^2)
     /// has rank 2. So "every term of the infinite sum vanishes" does not make a pairing of two
     /// unbounded objects correct: the pairing theorem needs one side bounded.
@@ -2553,7 +2555,8 @@ mod tests {
             let rank = homology(&gr, &x).unwrap().0.len();
             assert_eq!(rank, t.unsigned_abs() as usize, "t = {t}");
             // The bounded model (t ≥ 0 = 2τ) is bounded, and pairs to the right answer: rank 2 at
-            // t = 0 (HF-hat(S¹×S²) = F2², OS 2004, memory), |t| for the lens spaces L(t, 1).
+            // t = 0 (HF-hat(S¹×S²) = F2², Ozsváth–Szabó 2004, "Holomorphic disks and topological invariants for closed
+            // three-manifolds", Ann. of Math.; recalled from memory), |t| for the lens spaces L(t, 1).
             let n = complement_model(&unknot, t, true, true).unwrap();
             assert!(n.is_bounded(), "t = {t}");
             n.check_relation().unwrap();
@@ -2728,7 +2731,7 @@ mod tests {
 }
 
 // Derivation notes for `complement` (LOT Thm 11.26; for every framing, the appendix's Thm A.11 —
-// memory: the body of the book states the large-|t| case, the appendix all t).
+// recalled from memory: the body of the book states the large-|t| case, the appendix all t).
 //
 // 1. The type D relation holds for the recalled shape whenever the basis is simultaneously
 //    simplified, for every t, and without using ∂∂ = 0 in C: of the products of two

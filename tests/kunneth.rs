@@ -2,7 +2,11 @@
 //! homology of C ⊗ D is ⊕ H(C) ⊗ H(D) ⊕ Tor(H(C), H(D)) shifted, summand by summand:
 //! R⟨g⟩⊗R⟨h⟩ = R⟨g+h⟩; R⟨g⟩⊗R/(U^k)⟨h⟩ = R/(U^k)⟨g+h⟩; R/(U^a)⟨g⟩⊗R/(U^b)⟨h⟩ gives
 //! R/(U^min)⟨g+h⟩ and, from Tor, R/(U^min)⟨g + h + max·deg U − deg ∂⟩
-//! (Künneth formula for chain complexes over a PID; e.g. Hatcher, Algebraic Topology, §3.B).
+//! (Künneth formula for chain complexes of free modules over a PID: Hatcher, Algebraic Topology,
+//! Cambridge University Press 2002, §3.B, Theorem 3B.5 — theorem number recalled from memory).
+//! The Tor shift is derived here: for ∂s = U^a·b and ∂s′ = U^c·b′ with a ≤ c, the cycle
+//! b⊗s′ + U^{c−a}·s⊗b′ sits in the grading of b⊗s′, i.e. g + h + c·deg U − deg ∂, and
+//! ∂(s⊗s′) = U^a times it.
 
 use proptest::prelude::*;
 use serde_json::json;

@@ -926,3 +926,77 @@ pub fn with_repeated_key(v: &serde_json::Value, n: &mut i64, second: Option<&ser
         _ => out.push_str(&v.to_string()),
     }
 }
+
+/// Alexander polynomials computed by the tests themselves, never by the producer's
+/// constructions: the reference side of the checks on torus knots and cables.
+pub mod alexander {
+    use std::collections::BTreeMap;
+
+    /// A Laurent polynomial in t: exponent → non-zero coefficient.
+    pub type Poly = BTreeMap<i64, i64>;
+
+    pub fn mul(a: &Poly, b: &Poly) -> Poly {
+        let mut out = Poly::new();
+        for (i, x) in a {
+            for (j, y) in b {
+                *out.entry(i + j).or_default() += x * y;
+            }
+        }
+        out.retain(|_, c| *c != 0);
+        out
+    }
+
+    /// Δ(t^p).
+    pub fn substitute_power(a: &Poly, p: i64) -> Poly {
+        a.iter().map(|(k, c)| (k * p, *c)).collect()
+    }
+
+    /// Δ of the torus knot T(p, q) (p ≥ 1, q ≠ 0 coprime; T(p, −q) is the mirror, same Δ),
+    /// symmetrized: t^{−(p−1)(|q|−1)/2}(t^{p|q|} − 1)(t − 1)/((t^p − 1)(t^{|q|} − 1)) (the
+    /// conventions sheet's formula). Computed without polynomial division, through the semigroup
+    /// S = pℕ + |q|ℕ: 1/((1 − t^p)(1 − t^q)) counts the representations n = ap + bq, and the
+    /// factor 1 − t^{pq} leaves one per element of S, so Δ = (1 − t)·Σ_{s∈S} t^s up to the shift;
+    /// every n ≥ c = (p−1)(|q|−1) lies in S and c − 1 does not, so only n ≤ c contribute.
+    pub fn torus(p: i64, q: i64) -> Poly {
+        let q = q.abs();
+        assert!(p >= 1 && q >= 1, "T({p},{q})");
+        let c = (p - 1) * (q - 1);
+        let in_s = |n: i64| n >= 0 && (0..=n / p).any(|a| (n - a * p) % q == 0);
+        let mut out = Poly::new();
+        for n in 0..=c {
+            let coefficient = i64::from(in_s(n)) - i64::from(in_s(n - 1));
+            if coefficient != 0 {
+                out.insert(n - c / 2, coefficient);
+            }
+        }
+        out
+    }
+
+    /// Σ (−1)^M t^A over (Maslov, Alexander) gradings: a graded Euler characteristic.
+    pub fn euler<'a>(gradings: impl IntoIterator<Item = &'a [i64]>) -> Poly {
+        let mut out = Poly::new();
+        for g in gradings {
+            *out.entry(g[1]).or_default() += if g[0].rem_euclid(2) == 0 { 1 } else { -1 };
+        }
+        out.retain(|_, c| *c != 0);
+        out
+    }
+
+    #[test]
+    fn torus_knot_polynomials_by_hand() {
+        // Δ_{T(2,3)} = t − 1 + t⁻¹ and Δ_{T(3,4)} = t³ − t² + 1 − t⁻² + t⁻³, expanded by hand from
+        // the formula; the unknot T(p, ±1) has Δ = 1.
+        assert_eq!(torus(2, 3), Poly::from([(-1, 1), (0, -1), (1, 1)]));
+        assert_eq!(torus(3, 4), Poly::from([(-3, 1), (-2, -1), (0, 1), (2, -1), (3, 1)]));
+        assert_eq!(torus(3, -4), torus(3, 4));
+        assert_eq!(torus(5, 1), Poly::from([(0, 1)]));
+        // (t^{pq} − 1)(t − 1) = Δ·(t^p − 1)(t^q − 1) after the shift, for a few more.
+        let binomial = |d: i64| Poly::from([(0, -1), (d, 1)]);
+        for (p, q) in [(2, 5), (3, 5), (4, 7), (5, 6)] {
+            let lhs = mul(&binomial(p * q), &binomial(1));
+            let rhs = mul(&mul(&torus(p, q), &binomial(p)), &binomial(q));
+            let shift = (p - 1) * (q - 1) / 2;
+            assert_eq!(lhs, rhs.iter().map(|(k, c)| (k + shift, *c)).collect::<Poly>(), "T({p},{q})");
+        }
+    }
+}

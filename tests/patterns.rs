@@ -53,50 +53,9 @@ fn the_oracle_rejects_mutated_pattern_modules() {
 
 mod cables {
     use serde_json::{json, Value};
-    use std::collections::BTreeMap;
     use tubecert_format::{Body, Claim};
+    use tubecert_tests::alexander::{self, mul, substitute_power, Poly};
     use tubecert_tests::{minus_ring, prove_value, seal};
-
-    /// A Laurent polynomial in t: exponent → coefficient.
-    type Poly = BTreeMap<i64, i64>;
-
-    fn mul(a: &Poly, b: &Poly) -> Poly {
-        let mut out = Poly::new();
-        for (i, x) in a {
-            for (j, y) in b {
-                *out.entry(i + j).or_default() += x * y;
-            }
-        }
-        out.retain(|_, c| *c != 0);
-        out
-    }
-
-    /// Δ of the torus knot T(p, q), symmetrized: t^{−(p−1)(|q|−1)/2}(t^{p|q|} − 1)(t − 1) /
-    /// ((t^p − 1)(t^{|q|} − 1)) (the conventions sheet); 1 for |q| = 1.
-    fn torus_alexander(p: i64, q: i64) -> Poly {
-        let q = q.abs();
-        // Coefficients of (t^{pq} − 1)(t − 1), then exact division by t^p − 1 and t^q − 1.
-        let mut num = vec![0i64; (p * q + 2) as usize];
-        num[0] += 1;
-        num[1] -= 1;
-        num[(p * q) as usize] -= 1;
-        num[(p * q + 1) as usize] += 1;
-        for d in [p, q] {
-            // Divide by t^d − 1: c_k = −(n_k) + c_{k−d} … from the bottom: n = c·(t^d − 1).
-            let d = d as usize;
-            let mut c = vec![0i64; num.len() - d];
-            for k in 0..c.len() {
-                c[k] = -num[k] + if k >= d { c[k - d] } else { 0 };
-            }
-            num = c;
-        }
-        let shift = (p - 1) * (q - 1) / 2;
-        num.iter().enumerate().filter(|(_, c)| **c != 0).map(|(k, c)| (k as i64 - shift, *c)).collect()
-    }
-
-    fn substitute_power(a: &Poly, p: i64) -> Poly {
-        a.iter().map(|(k, c)| (k * p, *c)).collect()
-    }
 
     /// The certificate body of `cable p q of SOURCE` with a τ goal, all claims checked.
     fn cable(src: &Value, p: i64, q: i64) -> Body {
@@ -118,31 +77,29 @@ mod cables {
     /// Σ (−1)^M t^A over the generators of the cable's complex: the graded Euler characteristic
     /// of its hat homology.
     fn euler(b: &Body) -> Poly {
-        let mut out = Poly::new();
-        for g in b.complexes["K"].generators.values() {
-            *out.entry(g[1]).or_default() += if g[0].rem_euclid(2) == 0 { 1 } else { -1 };
-        }
-        out.retain(|_, c| *c != 0);
-        out
+        alexander::euler(b.complexes["K"].generators.values().map(|g| g.as_slice()))
     }
 
     /// (name, source, τ, ε, Δ) of the companions: the unknot (ε = 0), T(2,3) and T(3,4)
-    /// (L-space knots with τ > 0, ε = 1), the mirror of T(2,3) (ε = −1).
+    /// (L-space knots with τ > 0, ε = 1), the mirror of T(2,3) (ε = −1) — ε from Hom 2014
+    /// (recalled from memory), τ(T(p,q)) = (p−1)(q−1)/2 (Ozsváth–Szabó 2003), Δ computed by
+    /// `tubecert_tests::alexander`.
     fn companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
         let t23 = json!({"staircase": {"torus_knot": [2, 3]}});
         vec![
-            ("unknot", json!({"staircase": {"alexander": [0]}}), 0, 0, torus_alexander(2, 1)),
-            ("T(2,3)", t23.clone(), 1, 1, torus_alexander(2, 3)),
-            ("mirror T(2,3)", json!({"dual": t23}), -1, -1, torus_alexander(2, 3)),
-            ("T(3,4)", json!({"staircase": {"torus_knot": [3, 4]}}), 3, 1, torus_alexander(3, 4)),
+            ("unknot", json!({"staircase": {"alexander": [0]}}), 0, 0, alexander::torus(2, 1)),
+            ("T(2,3)", t23.clone(), 1, 1, alexander::torus(2, 3)),
+            ("mirror T(2,3)", json!({"dual": t23}), -1, -1, alexander::torus(2, 3)),
+            ("T(3,4)", json!({"staircase": {"torus_knot": [3, 4]}}), 3, 1, alexander::torus(3, 4)),
         ]
     }
 
     /// Companions that are not L-space knots, for τ and χ only: T(2,3) # T(2,3) as the T(2,5)
-    /// staircase beside a square at (−2, −2) (its complex up to homotopy, memory; τ = 2, ε = 1,
-    /// Δ = (t − 1 + t⁻¹)²), its mirror (ε = −1), and the figure-eight's shape, a square beside a
-    /// point (τ = 0, ε = 0: the point splits off, as for K # mirror K, whose tensor basis is not
-    /// simultaneously simplified and so is not reachable as a companion; Δ = −t + 3 − t⁻¹).
+    /// staircase beside a square at (−2, −2) (its complex up to homotopy, recalled from memory;
+    /// τ = 2, ε = 1 (Hom 2014), Δ = (t − 1 + t⁻¹)²), its mirror (ε = −1), and the figure-eight's
+    /// shape, a square beside a point (τ = 0, ε = 0: the point splits off, as for K # mirror K,
+    /// whose tensor basis is not simultaneously simplified and so is not reachable as a companion;
+    /// Δ = −t + 3 − t⁻¹, the figure-eight's, recalled from memory).
     fn more_companions() -> Vec<(&'static str, Value, i64, i64, Poly)> {
         let square = |m: i64| {
             json!({"generators": {"a": [m, m], "b": [m + 1, m - 1], "c": [m - 1, m + 1], "d": [m, m]},
@@ -150,7 +107,7 @@ mod cables {
         };
         let sum = json!({"direct_sum": [{"staircase": {"alexander": [2, 1, 0, -1, -2]}}, square(-2)]});
         let point = json!({"staircase": {"alexander": [0]}});
-        let trefoil_squared = mul(&torus_alexander(2, 3), &torus_alexander(2, 3));
+        let trefoil_squared = mul(&alexander::torus(2, 3), &alexander::torus(2, 3));
         vec![
             ("T(2,3) # T(2,3)", sum.clone(), 2, 1, trefoil_squared.clone()),
             ("mirror of T(2,3) # T(2,3)", json!({"dual": sum}), -2, -1, trefoil_squared),
@@ -186,7 +143,8 @@ mod cables {
 
     // τ of cables (Hom 2014, `hom_tau`) at framings n = −2 … 2 (Q = Pn + 1, negative Q
     // included). The graded Euler characteristic of the cable's hat homology is
-    // Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert's formula for satellites), which tests every generator's
+    // Δ_K(t^p)·Δ_{T(p,q)}(t) (Seifert 1950, "On the homology invariants of knots", Quart. J.
+    // Math. Oxford; the formula for satellites), which tests every generator's
     // absolute (Maslov, Alexander) grading. HFK^- of a knot in S³ has one tower F2[U], generated
     // in grading (M, A) = (−2τ, −τ) (Ozsváth–Szabó 2003, τ from the tower; d(S³) = 0): on the
     // line M = 2A, which the symmetric normalization keeps (it moves by multiples of (2, 1)).
@@ -214,7 +172,7 @@ mod cables {
         let b = cable(src, p, q);
         let want = hom_tau(tau, eps, p, q);
         assert_eq!(tau_of(&b), want, "τ of the ({p},{q}) cable of {name}");
-        let seifert = mul(&substitute_power(delta, p), &torus_alexander(p, q));
+        let seifert = mul(&substitute_power(delta, p), &alexander::torus(p, q));
         assert_eq!(euler(&b), seifert, "Euler characteristic of the ({p},{q}) cable of {name}");
         assert_eq!(free_of(&b), vec![vec![-2 * want, -want]], "the tower of the ({p},{q}) cable of {name}");
     }
@@ -255,7 +213,7 @@ mod cables {
     #[test]
     fn cables_of_the_unknot_are_torus_knots() {
         for (p, q) in [(3, 2), (3, 5), (3, -2), (4, 3), (4, -3), (5, 2), (5, 3), (5, -4)] {
-            let delta = torus_alexander(p, q);
+            let delta = alexander::torus(p, q);
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
             let stair = json!({"staircase": {"alexander": exponents}});
             let model = if q > 0 { stair } else { json!({"dual": stair}) };
@@ -363,13 +321,17 @@ mod cables {
     }
 
     // L-space cables: K_{p,q} is an L-space knot when K is one and q ≥ p(2g(K) − 1) (Hedden 2009,
-    // "On knot Floer homology and cabling II"; Hom 2011); an L-space knot's hat homology has rank
+    // "On knot Floer homology and cabling II", IMRN; Hom 2011, "A note on cabling and L-space
+    // surgeries", Algebr. Geom. Topol. 11); an L-space knot's hat homology has rank
     // the number of terms of its Alexander polynomial (Ozsváth–Szabó 2005), and HFK^- has one
     // tower F2[U]. The cables of the unknot are the torus knots T(p, q): L-space knots for
     // q > 0, mirrors of them for q < 0 (same rank). Ranks of the raw pairing at every framing.
     #[test]
     fn l_space_cables_have_the_rank_of_their_alexander_polynomial() {
         for (name, src, _, eps, delta) in companions() {
+            // g(K) is Δ's top exponent for these L-space knots (their staircase, Ozsváth–Szabó
+            // 2005; knot Floer homology detects the genus, Ozsváth–Szabó 2004, "Holomorphic disks
+            // and genus bounds", Geom. Topol. 8).
             let g = delta.keys().max().copied().unwrap_or(0);
             for p in 2..=4i64 {
                 for n in -2..=2i64 {
@@ -382,7 +344,7 @@ mod cables {
                     let (hat, towers) = raw_ranks(&src, p as usize, n);
                     assert_eq!(towers, 1, "towers of the ({p},{q}) cable of {name}");
                     if l_space {
-                        let terms = mul(&substitute_power(&delta, p), &torus_alexander(p, q)).len();
+                        let terms = mul(&substitute_power(&delta, p), &alexander::torus(p, q)).len();
                         assert_eq!(hat, terms, "hat rank of the ({p},{q}) cable of {name}");
                     }
                 }
@@ -404,7 +366,7 @@ mod cables {
                 .chain([((2, 3), 1, 3, 5), ((2, 3), 1, 4, 7), ((2, 3), 1, 5, 7), ((2, 3), 1, 5, 8), ((3, 4), 3, 3, 17)])
         {
             assert!(q >= p * (2 * g - 1));
-            let delta = mul(&substitute_power(&torus_alexander(k.0, k.1), p), &torus_alexander(p, q));
+            let delta = mul(&substitute_power(&alexander::torus(k.0, k.1), p), &alexander::torus(p, q));
             assert!(delta.values().all(|c| c.abs() == 1), "an L-space knot's Δ has coefficients ±1");
             let exponents: Vec<i64> = delta.keys().rev().copied().collect();
             let companion = json!({"staircase": {"torus_knot": [k.0, k.1]}});

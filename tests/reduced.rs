@@ -33,7 +33,7 @@ fn proved_claims(text: &str) -> Vec<String> {
 #[test]
 fn multiples_of_the_identity_of_a_tensor_product_of_staircases_are_not_null_homotopic() {
     // Each U^a·V^b·id_C is non-zero on homology after inverting U, where a knot complex has rank
-    // one (Ozsváth–Szabó 2004, "Holomorphic disks and knot invariants"; memory), so none is
+    // one (Ozsváth–Szabó 2004, "Holomorphic disks and knot invariants"; recalled from memory), so none is
     // null-homotopic; the whole Hom piece agrees below, and the quick path must find each witness.
     let text = format!(
         "{RING}complex T = staircase torus_knot 3 4\ncomplex S = staircase torus_knot 2 5\ncomplex C = tensor T S\n\

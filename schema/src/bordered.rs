@@ -1,6 +1,6 @@
 //! Bordered objects over the torus algebra A(T²) (LOT §11.1): the algebra's elements and
 //! products, and the serde model of type D structures, type A modules and type D morphisms
-//! (certificate format version 2; layout in DEVELOPERS.md, "Bordered objects: layout").
+//! (certificate format version 2 and later; layout in DEVELOPERS.md, "Bordered objects: layout").
 
 use crate::model::{ComplexSpec, Grading, MapSpec, Ring, Term, UniqueMap};
 use serde::{Deserialize, Serialize};
@@ -114,7 +114,7 @@ pub struct MorphismSpec {
     pub to: String,
 }
 
-/// The bordered part of a version-2 body.
+/// The bordered part of a body (format version 2 and later).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Bordered {

@@ -395,7 +395,7 @@ pub struct Provenance {
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Body {
-    /// Version 2 only: complexes over `F2[U,V]` and the bordered objects (`null` is refused).
+    /// Version 2 and later: complexes over `F2[U,V]` and the bordered objects (`null` is refused).
     #[serde(default, deserialize_with = "present", skip_serializing_if = "Option::is_none")]
     #[serde(serialize_with = "crate::canonical::sorted")]
     pub bordered: Option<crate::bordered::Bordered>,

@@ -34,7 +34,8 @@ pub fn render_grading(g: &Grading) -> String {
 
 /// The statement of a claim in a certificate of format `version` over `ring`. Every field that
 /// changes what is proved appears in it (`surfaces` only selects a reading printed beside it,
-/// derived from the variable and the order); version 1 left out τ's grading (see DEVELOPERS.md).
+/// derived from the variable and the order); version 1 left out τ's grading (DEVELOPERS.md,
+/// "Format versions").
 pub fn render(claim: &Claim, ring: &RingInfo, version: u32) -> String {
     let ring_name = &ring_name(&ring.variables);
     let first_variable = ring.variables.first().map_or("", |v| v.as_str());

@@ -6,8 +6,13 @@
 2. The file formats: every stored certificate and problem file validates against
    schema/*.schema.json with the `jsonschema` package (Draft 2020-12).
 3. Homology over F2[U]: on random graded complexes, the torsion exponents and free rank in
-   the producer's (checker-verified) homology claim agree with sympy's invariant factors over
-   GF(2)[U] (sympy.polys.matrices.normalforms).
+   the producer's homology claim, verified by tubecheck, agree with sympy's invariant factors
+   over GF(2)[U] (sympy.polys.matrices.normalforms), computed from the differential this script
+   wrote, not from the certificate; and the gradings the claim states agree with sympy's ranks
+   over GF(2) of the hat complex (U = 0) bidegree by bidegree: a summand F2[U]<g> gives F2 at g,
+   a summand F2[U]/(U^k)<g> gives F2 at g and at g + k*deg U - deg d.
+
+The packages are pinned in requirements.txt.
 
 Usage: check_outside.py ROOT TUBECERT_BINARY [--cases N] [--seed S]
 Prints one line per failure and a closing "N passed, M failed" line.
@@ -50,8 +55,11 @@ def check_hashes_and_schemas(root, extra_dirs):
     files = []
     for d in [os.path.join(root, "certificates")] + extra_dirs:
         files += sorted(glob.glob(os.path.join(d, "**/*.json"), recursive=True))
+    kinds = {"tubecert-certificate": 0, "tubecert-problem": 0}
     for f in files:
         doc = json.load(open(f, encoding="utf-8"))
+        if doc.get("format") in kinds:
+            kinds[doc["format"]] += 1
         if doc.get("format") == "tubecert-certificate":
             digest = hashlib.sha256(rfc8785.dumps(doc["body"])).hexdigest()
             record(digest == doc["sha256"], f"{f}: rfc8785 hash {digest} != stated {doc['sha256']}")
@@ -66,6 +74,8 @@ def check_hashes_and_schemas(root, extra_dirs):
                 record(True, "")
             except jsonschema.ValidationError as e:
                 record(False, f"{f}: problem schema: {e.message}")
+    # An empty or misplaced folder must not pass as "all checked".
+    record(all(kinds.values()), f"no stored certificates or problems found: {kinds}")
     return len(files)
 
 
@@ -204,7 +214,39 @@ def sympy_homology(D):
     return n - 2 * len(factors), sorted(e for e in exps if e > 0)
 
 
-def check_homology_against_sympy(tubecert, cases, seed):
+def sympy_hat_ranks(gens, D):
+    """{(M, A): dim} of H(C/U) from sympy's ranks over GF(2) of the blocks of d at U = 0."""
+    F = GF(2)
+    degrees = sorted(set(gens))
+    at = {g: [i for i, h in enumerate(gens) if h == g] for g in degrees}
+
+    def rank(g):  # d restricted to C_g -> C_{g - (1, 0)}, U set to 0
+        src, dst = at.get(g, []), at.get((g[0] - 1, g[1]), [])
+        if not src or not dst:
+            return 0
+        rows = [[F(1 if D[i][j] == 1 else 0) for j in src] for i in dst]
+        return DomainMatrix(rows, (len(dst), len(src)), F).rank()
+
+    out = {}
+    for g in degrees:
+        dim = len(at[g]) - rank(g) - rank((g[0] + 1, g[1]))
+        if dim:
+            out[g] = dim
+    return out
+
+
+def claimed_hat_ranks(claim):
+    """{(M, A): dim} of H(C/U) implied by a homology claim (deg U = (-2, -1), deg d = (-1, 0))."""
+    out = {}
+    for m, a in claim["free"]:
+        out[(m, a)] = out.get((m, a), 0) + 1
+    for k, (m, a) in claim["torsion"]:
+        for g in [(m, a), (m - 2 * k + 1, a - k)]:
+            out[g] = out.get(g, 0) + 1
+    return out
+
+
+def check_homology_against_sympy(tubecert, tubecheck, cases, seed):
     rng = random.Random(seed)
     with tempfile.TemporaryDirectory() as tmp:
         for case in range(cases):
@@ -216,10 +258,14 @@ def check_homology_against_sympy(tubecert, cases, seed):
             if r.returncode != 0:
                 record(False, f"case {case}: tubecert exit {r.returncode}: {r.stderr}")
                 continue
+            v = subprocess.run([tubecheck, cert], capture_output=True, text=True)
+            record(v.returncode == 0, f"case {case}: tubecheck exit {v.returncode} on the certificate")
             claim = json.load(open(cert))["body"]["claims"][0]
             ours = (len(claim["free"]), sorted(t[0] for t in claim["torsion"]))
             theirs = sympy_homology(D)
             record(ours == theirs, f"case {case}: tubecert {ours} vs sympy {theirs}")
+            ours, theirs = claimed_hat_ranks(claim), sympy_hat_ranks(gens, D)
+            record(ours == theirs, f"case {case}: hat ranks by (M, A) from the claim {ours} vs sympy {theirs}")
 
 
 def main():
@@ -232,10 +278,12 @@ def main():
     a = ap.parse_args()
     n = check_hashes_and_schemas(a.root, a.extra)
     print(f"outside: {n} stored files checked against rfc8785 and the JSON schemas")
-    check_null_and_repeated_keys(a.root, os.path.join(os.path.dirname(a.tubecert), "tubecheck"))
+    tubecheck = os.path.join(os.path.dirname(a.tubecert), "tubecheck")
+    check_null_and_repeated_keys(a.root, tubecheck)
     print("outside: a null and a repeated key, hashed by rfc8785, refused by the schema and tubecheck")
-    check_homology_against_sympy(a.tubecert, a.cases, a.seed)
-    print(f"outside: {a.cases} random complexes compared with sympy's Smith normal form over GF(2)[U]")
+    check_homology_against_sympy(a.tubecert, tubecheck, a.cases, a.seed)
+    print(f"outside: {a.cases} random complexes compared with sympy's Smith normal form over GF(2)[U]"
+          " and its graded ranks over GF(2)")
     print(f"outside: {PASSED} passed, {FAILED} failed")
     sys.exit(1 if FAILED else 0)
 

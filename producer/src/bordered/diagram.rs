@@ -909,7 +909,8 @@ pub const MAX_P_TORUS: usize = 5;
 /// (`pushed_diagram`): the torus knot of slope (−r, p) on the Heegaard torus, z next to the corner
 /// (1, 0) at (1 − 1/d, 1/d), W halfway up the square on the line of c, β at half W's height.
 /// Any such generic choice gives the same knot (c stays one straight closed curve missing the
-/// punctures); these numbers only fix one diagram. Derivation in DEVELOPERS.md.
+/// punctures); these numbers only fix one diagram. Derivation in DEVELOPERS.md, "Torus-knot
+/// patterns by pushing".
 pub fn torus_pattern_diagram(p: usize, r: usize) -> Result<DiagramSpec, String> {
     if p < 2 || r == 0 || r >= p || crate::construct::gcd(p as u32, r as u32) != 1 {
         return Err(format!("the (p, r) torus pattern diagram needs 1 ≤ r < p with gcd(p, r) = 1, not ({p}, {r})"));

@@ -80,7 +80,7 @@ fn failure(f: Failure) -> String {
 }
 
 /// The core of the solid torus (the (1,1) cable pattern): one generator x in ι_0 and
-/// m_{ℓ+2}(x, ρ3, ρ23^(ℓ−1), ρ2) = U^ℓ·x for ℓ ≥ 1 (LOT §11.4, memory), one family. Grading:
+/// m_{ℓ+2}(x, ρ3, ρ23^(ℓ−1), ρ2) = U^ℓ·x for ℓ ≥ 1 (LOT §11.4, recalled from memory), one family. Grading:
 /// gr(x) = 1; the period is the grading of the periodic domain of m_3(x, ρ3, ρ2) = U·x,
 /// gr(ρ3)·gr(ρ2)·λ·gr(U)⁻¹ = (3/2; 0, 1; 1), written doubled.
 pub fn core_module() -> TypeASpec {
@@ -425,11 +425,12 @@ fn note_longest(out: &mut Built, m: &str, len: usize) {
     *e = (*e).max(len);
 }
 
-/// `{"cable": {"companion": SOURCE, "p": P, "q": Q}}`: the (P, 1) pattern ⊠ the complement of
-/// SOURCE with framing t = (Q − 1)/P (the (p, 1) pattern with framing t gives the (p, pt + 1)
-/// cable, memory; the tests check it against torus knots and L-space cables), stored as
-/// `K.pattern`, `K.complement`, `K.companion`; Q ≢ 1 mod P is refused. Absolute gradings by the
-/// box tensor product's symmetric normalization (`box_tensor` claim, format version 4).
+/// `{"cable": {"companion": SOURCE, "p": P, "q": Q}}`: the (P, r) pattern ⊠ the complement of
+/// SOURCE with framing t = (Q − r)/P, r = 1 when Q ≡ 1 mod P, else Q mod P (the (p, r) pattern
+/// with framing t gives the (p, pt + r) cable, recalled from memory; the tests check it against
+/// torus knots and L-space cables), stored as `K.pattern`, `K.complement`, `K.companion`. r ≠ 1
+/// is built for P ≤ `diagram::MAX_P_TORUS` only. Absolute gradings by the `box_tensor` claim's
+/// normalization.
 pub fn cable(
     name: &str,
     arg: &Value,
