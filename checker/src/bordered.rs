@@ -56,8 +56,8 @@ pub struct Object {
     pub families: Vec<Family>,
     /// For each generator, the indices of the families from it.
     pub out: Vec<Vec<usize>>,
-    /// Terms whose idempotents do not match, and (version 3) families that are not homogeneous
-    /// (the claim fails on the first).
+    /// The first term whose idempotents do not match, or (version 3) family that is not
+    /// homogeneous (the claim fails on it; one kept, so many cannot fill memory with messages).
     pub defects: Vec<String>,
 }
 
@@ -215,8 +215,8 @@ pub fn read_structure(name: &str, spec: &TypeDSpec, group: bool) -> Result<Objec
     Ok(d)
 }
 
-/// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, idempotent
-/// mismatches defects (the claim fails).
+/// Terms [y, a, y′] from `src` to `dst`: unknown names and elements are errors, the first
+/// idempotent mismatch a defect (the claim fails).
 pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Result<(Arrows, Vec<String>), String> {
     let (mut rows, mut defects) = (vec![Vec::new(); src.names.len()], Vec::new());
     for (k, [y, a, z]) in terms.iter().enumerate() {
@@ -228,7 +228,7 @@ pub fn read_arrows(what: &str, src: &Object, dst: &Object, terms: &[Term]) -> Re
         let (i0, j0) = (src.idem[i as usize], dst.idem[j as usize]);
         // ι_i as an element starts and ends in i.
         let matched = a.idempotents().unwrap_or((i0, i0)) == (i0, j0);
-        defects.extend((!matched).then(|| at("the idempotents do not match".into())));
+        defects.extend((!matched && defects.is_empty()).then(|| at("the idempotents do not match".into())));
         rows[i as usize].push((a, j));
     }
     for (r, y) in rows.iter_mut().zip(&src.names) {
@@ -280,6 +280,7 @@ pub fn read_module(name: &str, spec: &TypeASpec, group: bool) -> Result<Object, 
                 m.defects.push(at(&format!("it is not homogeneous (repeated block {n} times): gr(input)·λ^(k−1)·gr(U)^(−n)·gr(output)⁻¹ = {e:?} (doubled) is not a power of the period")));
             }
         }
+        m.defects.truncate(1);
         m.out[from as usize].push(m.families.len());
         m.families.push(fam);
     }
@@ -526,9 +527,11 @@ pub type Generator = (u32, u32, String, Grading);
 /// Alexander) read from gr(x)·gr(y) in P_A\G/P_D (`read_grading`), version 2 gr(x) + gr(y);
 /// `symmetric` (version 4): then normalized by `symmetrize`.
 pub fn generators(m: &Object, n: &Object, symmetric: bool) -> Result<Vec<Generator>, Failure> {
-    let mut out = Vec::new();
+    // N's generators by idempotent: pairs of unequal idempotents are not visited (uncounted).
+    let (mut out, mut side) = (Vec::new(), [vec![], vec![]]);
+    n.names.iter().enumerate().for_each(|(y, yn)| side[n.idem[y] as usize].push((y, yn)));
     for (x, xn) in m.names.iter().enumerate() {
-        for (y, yn) in n.names.iter().enumerate().filter(|(y, _)| n.idem[*y] == m.idem[x]) {
+        for &(y, yn) in &side[m.idem[x] as usize] {
             let (Some(gx), Some(gy)) = (&m.grading[x], &n.grading[y]) else {
                 return Err(format!("generator {yn} has no grading, so {xn}⊗{yn} has none").into());
             };
@@ -628,7 +631,8 @@ pub fn tensor_map(
     // product lists every pair in its complex, so it has far fewer pairs than written items · 64).
     let count = |idem: &[u8], i: u8| idem.iter().filter(|&&j| j == i).count() as u64;
     let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
-    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64), "box tensor generators")?;
+    let read = (m.names.len() + n.names.len()) as u64; // read to pair them, even if none pair
+    o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64).saturating_add(read), "box tensor generators")?;
     let gens = generators(m, n, symmetric)?;
     // The δ-graph: nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step);
     // a step (a, node′, whether the path may end after it).

@@ -82,8 +82,8 @@ pub fn check_bytes(file: &str, bytes: &[u8]) -> Result<FileReport, String> {
 
 /// A refusal as printed. It quotes the file (an undeclared name, a term, a key), whose text may
 /// hold line breaks, terminal escapes and invisible or bidirectional characters that would print
-/// a "verified" line or hide the verdict: each of those is shown as <U+XXXX>.
-fn shown(e: &str) -> String {
+/// a "verified" line or hide the verdict: each of those is shown as <U+XXXX>. (File names too.)
+pub fn shown(e: &str) -> String {
     let hidden = |c: char| {
         c.is_control()
             || matches!(c, '\u{061C}' | '\u{200B}'..='\u{200F}' | '\u{2028}'..='\u{202E}' | '\u{2060}'..='\u{206F}' | '\u{FEFF}')

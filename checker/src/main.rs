@@ -52,8 +52,13 @@ fn collect(path: &Path, named: bool, out: &mut Vec<(PathBuf, bool)>) -> std::io:
     }
     let mut entries: Vec<PathBuf> = std::fs::read_dir(path)?.map(|e| e.map(|e| e.path())).collect::<Result<_, _>>()?;
     entries.sort();
-    let mut wanted = entries.iter().filter(|e| e.is_dir() || e.extension().is_some_and(|x| x == "json"));
-    wanted.try_for_each(|e| collect(e, false, out))
+    let wanted = entries.iter().filter(|e| e.is_dir() || e.extension().is_some_and(|x| x == "json"));
+    // A link to a folder is followed only when named: two links to "." would make 2^40 paths.
+    let (links, wanted): (Vec<_>, Vec<_>) = wanted.partition(|e| e.is_dir() && e.is_symlink());
+    links.iter().for_each(|l| {
+        eprintln!("tubecheck: skipped {}: a link to a folder", tubecheck::shown(&l.display().to_string()))
+    });
+    wanted.into_iter().try_for_each(|e| collect(e, false, out))
 }
 
 fn is_problem_file(bytes: &[u8]) -> bool {
@@ -74,7 +79,8 @@ fn main() -> ExitCode {
     }
     let mut outcomes = Vec::new();
     for (path, named) in files {
-        let name = path.display().to_string();
+        // Shown as refusals are: a name may hold line breaks or terminal escapes.
+        let name = tubecheck::shown(&path.display().to_string());
         // Overflow checks are on in release: an overflow the bounds did not catch refuses the
         // file (exit 2) rather than giving a verdict, and is reported, never shown as a panic.
         let check = |b: &[u8]| {

@@ -6,7 +6,9 @@
 //! LaTeX: [`latex`] is a fragment to `\input` (it needs `amsmath` and `amssymb`);
 //! [`latex_document`] wraps fragments into a whole document (`--standalone`).
 
-use crate::report_text::{caveat, objects, objects_line, paired, Notation, BORDERED_SCOPE, PLAIN, SCOPE};
+use crate::report_text::{
+    caveat, objects, objects_line, paired, Notation, BORDERED_SCOPE, OBJECT_GENERATORS, PLAIN, SCOPE,
+};
 use crate::FileReport;
 use tubecert_format::statement::{render_expr, render_grading, ring_name};
 use tubecert_format::{Claim, MapExpr, Term};
@@ -198,7 +200,8 @@ fn summary(r: &FileReport) -> Summary {
                     .map(str::to_string);
                 // Only what verified is written out.
                 let witnesses = if ok { witnesses(c) } else { vec![] };
-                let (shown, with_generators) = if ok { objects(c, b.bordered.as_ref()) } else { (vec![], false) };
+                let (shown, with_generators) =
+                    if ok { objects(c, b.bordered.as_ref(), OBJECT_GENERATORS) } else { (vec![], false) };
                 let objects = objects_line(&shown, with_generators, &PLAIN)
                     .map(|md| Title { md, tex: objects_line(&shown, with_generators, &TEX).unwrap_or_default() });
                 Shown {

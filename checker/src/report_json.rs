@@ -5,6 +5,10 @@ use crate::FileReport;
 use serde_json::{json, Map, Value};
 
 pub fn render(r: &FileReport) -> Value {
+    // An object's generators are listed beside the first claim that checks it; later ones give
+    // its name and period: a file may hold thousands of claims about one large object.
+    let mut listed = std::collections::BTreeSet::new();
+    let b = r.body.bordered.as_ref();
     let claims: Vec<Value> = paired(r)
         .map(|(c, claim)| {
             let mut o =
@@ -16,16 +20,20 @@ pub fn render(r: &FileReport) -> Value {
                     }
                     // The bordered data the gradings are read with, as the certificate writes it
                     // (doubled group elements from version 3 on); `null`: no period.
+                    let first = |c| objects(c, b, 0).0.iter().any(|x| !listed.contains(x.name));
                     let (shown, with_generators) =
-                        claim.map_or((vec![], false), |c| objects(c, r.body.bordered.as_ref()));
+                        claim.map_or((vec![], false), |c| objects(c, b, if first(c) { usize::MAX } else { 0 }));
                     if with_generators {
                         for x in &shown {
-                            let generators: Map<String, Value> = x
-                                .generators
-                                .iter()
-                                .map(|(n, i, g)| (n.to_string(), json!({"idempotent": i, "grading": g})))
-                                .collect();
-                            o["object"] = json!({"name": x.name, "period": x.period, "generators": generators});
+                            let mut object = json!({"name": x.name, "period": x.period});
+                            if listed.insert(x.name) {
+                                let generators = x.generators.iter();
+                                let generators: Map<String, Value> = generators
+                                    .map(|(n, i, g)| (n.to_string(), json!({"idempotent": i, "grading": g})))
+                                    .collect();
+                                object["generators"] = json!(generators);
+                            }
+                            o["object"] = object;
                         }
                     } else if !shown.is_empty() {
                         o["periods"] = shown.iter().map(|x| (x.name.to_string(), json!(x.period))).collect();

@@ -34,21 +34,32 @@ pub struct Object<'a> {
     /// `'A'`: a type A module, period h_A; `'D'`: a type D structure, period h_D.
     pub side: char,
     pub period: Option<&'a Grading>,
-    /// Every generator: name, idempotent, grading (a structure's may have none).
+    /// The first generators asked for: name, idempotent, grading (a structure's may have none).
     pub generators: Vec<(&'a str, u8, Option<&'a Grading>)>,
+    /// How many generators it has.
+    pub count: usize,
 }
 
 /// The objects shown beside a claim: the one a `type_a_module` / `type_d_structure` claim checks,
-/// generators included (`true`), or the module and structures a box tensor claim pairs, whose
-/// periods its gradings are read with (`false`: periods only).
-pub fn objects<'a>(claim: &Claim, b: Option<&'a Bordered>) -> (Vec<Object<'a>>, bool) {
+/// generators included (`true`; the first `limit` of them), or the module and structures a box
+/// tensor claim pairs, whose periods its gradings are read with (`false`: periods only). Only
+/// what is shown is listed: a file may hold many claims about one large object.
+pub fn objects<'a>(claim: &Claim, b: Option<&'a Bordered>, limit: usize) -> (Vec<Object<'a>>, bool) {
     let Some(b) = b else { return (vec![], false) };
+    let all = matches!(claim, Claim::TypeAModule { .. } | Claim::TypeDStructure { .. });
+    let limit = if all { limit } else { 0 };
     let module = |n: &str| {
         b.type_a_modules.get_key_value(n).map(|(name, m)| Object {
             name,
             side: 'A',
             period: m.period.as_ref(),
-            generators: m.generators.iter().map(|(x, g)| (x.as_str(), g.idempotent, Some(&g.grading))).collect(),
+            generators: m
+                .generators
+                .iter()
+                .take(limit)
+                .map(|(x, g)| (x.as_str(), g.idempotent, Some(&g.grading)))
+                .collect(),
+            count: m.generators.len(),
         })
     };
     let structure = |n: &str| {
@@ -56,7 +67,13 @@ pub fn objects<'a>(claim: &Claim, b: Option<&'a Bordered>) -> (Vec<Object<'a>>, 
             name,
             side: 'D',
             period: d.period.as_ref(),
-            generators: d.generators.iter().map(|(x, g)| (x.as_str(), g.idempotent, g.grading.as_ref())).collect(),
+            generators: d
+                .generators
+                .iter()
+                .take(limit)
+                .map(|(x, g)| (x.as_str(), g.idempotent, g.grading.as_ref()))
+                .collect(),
+            count: d.generators.len(),
         })
     };
     match claim {
@@ -108,7 +125,7 @@ pub fn objects_line(objects: &[Object], with_generators: bool, n: &Notation) -> 
         .take(OBJECT_GENERATORS)
         .map(|(x, i, g)| format!("{} {}", (n.name)(x), (n.generator)(*i, g.map(group_element).as_deref())))
         .collect();
-    let (count, more) = (o.generators.len(), o.generators.len().saturating_sub(OBJECT_GENERATORS));
+    let (count, more) = (o.count, o.count.saturating_sub(OBJECT_GENERATORS));
     let words = format!("; {count} generator{} (idempotent, grading): ", if count == 1 { "" } else { "s" });
     let rest = if more > 0 { format!(", … ({more} more)") } else { String::new() };
     Some(format!(
@@ -184,7 +201,7 @@ pub fn render(r: &FileReport) -> String {
                     let _ = writeln!(s, "      witness: {factored}");
                 }
                 let (objects, with_generators) =
-                    claim.map_or((vec![], false), |c| objects(c, r.body.bordered.as_ref()));
+                    claim.map_or((vec![], false), |c| objects(c, r.body.bordered.as_ref(), OBJECT_GENERATORS));
                 if let Some(line) = objects_line(&objects, with_generators, &PLAIN) {
                     let _ = writeln!(s, "      {line}");
                 }
@@ -286,6 +303,7 @@ mod tests {
             side: 'D',
             period: None,
             generators: names.iter().map(|n| (n.as_str(), 1, Some(&g))).collect(),
+            count: 30,
         };
         let line = objects_line(std::slice::from_ref(&o), true, &PLAIN).unwrap();
         assert!(line.starts_with("period and generators: h_D(N): none written; 30 generators (idempotent, grading): y00 ι1 (1/2; -1/2, 1/2; 0), "), "{line}");

@@ -292,3 +292,64 @@ fn a_homotopy_equivalence_beyond_the_work_budget_is_refused_not_failed() {
     let claim = r.iter().find(|c| !c.implicit).unwrap();
     assert!(claim.outcome.as_ref().unwrap_err().contains("g∘f + id"), "{:?}", claim.outcome);
 }
+
+/// `tubecheck` with `args`, killed after `seconds` (`None`: it had not finished).
+fn within(seconds: u64, args: &[&str]) -> Option<(i32, String, String)> {
+    use std::process::Stdio;
+    let mut child = Command::new(env!("CARGO_BIN_EXE_tubecheck"))
+        .args(args)
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let start = std::time::Instant::now();
+    while child.try_wait().unwrap().is_none() {
+        if start.elapsed().as_secs() >= seconds {
+            child.kill().unwrap();
+            child.wait().unwrap();
+            return None;
+        }
+        std::thread::sleep(std::time::Duration::from_millis(50));
+    }
+    let out = child.wait_with_output().unwrap();
+    let text = |b: &[u8]| String::from_utf8_lossy(b).into_owned();
+    Some((out.status.code().unwrap(), text(&out.stdout), text(&out.stderr)))
+}
+
+/// A supplement's folder is its author's. A file name may hold line breaks and terminal escapes:
+/// printed as it was, it wrote "✓" lines of the author's above the real verdict (here a failed
+/// hash), which an escape could then erase. A link to "." twice made 2^40 paths to walk; a pipe
+/// named x.json was waited on for ever, and a link to /dev/zero read until memory ran out.
+#[cfg(unix)]
+#[test]
+fn a_hostile_folder_cannot_spoof_the_report_or_hang_the_walk() {
+    let dir = std::env::temp_dir().join(format!("tubecheck-cli-hostile-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let mut cert: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(format!("{}/tower.cert.json", certificates())).unwrap()).unwrap();
+    cert["sha256"] = serde_json::json!("0".repeat(64));
+    let spoof = "a.cert.json\n  ✓ τ(K) = 5\n  4 claims: 4 verified, 0 failed\u{1b}[1A\u{1b}[2K\n.json";
+    std::fs::write(dir.join(spoof), serde_json::to_vec(&cert).unwrap()).unwrap();
+    let d = dir.to_string_lossy().into_owned();
+    for args in [vec![&d[..]], vec![&d[..], "--report", "md"]] {
+        let (code, out, err) = within(20, &args).expect("finished");
+        assert_eq!(code, 1, "{out}{err}");
+        let spoofed = |s: &str| s.contains('\u{1b}') || s.lines().any(|l| l.starts_with("  ✓ τ(K)"));
+        assert!(!spoofed(&out) && !spoofed(&err) && out.contains("<U+000A>"), "{out}{err}");
+    }
+    std::os::unix::fs::symlink(".", dir.join("a")).unwrap();
+    std::os::unix::fs::symlink(".", dir.join("b")).unwrap();
+    let (code, out, err) = within(20, &[&d]).expect("the walk ends");
+    assert_eq!(code, 1, "{out}{err}");
+    assert!(err.contains("skipped") && err.contains("a link to a folder"), "{err}");
+    let fifo = Command::new("mkfifo").arg(dir.join("f.json")).status().is_ok_and(|s| s.success());
+    std::os::unix::fs::symlink("/dev/zero", dir.join("z.json")).unwrap();
+    let (code, out, err) = within(20, &[&d]).expect("nothing is read without end");
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(
+        err.contains("z.json: not a regular file") && (!fifo || err.contains("f.json: not a regular file")),
+        "{err}"
+    );
+    std::fs::remove_dir_all(&dir).unwrap();
+}

@@ -23,11 +23,15 @@ pub const MAX_NAME_LEN: usize = 200;
 pub const MAX_EXPR_DEPTH: usize = 32;
 /// Most operations and names in one map expression.
 pub const MAX_EXPR_NODES: usize = 1000;
-/// Reads a file, refusing one larger than [`MAX_FILE_BYTES`] before reading it.
+/// Reads a file, refusing one larger than [`MAX_FILE_BYTES`] before reading it, and anything
+/// but a regular file (a link to /dev/zero or a pipe is read without end: memory, or a hang).
 pub fn read_file(path: &std::path::Path) -> Result<Vec<u8>, String> {
-    let len = std::fs::metadata(path).map_err(|e| format!("cannot read: {e}"))?.len();
-    if len > MAX_FILE_BYTES {
-        return Err(format!("file is {len} bytes, above the limit {MAX_FILE_BYTES}"));
+    let meta = std::fs::metadata(path).map_err(|e| format!("cannot read: {e}"))?;
+    if !meta.is_file() {
+        return Err("not a regular file (a device or a pipe is read without end)".into());
+    }
+    if meta.len() > MAX_FILE_BYTES {
+        return Err(format!("file is {} bytes, above the limit {MAX_FILE_BYTES}", meta.len()));
     }
     std::fs::read(path).map_err(|e| format!("cannot read: {e}"))
 }
