@@ -162,7 +162,9 @@ fn text_format_errors_name_file_line_and_column() {
     // A malformed tuple in the ring's declarations is one error, at its column.
     let err = refused("ring.problem.txt", &RING.replace("degree U (-2, -1)", "degree U (-2 -1)"));
     assert_eq!(err.lines().count(), 1, "{err}");
-    assert!(err.trim_end().ends_with("ring.problem.txt:3:10: expected integers separated by commas, found \"(-2 -1)\""));
+    assert!(err
+        .trim_end()
+        .ends_with("ring.problem.txt:3:10: expected integers separated by commas, found \"(-2 -1)\""));
     // A file that parses but does not validate: the message points at the line of the term…
     let err =
         refused("unknown.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n"));
@@ -380,7 +382,8 @@ fn a_bordered_family_writes_problems_that_prove_to_its_certificates() {
             let (code, _, err) = tubecert(&["prove", &problem.to_string_lossy(), "-o", &again.to_string_lossy()]);
             assert_eq!(code, 0, "{err}");
             assert!(
-                std::fs::read(&again).unwrap() == std::fs::read(out.join(format!("cabled-pair-p{p}.cert.json"))).unwrap(),
+                std::fs::read(&again).unwrap()
+                    == std::fs::read(out.join(format!("cabled-pair-p{p}.cert.json"))).unwrap(),
                 "{ext}: proving member {p}'s problem again gives another certificate"
             );
         }
@@ -549,7 +552,9 @@ fn the_readme_worked_session_runs_as_shown() {
     std::fs::write(at("pair.problem.txt"), &pair).unwrap();
     let (code, out, err) = tubecert(&["prove", &at("pair.problem.txt")]);
     assert_eq!(code, 0, "{err}");
-    assert!(readme.contains("tubecert prove pair.problem.txt                # ✓ ord_U(F − G) = 3 …; writes pair.cert.json"));
+    assert!(
+        readme.contains("tubecert prove pair.problem.txt                # ✓ ord_U(F − G) = 3 …; writes pair.cert.json")
+    );
     assert!(out.starts_with("✓ ord_U(F − G) = 3\n"), "{out}");
     assert!(tubecheck::check_bytes("pair", &std::fs::read(at("pair.cert.json")).unwrap()).unwrap().ok());
     // The mistakes: each quoted message (up to its "…") is what check-input prints.
