@@ -635,8 +635,7 @@ pub fn tensor_map(
     let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
     let read = (m.names.len() + n.names.len()) as u64; // read to pair them, even if none pair
     o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64).saturating_add(read), "box tensor generators")?;
-    let (mut kept, beyond) =
-        (pairs, || format!("the box tensor product has more generators and terms than the {most} written"));
+    let (mut kept, beyond) = (pairs, || format!("M ⊠ N has more generators and terms than the {most} written"));
     ensure(kept <= most, beyond)?;
     let gens = generators(m, n, symmetric)?;
     // The δ-graph: nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step);
@@ -870,8 +869,8 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
             b.1.set(0);
-            let (mut gens, rows, side) =
-                tensor_map(b, module(mn)?, structure(sn)?, None, version >= 4, ctx.complexes[c].d.size())?;
+            let (m, n, size) = (module(mn)?, structure(sn)?, ctx.complexes[c].d.size());
+            let (mut gens, rows, side) = tensor_map(b, m, n, None, version >= 4, size)?;
             covered(o, mn, &[("type_d_structure", sn)])?;
             crate::maslov::certify(b, &mut gens, &rows, witness.as_ref(), version)?;
             compare(ctx, &format!("{complex} = {mn} ⊠ {sn}"), (c, c), &gens, &rows, &ctx.complexes[c].d.rows)?;

@@ -263,7 +263,7 @@ fn box_tensor_terms_are_counted_before_their_names_are_made() {
     let start = std::time::Instant::now();
     let r = sealed(2, body(2, padded_c(), json!({}), bordered, claims)).unwrap();
     let e = r.claims.iter().find(|c| c.kind == "box_tensor").unwrap().outcome.as_ref().unwrap_err();
-    assert!(e.contains("more generators and terms than the 200 written"), "{e}");
+    assert!(e.contains("M ⊠ N has more generators and terms than the 200 written"), "{e}");
     assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
 }
 
