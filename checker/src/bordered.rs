@@ -399,7 +399,10 @@ fn vanishes(o: &Budget, what: &str, d: &Object, names: &[String], pairs: &[(&Arr
         }
         normalize(&mut acc);
         if !acc.is_empty() {
-            let terms: Vec<String> = acc.iter().map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
+            // The first terms (a message per claim, and a file may hold many claims).
+            let mut terms: Vec<String> =
+                acc.iter().take(12).map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
+            terms.extend((acc.len() > 12).then(|| format!("… ({} terms)", acc.len())));
             return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")).into());
         }
     }
@@ -485,7 +488,8 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
     }
     normalize(&mut acc);
     if let Some(&(z, e)) = acc.first() {
-        let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
+        let mut word: Vec<String> = s.iter().take(40).map(|a| a.name().to_string()).collect();
+        word.extend((k > 40).then(|| format!("… ({k} inputs)")));
         let (x, z) = (&m.names[x as usize], &m.names[z as usize]);
         return Err(format!("the A∞ relation fails on ({x}, {}): the term U^{e}·{z} survives", word.join(", ")).into());
     }
