@@ -399,7 +399,10 @@ fn vanishes(o: &Budget, what: &str, d: &Object, names: &[String], pairs: &[(&Arr
         }
         normalize(&mut acc);
         if !acc.is_empty() {
-            let terms: Vec<String> = acc.iter().map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
+            // The first terms (a message per claim, and a file may hold many claims).
+            let mut terms: Vec<String> =
+                acc.iter().take(12).map(|(a, z)| format!("{}⊗{}", a.name(), names[*z as usize])).collect();
+            terms.extend((acc.len() > 12).then(|| format!("… ({} terms)", acc.len())));
             return Err(format!("{what}({}) = {} ≠ 0", d.names[y], terms.join(" + ")).into());
         }
     }
@@ -485,7 +488,8 @@ fn relation(o: &Budget, m: &Object, x: u32, s: &[Alg]) -> Result<(), Failure> {
     }
     normalize(&mut acc);
     if let Some(&(z, e)) = acc.first() {
-        let word: Vec<&str> = s.iter().map(|a| a.name()).collect();
+        let mut word: Vec<String> = s.iter().take(40).map(|a| a.name().to_string()).collect();
+        word.extend((k > 40).then(|| format!("… ({k} inputs)")));
         let (x, z) = (&m.names[x as usize], &m.names[z as usize]);
         return Err(format!("the A∞ relation fails on ({x}, {}): the term U^{e}·{z} survives", word.join(", ")).into());
     }
@@ -616,13 +620,15 @@ fn compare(
 /// The generators of M ⊠ N, the bounded side, and for each generator its terms: for `f` = None,
 /// of ∂(x⊗y) = Σ_k (m_{k+1} ⊗ id)(x ⊗ δ^k(y)) over paths of δ¹-steps in N; for `f` =
 /// Some((f, N′)), of (id_M ⊠ f)(x⊗y) in M ⊠ N′, over paths of δ¹-steps in N, one f-step,
-/// δ¹-steps in N′.
+/// δ¹-steps in N′. `most`: the size (rows and terms) of what it is compared with: beyond, it
+/// differs, and is refused before its names (hundreds of bytes each) fill memory.
 pub fn tensor_map(
     o: &Budget,
     m: &Object,
     n: &Object,
     f: Option<(&Morphism, &Object)>,
     symmetric: bool,
+    most: u64,
 ) -> Result<(Vec<Generator>, Rows, &'static str), Failure> {
     let more = f.into_iter().flat_map(|(f, n2)| [&n2.defects, &f.1]);
     [&m.defects, &n.defects].into_iter().chain(more).try_for_each(|d| none_of(d))?;
@@ -633,6 +639,8 @@ pub fn tensor_map(
     let pairs: u64 = (0..2).map(|i| count(&m.idem, i) * count(&n.idem, i)).sum();
     let read = (m.names.len() + n.names.len()) as u64; // read to pair them, even if none pair
     o.spend(pairs.saturating_mul(WORK_PER_ITEM / 64).saturating_add(read), "box tensor generators")?;
+    let (mut kept, beyond) = (pairs, || format!("M ⊠ N has more generators and terms than the {most} written"));
+    ensure(kept <= most, beyond)?;
     let gens = generators(m, n, symmetric)?;
     // The δ-graph: nodes 0..|N| are N's generators, |N|.. those of N′ (after the one f step);
     // a step (a, node′, whether the path may end after it).
@@ -680,6 +688,8 @@ pub fn tensor_map(
         }
         // Sums mod 2: a term reached by an even number of paths cancels (before it is named).
         normalize(&mut out);
+        kept += out.len() as u64;
+        ensure(kept <= most, beyond)?;
         rows.push(out.iter().map(|&(x, y, p)| (format!("{}⊗{}", m.names[x as usize], names[y as usize]), p)).collect());
     }
     Ok((gens, rows, side))
@@ -863,7 +873,8 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
         Claim::BoxTensor { complex, module: mn, structure: sn, witness, .. } => {
             let c = ctx.complex_named(complex)?;
             b.1.set(0);
-            let (mut gens, rows, side) = tensor_map(b, module(mn)?, structure(sn)?, None, version >= 4)?;
+            let (m, n, size) = (module(mn)?, structure(sn)?, ctx.complexes[c].d.size());
+            let (mut gens, rows, side) = tensor_map(b, m, n, None, version >= 4, size)?;
             covered(o, mn, &[("type_d_structure", sn)])?;
             crate::maslov::certify(b, &mut gens, &rows, witness.as_ref(), version)?;
             compare(ctx, &format!("{complex} = {mn} ⊠ {sn}"), (c, c), &gens, &rows, &ctx.complexes[c].d.rows)?;
@@ -881,14 +892,15 @@ fn check_bordered(ctx: &Context, o: Option<&Objects>, claim: &Claim, version: u3
             // must have been checked on, too.
             let (w, mut source) = (witness.as_ref(), Vec::new());
             for (c, dn, w) in [(fm.from, &f.from, w.map(|w| &w.from)), (fm.to, &f.to, w.map(|w| &w.to))] {
-                let (mut gens, rows, _) = tensor_map(b, m, structure(dn)?, None, version >= 4)?;
+                let size = ctx.complexes[c].d.size();
+                let (mut gens, rows, _) = tensor_map(b, m, structure(dn)?, None, version >= 4, size)?;
                 crate::maslov::certify(b, &mut gens, &rows, w, version)?;
                 let cx = &ctx.complexes[c];
                 compare(ctx, &format!("{what}: {} = {mn} ⊠ {dn}", cx.name), (c, c), &gens, &rows, &cx.d.rows)?;
                 source.push(gens);
             }
             let (n, n2) = (structure(&f.from)?, structure(&f.to)?);
-            let (_, rows, side) = tensor_map(b, m, n, Some((t, n2)), version >= 4)?;
+            let (_, rows, side) = tensor_map(b, m, n, Some((t, n2)), version >= 4, fm.m.size())?;
             covered(o, mn, &[("type_d_structure", &f.from), ("type_d_structure", &f.to), ("type_d_morphism", fname)])?;
             compare(ctx, &what, (fm.from, fm.to), &source[0], &rows, &fm.m.rows)?;
             facts.insert("bounded".into(), json!(side));

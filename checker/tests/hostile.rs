@@ -228,17 +228,25 @@ fn refused_quickly(bordered: Value, what: &str) {
     pairing_refused(bordered, claims, 10, what);
 }
 
-/// A version-2 body with this bordered section and these claims about a pairing into a complex C
-/// of one generator is refused for its work within `seconds`.
+/// A complex C of 200 generators and no differential: larger than the products of the bombs
+/// below before their walks, so that those, not the comparison, are what is tested.
+fn padded_c() -> Value {
+    let generators: serde_json::Map<String, Value> = (0..200).map(|i| (format!("c{i}"), json!([0, 0]))).collect();
+    json!({"C": {"generators": generators, "differential": []}})
+}
+
+/// A version-2 body with this bordered section and these claims about a pairing into C
+/// (`padded_c`) is refused for its work within `seconds`.
 fn pairing_refused(bordered: Value, claims: Vec<Value>, seconds: u64, what: &str) {
-    let complexes = json!({"C": {"generators": {"c": [0, 0]}, "differential": []}});
-    refused_for_work(2, body(2, complexes, json!({}), bordered, claims), seconds, what);
+    refused_for_work(2, body(2, padded_c(), json!({}), bordered, claims), seconds, what);
 }
 
 /// A chain y0 →ρ12 y1 →ρ12 … of k generators gives ∂(x⊗y_i) = Σ_{j ≥ i} x⊗y_j: k²/2 terms, each
 /// a name of 200 bytes, from a file of 150 KB (k = 2000: 0.5 GB; k = 6000, 450 KB, passed
-/// 3 GB). The complex compared with them has one generator; the terms are counted before they
-/// are made, like the generator pairs, so the file is refused before memory fills.
+/// 3 GB). The terms are counted before they are made, like the generator pairs, so the file was
+/// refused before memory filled; a 2.3 MB file (k = 30,000) still took 1.7 GB first. The names
+/// the walk keeps are now at most the size of the complex they are compared with (the product
+/// differs beyond it): this one fails at once.
 #[test]
 fn box_tensor_terms_are_counted_before_their_names_are_made() {
     let k = 2000;
@@ -246,7 +254,47 @@ fn box_tensor_terms_are_counted_before_their_names_are_made() {
     let generators: serde_json::Map<String, Value> =
         names.iter().map(|y| (y.clone(), json!({"grading": [0, 0], "idempotent": 0}))).collect();
     let differential: Vec<Value> = names.windows(2).map(|w| json!([w[0], "rho12", w[1]])).collect();
-    refused_quickly(rho12_pairing(json!({"generators": generators, "differential": differential}), 0), "chain");
+    let bordered = rho12_pairing(json!({"generators": generators, "differential": differential}), 0);
+    let claims = vec![
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+        json!({"kind": "type_d_structure", "structure": "N"}),
+    ];
+    let start = std::time::Instant::now();
+    let r = sealed(2, body(2, padded_c(), json!({}), bordered, claims)).unwrap();
+    let e = r.claims.iter().find(|c| c.kind == "box_tensor").unwrap().outcome.as_ref().unwrap_err();
+    assert!(e.contains("M ⊠ N has more generators and terms than the 200 written"), "{e}");
+    assert!(start.elapsed().as_secs() < 10, "took {:?}", start.elapsed());
+}
+
+/// The walk keeps at most as many generators and terms as the complex compared with has: a
+/// structure chain of k = 3000 generators (ρ12 arrows) paired with x of a 150-byte name has
+/// k²/2 terms (4.5·10^6 names of 160 bytes, 0.7 GB), compared with a complex of the k
+/// generators x⊗y_i and k − 1 terms (a file of 1 MB, which was refused for its work after
+/// 0.1 GB of names): it fails once the terms kept pass 2k − 1.
+#[test]
+fn a_box_tensor_product_larger_than_its_complex_fails_before_it_is_named() {
+    let k = 3000;
+    let names: Vec<String> = (0..k).map(|i| format!("y{i}")).collect();
+    let generators: serde_json::Map<String, Value> =
+        names.iter().map(|y| (y.clone(), json!({"grading": [0, 0], "idempotent": 0}))).collect();
+    let differential: Vec<Value> = names.windows(2).map(|w| json!([w[0], "rho12", w[1]])).collect();
+    let mut bordered = rho12_pairing(json!({"generators": generators, "differential": differential}), 0);
+    let x = "x".repeat(150);
+    let m = &mut bordered["type_a_modules"]["M"];
+    *m = serde_json::from_str(&m.to_string().replace(&"x".repeat(200), &x)).unwrap();
+    let c: serde_json::Map<String, Value> = names.iter().map(|y| (format!("{x}⊗{y}"), json!([0, 0]))).collect();
+    let d: Vec<Value> =
+        names.windows(2).map(|w| json!([format!("{x}⊗{}", w[0]), "1", format!("{x}⊗{}", w[1])])).collect();
+    let claims = vec![
+        json!({"kind": "box_tensor", "complex": "C", "module": "M", "structure": "N"}),
+        json!({"kind": "type_a_module", "module": "M", "max_length": 2}),
+        json!({"kind": "type_d_structure", "structure": "N"}),
+    ];
+    let r = sealed(2, body(2, json!({"C": {"generators": c, "differential": d}}), json!({}), bordered, claims));
+    let r = r.unwrap();
+    let e = r.claims.iter().find(|c| c.kind == "box_tensor").unwrap().outcome.as_ref().unwrap_err();
+    assert!(e.contains(&format!("more generators and terms than the {} written", 2 * k - 1)), "{e}");
 }
 
 /// A type D structure of d + 1 layers of two generators, each joined by ρ12 to both of the next
@@ -920,4 +968,40 @@ fn the_generators_a_pairing_reads_are_counted_when_none_pair() {
     let complexes = json!({"C": {"generators": {}, "differential": []}});
     let (v, took) = timed(2, body(2, complexes, json!({}), bordered, claims));
     assert!(v.as_ref().is_err_and(|e| e.contains("box tensor generators")), "{v:?} after {took:?}");
+}
+
+/// A failed D relation listed every surviving term, and a failed A∞ relation its whole word, in
+/// the message each claim keeps for the report: a hub y →ρ1 y_i →ρ2 w_i (k = 5000, names of
+/// 150 bytes) leaves 5000 terms ρ12⊗w_i, and 2000 claims about it (a file of 2.4 MB) kept
+/// 1.6 GB of messages (3.3 GB in all). The first terms are shown, then how many there are.
+#[test]
+fn a_failed_relation_shows_its_first_terms_not_all() {
+    let w = "w".repeat(150);
+    let mut generators = serde_json::Map::new();
+    generators.insert("y".into(), json!({"idempotent": 0}));
+    let mut differential = Vec::new();
+    for i in 0..2000 {
+        generators.insert(format!("y{i}"), json!({"idempotent": 1}));
+        generators.insert(format!("{w}{i}"), json!({"idempotent": 0}));
+        differential
+            .extend([json!(["y", "rho1", format!("y{i}")]), json!([format!("y{i}"), "rho2", format!("{w}{i}")])]);
+    }
+    // m(x, ρ12^50) = x: the relation on ρ12^100 keeps m(m(x, ρ12^50), ρ12^50) = x.
+    let family =
+        json!({"from": "x", "power": [0, 0], "prefix": vec!["rho12"; 50], "repeat": [], "suffix": [], "to": "x"});
+    let bordered = json!({
+        "full_complexes": {}, "full_ring": full_ring(),
+        "type_a_modules": {"M": {"generators": {"x": {"grading": [0, 0], "idempotent": 0}}, "operations": [family]}},
+        "type_d_morphisms": {},
+        "type_d_structures": {"N": {"generators": generators, "differential": differential}}
+    });
+    let claims = vec![
+        json!({"kind": "type_d_structure", "structure": "N"}),
+        json!({"kind": "type_a_module", "module": "M", "max_length": 100}),
+    ];
+    let r = sealed(2, body(2, json!({}), json!({}), bordered, claims)).unwrap();
+    let errors: Vec<&String> = r.claims.iter().filter_map(|c| c.outcome.as_ref().err()).collect();
+    assert_eq!(errors.len(), 2, "{errors:?}");
+    assert!(errors[0].len() < 3000 && errors[0].ends_with("… (2000 terms) ≠ 0"), "{}", &errors[0][..300]);
+    assert!(errors[1].len() < 500 && errors[1].contains("rho12, … (100 inputs)"), "{}", errors[1]);
 }

@@ -226,7 +226,7 @@ fn budget() -> Budget {
 pub fn box_tensor(m: &TypeASpec, n: &TypeDSpec) -> Result<(ComplexSpec, usize, HatWitness), String> {
     let (ma, nd) = (checked::read_module("M", m, true)?, checked::read_structure("N", n, true)?);
     let b = budget();
-    let (mut gens, rows, _) = checked::tensor_map(&b, &ma, &nd, None, true).map_err(failure)?;
+    let (mut gens, rows, _) = checked::tensor_map(&b, &ma, &nd, None, true, u64::MAX).map_err(failure)?;
     let w = maslov::hat_witness(&gens, &rows)?;
     let version = tubecert_format::CERTIFICATE_VERSION;
     tubecheck::maslov::certify(&b, &mut gens, &rows, Some(&w), version).map_err(failure)?;
@@ -264,7 +264,7 @@ pub fn box_tensor_map(
     );
     let fm = checked::read_arrows("f", &nd, &nd2, &f.terms)?;
     let b = budget();
-    let (gens, rows, _) = checked::tensor_map(&b, &ma, &nd, Some((&fm, &nd2)), true).map_err(failure)?;
+    let (gens, rows, _) = checked::tensor_map(&b, &ma, &nd, Some((&fm, &nd2)), true, u64::MAX).map_err(failure)?;
     let mut terms = Vec::new();
     let mut degree: Option<Grading> = None;
     for ((_, _, name, _), row) in gens.iter().zip(&rows) {
