@@ -571,3 +571,30 @@ fn the_readme_worked_session_runs_as_shown() {
         assert!(err.contains(quoted), "README: {quoted}\ntool: {err}");
     }
 }
+
+/// The README's performance tables at the sizes small enough for a test: each row's problem,
+/// made again by `bench` with the arguments the README names, has the row's generators and
+/// arrows (the synthetic problems are fixed by their seed, so these columns are not
+/// measurements).
+#[test]
+fn the_readme_bench_rows_describe_the_problems_bench_makes() {
+    let root = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let cases: [(&str, &[&str]); 4] = [
+        ("| 1 | 10000 |", &["--generators", "10000"]),
+        ("| 19999 | 20000 |", &["--generators", "20000", "--source-generators", "20000"]),
+        ("| 15625 | 15625 |", &["--case", "reduced-identity"]),
+        ("| 9261 | 9261 |", &["--case", "reduced-uv"]),
+    ];
+    for (start, args) in cases {
+        let row = readme.lines().find(|l| l.starts_with(start)).unwrap_or_else(|| panic!("no README row {start}"));
+        let cells: Vec<&str> = row.trim_matches('|').split('|').map(str::trim).collect();
+        let (code, out, err) = tubecert(&[&["bench", "--no-header"], args].concat());
+        assert_eq!(code, 0, "{err}");
+        let got: Vec<&str> = out.trim().split('\t').collect();
+        // source_gens, generators, arrows.
+        for i in 0..3 {
+            assert_eq!(cells[i], got[i], "README row {start}, column {i}: bench {args:?} gives {out}");
+        }
+    }
+}
