@@ -598,3 +598,29 @@ fn the_readme_bench_rows_describe_the_problems_bench_makes() {
         }
     }
 }
+
+/// What the README quotes of `tubecheck`'s report is what it prints: the dual witness in the
+/// cycle-and-cocycle form (the tower example) and a module's period and generators (the core
+/// written out in `examples/bordered.problem.txt`).
+#[test]
+fn the_readme_quotes_of_the_checker_are_its_report() {
+    let root = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap().replace('\n', " ");
+    let quote = |before: &str| -> String {
+        let rest = readme.split(before).nth(1).unwrap_or_else(|| panic!("the README no longer says {before}"));
+        rest.split('`').next().unwrap().to_string()
+    };
+    for (problem, before) in [
+        ("examples/tower.problem.json", "prints it in the familiar form — the cycle-and-cocycle argument `ψ ↦ c(ψ(x))`, e.g. `"),
+        ("examples/bordered.problem.txt", "(`period and generators: "),
+    ] {
+        let cert = dir().join("quoted.cert.json");
+        let (code, _, err) = tubecert(&["prove", &root.join(problem).to_string_lossy(), "-o", &cert.to_string_lossy()]);
+        assert_eq!(code, 0, "{err}");
+        let report = tubecheck::check_bytes("q", &std::fs::read(&cert).unwrap()).unwrap();
+        let text = tubecheck::report_text::render(&report).replace('\n', " ");
+        let quoted = quote(before);
+        let quoted = if before.contains("period") { format!("period and generators: {quoted}") } else { quoted };
+        assert!(text.contains(&quoted), "README: {quoted}\ntubecheck: {text}");
+    }
+}
