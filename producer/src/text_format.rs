@@ -146,6 +146,9 @@ pub struct SourceLines {
     places: std::collections::BTreeMap<String, usize>,
     /// "complex K, differential", "map F" → the line of each term, in order.
     terms: std::collections::BTreeMap<String, Vec<usize>>,
+    /// Complexes declared over F2[U,V] to stand as sources → line. Reading writes them inline
+    /// where they are used, so elsewhere their names are unknown: a message saying so names them.
+    sources: std::collections::BTreeMap<String, usize>,
 }
 
 impl SourceLines {
@@ -171,9 +174,16 @@ impl SourceLines {
             let named = |k: &&String| message.strip_prefix(k.as_str()).is_some_and(|r| r.starts_with([':', ',', ' ']));
             self.places.keys().filter(named).max_by_key(|k| k.len()).map(|k| &self.places[k])
         };
+        let source = self.sources.iter().find(|(n, _)| message.contains(&format!("complex \"{n}\" is not declared")));
+        let hint = source.map_or(String::new(), |(n, l)| {
+            format!(
+                " ({n}, line {l}, is a complex over F2[U,V], which stands only after `of` or inside another source: \
+                 use it through a complex over the problem's ring, e.g. `complex Q = quotient V of {n}`)"
+            )
+        });
         match term.or_else(place) {
-            Some(l) => format!("{file}:{l}: {message}"),
-            None => format!("{file}: {message}"),
+            Some(l) => format!("{file}:{l}: {message}{hint}"),
+            None => format!("{file}: {message}{hint}"),
         }
     }
 }
@@ -469,6 +479,7 @@ fn read(src: &str, check: bool) -> Result<(Value, SourceLines), Vec<String>> {
             problem[key] = Value::Object(section);
         }
     }
+    lines.sources = source_lines;
     Ok((problem, lines))
 }
 

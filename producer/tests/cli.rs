@@ -165,6 +165,19 @@ fn text_format_errors_name_file_line_and_column() {
     assert!(err
         .trim_end()
         .ends_with("ring.problem.txt:3:10: expected integers separated by commas, found \"(-2 -1)\""));
+    // A source over F2[U,V] used where a complex over the ring is needed: the message says what
+    // the name is and how to use it.
+    let err = refused(
+        "source.problem.txt",
+        &format!("{RING}complex T over F2[U,V] = staircase torus_knot 2 3\ngoal tau T\n"),
+    );
+    assert!(
+        err.contains(
+            "source.problem.txt:6: goal 1: complex \"T\" is not declared (T, line 5, is a complex over F2[U,V]"
+        ),
+        "{err}"
+    );
+    assert!(err.contains("e.g. `complex Q = quotient V of T`"), "{err}");
     // A file that parses but does not validate: the message points at the line of the term…
     let err =
         refused("unknown.problem.txt", &format!("{RING}complex K\n  a (0, 0)\n  b (-1, 0)\n  b -> a\n  b -> c + a\n"));
@@ -611,7 +624,10 @@ fn the_readme_quotes_of_the_checker_are_its_report() {
         rest.split('`').next().unwrap().to_string()
     };
     for (problem, before) in [
-        ("examples/tower.problem.json", "prints it in the familiar form — the cycle-and-cocycle argument `ψ ↦ c(ψ(x))`, e.g. `"),
+        (
+            "examples/tower.problem.json",
+            "prints it in the familiar form — the cycle-and-cocycle argument `ψ ↦ c(ψ(x))`, e.g. `",
+        ),
         ("examples/bordered.problem.txt", "(`period and generators: "),
     ] {
         let cert = dir().join("quoted.cert.json");
