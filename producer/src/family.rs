@@ -7,16 +7,19 @@ use serde_json::Value;
 
 /// `NAME=LO..HI` (inclusive).
 pub fn parse_param(text: &str) -> Result<(String, i64, i64), String> {
-    let err = || format!("--param \"{text}\": expected NAME=LO..HI, e.g. p=1..8");
-    let (name, range) = text.split_once('=').ok_or_else(err)?;
-    let (lo, hi) = range.split_once("..").ok_or_else(err)?;
-    let (lo, hi): (i64, i64) = (lo.trim().parse().map_err(|_| err())?, hi.trim().parse().map_err(|_| err())?);
-    if name.is_empty()
-        || !name.chars().all(|c| c.is_ascii_alphabetic())
-        || lo > hi
-        || hi.checked_sub(lo).is_none_or(|n| n > 1000)
-    {
-        return Err(err());
+    let err = |why: &str| format!("--param \"{text}\": {why}; expected NAME=LO..HI, e.g. p=1..8");
+    let (name, range) = text.split_once('=').ok_or_else(|| err("no '='"))?;
+    let (lo, hi) = range.split_once("..").ok_or_else(|| err("no '..'"))?;
+    let number = |s: &str, what: &str| s.trim().parse::<i64>().map_err(|_| err(&format!("{what} is not an integer")));
+    let (lo, hi) = (number(lo, "LO")?, number(hi, "HI")?);
+    if name.is_empty() || !name.chars().all(|c| c.is_ascii_alphabetic()) {
+        return Err(err("NAME must be ASCII letters"));
+    }
+    if lo > hi {
+        return Err(err("LO must be at most HI"));
+    }
+    if hi.checked_sub(lo).is_none_or(|n| n > 1000) {
+        return Err(err("at most 1001 values in one run (split the range)"));
     }
     Ok((name.to_string(), lo, hi))
 }

@@ -493,7 +493,10 @@ fn orders_beyond_the_exponent_limit_are_refused_before_the_search() {
 fn family_parameters_do_not_overflow() {
     // hi − lo wraps to −1 for the extreme range, which passed the "at most 1000 members" test.
     assert!(tubecert::family::parse_param("p=-9223372036854775808..9223372036854775807").is_err());
-    assert!(tubecert::family::parse_param("p=1..1002").is_err());
+    assert!(tubecert::family::parse_param("p=1..1002").unwrap_err().contains("at most 1001 values"));
+    assert!(tubecert::family::parse_param("p=3..1").unwrap_err().contains("LO must be at most HI"));
+    assert!(tubecert::family::parse_param("p1=1..3").unwrap_err().contains("NAME must be ASCII letters"));
+    assert!(tubecert::family::parse_param("p=1").unwrap_err().contains("no '..'"));
     assert!(tubecert::family::parse_param("p=1..1001").is_ok());
     // −p for the most negative p has no 64-bit value.
     assert!(tubecert::family::eval("-p", "p", i64::MIN).is_err());
