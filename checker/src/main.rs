@@ -37,10 +37,10 @@ struct Args {
 fn whole_hash(h: &str) -> Result<String, String> {
     let h = h.trim();
     let whole = h.len() == 64 && h.chars().all(|c| c.is_ascii_hexdigit());
-    let why = format!(
-        "a SHA-256 hash has all 64 hex digits ({} given); copy the whole hash tubecheck prints, not a prefix",
-        h.len()
-    );
+    let (digits, other) =
+        (h.chars().filter(char::is_ascii_hexdigit).count(), h.chars().any(|c| !c.is_ascii_hexdigit()));
+    let and_other = if other { " and other characters" } else { "" };
+    let why = format!("a SHA-256 hash has all 64 hex digits ({digits} given{and_other}); copy the whole hash tubecheck prints, not a prefix");
     whole.then(|| h.to_string()).ok_or(why)
 }
 

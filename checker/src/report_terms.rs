@@ -41,7 +41,7 @@ pub fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String> + Clone) 
     };
     let best = known.map(|k| (dist(k), k)).min();
     match best {
-        Some((d, k)) if d <= limit => format!(" (did you mean \"{k}\"?)"),
+        Some((d, k)) if d <= limit => format!(" (did you mean \"{}\"?)", crate::shown(k)),
         _ => String::new(),
     }
 }
@@ -90,4 +90,14 @@ pub fn compare(
         render_vector(ctx, c, rhs),
         render_vector(ctx, c, &diff)
     ))
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn a_suggested_name_shows_invisible_characters() {
+        // A declared name with a joiner is refused elsewhere, but may still be suggested.
+        let known = ["a\u{200d}".to_string()];
+        assert_eq!(super::suggest("a", known.iter()), " (did you mean \"a<U+200D>\"?)");
+    }
 }

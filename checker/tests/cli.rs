@@ -216,6 +216,10 @@ fn expect_needs_the_whole_hash() {
     let (code, _, err) = tubecheck(&[&cert, "--expect", "3f1c"]);
     assert_eq!(code, 2);
     assert!(err.contains("all 64 hex digits (4 given)"), "{err}");
+    // A prefix copied with its ellipsis: digits counted, not bytes, and the rest named.
+    let (code, _, err) = tubecheck(&[&cert, "--expect", "3f1c…"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("(4 given and other characters)"), "{err}");
 }
 
 #[test]

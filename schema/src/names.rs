@@ -59,7 +59,7 @@ pub fn check_object_name(name: &str) -> Result<(), String> {
 pub fn check_map_name(name: &str) -> Result<(), String> {
     check_object_name(name)?;
     if name.starts_with("id_") {
-        return Err(format!("map name \"{name}\" begins with \"id_\", which statements use for identity maps"));
+        return Err(format!("name \"{name}\" begins with \"id_\", which statements use for identity maps"));
     }
     Ok(())
 }
@@ -78,7 +78,8 @@ mod tests {
             assert!(check_name(bad).unwrap_err().contains(cp), "{bad}");
         }
         assert!(check_name("").is_err());
-        assert!(check_map_name("id_K").is_err());
+        // Callers prefix the kind ("map …"): the message must not say "map" itself.
+        assert!(check_map_name("id_K").unwrap_err().starts_with("name \"id_K\" begins with \"id_\""));
         assert!(check_object_name("F⊗G").unwrap_err().contains("only generator names"));
         assert!(check_map_name("F⊗G").is_err() && check_object_name("F.G").is_ok());
         assert_eq!(visible("F\u{200d}G"), "F<U+200D>G");
