@@ -1005,3 +1005,14 @@ fn a_failed_relation_shows_its_first_terms_not_all() {
     assert!(errors[0].len() < 3000 && errors[0].ends_with("… (2000 terms) ≠ 0"), "{}", &errors[0][..300]);
     assert!(errors[1].len() < 500 && errors[1].contains("rho12, … (100 inputs)"), "{}", errors[1]);
 }
+
+/// `full_maps` is left out when empty; written as `{}` it was read as absent and the canonical
+/// form dropped it, so two different bodies shared one hash. It is refused.
+#[test]
+fn an_empty_full_maps_written_out_is_refused() {
+    let (_, mut b) = stored("cable-by-p1");
+    assert!(b["bordered"].get("full_maps").is_none());
+    b["bordered"]["full_maps"] = json!({});
+    let e = serde_json::from_value::<Body>(b).unwrap_err().to_string();
+    assert!(e.contains("full_maps") && e.contains("left out"), "{e}");
+}

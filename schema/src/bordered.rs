@@ -120,12 +120,21 @@ pub struct MorphismSpec {
 pub struct Bordered {
     pub full_complexes: UniqueMap<ComplexSpec>,
     /// Maps between full complexes (a change of basis and its inverse), absent when empty.
-    #[serde(default, skip_serializing_if = "std::collections::BTreeMap::is_empty")]
+    #[serde(default, skip_serializing_if = "std::collections::BTreeMap::is_empty", deserialize_with = "some_maps")]
     pub full_maps: UniqueMap<MapSpec>,
     pub full_ring: Ring,
     pub type_a_modules: UniqueMap<TypeASpec>,
     pub type_d_morphisms: UniqueMap<MorphismSpec>,
     pub type_d_structures: UniqueMap<TypeDSpec>,
+}
+
+/// An empty `full_maps` is left out, never written `{}`: else two bodies would share a hash.
+fn some_maps<'de, D: serde::Deserializer<'de>>(d: D) -> Result<UniqueMap<MapSpec>, D::Error> {
+    let maps = UniqueMap::<MapSpec>::deserialize(d)?;
+    match maps.is_empty() {
+        true => Err(serde::de::Error::custom("`full_maps` is left out when there are none, never written {}")),
+        false => Ok(maps),
+    }
 }
 
 /// `F2[U,V]` with (gr_U, gr_V), deg U = (−2, 0), deg V = (0, −2), deg ∂ = (−1, −1).
